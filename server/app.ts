@@ -1,0 +1,118 @@
+import { existsSync } from 'node:fs'
+import { fileURLToPath } from 'node:url'
+import express, { type Express } from 'express'
+import session from 'express-session'
+import helmet from 'helmet'
+import type Provider from 'oidc-provider'
+import swaggerUi from 'swagger-ui-express'
+import { authenticate } from './http/authenticate'
+import { sameOriginWrites } from './http/csrf'
+import { apiNotFound, errorHandler } from './http/error-handler'
+import { requestContext } from './http/request-context'
+import { auditRouter } from './modules/audit/audit.routes'
+import { authRouter } from './modules/auth/auth.routes'
+import type { RelyingParty } from './modules/auth/relying-party'
+import { datasetsRouter } from './modules/datasets/datasets.routes'
+import type { DemoAccount } from './modules/idp/accounts'
+import { interactionRouter } from './modules/idp/interaction.routes'
+import type { MailCatcher } from './modules/mail/mail-catcher'
+import { caughtMailRouter } from './modules/mail/mail.routes'
+import { projectsRouter } from './modules/projects/projects.routes'
+import { OrmSessionStore } from './modules/sessions/session-store'
+import { meRouter } from './modules/users/me.routes'
+import { buildOpenApiDocument } from './openapi/document'
+import type { AppDeps } from './services'
+
+export interface CreateAppOptions extends AppDeps {
+  relyingParty: RelyingParty
+  /** The stand-in identity provider, mounted at /oidc and /idp when no real one is configured. */
+  localIdp?: { provider: Provider; accounts: DemoAccount[] }
+  mailCatcher?: MailCatcher
+  /** The built client (vite build); omitted in API tests. */
+  clientDir?: string
+}
+
+const asset = (path: string) => fileURLToPath(new URL(path, import.meta.url))
+export const SESSION_COOKIE = 'stipple.sid'
+
+/** Builds the whole HTTP application; it never listens (server/main.ts does). */
+export function createApp(options: CreateAppOptions): Express {
+  const { orm, config } = options
+  const app = express()
+  app.disable('x-powered-by')
+  app.set('trust proxy', config.trustProxy)
+
+  const issuerOrigin = config.oidc.issuer ? new URL(config.oidc.issuer).origin : config.publicUrl
+  app.use(
+    helmet({
+      contentSecurityPolicy: {
+        directives: {
+          'script-src': ["'self'"],
+          // Vuetify writes its theme into a <style> element; no inline script is ever allowed.
+          'style-src': ["'self'", "'unsafe-inline'"],
+          'img-src': ["'self'", 'data:', 'blob:'],
+          'connect-src': ["'self'"],
+          // Sign-out posts a form that redirects to the identity provider.
+          'form-action': ["'self'", issuerOrigin],
+          'upgrade-insecure-requests': config.publicUrl.startsWith('https://') ? [] : null,
+        },
+      },
+      crossOriginEmbedderPolicy: false,
+    }),
+  )
+  app.use(requestContext(orm))
+
+  // The identity provider parses its own bodies; no global body parser sits before it.
+  if (options.localIdp) {
+    app.use('/oidc', options.localIdp.provider.callback())
+    app.use('/idp', interactionRouter(options.localIdp.provider, options.localIdp.accounts, config.rateLimitSignIn))
+  }
+  app.use('/server-assets', express.static(asset('./http/assets'), { maxAge: '1h' }))
+  app.use('/server-assets/fonts', express.static(asset('../node_modules/@fontsource/lato/files'), { maxAge: '7d' }))
+
+  app.use(
+    session({
+      name: SESSION_COOKIE,
+      secret: config.sessionSecrets,
+      store: new OrmSessionStore(orm),
+      resave: false,
+      saveUninitialized: false,
+      rolling: true,
+      cookie: { httpOnly: true, sameSite: 'lax', secure: 'auto', maxAge: 8 * 3600_000 },
+    }),
+  )
+  app.use(authenticate())
+  app.use(sameOriginWrites(new URL(config.publicUrl).origin))
+
+  app.use('/auth', authRouter(options, options.relyingParty))
+
+  const api = express.Router()
+  api.use(express.json({ limit: '1mb' }))
+  api.get('/health', (_req, res) => {
+    res.json({ status: 'ok' })
+  })
+  const openapi = buildOpenApiDocument(config.publicUrl)
+  api.get('/openapi.json', (_req, res) => {
+    res.json(openapi)
+  })
+  api.use('/docs', swaggerUi.serve, swaggerUi.setup(openapi, { customSiteTitle: 'Stipple API' }))
+  api.use('/me', meRouter(options))
+  api.use('/projects', projectsRouter(options))
+  api.use('/datasets', datasetsRouter(options))
+  api.use('/audit', auditRouter())
+  if (config.demo && options.mailCatcher) api.use('/dev/mail', caughtMailRouter(options.mailCatcher))
+  api.use(apiNotFound)
+  app.use('/api', api)
+
+  if (options.clientDir && existsSync(options.clientDir)) {
+    const clientDir = options.clientDir
+    app.use(express.static(clientDir, { index: false, maxAge: '1h' }))
+    // The client routes in the browser: every other GET gets its page.
+    app.get('/{*path}', (_req, res) => {
+      res.set('cache-control', 'no-cache').sendFile('index.html', { root: clientDir })
+    })
+  }
+
+  app.use(errorHandler(options.logger))
+  return app
+}

@@ -1,0 +1,117 @@
+import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs'
+import { randomBytes } from 'node:crypto'
+import { join, resolve } from 'node:path'
+import { z } from 'zod'
+
+const bool = z
+  .enum(['true', 'false', '1', '0', 'yes', 'no'])
+  .transform((v) => v === 'true' || v === '1' || v === 'yes')
+
+const envSchema = z.object({
+  NODE_ENV: z.enum(['development', 'production', 'test']).default('development'),
+  HOST: z.string().default('127.0.0.1'),
+  PORT: z.coerce.number().int().min(0).max(65535).default(3000),
+  /** The origin users see; defaults to http://localhost:PORT. */
+  PUBLIC_URL: z.url().optional(),
+  DATA_DIR: z.string().default('./data'),
+  DEMO: bool.optional(),
+  OIDC_ISSUER: z.url().optional(),
+  OIDC_CLIENT_ID: z.string().optional(),
+  OIDC_CLIENT_SECRET: z.string().optional(),
+  SESSION_SECRET: z.string().min(32).optional(),
+  SMTP_URL: z.url().optional(),
+  MAIL_FROM: z.string().default('Stipple <no-reply@stipple.localhost>'),
+  /** Trust X-Forwarded-* from this many proxies (Express "trust proxy"). */
+  TRUST_PROXY: z.coerce.number().int().min(0).default(0),
+  RATE_LIMIT_SIGN_IN: z.coerce.number().int().min(1).default(30),
+  LOG_LEVEL: z.enum(['silent', 'error', 'info', 'debug']).default('info'),
+})
+
+export interface AppConfig {
+  env: 'development' | 'production' | 'test'
+  host: string
+  port: number
+  publicUrl: string
+  dataDir: string
+  dbPath: string
+  /** Demo mode: seed demo data, run the local mail catcher, show caught mail to admins. */
+  demo: boolean
+  oidc: { issuer: string | null; clientId: string; clientSecret: string; local: boolean }
+  sessionSecrets: string[]
+  smtpUrl: string | null
+  mailFrom: string
+  trustProxy: number
+  rateLimitSignIn: number
+  logLevel: 'silent' | 'error' | 'info' | 'debug'
+}
+
+/** Secrets the server makes for itself on first start, kept in the data directory (never in git). */
+interface LocalSecrets {
+  sessionSecret: string
+  localClientSecret: string
+  idpCookieKey: string
+}
+
+export function loadLocalSecrets(dataDir: string): LocalSecrets {
+  const file = join(dataDir, 'secrets.json')
+  if (existsSync(file)) return JSON.parse(readFileSync(file, 'utf8')) as LocalSecrets
+  const secrets: LocalSecrets = {
+    sessionSecret: randomBytes(32).toString('base64url'),
+    localClientSecret: randomBytes(32).toString('base64url'),
+    idpCookieKey: randomBytes(32).toString('base64url'),
+  }
+  mkdirSync(dataDir, { recursive: true })
+  writeFileSync(file, JSON.stringify(secrets, null, 2), { mode: 0o600 })
+  return secrets
+}
+
+export class ConfigError extends Error {}
+
+/** Parses the environment once; nothing else reads process.env. */
+export function loadConfig(env: NodeJS.ProcessEnv = process.env): AppConfig {
+  const parsed = envSchema.safeParse(env)
+  if (!parsed.success) {
+    const lines = parsed.error.issues.map((i) => `  ${i.path.join('.')}: ${i.message}`)
+    throw new ConfigError(`Invalid environment:\n${lines.join('\n')}`)
+  }
+  const e = parsed.data
+  const production = e.NODE_ENV === 'production'
+  const dataDir = resolve(e.DATA_DIR)
+  const demo = e.DEMO ?? !production
+  const local = !e.OIDC_ISSUER
+
+  if (production) {
+    const problems: string[] = []
+    if (demo) problems.push('DEMO must be false in production')
+    if (local) problems.push('OIDC_ISSUER, OIDC_CLIENT_ID and OIDC_CLIENT_SECRET must name a real provider')
+    if (!e.SMTP_URL) problems.push('SMTP_URL must name a real mail server')
+    if (!e.PUBLIC_URL?.startsWith('https://')) problems.push('PUBLIC_URL must be an https:// URL')
+    if (problems.length) {
+      throw new ConfigError(`Refusing to start in production with demo settings:\n  ${problems.join('\n  ')}`)
+    }
+  }
+  if (!local && (!e.OIDC_CLIENT_ID || !e.OIDC_CLIENT_SECRET)) {
+    throw new ConfigError('OIDC_ISSUER is set, so OIDC_CLIENT_ID and OIDC_CLIENT_SECRET are needed too')
+  }
+
+  const secrets = loadLocalSecrets(dataDir)
+  const publicUrl = (e.PUBLIC_URL ?? `http://localhost:${e.PORT}`).replace(/\/$/, '')
+  return {
+    env: e.NODE_ENV,
+    host: e.HOST,
+    port: e.PORT,
+    publicUrl,
+    dataDir,
+    dbPath: join(dataDir, 'stipple.sqlite'),
+    demo,
+    oidc: local
+      ? { issuer: null, clientId: 'stipple-web', clientSecret: secrets.localClientSecret, local }
+      : { issuer: e.OIDC_ISSUER!, clientId: e.OIDC_CLIENT_ID!, clientSecret: e.OIDC_CLIENT_SECRET!, local },
+    sessionSecrets: [e.SESSION_SECRET ?? secrets.sessionSecret],
+    smtpUrl: e.SMTP_URL ?? null,
+    mailFrom: e.MAIL_FROM,
+    trustProxy: e.TRUST_PROXY,
+    rateLimitSignIn: e.RATE_LIMIT_SIGN_IN,
+    logLevel: e.LOG_LEVEL,
+  }
+}

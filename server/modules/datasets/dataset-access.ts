@@ -1,0 +1,49 @@
+import type { EntityManager } from '@mikro-orm/core'
+import type { Request } from 'express'
+import { datasetSubject } from '@shared/permissions/abilities'
+import type { DatasetAction } from '@shared/permissions/actions'
+import { ForbiddenError, NotFoundError } from '../../errors/http-error'
+import { Dataset, type IDataset } from './dataset.entity'
+
+/** Finds a dataset by numeric id or by accession (STPL-000123, any case). */
+export async function findDataset(em: EntityManager, idOrAccession: string): Promise<IDataset | null> {
+  if (/^\d+$/.test(idOrAccession)) return em.findOne(Dataset, { id: Number(idOrAccession) })
+  return em.findOne(Dataset, { accession: idOrAccession.toUpperCase() })
+}
+
+export const subjectOf = (d: IDataset) => datasetSubject(d)
+
+/**
+ * Loads a dataset and checks the action. Someone who may not even read it gets 404, so existence
+ * does not leak; someone who may read it but not do this gets 403.
+ */
+export async function datasetFor(
+  req: Request,
+  em: EntityManager,
+  idOrAccession: string,
+  action: DatasetAction,
+): Promise<IDataset> {
+  const dataset = await findDataset(em, idOrAccession)
+  if (!dataset || !req.ability.can('read', subjectOf(dataset))) {
+    throw new NotFoundError('dataset', idOrAccession)
+  }
+  if (action !== 'read' && !req.ability.can(action, subjectOf(dataset))) {
+    throw new ForbiddenError(forbiddenDetail(action, dataset))
+  }
+  return dataset
+}
+
+function forbiddenDetail(action: DatasetAction, d: IDataset): string {
+  const state = d.state.replace('_', ' ')
+  switch (action) {
+    case 'edit':
+    case 'submit':
+    case 'delete':
+      return `You cannot ${action} ${d.accession}: it is ${state}, or you are not a depositor of its project.`
+    case 'preview':
+    case 'download':
+      return `The files and previews of ${d.accession} are not open to you (embargo, state or sharing).`
+    default:
+      return `You are not allowed to ${action} ${d.accession} while it is ${state}.`
+  }
+}

@@ -1,0 +1,106 @@
+import type { EntityManager } from '@mikro-orm/core'
+import { accessPhase } from '@shared/domain/dataset-state'
+import type { ReviewDatasetBody, SetEmbargoBody } from '@shared/schemas/dataset.schema'
+import { ConflictError, ValidationError } from '../../errors/http-error'
+import type { Actor, AppDeps } from '../../services'
+import { audit } from '../audit/audit.service'
+import { User } from '../users/user.entity'
+import type { IDataset } from './dataset.entity'
+import { parseDay, toDatasetDto } from './dataset.mapper'
+
+type Notify = Pick<AppDeps, 'mailer' | 'config'>
+
+function futureDay(value: string | null | undefined, pointer: string, now: Date): Date | null {
+  const day = parseDay(value)
+  if (day && day.getTime() <= now.getTime()) {
+    throw new ValidationError([{ pointer, detail: 'The embargo must end on a future date.' }])
+  }
+  return day
+}
+
+async function mailCreator(em: EntityManager, deps: Notify, dataset: IDataset, subject: string, text: string) {
+  if (dataset.createdBy == null) return
+  const creator = await em.findOne(User, { id: dataset.createdBy })
+  if (!creator) return
+  const link = `${deps.config.publicUrl}/datasets/${dataset.accession}`
+  await deps.mailer.send({ to: creator.email, subject, text: `${text}\n\n${link}\n` })
+}
+
+/** Depositor → steward: draft or changes requested → submitted. The ability has checked the state. */
+export async function submitDataset(em: EntityManager, actor: Actor, deps: Notify, dataset: IDataset) {
+  dataset.state = 'submitted'
+  dataset.submittedAt = new Date()
+  audit(em, actor, { action: 'dataset.submit', targetType: 'Dataset', targetId: dataset.accession })
+  await em.flush()
+  const stewards = await em.find(User, { siteRole: 'steward' })
+  const link = `${deps.config.publicUrl}/datasets/${dataset.accession}`
+  await Promise.all(
+    stewards.map((s) =>
+      deps.mailer.send({
+        to: s.email,
+        subject: `Submitted for curation: ${dataset.accession} ${dataset.title}`,
+        text: `${dataset.accession} "${dataset.title}" waits for your curation check.\n\n${link}\n`,
+      }),
+    ),
+  )
+  return toDatasetDto(em, dataset)
+}
+
+/** The steward's decision: approve (optionally under embargo), request changes, or withdraw. */
+export async function reviewDataset(
+  em: EntityManager,
+  actor: Actor,
+  deps: Notify,
+  dataset: IDataset,
+  input: ReviewDatasetBody,
+  now = new Date(),
+) {
+  const { decision, comment, embargoUntil } = input
+  const phase = accessPhase(dataset, now)
+  if ((decision === 'approve' || decision === 'request_changes') && phase !== 'submitted') {
+    throw new ConflictError(`Only submitted datasets can be approved or sent back; ${dataset.accession} is ${phase}.`)
+  }
+  if (decision === 'withdraw' && dataset.state !== 'approved') {
+    throw new ConflictError(`Only approved datasets can be withdrawn; ${dataset.accession} is ${phase}.`)
+  }
+  if (decision === 'approve') {
+    const requested = embargoUntil === undefined ? (dataset.embargoUntil ?? dataset.proposedEmbargoUntil) : futureDay(embargoUntil, '#/embargoUntil', now)
+    dataset.embargoUntil = requested && requested.getTime() > now.getTime() ? requested : null
+    dataset.state = 'approved'
+    dataset.approvedAt = now
+  } else {
+    dataset.state = decision === 'withdraw' ? 'withdrawn' : 'changes_requested'
+  }
+  audit(em, actor, {
+    action: `dataset.${decision}`,
+    targetType: 'Dataset',
+    targetId: dataset.accession,
+    details: { comment, embargoUntil: dataset.embargoUntil?.toISOString() ?? null },
+  })
+  await em.flush()
+  const verdict = { approve: 'was approved', request_changes: 'needs changes', withdraw: 'was withdrawn' }[decision]
+  const embargoNote = dataset.embargoUntil ? `\nIt stays under embargo until ${dataset.embargoUntil.toISOString().slice(0, 10)}.` : ''
+  await mailCreator(
+    em,
+    deps,
+    dataset,
+    `${dataset.accession} ${verdict}`,
+    `Your dataset ${dataset.accession} "${dataset.title}" ${verdict}.${embargoNote}${comment ? `\n\nThe steward wrote:\n${comment}` : ''}`,
+  )
+  return toDatasetDto(em, dataset)
+}
+
+/** Set, extend or lift (until = null) the embargo; always with a reason, always audited. */
+export async function setEmbargo(em: EntityManager, actor: Actor, dataset: IDataset, input: SetEmbargoBody, now = new Date()) {
+  const { until, reason } = input
+  const previous = dataset.embargoUntil
+  dataset.embargoUntil = futureDay(until, '#/until', now)
+  audit(em, actor, {
+    action: 'dataset.embargo',
+    targetType: 'Dataset',
+    targetId: dataset.accession,
+    details: { reason, from: previous?.toISOString() ?? null, to: dataset.embargoUntil?.toISOString() ?? null },
+  })
+  await em.flush()
+  return toDatasetDto(em, dataset)
+}

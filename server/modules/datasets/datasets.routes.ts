@@ -1,0 +1,84 @@
+import { Router } from 'express'
+import { z } from 'zod'
+import { idSchema } from '@shared/schemas/common.schema'
+import {
+  createDatasetSchema,
+  listDatasetsQuerySchema,
+  reviewDatasetSchema,
+  setEmbargoSchema,
+  shareDatasetSchema,
+  updateDatasetSchema,
+} from '@shared/schemas/dataset.schema'
+import { requireUser } from '../../http/authenticate'
+import { requestEm as em } from '../../http/request-context'
+import { parseBody, parseParams, parseQuery } from '../../http/validate'
+import type { AppDeps } from '../../services'
+import { datasetFor } from './dataset-access'
+import { reviewDataset, setEmbargo, submitDataset } from './dataset-lifecycle.service'
+import { toDatasetDto } from './dataset.mapper'
+import { listShares, revokeShare, shareDataset } from './dataset-shares.service'
+import { createDataset, deleteDataset, listDatasets, updateDataset } from './datasets.service'
+
+export const datasetParams = z.object({ id: z.string().min(1).max(40) })
+const shareParams = datasetParams.extend({ shareId: idSchema })
+
+export function datasetsRouter(deps: AppDeps): Router {
+  const router = Router()
+  const target = (req: Parameters<typeof datasetFor>[0], action: Parameters<typeof datasetFor>[3]) =>
+    datasetFor(req, em(), parseParams(datasetParams, req).id, action)
+
+  router.get('/', async (req, res) => {
+    res.json(await listDatasets(em(), req, parseQuery(listDatasetsQuerySchema, req)))
+  })
+
+  router.post('/', requireUser, async (req, res) => {
+    const dto = await createDataset(em(), req, parseBody(createDatasetSchema, req))
+    res.status(201).location(`/api/datasets/${dto.accession}`).json(dto)
+  })
+
+  router.get('/:id', async (req, res) => {
+    res.json(await toDatasetDto(em(), await target(req, 'read')))
+  })
+
+  router.patch('/:id', requireUser, async (req, res) => {
+    const dataset = await target(req, 'edit')
+    res.json(await updateDataset(em(), req, dataset, parseBody(updateDatasetSchema, req)))
+  })
+
+  router.delete('/:id', requireUser, async (req, res) => {
+    await deleteDataset(em(), req, await target(req, 'delete'))
+    res.status(204).end()
+  })
+
+  router.post('/:id/submit', requireUser, async (req, res) => {
+    res.json(await submitDataset(em(), req, deps, await target(req, 'submit')))
+  })
+
+  router.post('/:id/review', requireUser, async (req, res) => {
+    const dataset = await target(req, 'curate')
+    res.json(await reviewDataset(em(), req, deps, dataset, parseBody(reviewDatasetSchema, req)))
+  })
+
+  router.put('/:id/embargo', requireUser, async (req, res) => {
+    const dataset = await target(req, 'embargo')
+    res.json(await setEmbargo(em(), req, dataset, parseBody(setEmbargoSchema, req)))
+  })
+
+  router.get('/:id/shares', requireUser, async (req, res) => {
+    res.json({ items: await listShares(em(), await target(req, 'share')) })
+  })
+
+  router.post('/:id/shares', requireUser, async (req, res) => {
+    const dataset = await target(req, 'share')
+    const { share, created } = await shareDataset(em(), req, deps, dataset, parseBody(shareDatasetSchema, req))
+    res.status(created ? 201 : 200).json(share)
+  })
+
+  router.delete('/:id/shares/:shareId', requireUser, async (req, res) => {
+    const { id, shareId } = parseParams(shareParams, req)
+    await revokeShare(em(), req, await datasetFor(req, em(), id, 'share'), shareId)
+    res.status(204).end()
+  })
+
+  return router
+}

@@ -1,0 +1,108 @@
+import type { EntityManager, FilterQuery } from '@mikro-orm/core'
+import { datasetSubject } from '@shared/permissions/abilities'
+import type { Page } from '@shared/schemas/common.schema'
+import type {
+  CreateDatasetBody,
+  DatasetDto,
+  ListDatasetsParams,
+  UpdateDatasetBody,
+} from '@shared/schemas/dataset.schema'
+import { formatAccession } from '@shared/domain/dataset-state'
+import { DEFAULT_LICENCE } from '@shared/domain/licences'
+import { ForbiddenError, NotFoundError, ValidationError } from '../../errors/http-error'
+import { accessibleWhere } from '../../http/access'
+import type { Actor } from '../../services'
+import { audit } from '../audit/audit.service'
+import { nextSequenceValue } from '../common/sequence.service'
+import { Project } from '../projects/project.entity'
+import { Dataset, type IDataset } from './dataset.entity'
+import { parseDay, toDatasetDto, toDatasetDtos } from './dataset.mapper'
+
+export async function createDataset(em: EntityManager, actor: Actor, input: CreateDatasetBody): Promise<DatasetDto> {
+  const { projectId, title, description, licence } = input
+  const project = await em.findOne(Project, { id: projectId })
+  if (!project || !actor.ability.can('read', { __type: 'Project', id: projectId })) {
+    throw new ValidationError([{ pointer: '#/projectId', detail: `No project ${projectId} that you can see.` }])
+  }
+  const draft = datasetSubject({ id: 0, project: projectId, state: 'draft', embargoUntil: null })
+  if (!actor.ability.can('create', draft)) {
+    throw new ForbiddenError(`Only owners and members of "${project.name}" can create datasets in it.`)
+  }
+  const dataset = await em.transactional(async (tem) => {
+    const accession = formatAccession(await nextSequenceValue(tem, 'accession'))
+    const created = tem.create(Dataset, {
+      accession,
+      title,
+      description,
+      project: projectId,
+      licence: licence ?? DEFAULT_LICENCE,
+      createdBy: actor.user?.id ?? null,
+    })
+    await tem.flush()
+    audit(tem, actor, { action: 'dataset.create', targetType: 'Dataset', targetId: accession, details: { title } })
+    return created
+  })
+  return toDatasetDto(em, dataset)
+}
+
+const SORT_COLUMNS = {
+  createdAt: 'createdAt',
+  updatedAt: 'updatedAt',
+  title: 'title',
+  accession: 'accession',
+  state: 'state',
+} as const
+
+export async function listDatasets(em: EntityManager, actor: Actor, q: ListDatasetsParams): Promise<Page<DatasetDto>> {
+  const allowed = accessibleWhere<IDataset>(actor.ability, 'read', 'Dataset')
+  if (allowed === null) return { items: [], total: 0 }
+
+  const filters: FilterQuery<IDataset>[] = [allowed]
+  if (q.projectId) filters.push({ project: q.projectId })
+  if (q.state) filters.push({ state: q.state })
+  if (q.q) {
+    const like = `%${q.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`
+    filters.push({ $or: [{ title: { $like: like } }, { description: { $like: like } }, { accession: { $like: like } }] })
+  }
+  const descending = q.sort.startsWith('-')
+  const field = SORT_COLUMNS[q.sort.replace(/^-/, '') as keyof typeof SORT_COLUMNS]
+  const direction = descending ? 'desc' : 'asc'
+  const [rows, total] = await em.findAndCount(
+    Dataset,
+    { $and: filters },
+    { limit: q.limit, offset: q.offset, orderBy: [{ [field]: direction }, { id: direction }], disableIdentityMap: true },
+  )
+  return { items: await toDatasetDtos(em, rows), total }
+}
+
+export async function updateDataset(em: EntityManager, actor: Actor, dataset: IDataset, changes: UpdateDatasetBody) {
+  const { proposedEmbargoUntil, ...rest } = changes
+  em.assign(dataset, rest)
+  if (proposedEmbargoUntil !== undefined) {
+    const day = parseDay(proposedEmbargoUntil)
+    if (day && day.getTime() <= Date.now()) {
+      throw new ValidationError([{ pointer: '#/proposedEmbargoUntil', detail: 'An embargo must end in the future.' }])
+    }
+    dataset.proposedEmbargoUntil = day
+  }
+  audit(em, actor, {
+    action: 'dataset.update',
+    targetType: 'Dataset',
+    targetId: dataset.accession,
+    details: { fields: Object.keys(changes) },
+  })
+  await em.flush()
+  return toDatasetDto(em, dataset)
+}
+
+export async function deleteDataset(em: EntityManager, actor: Actor, dataset: IDataset) {
+  audit(em, actor, { action: 'dataset.delete', targetType: 'Dataset', targetId: dataset.accession })
+  em.remove(dataset)
+  await em.flush()
+}
+
+export async function getDatasetOr404(em: EntityManager, id: number): Promise<IDataset> {
+  const dataset = await em.findOne(Dataset, { id })
+  if (!dataset) throw new NotFoundError('dataset', id)
+  return dataset
+}

@@ -1,0 +1,54 @@
+import type { AddressInfo } from 'node:net'
+import { simpleParser } from 'mailparser'
+import { SMTPServer } from 'smtp-server'
+
+export interface CaughtMail {
+  id: number
+  to: string[]
+  from: string
+  subject: string
+  text: string
+  receivedAt: string
+}
+
+export interface MailCatcher {
+  url: string
+  messages: CaughtMail[]
+  stop(): Promise<void>
+}
+
+const KEEP = 500
+
+/** A local SMTP server that keeps what it receives in memory, for demo mode and tests. */
+export async function startMailCatcher(): Promise<MailCatcher> {
+  const messages: CaughtMail[] = []
+  let next = 1
+  const server = new SMTPServer({
+    authOptional: true,
+    // Its built-in certificate has expired; on loopback there is nothing to encrypt against.
+    disabledCommands: ['STARTTLS', 'AUTH'],
+    logger: false,
+    size: 5 * 1024 * 1024,
+    onData(stream, session, callback) {
+      simpleParser(stream).then((parsed) => {
+        messages.unshift({
+          id: next++,
+          to: session.envelope.rcptTo.map((r) => r.address),
+          from: session.envelope.mailFrom ? session.envelope.mailFrom.address : '',
+          subject: parsed.subject ?? '',
+          text: parsed.text ?? '',
+          receivedAt: new Date().toISOString(),
+        })
+        messages.splice(KEEP)
+        callback()
+      }, callback)
+    },
+  })
+  await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve))
+  const { port } = server.server.address() as AddressInfo
+  return {
+    url: `smtp://127.0.0.1:${port}?ignoreTLS=true`,
+    messages,
+    stop: () => new Promise<void>((resolve) => server.close(() => resolve())),
+  }
+}

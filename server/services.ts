@@ -1,0 +1,16 @@
+import type { Request } from 'express'
+import type { AppConfig } from './config'
+import type { Orm } from './db'
+import type { Logger } from './logger'
+import type { Mailer } from './modules/mail/mailer'
+
+/** What services need from the outside, injected by createApp (tests pass their own). */
+export interface AppDeps {
+  orm: Orm
+  config: AppConfig
+  mailer: Mailer
+  logger: Logger
+}
+
+/** The part of a request services may use: who acts, with which abilities, from where. */
+export type Actor = Pick<Request, 'user' | 'viewer' | 'ability' | 'ip'>

@@ -1,0 +1,117 @@
+import { createServer, type Server } from 'node:http'
+import type { AddressInfo } from 'node:net'
+import { fileURLToPath } from 'node:url'
+import type { Express } from 'express'
+import { createApp } from './app'
+import type { AppConfig } from './config'
+import { loadLocalSecrets } from './config'
+import { openDatabase, type Orm } from './db'
+import { createLogger, type Logger } from './logger'
+import { createRelyingParty } from './modules/auth/relying-party'
+import { loadAccounts, type DemoAccount } from './modules/idp/accounts'
+import { createLocalProvider } from './modules/idp/local-provider'
+import { startMailCatcher, type MailCatcher } from './modules/mail/mail-catcher'
+import { createMailer } from './modules/mail/mailer'
+import { OrmSessionStore } from './modules/sessions/session-store'
+import { seedDemo } from './seeders/demo.seeder'
+
+export const DEMO_DIR = fileURLToPath(new URL('../demo-data', import.meta.url))
+export const CLIENT_DIR = fileURLToPath(new URL('../dist/client', import.meta.url))
+
+export interface RunningStipple {
+  url: string
+  server: Server
+  app: Express
+  orm: Orm
+  config: AppConfig
+  logger: Logger
+  mailCatcher: MailCatcher | null
+  accounts: DemoAccount[]
+  stop(): Promise<void>
+}
+
+const listen = (server: Server, port: number, host: string) =>
+  new Promise<void>((resolve, reject) => {
+    server.once('error', reject)
+    server.listen(port, host, () => resolve())
+  })
+
+/**
+ * Starts the whole embedded application: database, demo data, mail catcher, the stand-in
+ * identity provider when no real one is configured, and the HTTP server. Tests call this with
+ * port 0; server/main.ts calls it with the configured port.
+ */
+export async function startStipple(config: AppConfig, options: { clientDir?: string } = {}): Promise<RunningStipple> {
+  const logger = createLogger(config.logLevel)
+  const server = createServer((_req, res) => {
+    res.writeHead(503, { 'retry-after': '1' }).end('Stipple is starting')
+  })
+  await listen(server, config.port, config.host)
+  const { port } = server.address() as AddressInfo
+  // With port 0 the operating system picks the port, so the public URL is only known now.
+  const publicUrl = config.port === 0 ? `http://${config.host}:${port}` : config.publicUrl
+  const cfg: AppConfig = { ...config, port, publicUrl }
+
+  const orm = await openDatabase(cfg.dbPath)
+  const accounts = cfg.demo || cfg.oidc.local ? loadAccounts(`${DEMO_DIR}/accounts.json`) : []
+  if (cfg.demo) {
+    const { created } = await seedDemo(orm.em.fork(), DEMO_DIR)
+    if (created) logger.info({ created }, 'demo data seeded')
+  }
+  const mailCatcher = cfg.demo ? await startMailCatcher() : null
+  const smtpUrl = mailCatcher?.url ?? cfg.smtpUrl
+  const mailer = smtpUrl
+    ? createMailer(smtpUrl, cfg.mailFrom, logger)
+    : { send: async (m: { to: string; subject: string }) => logger.info({ to: m.to, subject: m.subject }, 'mail not sent: no SMTP_URL') }
+
+  const issuer = cfg.oidc.issuer ?? `${publicUrl}/oidc`
+  const localIdp = cfg.oidc.local
+    ? {
+        accounts,
+        provider: await createLocalProvider({
+          issuer,
+          publicUrl,
+          clientId: cfg.oidc.clientId,
+          clientSecret: cfg.oidc.clientSecret,
+          accounts,
+          dataDir: cfg.dataDir,
+          cookieKeys: [loadLocalSecrets(cfg.dataDir).idpCookieKey],
+        }),
+      }
+    : undefined
+  const relyingParty = createRelyingParty({ issuer, clientId: cfg.oidc.clientId, clientSecret: cfg.oidc.clientSecret, publicUrl })
+  const app = createApp({
+    orm,
+    config: { ...cfg, oidc: { ...cfg.oidc, issuer } },
+    mailer,
+    logger,
+    relyingParty,
+    localIdp,
+    mailCatcher: mailCatcher ?? undefined,
+    clientDir: options.clientDir,
+  })
+  server.removeAllListeners('request')
+  server.on('request', app)
+
+  const sessions = new OrmSessionStore(orm)
+  const pruning = setInterval(() => void sessions.prune().catch(() => undefined), 3600_000)
+  pruning.unref()
+
+  return {
+    url: publicUrl,
+    server,
+    app,
+    orm,
+    config: cfg,
+    logger,
+    mailCatcher,
+    accounts,
+    async stop() {
+      clearInterval(pruning)
+      server.closeAllConnections()
+      await new Promise<void>((resolve) => server.close(() => resolve()))
+      await mailCatcher?.stop()
+      await orm.close()
+    },
+  }
+}

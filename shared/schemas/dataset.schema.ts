@@ -1,0 +1,135 @@
+import { z } from 'zod'
+import { DATASET_STATES } from '../domain/dataset-state'
+import { isSpdxLicenceId } from '../domain/licences'
+import { SHARE_CAPABILITIES } from '../domain/roles'
+import { emailSchema, idSchema, pageQuerySchema, textField } from './common.schema'
+
+export const datasetTitleSchema = textField('Title', 200, 3)
+export const datasetDescriptionSchema = z
+  .string()
+  .trim()
+  .max(10_000, 'Description can have at most 10000 characters')
+export const licenceSchema = z
+  .string()
+  .trim()
+  .refine(isSpdxLicenceId, { error: 'Not a known SPDX licence identifier (for example CC-BY-4.0)' })
+
+/** A calendar date, `YYYY-MM-DD`. An embargo ends at 00:00 UTC of that day. */
+export const isoDateSchema = z
+  .string()
+  .regex(/^\d{4}-\d{2}-\d{2}$/, 'Use a date such as 2027-06-30')
+  .refine((s) => !Number.isNaN(Date.parse(`${s}T00:00:00Z`)), 'Not a real calendar date')
+
+export const createDatasetSchema = z
+  .object({
+    projectId: z.number({ error: 'Choose a project' }).int().positive('Choose a project'),
+    title: datasetTitleSchema,
+    description: datasetDescriptionSchema.default(''),
+    licence: licenceSchema.optional(),
+  })
+  .meta({ id: 'CreateDataset' })
+export type CreateDatasetInput = z.input<typeof createDatasetSchema>
+export type CreateDatasetBody = z.output<typeof createDatasetSchema>
+
+export const updateDatasetSchema = z
+  .object({
+    title: datasetTitleSchema,
+    description: datasetDescriptionSchema,
+    licence: licenceSchema,
+    proposedEmbargoUntil: isoDateSchema.nullable(),
+  })
+  .partial()
+  .strict()
+  .meta({ id: 'UpdateDataset' })
+export type UpdateDatasetInput = z.input<typeof updateDatasetSchema>
+export type UpdateDatasetBody = z.output<typeof updateDatasetSchema>
+
+export const DATASET_SORT_FIELDS = ['createdAt', 'updatedAt', 'title', 'accession', 'state'] as const
+export type DatasetSortField = (typeof DATASET_SORT_FIELDS)[number]
+const sortValues = DATASET_SORT_FIELDS.flatMap((f) => [f, `-${f}`] as const)
+
+export const listDatasetsQuerySchema = pageQuerySchema.extend({
+  sort: z
+    .enum(sortValues as [string, ...string[]], {
+      error: `sort must be one of ${sortValues.join(', ')}`,
+    })
+    .default('-createdAt'),
+  q: z.string().trim().max(200).optional(),
+  projectId: idSchema.optional(),
+  state: z.enum(DATASET_STATES).optional(),
+})
+export type ListDatasetsQuery = z.input<typeof listDatasetsQuerySchema>
+export type ListDatasetsParams = z.output<typeof listDatasetsQuerySchema>
+
+export const shareDatasetSchema = z
+  .object({
+    email: emailSchema,
+    capabilities: z
+      .array(z.enum(SHARE_CAPABILITIES))
+      .max(SHARE_CAPABILITIES.length)
+      .default([])
+      .transform((c) => [...new Set(c)]),
+    message: z.string().trim().max(2000).optional(),
+  })
+  .meta({ id: 'ShareDataset' })
+export type ShareDatasetInput = z.input<typeof shareDatasetSchema>
+export type ShareDatasetBody = z.output<typeof shareDatasetSchema>
+
+export const REVIEW_DECISIONS = ['approve', 'request_changes', 'withdraw'] as const
+export type ReviewDecision = (typeof REVIEW_DECISIONS)[number]
+
+export const reviewDatasetSchema = z
+  .object({
+    decision: z.enum(REVIEW_DECISIONS),
+    comment: z.string().trim().max(4000).default(''),
+    embargoUntil: isoDateSchema.nullable().optional(),
+  })
+  .refine((r) => r.decision === 'approve' || r.comment.length > 0, {
+    error: 'Say what must change, or why the dataset is withdrawn',
+    path: ['comment'],
+  })
+  .meta({ id: 'ReviewDataset' })
+export type ReviewDatasetInput = z.input<typeof reviewDatasetSchema>
+export type ReviewDatasetBody = z.output<typeof reviewDatasetSchema>
+
+export const setEmbargoSchema = z
+  .object({
+    until: isoDateSchema.nullable(),
+    reason: textField('Reason', 2000),
+  })
+  .meta({ id: 'SetEmbargo' })
+export type SetEmbargoInput = z.input<typeof setEmbargoSchema>
+export type SetEmbargoBody = z.output<typeof setEmbargoSchema>
+
+export const datasetShareSchema = z
+  .object({
+    id: z.number(),
+    userId: z.number(),
+    email: z.string(),
+    name: z.string(),
+    capabilities: z.array(z.enum(SHARE_CAPABILITIES)),
+    createdAt: z.string(),
+  })
+  .meta({ id: 'DatasetShare' })
+export type DatasetShareDto = z.infer<typeof datasetShareSchema>
+
+export const datasetSchema = z
+  .object({
+    id: z.number(),
+    accession: z.string(),
+    title: z.string(),
+    description: z.string(),
+    project: z.object({ id: z.number(), name: z.string() }),
+    state: z.enum(DATASET_STATES),
+    embargoUntil: z.string().nullable(),
+    proposedEmbargoUntil: z.string().nullable(),
+    licence: z.string(),
+    version: z.number(),
+    createdBy: z.object({ id: z.number(), name: z.string() }).nullable(),
+    createdAt: z.string(),
+    updatedAt: z.string(),
+    submittedAt: z.string().nullable(),
+    approvedAt: z.string().nullable(),
+  })
+  .meta({ id: 'Dataset' })
+export type DatasetDto = z.infer<typeof datasetSchema>

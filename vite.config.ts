@@ -1,0 +1,58 @@
+import { fileURLToPath, URL } from 'node:url'
+import vue from '@vitejs/plugin-vue'
+import vuetify from 'vite-plugin-vuetify'
+import { defineConfig } from 'vitest/config'
+
+const alias = {
+  '@': fileURLToPath(new URL('./src', import.meta.url)),
+  '@shared': fileURLToPath(new URL('./shared', import.meta.url)),
+  '@server': fileURLToPath(new URL('./server', import.meta.url)),
+}
+
+// In development the browser talks to Vite only; everything the server owns is proxied to it.
+const serverUrl = process.env.STIPPLE_DEV_SERVER ?? 'http://localhost:3000'
+const proxied = ['/api', '/auth', '/oidc', '/idp', '/.well-known']
+
+export default defineConfig({
+  plugins: [vue(), vuetify({ autoImport: true })],
+  resolve: { alias },
+  server: {
+    port: 5173,
+    proxy: Object.fromEntries(proxied.map((path) => [path, { target: serverUrl, xfwd: true }])),
+  },
+  build: { outDir: 'dist/client', emptyOutDir: true, chunkSizeWarningLimit: 1500 },
+  test: {
+    projects: [
+      {
+        extends: true,
+        test: {
+          name: 'unit',
+          include: ['tests/unit/**/*.test.ts'],
+          environment: 'happy-dom',
+          server: { deps: { inline: ['vuetify'] } },
+        },
+      },
+      {
+        extends: true,
+        test: {
+          name: 'api',
+          include: ['tests/api/**/*.test.ts'],
+          environment: 'node',
+          testTimeout: 30_000,
+          hookTimeout: 30_000,
+        },
+      },
+      {
+        extends: true,
+        test: {
+          name: 'e2e',
+          include: ['tests/e2e/**/*.test.ts'],
+          environment: 'node',
+          testTimeout: 120_000,
+          hookTimeout: 120_000,
+          fileParallelism: false,
+        },
+      },
+    ],
+  },
+})
