@@ -1,6 +1,8 @@
 import { AuditEvent } from './modules/audit/audit-event.entity'
+import { Comment } from './modules/comments/comment.entity'
 import { Sequence } from './modules/common/sequence.entity'
 import { Dataset, DatasetShare } from './modules/datasets/dataset.entity'
+import { DatasetFile } from './modules/files/dataset-file.entity'
 import { Organization } from './modules/organizations/organization.entity'
 import { Membership, Project } from './modules/projects/project.entity'
 import { Session } from './modules/sessions/session.entity'
@@ -15,8 +17,14 @@ export const entities = [
   Membership,
   Dataset,
   DatasetShare,
+  DatasetFile,
+  Comment,
   ApiToken,
   AuditEvent,
   Session,
   Sequence,
 ]
+
+// Enumerated columns are plain text typed with $type<…>(): MikroORM 6.6's SQLite schema reader
+// misreads CHECK constraints of three or more values, so every schema diff would rebuild those
+// tables. The allowed values are enforced by the shared zod schemas and the TypeScript types.

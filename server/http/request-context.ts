@@ -1,4 +1,4 @@
-import type { EntityManager } from '@mikro-orm/core'
+import type { EntityManager } from '@mikro-orm/sqlite'
 import { RequestContext } from '@mikro-orm/core'
 import type { RequestHandler } from 'express'
 import type { Orm } from '../db'
@@ -13,5 +13,5 @@ export const requestContext =
 export function requestEm(): EntityManager {
   const em = RequestContext.getEntityManager()
   if (!em) throw new Error('No request context: is requestContext() mounted before the routes?')
-  return em
+  return em as EntityManager
 }

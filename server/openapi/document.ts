@@ -1,6 +1,8 @@
 import { OpenAPIRegistry, OpenApiGeneratorV31 } from '@asteasolutions/zod-to-openapi'
 import { registerAuditPaths } from '../modules/audit/audit.openapi'
+import { registerCommentPaths } from '../modules/comments/comments.openapi'
 import { registerDatasetPaths } from '../modules/datasets/datasets.openapi'
+import { registerFilePaths } from '../modules/files/files.openapi'
 import { registerProjectPaths } from '../modules/projects/projects.openapi'
 import { registerMePaths } from '../modules/users/me.openapi'
 import { z } from 'zod'
@@ -26,6 +28,8 @@ export function buildOpenApiDocument(publicUrl: string) {
   registerMePaths(registry)
   registerProjectPaths(registry)
   registerDatasetPaths(registry)
+  registerFilePaths(registry)
+  registerCommentPaths(registry)
   registerAuditPaths(registry)
   return new OpenApiGeneratorV31(registry.definitions).generateDocument({
     openapi: '3.1.0',

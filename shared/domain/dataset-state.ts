@@ -41,7 +41,7 @@ export const ACCESS_PHASE_LABELS: Record<AccessPhase, string> = {
 
 export interface DatasetAccessFacts {
   state: DatasetState
-  embargoUntil: Date | null
+  embargoUntil?: Date | null
 }
 
 export function accessPhase(dataset: DatasetAccessFacts, now: Date = new Date()): AccessPhase {

@@ -40,22 +40,24 @@ export type SubjectName =
   | 'all'
 export type AppAbility = MongoAbility<[AppAction, SubjectName | SubjectObject]>
 
-export function datasetSubject(facts: Omit<DatasetSubject, '__type'>): DatasetSubject {
+export function datasetSubject(
+  facts: Omit<DatasetSubject, '__type' | 'embargoUntil'> & { embargoUntil?: Date | null },
+): DatasetSubject {
   return {
     __type: 'Dataset',
     id: facts.id,
     project: facts.project,
     state: facts.state,
-    embargoUntil: facts.embargoUntil,
+    embargoUntil: facts.embargoUntil ?? null,
   }
 }
 export const projectSubject = (id: number): ProjectSubject => ({ __type: 'Project', id })
 
 /** CASL conditions that select datasets in the given access phases (see accessPhase()). */
 function phaseConditions(phases: readonly AccessPhase[], now: Date): MongoQuery[] {
-  const plain = phases.filter(
-    (p): p is DatasetState => p !== 'embargoed' && p !== 'released',
-  ) as DatasetState[]
+  const plain: DatasetState[] = phases.filter(
+    (p): p is Exclude<AccessPhase, 'embargoed' | 'released'> => p !== 'embargoed' && p !== 'released',
+  )
   const embargoed = phases.includes('embargoed')
   const released = phases.includes('released')
   if (embargoed && released) plain.push('approved')

@@ -1,4 +1,4 @@
-import type { EntityManager } from '@mikro-orm/core'
+import type { EntityManager } from '@mikro-orm/sqlite'
 
 /**
  * Takes the next number of a named sequence atomically (one SQL statement), inside the caller's

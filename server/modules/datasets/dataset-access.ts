@@ -1,9 +1,13 @@
-import type { EntityManager } from '@mikro-orm/core'
+import type { EntityManager } from '@mikro-orm/sqlite'
+import { z } from 'zod'
 import type { Request } from 'express'
 import { datasetSubject } from '@shared/permissions/abilities'
 import type { DatasetAction } from '@shared/permissions/actions'
 import { ForbiddenError, NotFoundError } from '../../errors/http-error'
 import { Dataset, type IDataset } from './dataset.entity'
+
+/** The `:id` path parameter of every dataset route: a numeric id or an accession. */
+export const datasetParams = z.object({ id: z.string().min(1).max(40) })
 
 /** Finds a dataset by numeric id or by accession (STPL-000123, any case). */
 export async function findDataset(em: EntityManager, idOrAccession: string): Promise<IDataset | null> {

@@ -1,5 +1,5 @@
 import { defineEntity, p, type InferEntity } from '@mikro-orm/core'
-import { DATASET_STATES } from '@shared/domain/dataset-state'
+import type { DatasetState } from '@shared/domain/dataset-state'
 import { DEFAULT_LICENCE } from '@shared/domain/licences'
 import type { ShareCapability } from '@shared/domain/roles'
 import { Project } from '../projects/project.entity'
@@ -18,7 +18,7 @@ export const Dataset = defineEntity({
     title: p.string(),
     description: p.text().default(''),
     project: p.manyToOne(Project).mapToPk(),
-    state: p.enum(DATASET_STATES).default('draft'),
+    state: p.string().$type<DatasetState>().default('draft'),
     /** Approved datasets become public at 00:00 UTC of this day; null means public on approval. */
     embargoUntil: p.datetime().nullable(),
     /** The depositor's wish, which the steward confirms or changes on approval. */

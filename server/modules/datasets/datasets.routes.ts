@@ -13,13 +13,14 @@ import { requireUser } from '../../http/authenticate'
 import { requestEm as em } from '../../http/request-context'
 import { parseBody, parseParams, parseQuery } from '../../http/validate'
 import type { AppDeps } from '../../services'
-import { datasetFor } from './dataset-access'
+import { commentsRouter } from '../comments/comments.routes'
+import { filesRouter } from '../files/files.routes'
+import { datasetFor, datasetParams } from './dataset-access'
 import { reviewDataset, setEmbargo, submitDataset } from './dataset-lifecycle.service'
 import { toDatasetDto } from './dataset.mapper'
 import { listShares, revokeShare, shareDataset } from './dataset-shares.service'
 import { createDataset, deleteDataset, listDatasets, updateDataset } from './datasets.service'
 
-export const datasetParams = z.object({ id: z.string().min(1).max(40) })
 const shareParams = datasetParams.extend({ shareId: idSchema })
 
 export function datasetsRouter(deps: AppDeps): Router {
@@ -79,6 +80,9 @@ export function datasetsRouter(deps: AppDeps): Router {
     await revokeShare(em(), req, await datasetFor(req, em(), id, 'share'), shareId)
     res.status(204).end()
   })
+
+  router.use('/:id/comments', commentsRouter())
+  router.use('/:id', filesRouter())
 
   return router
 }

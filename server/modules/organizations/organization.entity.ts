@@ -6,7 +6,7 @@ export const Organization = defineEntity({
   properties: {
     id: p.integer().primary(),
     name: p.string().unique(),
-    kind: p.enum(['lab', 'institute'] as const).default('lab'),
+    kind: p.string().$type<'lab' | 'institute'>().default('lab'),
     emailDomain: p.string().nullable().unique(),
     createdAt: p.datetime().onCreate(() => new Date()),
   },

@@ -1,5 +1,5 @@
 import { defineEntity, p, type InferEntity } from '@mikro-orm/core'
-import { PROJECT_ROLES } from '@shared/domain/roles'
+import type { ProjectRole } from '@shared/domain/roles'
 import { Organization } from '../organizations/organization.entity'
 import { User } from '../users/user.entity'
 
@@ -23,7 +23,7 @@ export const Membership = defineEntity({
     id: p.integer().primary(),
     project: p.manyToOne(Project).mapToPk().deleteRule('cascade'),
     user: p.manyToOne(User).mapToPk().index(),
-    role: p.enum(PROJECT_ROLES),
+    role: p.string().$type<ProjectRole>(),
     createdAt: p.datetime().onCreate(() => new Date()),
   },
 })

@@ -1,4 +1,4 @@
-import type { EntityManager } from '@mikro-orm/core'
+import type { EntityManager } from '@mikro-orm/sqlite'
 import { projectSubject } from '@shared/permissions/abilities'
 import type {
   AddMemberBody,

@@ -1,5 +1,5 @@
 import { defineEntity, p, type InferEntity } from '@mikro-orm/core'
-import { SITE_ROLES } from '@shared/domain/roles'
+import type { SiteRole } from '@shared/domain/roles'
 import { Organization } from '../organizations/organization.entity'
 
 /**
@@ -13,7 +13,7 @@ export const User = defineEntity({
     subject: p.string().nullable().unique(),
     email: p.string().unique(),
     name: p.string(),
-    siteRole: p.enum(SITE_ROLES).nullable(),
+    siteRole: p.string().$type<SiteRole>().nullable(),
     organization: p.manyToOne(Organization).mapToPk().nullable(),
     createdAt: p.datetime().onCreate(() => new Date()),
     lastSignInAt: p.datetime().nullable(),
