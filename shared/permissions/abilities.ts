@@ -91,26 +91,35 @@ const CAPABILITY_OF: Partial<Record<DatasetAction, ShareCapability>> = {
 /** The abilities of one person (or of the public when viewer is null), evaluated at `now`. */
 export function defineAbilityFor(viewer: Viewer | null, now: Date = new Date()): AppAbility {
   const { can, build } = new AbilityBuilder<AppAbility>(createMongoAbility)
+  // An empty condition object must become an unconditional rule: rulesToQuery would otherwise emit
+  // `$or: [{}, …]`, and the ORM drops empty members of $or, narrowing the list wrongly.
+  const grant = (action: AppAction, subject: 'Dataset' | 'Project', conditions: MongoQuery) =>
+    Object.keys(conditions).length ? can(action, subject, conditions) : can(action, subject)
 
-  const grantDataset = (role: MatrixRole, scope: MongoQuery | null) => {
+  const grantDataset = (role: MatrixRole, scope: MongoQuery) => {
     for (const action of DATASET_ACTIONS) {
-      let where = scope
-      if (role === 'collaborator' && viewer) {
-        const ids = sharedIds(viewer, action === 'read' ? null : (CAPABILITY_OF[action] ?? null))
-        if (action !== 'read' && !CAPABILITY_OF[action]) continue
-        if (!ids.length) continue
-        where = { id: { $in: ids } }
-      }
       for (const condition of phaseConditions(DATASET_MATRIX[role][action], now)) {
-        can(action, 'Dataset', { ...where, ...condition })
+        grant(action, 'Dataset', { ...scope, ...condition })
+      }
+    }
+  }
+  /** Shares: reading comes with every share; each other action only with its capability. */
+  const grantShares = (shared: Viewer) => {
+    for (const action of DATASET_ACTIONS) {
+      const capability = action === 'read' ? null : CAPABILITY_OF[action]
+      if (capability === undefined) continue
+      const ids = sharedIds(shared, capability)
+      if (!ids.length) continue
+      for (const condition of phaseConditions(DATASET_MATRIX.collaborator[action], now)) {
+        grant(action, 'Dataset', { id: { $in: ids }, ...condition })
       }
     }
   }
   const grantProject = (role: MatrixRole, scope: MongoQuery, datasetScope: MongoQuery) => {
     for (const action of PROJECT_ACTIONS) {
       if (!PROJECT_MATRIX[role][action]) continue
-      if (action === 'create_dataset') can('create', 'Dataset', datasetScope)
-      can(action, 'Project', scope)
+      if (action === 'create_dataset') grant('create', 'Dataset', datasetScope)
+      grant(action, 'Project', scope)
     }
   }
 
@@ -134,7 +143,7 @@ export function defineAbilityFor(viewer: Viewer | null, now: Date = new Date()):
     if (role !== 'collaborator') grantDataset(role, { project: { $in: ids } })
     grantProject(role, { id: { $in: ids } }, { project: { $in: ids } })
   }
-  if (viewer.shares.length) grantDataset('collaborator', null)
+  grantShares(viewer)
 
   return build({ detectSubjectType })
 }

@@ -1,4 +1,4 @@
-import type { EntityManager } from '@mikro-orm/sqlite'
+import { raw, type EntityManager } from '@mikro-orm/sqlite'
 import { projectSubject } from '@shared/permissions/abilities'
 import type {
   AddMemberBody,
@@ -44,7 +44,7 @@ async function countReadableDatasets(em: EntityManager, actor: Actor, projectIds
   if (!projectIds.length || allowed === null) return counts
   const rows = await em
     .createQueryBuilder(Dataset, 'd')
-    .select(['d.project', 'count(*) as n'])
+    .select(['d.project', raw('count(*) as n')])
     .where({ $and: [allowed, { project: { $in: projectIds } }] })
     .groupBy('d.project')
     .execute<{ project: number; n: number }[]>('all', false)

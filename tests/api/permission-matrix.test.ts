@@ -1,0 +1,162 @@
+/**
+ * Every cell of the permission matrix (shared/permissions/matrix.ts) against the real HTTP API:
+ * each role × dataset action × access phase, and each role × project action. The matrix is the
+ * specification; this test would fail if a route forgot to authorise or a rule drifted.
+ */
+import request from 'supertest'
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { ACCESS_PHASES, type AccessPhase } from '@shared/domain/dataset-state'
+import { DATASET_ACTIONS, PROJECT_ACTIONS, type DatasetAction, type ProjectAction } from '@shared/permissions/actions'
+import { DATASET_MATRIX, MATRIX_ROLES, PROJECT_MATRIX, type MatrixRole } from '@shared/permissions/matrix'
+import { SHARE_CAPABILITIES } from '@shared/domain/roles'
+import type { IUser } from '@server/modules/users/user.entity'
+import { bearer, buildDataset, buildMember, buildProject, buildShare, buildUser, tokenFor } from '../fixtures/builders'
+import { createTestApp, type TestApp } from '../fixtures/test-app'
+
+let t: TestApp
+let projectId: number
+const tokens = new Map<MatrixRole, string | null>()
+let collaborator: IUser
+
+const DAY = 86_400_000
+const future = (days: number) => new Date(Date.UTC(2100, 0, 1) + days * DAY)
+const futureDay = new Date(Date.now() + 30 * DAY).toISOString().slice(0, 10)
+
+beforeAll(async () => {
+  t = await createTestApp()
+  const em = t.em()
+  const owner = await buildMember(em)
+  const member = await buildMember(em)
+  collaborator = await buildUser(em, { organization: null })
+  projectId = (await buildProject(em, [{ user: owner, role: 'owner' }, { user: member, role: 'member' }])).id
+  tokens.set('admin', await tokenFor(em, await buildUser(em, { siteRole: 'admin' })))
+  tokens.set('steward', await tokenFor(em, await buildUser(em, { siteRole: 'steward' })))
+  tokens.set('editor', await tokenFor(em, await buildUser(em, { siteRole: 'editor' })))
+  tokens.set('owner', await tokenFor(em, owner))
+  tokens.set('member', await tokenFor(em, member))
+  tokens.set('collaborator', await tokenFor(em, collaborator))
+  tokens.set('outsider', await tokenFor(em, await buildMember(em)))
+  tokens.set('public', null)
+})
+afterAll(() => t.close())
+
+/** A fresh dataset in the given phase; the collaborator gets a share with every capability. */
+async function datasetIn(phase: AccessPhase) {
+  const em = t.em()
+  const state = phase === 'embargoed' || phase === 'released' ? 'approved' : phase
+  const dataset = await buildDataset(em, projectId, { state, embargoUntil: phase === 'embargoed' ? future(1) : null })
+  await buildShare(em, dataset.id, projectId, collaborator, [...SHARE_CAPABILITIES])
+  return dataset
+}
+
+let probeCounter = 0
+/** One HTTP request that exercises the action, as the client would send it. */
+function probe(action: DatasetAction, id: number, phase: AccessPhase) {
+  const path = `/api/datasets/${id}`
+  switch (action) {
+    case 'read':
+      return request(t.app).get(path)
+    case 'preview':
+      return request(t.app).get(`${path}/comments`)
+    case 'annotate':
+      return request(t.app).post(`${path}/comments`).send({ body: 'Looks like a ring', region: { shape: 'point', pointsNm: [[100, 200]] } })
+    case 'download':
+      return request(t.app).get(`${path}/manifest.txt`)
+    case 'edit':
+      return request(t.app).patch(path).send({ title: 'Edited title' })
+    case 'delete':
+      return request(t.app).delete(path)
+    case 'submit':
+      return request(t.app).post(`${path}/submit`)
+    case 'curate':
+      return request(t.app)
+        .post(`${path}/review`)
+        .send(phase === 'embargoed' || phase === 'released' ? { decision: 'withdraw', comment: 'Faulty drift correction' } : { decision: 'approve' })
+    case 'embargo':
+      return request(t.app).put(`${path}/embargo`).send({ until: futureDay, reason: 'Manuscript in review' })
+    case 'share':
+      return request(t.app).post(`${path}/shares`).send({ email: `guest-${probeCounter++}@elsewhere.test`, capabilities: ['preview'] })
+  }
+}
+
+const NEEDS_SIGN_IN: DatasetAction[] = ['annotate', 'edit', 'delete', 'submit', 'curate', 'embargo', 'share']
+
+function expectedStatus(role: MatrixRole, action: DatasetAction, phase: AccessPhase): number | 'ok' {
+  if (DATASET_MATRIX[role][action].includes(phase)) return 'ok'
+  if (role === 'public' && NEEDS_SIGN_IN.includes(action)) return 401
+  return DATASET_MATRIX[role].read.includes(phase) ? 403 : 404
+}
+
+describe.each(MATRIX_ROLES)('dataset actions as %s', (role) => {
+  it.each(ACCESS_PHASES)('in phase %s, every action answers as the matrix says', async (phase) => {
+    const got: string[] = []
+    const want: string[] = []
+    for (const action of DATASET_ACTIONS) {
+      const dataset = await datasetIn(phase)
+      const token = tokens.get(role)
+      const req = probe(action, dataset.id, phase)
+      const res = await (token ? req.set(bearer(token)) : req)
+      const expected = expectedStatus(role, action, phase)
+      const ok = res.status >= 200 && res.status < 300
+      got.push(`${action}: ${ok ? 'ok' : res.status}`)
+      want.push(`${action}: ${expected}`)
+    }
+    expect(got).toEqual(want)
+  })
+})
+
+describe.each(MATRIX_ROLES)('list narrowing as %s', (role) => {
+  it('the list holds exactly the datasets this role may read, filtered in the database', async () => {
+    const ids = new Map<number, AccessPhase>()
+    for (const phase of ACCESS_PHASES) ids.set((await datasetIn(phase)).id, phase)
+    const token = tokens.get(role)
+    const req = request(t.app).get(`/api/datasets?projectId=${projectId}&limit=200`)
+    const res = await (token ? req.set(bearer(token)) : req)
+    expect(res.status).toBe(200)
+    const listed = new Set<number>(res.body.items.map((d: { id: number }) => d.id))
+    const seen = [...ids].filter(([id]) => listed.has(id)).map(([, phase]) => phase)
+    expect(seen).toEqual(ACCESS_PHASES.filter((p) => DATASET_MATRIX[role].read.includes(p)))
+  })
+})
+
+function projectProbe(action: ProjectAction) {
+  switch (action) {
+    case 'read':
+      return request(t.app).get(`/api/projects/${projectId}`)
+    case 'create_dataset':
+      return request(t.app).post('/api/datasets').send({ projectId, title: 'Probe dataset' })
+    case 'manage_members':
+      return request(t.app).post(`/api/projects/${projectId}/members`).send({ email: `new-${probeCounter++}@lab.test`, role: 'member' })
+  }
+}
+
+describe.each(MATRIX_ROLES)('project actions as %s', (role) => {
+  it('every project action answers as the matrix says', async () => {
+    const got: string[] = []
+    const want: string[] = []
+    for (const action of PROJECT_ACTIONS) {
+      const token = tokens.get(role)
+      const req = projectProbe(action)
+      const res = await (token ? req.set(bearer(token)) : req)
+      got.push(`${action}: ${res.status >= 200 && res.status < 300 ? 'ok' : 'denied'}`)
+      want.push(`${action}: ${PROJECT_MATRIX[role][action] ? 'ok' : 'denied'}`)
+      if (!PROJECT_MATRIX[role][action]) expect(res.status, `${role} ${action}`).toBeOneOf([400, 401, 403, 404])
+    }
+    expect(got).toEqual(want)
+  })
+})
+
+describe('a share grants only the capabilities it names', () => {
+  it('a read-only share lets the collaborator read but not preview, annotate or download', async () => {
+    const em = t.em()
+    const person = await buildUser(em)
+    const token = await tokenFor(em, person)
+    const dataset = await buildDataset(em, projectId, { state: 'approved', embargoUntil: future(5) })
+    await buildShare(em, dataset.id, projectId, person, [])
+    const path = `/api/datasets/${dataset.id}`
+    expect((await request(t.app).get(path).set(bearer(token))).status).toBe(200)
+    expect((await request(t.app).get(`${path}/comments`).set(bearer(token))).status).toBe(403)
+    expect((await request(t.app).post(`${path}/comments`).set(bearer(token)).send({ body: 'hi' })).status).toBe(403)
+    expect((await request(t.app).get(`${path}/manifest.txt`).set(bearer(token))).status).toBe(403)
+  })
+})
