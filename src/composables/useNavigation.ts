@@ -1,0 +1,43 @@
+import { computed } from 'vue'
+import type { RouteLocationRaw } from 'vue-router'
+import {
+  mdiAccountCircleOutline,
+  mdiDatabaseOutline,
+  mdiEmailOutline,
+  mdiFolderMultipleOutline,
+  mdiHistory,
+  mdiHomeOutline,
+} from '@mdi/js'
+import { useSessionStore } from '@/stores/session.store'
+
+export interface NavItem {
+  title: string
+  to: RouteLocationRaw
+  icon: string
+  exact?: boolean
+}
+
+/** The main navigation, showing only the pages this person can use. */
+export function useNavigation() {
+  const session = useSessionStore()
+  return computed<NavItem[]>(() => {
+    const can = session.ability.can.bind(session.ability)
+    const items: NavItem[] = [
+      { title: 'Home', to: { name: 'home' }, icon: mdiHomeOutline, exact: true },
+      { title: 'Datasets', to: { name: 'datasets' }, icon: mdiDatabaseOutline },
+    ]
+    if (session.signedIn) {
+      items.push(
+        { title: 'Projects', to: { name: 'projects' }, icon: mdiFolderMultipleOutline },
+        { title: 'Profile', to: { name: 'profile' }, icon: mdiAccountCircleOutline },
+      )
+    }
+    if (session.demo && can('read', 'Mail')) {
+      items.push({ title: 'Caught mail', to: { name: 'caught-mail' }, icon: mdiEmailOutline })
+    }
+    if (can('read', 'AuditEvent')) {
+      items.push({ title: 'Audit log', to: { name: 'audit-log' }, icon: mdiHistory })
+    }
+    return items
+  })
+}
