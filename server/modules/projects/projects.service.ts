@@ -47,7 +47,7 @@ async function countReadableDatasets(em: EntityManager, actor: Actor, projectIds
     .select(['d.project', raw('count(*) as n')])
     .where({ $and: [allowed, { project: { $in: projectIds } }] })
     .groupBy('d.project')
-    .execute<{ project: number; n: number }[]>('all', false)
+    .execute<{ project: number; n: number }[]>('all')
   for (const r of rows) counts.set(Number(r.project), Number(r.n))
   return counts
 }

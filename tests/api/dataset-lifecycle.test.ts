@@ -1,0 +1,179 @@
+import request from 'supertest'
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { AuditEvent } from '@server/modules/audit/audit-event.entity'
+import { Dataset, DatasetShare } from '@server/modules/datasets/dataset.entity'
+import { Membership } from '@server/modules/projects/project.entity'
+import type { IUser } from '@server/modules/users/user.entity'
+import { bearer, buildMember, buildProject, buildUser, tokenFor } from '../fixtures/builders'
+import { createTestApp, mailTo, type TestApp } from '../fixtures/test-app'
+
+let t: TestApp
+let depositor: IUser
+let depositorToken: string
+let stewardToken: string
+let steward: IUser
+let projectId: number
+const inDays = (n: number) => new Date(Date.now() + n * 86_400_000).toISOString().slice(0, 10)
+
+beforeAll(async () => {
+  t = await createTestApp()
+  const em = t.em()
+  depositor = await buildMember(em)
+  steward = await buildUser(em, { siteRole: 'steward', email: 'steward@hub.test' })
+  projectId = (await buildProject(em, [{ user: depositor, role: 'member' }])).id
+  depositorToken = await tokenFor(em, depositor)
+  stewardToken = await tokenFor(em, steward)
+})
+afterAll(() => t.close())
+
+async function draft(title = 'Lifecycle sample') {
+  const res = await request(t.app).post('/api/datasets').set(bearer(depositorToken)).send({ projectId, title })
+  return res.body as { id: number; accession: string }
+}
+const submit = (id: number) => request(t.app).post(`/api/datasets/${id}/submit`).set(bearer(depositorToken))
+const review = (id: number, body: object) => request(t.app).post(`/api/datasets/${id}/review`).set(bearer(stewardToken)).send(body)
+
+describe('a dataset from draft to release', () => {
+  it('is submitted by the depositor, and the stewards are told by mail', async () => {
+    const d = await draft('Submitted for review')
+    const res = await submit(d.id)
+    expect(res.status).toBe(200)
+    expect(res.body.state).toBe('submitted')
+    expect(res.body.submittedAt).not.toBeNull()
+    const mail = await mailTo(t.mail, 'steward@hub.test')
+    expect(mail.subject).toContain(d.accession)
+  })
+
+  it('goes back for changes with the steward comment, then can be resubmitted', async () => {
+    const d = await draft('Needs a buffer description')
+    await submit(d.id)
+    const noReason = await review(d.id, { decision: 'request_changes' })
+    expect(noReason.status).toBe(400)
+    expect(noReason.body.errors[0].pointer).toBe('#/comment')
+    const back = await review(d.id, { decision: 'request_changes', comment: 'Say which imaging buffer was used.' })
+    expect(back.body.state).toBe('changes_requested')
+    const mail = await mailTo(t.mail, depositor.email)
+    expect(mail.text).toContain('imaging buffer')
+    expect((await submit(d.id)).body.state).toBe('submitted')
+  })
+
+  it('is approved under embargo; the embargo date is taken from the proposal', async () => {
+    const d = await draft('Embargoed until publication')
+    await request(t.app).patch(`/api/datasets/${d.id}`).set(bearer(depositorToken)).send({ proposedEmbargoUntil: inDays(120) }).expect(200)
+    await submit(d.id)
+    const res = await review(d.id, { decision: 'approve' })
+    expect(res.body).toMatchObject({ state: 'approved', embargoUntil: inDays(120) })
+    const anonymous = await request(t.app).get(`/api/datasets/${d.id}`)
+    expect(anonymous.status).toBe(200)
+    expect((await request(t.app).get(`/api/datasets/${d.id}/manifest.txt`)).status).toBe(403)
+  })
+
+  it('refuses decisions that do not fit the state (409) and past embargo dates (400)', async () => {
+    const d = await draft('Wrong order')
+    await submit(d.id)
+    expect((await review(d.id, { decision: 'withdraw', comment: 'x' })).status).toBe(409)
+    expect((await review(d.id, { decision: 'approve', embargoUntil: '2020-01-01' })).status).toBe(400)
+    expect((await t.em().findOneOrFail(Dataset, { id: d.id })).state).toBe('submitted')
+  })
+
+  it('has its embargo extended and lifted by a steward, each time with a reason in the audit log', async () => {
+    const d = await draft('Embargo changes')
+    await submit(d.id)
+    await review(d.id, { decision: 'approve', embargoUntil: inDays(30) })
+    const noReason = await request(t.app).put(`/api/datasets/${d.id}/embargo`).set(bearer(stewardToken)).send({ until: inDays(60) })
+    expect(noReason.status).toBe(400)
+    const extended = await request(t.app).put(`/api/datasets/${d.id}/embargo`).set(bearer(stewardToken)).send({ until: inDays(60), reason: 'Publication delayed' })
+    expect(extended.body.embargoUntil).toBe(inDays(60))
+    const lifted = await request(t.app).put(`/api/datasets/${d.id}/embargo`).set(bearer(stewardToken)).send({ until: null, reason: 'Article published' })
+    expect(lifted.body.embargoUntil).toBeNull()
+    expect((await request(t.app).get(`/api/datasets/${d.id}/manifest.txt`)).status).toBe(200)
+    const events = await t.em().find(AuditEvent, { action: 'dataset.embargo', targetId: d.accession }, { orderBy: { id: 'asc' } })
+    expect(events.map((e) => e.details?.reason)).toEqual(['Publication delayed', 'Article published'])
+    const audit = await request(t.app).get(`/api/audit?targetId=${d.accession}`).set(bearer(stewardToken))
+    expect(audit.body.items.map((e: { action: string }) => e.action)).toContain('dataset.approve')
+    expect((await request(t.app).get('/api/audit').set(bearer(depositorToken))).status).toBe(403)
+  })
+
+  it('is withdrawn and keeps a tombstone that anyone can read', async () => {
+    const d = await draft('To be withdrawn')
+    await submit(d.id)
+    await review(d.id, { decision: 'approve' })
+    const res = await review(d.id, { decision: 'withdraw', comment: 'Faulty drift correction' })
+    expect(res.body.state).toBe('withdrawn')
+    expect((await request(t.app).get(`/api/datasets/${d.id}`)).status).toBe(200)
+    expect((await request(t.app).get(`/api/datasets/${d.id}/comments`)).status).toBe(403)
+  })
+})
+
+describe('sharing with an external collaborator', () => {
+  it('invites by e-mail, adds them as collaborator and sends them a message', async () => {
+    const d = await draft('Shared with a guest')
+    const res = await request(t.app)
+      .post(`/api/datasets/${d.id}/shares`)
+      .set(bearer(depositorToken))
+      .send({ email: 'guest@partner.test', capabilities: ['preview', 'annotate', 'preview'], message: 'Please look at the ring region.' })
+    expect(res.status).toBe(201)
+    expect(res.body.capabilities).toEqual(['preview', 'annotate'])
+    const membership = await t.em().findOneOrFail(Membership, { project: projectId, user: res.body.userId })
+    expect(membership.role).toBe('collaborator')
+    const mail = await mailTo(t.mail, 'guest@partner.test')
+    expect(mail.subject).toContain(d.accession)
+    expect(mail.text).toContain('ring region')
+    expect(mail.text).toContain(`/datasets/${d.accession}`)
+  })
+
+  it('lets the collaborator see only what was shared', async () => {
+    const em = t.em()
+    const guest = await buildUser(em, { email: 'guest2@partner.test' })
+    const token = await tokenFor(em, guest)
+    const owner = await buildMember(em)
+    const ownerToken = await tokenFor(em, owner)
+    const separate = (await buildProject(em, [{ user: owner, role: 'owner' }])).id
+    const make = (title: string) => request(t.app).post('/api/datasets').set(bearer(ownerToken)).send({ projectId: separate, title })
+    const shared = (await make('Visible to guest 2')).body
+    await make('Not visible to guest 2')
+    await request(t.app).post(`/api/datasets/${shared.id}/shares`).set(bearer(ownerToken)).send({ email: guest.email, capabilities: ['preview'] }).expect(201)
+    const list = await request(t.app).get(`/api/datasets?projectId=${separate}&limit=200`).set(bearer(token))
+    expect(list.body.items.map((i: { id: number }) => i.id)).toEqual([shared.id])
+    const projects = await request(t.app).get('/api/projects').set(bearer(token))
+    expect(projects.body.items).toHaveLength(1)
+    expect(projects.body.items[0]).toMatchObject({ id: separate, myRole: 'collaborator', datasetCount: 1 })
+    const comment = await request(t.app).post(`/api/datasets/${shared.id}/comments`).set(bearer(token)).send({ body: 'Nice' })
+    expect(comment.status).toBe(403)
+  })
+
+  it('refuses to share with someone already in the project', async () => {
+    const d = await draft('Already a member')
+    const res = await request(t.app).post(`/api/datasets/${d.id}/shares`).set(bearer(depositorToken)).send({ email: depositor.email })
+    expect(res.status).toBe(409)
+  })
+
+  it('stops sharing', async () => {
+    const d = await draft('Share then revoke')
+    const share = await request(t.app).post(`/api/datasets/${d.id}/shares`).set(bearer(depositorToken)).send({ email: 'brief@partner.test' })
+    await request(t.app).delete(`/api/datasets/${d.id}/shares/${share.body.id}`).set(bearer(depositorToken)).expect(204)
+    expect(await t.em().count(DatasetShare, { dataset: d.id })).toBe(0)
+    expect((await request(t.app).get(`/api/datasets/${d.id}/shares`).set(bearer(depositorToken))).body.items).toEqual([])
+  })
+})
+
+describe('comments on regions of interest', () => {
+  it('stores a region in sample nanometres and validates its shape', async () => {
+    const d = await draft('Discussed dataset')
+    const ok = await request(t.app)
+      .post(`/api/datasets/${d.id}/comments`)
+      .set(bearer(depositorToken))
+      .send({ body: 'Two rings overlap here', region: { shape: 'rectangle', pointsNm: [[1000, 2000], [1500, 2600]] } })
+    expect(ok.status).toBe(201)
+    const reply = await request(t.app).post(`/api/datasets/${d.id}/comments`).set(bearer(depositorToken)).send({ body: 'Agreed', replyTo: ok.body.id })
+    expect(reply.body.replyTo).toBe(ok.body.id)
+    const bad = await request(t.app)
+      .post(`/api/datasets/${d.id}/comments`)
+      .set(bearer(depositorToken))
+      .send({ body: 'Bad', region: { shape: 'rectangle', pointsNm: [[1, 2]] } })
+    expect(bad.status).toBe(400)
+    expect(bad.body.errors[0].pointer).toBe('#/region/pointsNm')
+    const list = await request(t.app).get(`/api/datasets/${d.id}/comments`).set(bearer(depositorToken))
+    expect(list.body.items).toHaveLength(2)
+  })
+})
