@@ -1,5 +1,6 @@
 import { ConfigError, loadConfig } from './config'
-import { CLIENT_DIR, startStipple } from './start'
+import { CLIENT_DIR } from './paths'
+import { startStipple } from './start'
 
 async function main() {
   const config = loadConfig()

@@ -1,6 +1,5 @@
 import { createServer, type Server } from 'node:http'
 import type { AddressInfo } from 'node:net'
-import { fileURLToPath } from 'node:url'
 import type { Express } from 'express'
 import { createApp } from './app'
 import type { AppConfig } from './config'
@@ -13,10 +12,9 @@ import { createLocalProvider } from './modules/idp/local-provider'
 import { startMailCatcher, type MailCatcher } from './modules/mail/mail-catcher'
 import { createMailer } from './modules/mail/mailer'
 import { OrmSessionStore } from './modules/sessions/session-store'
+import { DEMO_DIR } from './paths'
 import { seedDemo } from './seeders/demo.seeder'
 
-export const DEMO_DIR = fileURLToPath(new URL('../demo-data', import.meta.url))
-export const CLIENT_DIR = fileURLToPath(new URL('../dist/client', import.meta.url))
 
 export interface RunningStipple {
   url: string

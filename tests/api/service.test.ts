@@ -1,0 +1,74 @@
+import request from 'supertest'
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { ConfigError, loadConfig } from '@server/config'
+import { createTestApp, type TestApp } from '../fixtures/test-app'
+
+let t: TestApp
+beforeAll(async () => {
+  t = await createTestApp()
+})
+afterAll(() => t.close())
+
+describe('service routes', () => {
+  it('answers the health check', async () => {
+    expect((await request(t.app).get('/api/health')).body).toEqual({ status: 'ok' })
+  })
+
+  it('describes the API in OpenAPI 3.1 with the shared schemas', async () => {
+    const { body } = await request(t.app).get('/api/openapi.json')
+    expect(body.openapi).toBe('3.1.0')
+    for (const path of ['/api/datasets', '/api/datasets/{idOrAccession}', '/api/projects/{id}/members', '/api/datasets/{idOrAccession}/shares', '/api/me/tokens']) {
+      expect(Object.keys(body.paths)).toContain(path)
+    }
+    expect(body.components.schemas.CreateDataset.required).toEqual(expect.arrayContaining(['projectId', 'title']))
+    expect(body.components.schemas.Problem).toBeDefined()
+    const docs = await request(t.app).get('/api/docs/')
+    expect(docs.status).toBe(200)
+    expect(docs.text).toContain('Stipple API')
+  })
+
+  it('answers unknown API routes with a problem, not a page', async () => {
+    const res = await request(t.app).get('/api/nothing-here')
+    expect(res.status).toBe(404)
+    expect(res.headers['content-type']).toMatch(/application\/problem\+json/)
+  })
+})
+
+describe('security headers', () => {
+  it('sends a Content-Security-Policy that allows no inline script', async () => {
+    const res = await request(t.app).get('/api/health')
+    const csp = res.headers['content-security-policy'] as string
+    const scriptSrc = csp.split(';').find((d) => d.trim().startsWith('script-src'))!
+    expect(scriptSrc.trim()).toBe("script-src 'self'")
+    expect(csp).toContain("object-src 'none'")
+    expect(res.headers['x-content-type-options']).toBe('nosniff')
+    expect(res.headers['x-powered-by']).toBeUndefined()
+  })
+})
+
+describe('configuration', () => {
+  it('refuses to start in production with demo settings', () => {
+    const attempt = () => loadConfig({ NODE_ENV: 'production', DATA_DIR: t.config.dataDir })
+    expect(attempt).toThrow(ConfigError)
+    expect(attempt).toThrow(/OIDC_ISSUER/)
+    expect(attempt).toThrow(/SMTP_URL/)
+    expect(() => loadConfig({ NODE_ENV: 'production', DEMO: 'true', DATA_DIR: t.config.dataDir })).toThrow(/DEMO must be false/)
+  })
+
+  it('starts in production with a real provider, mail server and https address', () => {
+    const config = loadConfig({
+      NODE_ENV: 'production',
+      DATA_DIR: t.config.dataDir,
+      PUBLIC_URL: 'https://hub.example.org',
+      OIDC_ISSUER: 'https://login.example.org/realms/lab',
+      OIDC_CLIENT_ID: 'stipple',
+      OIDC_CLIENT_SECRET: 'from-the-environment',
+      SMTP_URL: 'smtp://mail.example.org:587',
+    })
+    expect(config).toMatchObject({ demo: false, oidc: { local: false, issuer: 'https://login.example.org/realms/lab' } })
+  })
+
+  it('explains a malformed environment', () => {
+    expect(() => loadConfig({ PORT: 'eighty', DATA_DIR: t.config.dataDir })).toThrow(/PORT/)
+  })
+})
