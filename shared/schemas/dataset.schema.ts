@@ -18,7 +18,10 @@ export const licenceSchema = z
 export const isoDateSchema = z
   .string()
   .regex(/^\d{4}-\d{2}-\d{2}$/, 'Use a date such as 2027-06-30')
-  .refine((s) => !Number.isNaN(Date.parse(`${s}T00:00:00Z`)), 'Not a real calendar date')
+  .refine((s) => {
+    const t = Date.parse(`${s}T00:00:00Z`)
+    return !Number.isNaN(t) && new Date(t).toISOString().startsWith(s)
+  }, 'Not a real calendar date')
 
 export const createDatasetSchema = z
   .object({

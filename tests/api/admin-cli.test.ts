@@ -15,7 +15,7 @@ import { User } from '@server/modules/users/user.entity'
 const run = promisify(execFile)
 const dataDir = mkdtempSync(join(tmpdir(), 'stipple-cli-'))
 const admin = (...args: string[]) =>
-  run('npx', ['tsx', 'server/cli/admin.ts', ...args], { env: { ...process.env, DATA_DIR: dataDir, LOG_LEVEL: 'silent' } })
+  run(process.execPath, ['--import', 'tsx', 'server/cli/admin.ts', ...args], { env: { ...process.env, DATA_DIR: dataDir, LOG_LEVEL: 'silent' } })
 
 afterAll(() => rmSync(dataDir, { recursive: true, force: true }))
 
