@@ -28,7 +28,8 @@ const one = (idOrAccession: number | string) =>
 
 export const listDatasets = (query: DatasetQuery) =>
   api.get<Page<DatasetDto>>('/api/datasets', { ...query })
-export const getDataset = (idOrAccession: number | string) => api.get<DatasetDto>(one(idOrAccession))
+export const getDataset = (idOrAccession: number | string) =>
+  api.get<DatasetDto>(one(idOrAccession))
 export const createDataset = (body: CreateDatasetInput) =>
   api.post<DatasetDto>('/api/datasets', body)
 export const updateDataset = (id: number, body: UpdateDatasetInput) =>
@@ -40,8 +41,7 @@ export const reviewDataset = (id: number, body: ReviewDatasetInput) =>
 export const setEmbargo = (id: number, body: SetEmbargoInput) =>
   api.put<DatasetDto>(`${one(id)}/embargo`, body)
 
-export const listShares = (id: number) =>
-  api.get<{ items: DatasetShareDto[] }>(`${one(id)}/shares`)
+export const listShares = (id: number) => api.get<{ items: DatasetShareDto[] }>(`${one(id)}/shares`)
 export const shareDataset = (id: number, body: ShareDatasetInput) =>
   api.post<DatasetShareDto>(`${one(id)}/shares`, body)
 export const revokeShare = (id: number, shareId: number) =>

@@ -82,3 +82,16 @@ export function useFormSubmit(action: () => Promise<unknown>) {
 
   return { errors, busy, onSubmit }
 }
+
+/**
+ * A rule for one field of an object schema whose checks span fields (zod refinements); the
+ * whole object is parsed, and only the messages about `field` count.
+ */
+export function zodFieldRule<T>(schema: z.ZodType, values: () => T, field: string): FieldRule {
+  return () => {
+    const result = schema.safeParse(values())
+    if (result.success) return true
+    const issue = result.error.issues.find((i) => i.path.join('.') === field)
+    return issue ? issue.message : true
+  }
+}

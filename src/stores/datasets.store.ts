@@ -51,7 +51,8 @@ export const useDatasetsStore = defineStore('datasets', () => {
   const submit = async () => settle(await datasets.submitDataset(need().id))
   const review = async (body: ReviewDatasetInput) =>
     settle(await datasets.reviewDataset(need().id, body))
-  const embargo = async (body: SetEmbargoInput) => settle(await datasets.setEmbargo(need().id, body))
+  const embargo = async (body: SetEmbargoInput) =>
+    settle(await datasets.setEmbargo(need().id, body))
 
   async function remove(): Promise<void> {
     await datasets.deleteDataset(need().id)

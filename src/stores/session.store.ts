@@ -41,5 +41,16 @@ export const useSessionStore = defineStore('session', () => {
   }
 
   // Raw: the ability manages its own reactivity, and a Vue proxy around it would only slow it.
-  return { me, user, signedIn, demo, loaded, error, ability: markRaw(ability), load, refresh, retry }
+  return {
+    me,
+    user,
+    signedIn,
+    demo,
+    loaded,
+    error,
+    ability: markRaw(ability),
+    load,
+    refresh,
+    retry,
+  }
 })

@@ -1,0 +1,85 @@
+import { computed, ref, toValue, watch, type MaybeRefOrGetter } from 'vue'
+import { useRouter } from 'vue-router'
+import { projectSubject } from '@shared/permissions/abilities'
+import type { ReviewDecision } from '@shared/schemas/dataset.schema'
+import type { DatasetPermissions } from '@/components/DatasetActionBar.vue'
+import { useDatasetsStore } from '@/stores/datasets.store'
+import { useProjectsStore } from '@/stores/projects.store'
+import { useSessionStore } from '@/stores/session.store'
+import { subjectOf } from '@/utils/dataset'
+
+/** The open dataset, what this person may do with it, and the dialogs of its actions. */
+export function useDatasetPage(idOrAccession: MaybeRefOrGetter<string>) {
+  const store = useDatasetsStore()
+  const session = useSessionStore()
+  const router = useRouter()
+  watch(
+    () => toValue(idOrAccession),
+    (id) => void store.open(id),
+    { immediate: true },
+  )
+
+  const dataset = computed(() => {
+    const d = store.current
+    const wanted = toValue(idOrAccession)
+    return d && (d.accession === wanted || String(d.id) === wanted) ? d : null
+  })
+
+  const can = computed<DatasetPermissions & { share: boolean; readProject: boolean }>(() => {
+    const d = dataset.value
+    const a = session.ability
+    if (!d) {
+      return {
+        edit: false,
+        delete: false,
+        submit: false,
+        curate: false,
+        embargo: false,
+        share: false,
+        readProject: false,
+      }
+    }
+    const subject = subjectOf(d)
+    return {
+      edit: a.can('edit', subject),
+      delete: a.can('delete', subject),
+      submit: a.can('submit', subject),
+      curate: a.can('curate', subject),
+      embargo: a.can('embargo', subject),
+      share: a.can('share', subject),
+      readProject: a.can('read', projectSubject(d.project.id)),
+    }
+  })
+
+  const dialogs = {
+    delete: ref(false),
+    submit: ref(false),
+    embargo: ref(false),
+    review: ref(false),
+  }
+  const decision = ref<ReviewDecision>('approve')
+  function openReview(d: ReviewDecision) {
+    decision.value = d
+    dialogs.review.value = true
+  }
+
+  async function remove() {
+    const projectId = dataset.value?.project.id
+    await store.remove()
+    void useProjectsStore().load()
+    await router.push(
+      projectId ? { name: 'project', params: { id: projectId } } : { name: 'datasets' },
+    )
+  }
+
+  return {
+    store,
+    dataset,
+    can,
+    dialogs,
+    decision,
+    openReview,
+    remove,
+    reload: () => store.open(toValue(idOrAccession)),
+  }
+}
