@@ -1,0 +1,187 @@
+import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest'
+import { flushPromises, mount } from '@vue/test-utils'
+import { createPinia } from 'pinia'
+import { createMemoryHistory, createRouter } from 'vue-router'
+import type { DatasetDto } from '@shared/schemas/dataset.schema'
+import type { MeDto } from '@shared/schemas/user.schema'
+import App from '@/App.vue'
+import { installAbility } from '@/plugins/casl'
+import vuetify from '@/plugins/vuetify'
+import { requireSignIn } from '@/router/guards'
+import { routes } from '@/router/routes'
+
+const dataset: DatasetDto = {
+  id: 1,
+  accession: 'STPL-000001',
+  title: 'Nuclear pores imaged by dSTORM',
+  description: 'Two colours, 40 000 frames.',
+  project: { id: 7, name: 'Pore complexes' },
+  state: 'submitted',
+  embargoUntil: null,
+  proposedEmbargoUntil: '2030-01-01',
+  licence: 'CC-BY-4.0',
+  version: 1,
+  createdBy: { id: 5, name: 'A Depositor' },
+  createdAt: '2026-01-01T10:00:00Z',
+  updatedAt: '2026-01-02T10:00:00Z',
+  submittedAt: '2026-01-02T10:00:00Z',
+  approvedAt: null,
+}
+const project = {
+  id: 7,
+  name: 'Pore complexes',
+  description: 'Nuclear pore architecture.',
+  organization: { id: 2, name: 'A lab' },
+  myRole: 'owner',
+  datasetCount: 1,
+  createdAt: '2026-01-01T00:00:00Z',
+}
+const signedIn: MeDto = {
+  user: {
+    id: 5,
+    email: 'o@lab.example',
+    name: 'An Owner',
+    siteRole: 'admin',
+    organization: { id: 2, name: 'A lab' },
+  },
+  viewer: {
+    id: 5,
+    siteRole: 'admin',
+    organizationId: 2,
+    memberships: [{ projectId: 7, role: 'owner' }],
+    shares: [],
+  },
+  demo: true,
+}
+let me: MeDto = signedIn
+
+/** The API as the pages see it: just enough answers to draw every page. */
+function answerFor(url: string): unknown {
+  const path = url.split('?')[0]
+  const table: Record<string, unknown> = {
+    '/api/me': me,
+    '/api/projects': { items: [project] },
+    '/api/projects/7': {
+      ...project,
+      members: [
+        {
+          userId: 5,
+          email: 'o@lab.example',
+          name: 'An Owner',
+          role: 'owner',
+          joinedAt: project.createdAt,
+        },
+      ],
+    },
+    '/api/datasets': { items: [dataset], total: 1 },
+    '/api/datasets/STPL-000001': dataset,
+    '/api/datasets/1/shares': { items: [] },
+    '/api/me/tokens': {
+      items: [
+        {
+          id: 3,
+          name: 'Workstation',
+          prefix: 'stp_ab12',
+          createdAt: project.createdAt,
+          lastUsedAt: null,
+          expiresAt: null,
+        },
+      ],
+    },
+    '/api/dev/mail': {
+      items: [
+        {
+          id: 1,
+          to: ['o@lab.example'],
+          from: 'stipple@hub.example',
+          subject: 'Submitted for curation',
+          text: 'Hello',
+          receivedAt: project.createdAt,
+        },
+      ],
+    },
+    '/api/audit': { items: [], total: 0 },
+  }
+  return path && path in table
+    ? table[path]
+    : { type: 'about:blank', title: 'Not Found', status: 404 }
+}
+
+beforeEach(() => {
+  me = signedIn
+  vi.stubGlobal(
+    'fetch',
+    vi.fn(async (url: string) => {
+      const body = answerFor(url)
+      const status = typeof body === 'object' && body && 'status' in body ? 404 : 200
+      return new Response(JSON.stringify(body), {
+        status,
+        headers: { 'content-type': 'application/json' },
+      })
+    }),
+  )
+})
+afterEach(() => vi.unstubAllGlobals())
+
+async function render(path: string) {
+  const leave = vi.fn()
+  const router = createRouter({ history: createMemoryHistory(), routes })
+  router.beforeEach(requireSignIn(leave))
+  const warn = vi.spyOn(console, 'warn').mockImplementation(() => {})
+  const wrapper = mount(App, {
+    global: { plugins: [createPinia(), router, vuetify, { install: installAbility }] },
+    attachTo: document.body,
+  })
+  await router.push(path)
+  await flushPromises()
+  await vi.waitFor(() => expect(wrapper.find('.v-skeleton-loader').exists()).toBe(false))
+  const warnings = warn.mock.calls.map((c) => String(c[0]))
+  warn.mockRestore()
+  return { wrapper, leave, warnings }
+}
+
+describe('every page draws from the API', () => {
+  const pages: [string, string[]][] = [
+    ['/', ['My projects', 'Pore complexes', 'Recent datasets', 'STPL-000001']],
+    ['/datasets', ['Datasets', 'Search datasets', 'Nuclear pores imaged by dSTORM', 'Submitted']],
+    [
+      '/datasets/STPL-000001',
+      ['STPL-000001', 'Overview', 'Access and sharing', 'Approve', 'Request changes'],
+    ],
+    ['/datasets/STPL-000001/edit', ['This dataset cannot be edited now']],
+    ['/datasets/new?projectId=7', ['New dataset', 'Title', 'Description', 'Create dataset']],
+    ['/projects', ['Projects', 'New project', 'Pore complexes']],
+    ['/projects/7', ['Nuclear pore architecture.', 'Members', 'Add member', 'New dataset']],
+    [
+      '/profile',
+      ['o@lab.example', 'Site admin', 'Personal access tokens', 'stp_ab12', 'Create token'],
+    ],
+    ['/admin/mail', ['Caught mail', 'Submitted for curation']],
+    ['/admin/audit', ['Audit log', 'Nothing has been recorded yet.']],
+    ['/no/such/page', ['Page not found']],
+  ]
+  it.each(pages)('%s shows its content without Vue warnings', async (path, texts) => {
+    const { wrapper, warnings } = await render(path)
+    for (const text of texts) expect(wrapper.text()).toContain(text)
+    expect(wrapper.text()).toContain('Sign out')
+    expect(warnings.filter((w) => w.includes('[Vue warn]'))).toEqual([])
+    wrapper.unmount()
+  })
+
+  it('shows a signed-out visitor the welcome, the public datasets and a Sign in button', async () => {
+    me = { user: null, viewer: null, demo: false }
+    const { wrapper } = await render('/')
+    expect(wrapper.text()).toContain('Welcome to Stipple')
+    expect(wrapper.text()).toContain('Public datasets')
+    expect(wrapper.find('a[href="/auth/login?returnTo=%2F"]').text()).toContain('Sign in')
+    expect(wrapper.text()).not.toContain('Caught mail')
+    wrapper.unmount()
+  })
+
+  it('sends a signed-out visitor of the profile page to sign in', async () => {
+    me = { user: null, viewer: null, demo: false }
+    const { wrapper, leave } = await render('/profile')
+    expect(leave).toHaveBeenCalledWith('/profile')
+    wrapper.unmount()
+  })
+})
