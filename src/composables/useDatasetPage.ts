@@ -19,11 +19,7 @@ export function useDatasetPage(idOrAccession: MaybeRefOrGetter<string>) {
     { immediate: true },
   )
 
-  const dataset = computed(() => {
-    const d = store.current
-    const wanted = toValue(idOrAccession)
-    return d && (d.accession === wanted || String(d.id) === wanted) ? d : null
-  })
+  const dataset = computed(() => store.showing(toValue(idOrAccession)))
 
   const can = computed<DatasetPermissions & { share: boolean; readProject: boolean }>(() => {
     const d = dataset.value

@@ -19,9 +19,7 @@ export const useDatasetsStore = defineStore('datasets', () => {
 
   async function open(idOrAccession: string): Promise<void> {
     wanted = idOrAccession
-    if (current.value && ![current.value.accession, String(current.value.id)].includes(wanted)) {
-      current.value = null
-    }
+    if (!showing(wanted)) current.value = null
     loading.value = true
     error.value = null
     try {
@@ -32,6 +30,12 @@ export const useDatasetsStore = defineStore('datasets', () => {
     } finally {
       if (wanted === idOrAccession) loading.value = false
     }
+  }
+
+  /** The open dataset if it is the one asked for (by id or accession), else null. */
+  const showing = (idOrAccession: string): DatasetDto | null => {
+    const d = current.value
+    return d && (d.accession === idOrAccession || String(d.id) === idOrAccession) ? d : null
   }
 
   /** Every change answers with the whole dataset as the server now has it. */
@@ -59,5 +63,5 @@ export const useDatasetsStore = defineStore('datasets', () => {
     current.value = null
   }
 
-  return { current, loading, error, open, create, update, submit, review, embargo, remove }
+  return { current, loading, error, showing, open, create, update, submit, review, embargo, remove }
 })

@@ -5,6 +5,7 @@ import { errorMessage } from '@/api/client'
 import { createProject, listProjects } from '@/api/projects'
 import { ability } from '@/plugins/casl'
 import { newDraftIn } from '@/utils/dataset'
+import { useSessionStore } from './session.store'
 
 /** The projects the signed-in person can see; shared by the home page, lists and forms. */
 export const useProjectsStore = defineStore('projects', () => {
@@ -39,7 +40,8 @@ export const useProjectsStore = defineStore('projects', () => {
 
   async function create(body: CreateProjectInput): Promise<ProjectDto> {
     const project = await createProject(body)
-    await load()
+    // The creator now owns the project: their abilities change with it.
+    await Promise.all([useSessionStore().refresh(), load()])
     return project
   }
 
