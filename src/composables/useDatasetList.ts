@@ -1,6 +1,6 @@
 import { computed, ref, toValue, watch, type MaybeRefOrGetter } from 'vue'
 import type { DatasetState } from '@shared/domain/dataset-state'
-import type { DatasetSortField } from '@shared/schemas/dataset.schema'
+import { DATASET_SORT_FIELDS } from '@shared/schemas/dataset.schema'
 import { listDatasets, type DatasetSort } from '@/api/datasets'
 import { useAsync } from './useAsync'
 import { useDebounced } from './useDebounced'
@@ -10,30 +10,39 @@ export interface SortItem {
   order?: boolean | 'asc' | 'desc'
 }
 
-const SORTABLE: readonly string[] = ['accession', 'title', 'state', 'updatedAt', 'createdAt']
-
 function toSort(sortBy: SortItem[]): DatasetSort {
   const first = sortBy[0]
-  if (!first || !SORTABLE.includes(first.key)) return '-updatedAt'
-  const key = first.key as DatasetSortField
+  // Only columns the server can sort by; anything else falls back to the newest changes.
+  const key = DATASET_SORT_FIELDS.find((f) => f === first?.key)
+  if (!first || !key) return '-updatedAt'
   return first.order === 'desc' ? `-${key}` : key
+}
+
+/** Where a list starts: from the page address, or the defaults. */
+export interface DatasetListStart {
+  search?: string
+  state?: DatasetState | null
+  projectId?: number | null
+  page?: number
+  itemsPerPage?: number
 }
 
 export interface DatasetListOptions {
   /** Pins the list to one project (the project page). */
   projectId?: MaybeRefOrGetter<number | undefined>
-  itemsPerPage?: number
+  start?: DatasetListStart
 }
 
 /** One page of datasets from the server, following the table's paging, sorting and filters. */
 export function useDatasetList(options: DatasetListOptions = {}) {
   const fixedProjectId = options.projectId
-  const page = ref(1)
-  const itemsPerPage = ref(options.itemsPerPage ?? 25)
+  const start = options.start ?? {}
+  const page = ref(start.page ?? 1)
+  const itemsPerPage = ref(start.itemsPerPage ?? 25)
   const sortBy = ref<SortItem[]>([{ key: 'updatedAt', order: 'desc' }])
-  const search = ref('')
-  const state = ref<DatasetState | null>(null)
-  const projectId = ref<number | null>(null)
+  const search = ref(start.search ?? '')
+  const state = ref<DatasetState | null>(start.state ?? null)
+  const projectId = ref<number | null>(start.projectId ?? null)
   const q = useDebounced(search, 350)
 
   const list = useAsync(listDatasets)
