@@ -54,6 +54,7 @@ const signedIn: MeDto = {
   demo: true,
 }
 let me: MeDto = signedIn
+let shown: DatasetDto = dataset
 
 /** The API as the pages see it: just enough answers to draw every page. */
 function answerFor(url: string): unknown {
@@ -74,7 +75,7 @@ function answerFor(url: string): unknown {
       ],
     },
     '/api/datasets': { items: [dataset], total: 1 },
-    '/api/datasets/STPL-000001': dataset,
+    '/api/datasets/STPL-000001': shown,
     '/api/datasets/1/shares': { items: [] },
     '/api/me/tokens': {
       items: [
@@ -109,6 +110,7 @@ function answerFor(url: string): unknown {
 
 beforeEach(() => {
   me = signedIn
+  shown = dataset
   vi.stubGlobal(
     'fetch',
     vi.fn(async (url: string) => {
@@ -184,6 +186,43 @@ describe('every page draws from the API', () => {
     me = { user: null, viewer: null, demo: false }
     const { wrapper, leave } = await render('/profile')
     expect(leave).toHaveBeenCalledWith('/profile')
+    wrapper.unmount()
+  })
+
+  it('offers a depositor the actions on their draft, and none of the curators', async () => {
+    me = {
+      user: {
+        id: 9,
+        email: 'd@lab.example',
+        name: 'A Depositor',
+        siteRole: null,
+        organization: { id: 2, name: 'A lab' },
+      },
+      viewer: {
+        id: 9,
+        siteRole: null,
+        organizationId: 2,
+        memberships: [{ projectId: 7, role: 'member' }],
+        shares: [],
+      },
+      demo: false,
+    }
+    shown = { ...dataset, state: 'draft', submittedAt: null }
+    const { wrapper } = await render('/datasets/STPL-000001')
+    const buttons = wrapper
+      .find('[role="toolbar"]')
+      .findAll('a, button')
+      .map((b) => b.text())
+    expect(buttons).toEqual(['Edit', 'Submit for curation', 'Delete'])
+    wrapper.unmount()
+  })
+
+  it('offers the public no actions on a released dataset', async () => {
+    me = { user: null, viewer: null, demo: false }
+    shown = { ...dataset, state: 'approved', approvedAt: dataset.updatedAt }
+    const { wrapper } = await render('/datasets/STPL-000001')
+    expect(wrapper.text()).toContain('Approved, public')
+    expect(wrapper.find('[role="toolbar"]').findAll('a, button')).toHaveLength(0)
     wrapper.unmount()
   })
 })
