@@ -1,6 +1,6 @@
 import { resolve } from 'node:path'
 import { Migrator } from '@mikro-orm/migrations'
-import { defineConfig } from '@mikro-orm/sqlite'
+import { defineConfig } from '@mikro-orm/better-sqlite'
 import { loadConfig } from './server/config'
 import { entities } from './server/entities'
 import { migrationsList } from './server/migrations'
@@ -25,13 +25,19 @@ export function createOrmConfig(dbName: string) {
     },
     pool: {
       // WAL lets readers run while a writer commits; one writer at a time is SQLite's own rule.
-      afterCreate: (connection: { run: (sql: string, cb: (err: Error | null) => void) => void }, done: (err: Error | null, c: unknown) => void) => {
-        connection.run('PRAGMA journal_mode = WAL', (err) => {
-          if (err) return done(err, connection)
-          connection.run('PRAGMA foreign_keys = ON', (err2) => done(err2, connection))
-        })
+      afterCreate: (db: { pragma: (sql: string) => unknown }, done: (err: Error | null, db: unknown) => void) => {
+        try {
+          db.pragma('journal_mode = WAL')
+          db.pragma('foreign_keys = ON')
+          db.pragma('busy_timeout = 5000')
+          done(null, db)
+        } catch (err) {
+          done(err as Error, db)
+        }
       },
     },
+    // SQLite's own planner statistics (written by PRAGMA optimize) are not ours to diff.
+    schemaGenerator: { skipTables: ['sqlite_stat1', 'sqlite_stat4'] },
     debug: false,
     allowGlobalContext: false,
   })

@@ -4,7 +4,7 @@ import type { Express } from 'express'
 import { createApp } from './app'
 import type { AppConfig } from './config'
 import { loadLocalSecrets } from './config'
-import { openDatabase, type Orm } from './db'
+import { openDatabase, refreshPlannerStatistics, type Orm } from './db'
 import { createLogger, type Logger } from './logger'
 import { createRelyingParty } from './modules/auth/relying-party'
 import { loadAccounts, type DemoAccount } from './modules/idp/accounts'
@@ -92,7 +92,8 @@ export async function startStipple(config: AppConfig, options: { clientDir?: str
   server.on('request', app)
 
   const sessions = new OrmSessionStore(orm)
-  const pruning = setInterval(() => void sessions.prune().catch(() => undefined), 3600_000)
+  const hourly = () => Promise.all([sessions.prune(), refreshPlannerStatistics(orm)]).catch((err: unknown) => logger.error({ err }, 'hourly upkeep failed'))
+  const pruning = setInterval(() => void hourly(), 3600_000)
   pruning.unref()
 
   return {
@@ -106,8 +107,12 @@ export async function startStipple(config: AppConfig, options: { clientDir?: str
     accounts,
     async stop() {
       clearInterval(pruning)
-      server.closeAllConnections()
-      await new Promise<void>((resolve) => server.close(() => resolve()))
+      // Finish the requests in flight, then close; stragglers are cut after a grace period.
+      const closed = new Promise<void>((resolve) => server.close(() => resolve()))
+      server.closeIdleConnections()
+      const force = setTimeout(() => server.closeAllConnections(), 5000)
+      await closed
+      clearTimeout(force)
       await mailCatcher?.stop()
       await orm.close()
     },

@@ -1,4 +1,4 @@
-import type { EntityManager } from '@mikro-orm/sqlite'
+import type { EntityManager } from '@mikro-orm/better-sqlite'
 import { RequestContext } from '@mikro-orm/core'
 import type { RequestHandler } from 'express'
 import type { Orm } from '../db'

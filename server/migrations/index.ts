@@ -1,7 +1,7 @@
-import { Migration20261201221607 } from './Migration20261201221607'
+import { Migration20261201224628 } from './Migration20261201224628'
 
 /**
  * Migrations in the order they run. `npm run db -- migration:create` writes new files here;
  * list each one below (static imports work under tsx, vitest and a bundle alike).
  */
-export const migrationsList = [{ name: 'Migration20261201221607', class: Migration20261201221607 }]
+export const migrationsList = [{ name: 'Migration20261201224628', class: Migration20261201224628 }]

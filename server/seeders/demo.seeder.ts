@@ -1,6 +1,6 @@
 import { readFileSync } from 'node:fs'
 import { join } from 'node:path'
-import type { EntityManager } from '@mikro-orm/sqlite'
+import type { EntityManager } from '@mikro-orm/better-sqlite'
 import { z } from 'zod'
 import { DATASET_STATES, formatAccession } from '@shared/domain/dataset-state'
 import { PROJECT_ROLES, SHARE_CAPABILITIES, SITE_ROLES, type SiteRole } from '@shared/domain/roles'

@@ -1,4 +1,4 @@
-import type { EntityManager } from '@mikro-orm/sqlite'
+import type { EntityManager } from '@mikro-orm/better-sqlite'
 import type { Request } from 'express'
 import { AuditEvent } from './audit-event.entity'
 

@@ -1,4 +1,4 @@
-import type { EntityManager } from '@mikro-orm/sqlite'
+import type { EntityManager } from '@mikro-orm/better-sqlite'
 import type { CommentDto, CreateCommentBody } from '@shared/schemas/comment.schema'
 import { ValidationError } from '../../errors/http-error'
 import type { Actor } from '../../services'

@@ -1,4 +1,4 @@
-import type { EntityManager } from '@mikro-orm/sqlite'
+import type { EntityManager } from '@mikro-orm/better-sqlite'
 
 /**
  * Takes the next number of a named sequence atomically (one SQL statement), inside the caller's

@@ -1,4 +1,4 @@
-import type { EntityManager } from '@mikro-orm/sqlite'
+import type { EntityManager } from '@mikro-orm/better-sqlite'
 import { z } from 'zod'
 import type { Request } from 'express'
 import { datasetSubject } from '@shared/permissions/abilities'

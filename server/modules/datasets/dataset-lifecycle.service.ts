@@ -1,4 +1,4 @@
-import type { EntityManager } from '@mikro-orm/sqlite'
+import type { EntityManager } from '@mikro-orm/better-sqlite'
 import { accessPhase } from '@shared/domain/dataset-state'
 import type { ReviewDatasetBody, SetEmbargoBody } from '@shared/schemas/dataset.schema'
 import { ConflictError, ValidationError } from '../../errors/http-error'

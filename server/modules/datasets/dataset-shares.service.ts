@@ -1,4 +1,4 @@
-import type { EntityManager } from '@mikro-orm/sqlite'
+import type { EntityManager } from '@mikro-orm/better-sqlite'
 import type { DatasetShareDto, ShareDatasetBody } from '@shared/schemas/dataset.schema'
 import { ConflictError, NotFoundError } from '../../errors/http-error'
 import type { Actor, AppDeps } from '../../services'

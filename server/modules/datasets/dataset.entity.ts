@@ -7,10 +7,14 @@ import { User } from '../users/user.entity'
 
 export const Dataset = defineEntity({
   name: 'Dataset',
+  // One index per sortable column lets a sorted page read only its rows; (state, project) covers
+  // the visibility conditions, so counting what someone may see stays inside an index.
   indexes: [
     { properties: ['createdAt'] },
+    { properties: ['updatedAt'] },
+    { properties: ['title'] },
     { properties: ['project', 'createdAt'] },
-    { properties: ['state', 'createdAt'] },
+    { properties: ['state', 'project'] },
   ],
   properties: {
     id: p.integer().primary(),

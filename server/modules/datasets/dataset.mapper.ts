@@ -1,4 +1,4 @@
-import type { EntityManager } from '@mikro-orm/sqlite'
+import type { EntityManager } from '@mikro-orm/better-sqlite'
 import type { DatasetDto } from '@shared/schemas/dataset.schema'
 import { Project } from '../projects/project.entity'
 import { User } from '../users/user.entity'

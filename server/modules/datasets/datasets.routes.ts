@@ -1,5 +1,4 @@
 import { Router } from 'express'
-import { z } from 'zod'
 import { idSchema } from '@shared/schemas/common.schema'
 import {
   createDatasetSchema,

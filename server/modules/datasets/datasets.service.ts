@@ -1,4 +1,4 @@
-import type { EntityManager, FilterQuery } from '@mikro-orm/sqlite'
+import type { EntityManager, FilterQuery } from '@mikro-orm/better-sqlite'
 import { datasetSubject } from '@shared/permissions/abilities'
 import type { Page } from '@shared/schemas/common.schema'
 import type {

@@ -1,4 +1,4 @@
-import { raw, type EntityManager } from '@mikro-orm/sqlite'
+import { raw, type EntityManager } from '@mikro-orm/better-sqlite'
 import { projectSubject } from '@shared/permissions/abilities'
 import type {
   AddMemberBody,

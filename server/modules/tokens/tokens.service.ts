@@ -1,4 +1,4 @@
-import type { EntityManager, FilterQuery } from '@mikro-orm/sqlite'
+import type { EntityManager, FilterQuery } from '@mikro-orm/better-sqlite'
 import type { CreateTokenBody, CreatedTokenDto, TokenDto } from '@shared/schemas/token.schema'
 import { NotFoundError } from '../../errors/http-error'
 import { User, type IUser } from '../users/user.entity'

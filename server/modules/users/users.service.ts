@@ -1,4 +1,4 @@
-import type { EntityManager } from '@mikro-orm/sqlite'
+import type { EntityManager } from '@mikro-orm/better-sqlite'
 import type { SiteRole } from '@shared/domain/roles'
 import { Organization } from '../organizations/organization.entity'
 import { User, type IUser } from './user.entity'

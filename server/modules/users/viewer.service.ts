@@ -1,4 +1,4 @@
-import type { EntityManager } from '@mikro-orm/sqlite'
+import type { EntityManager } from '@mikro-orm/better-sqlite'
 import type { Viewer } from '@shared/permissions/viewer'
 import { DatasetShare } from '../datasets/dataset.entity'
 import { Membership } from '../projects/project.entity'

@@ -1,4 +1,5 @@
 import { describe, expect, it } from 'vitest'
+import type { z } from 'zod'
 import { ACCESSION_PATTERN, accessPhase, formatAccession } from '@shared/domain/dataset-state'
 import { isSpdxLicenceId } from '@shared/domain/licences'
 import { createDatasetSchema, reviewDatasetSchema, shareDatasetSchema, updateDatasetSchema } from '@shared/schemas/dataset.schema'
@@ -39,20 +40,21 @@ describe('licences', () => {
 })
 
 describe('shared request schemas', () => {
-  it.each([
-    ['a dataset with project and title', createDatasetSchema, { projectId: 1, title: 'Good title' }, true],
-    ['a title of one letter', createDatasetSchema, { projectId: 1, title: '  x ' }, false],
-    ['a dataset without project', createDatasetSchema, { title: 'No project' }, false],
-    ['an unknown licence', createDatasetSchema, { projectId: 1, title: 'Bad licence', licence: 'MIT-ish' }, false],
-    ['30 February', updateDatasetSchema, { proposedEmbargoUntil: '2027-02-30' }, false],
-    ['28 February', updateDatasetSchema, { proposedEmbargoUntil: '2027-02-28' }, true],
-    ['a field nobody may set', updateDatasetSchema, { accession: 'STPL-000001' }, false],
-    ['an approval without comment', reviewDatasetSchema, { decision: 'approve' }, true],
-    ['a withdrawal without reason', reviewDatasetSchema, { decision: 'withdraw' }, false],
-    ['a share to a non-address', shareDatasetSchema, { email: 'not-an-address' }, false],
-    ['a share granting edit', shareDatasetSchema, { email: 'a@b.test', capabilities: ['edit'] }, false],
-    ['an owner invitation', addMemberSchema, { email: 'a@b.test', role: 'owner' }, true],
-  ].map(([label, schema, input, valid]) => ({ label, schema, input, valid })))('$label → valid: $valid', ({ schema, input, valid }) => {
+  const cases: { label: string; schema: z.ZodType; input: unknown; valid: boolean }[] = [
+    { label: 'a dataset with project and title', schema: createDatasetSchema, input: { projectId: 1, title: 'Good title' }, valid: true },
+    { label: 'a title of one letter', schema: createDatasetSchema, input: { projectId: 1, title: '  x ' }, valid: false },
+    { label: 'a dataset without project', schema: createDatasetSchema, input: { title: 'No project' }, valid: false },
+    { label: 'an unknown licence', schema: createDatasetSchema, input: { projectId: 1, title: 'Bad licence', licence: 'MIT-ish' }, valid: false },
+    { label: '30 February', schema: updateDatasetSchema, input: { proposedEmbargoUntil: '2027-02-30' }, valid: false },
+    { label: '28 February', schema: updateDatasetSchema, input: { proposedEmbargoUntil: '2027-02-28' }, valid: true },
+    { label: 'a field nobody may set', schema: updateDatasetSchema, input: { accession: 'STPL-000001' }, valid: false },
+    { label: 'an approval without comment', schema: reviewDatasetSchema, input: { decision: 'approve' }, valid: true },
+    { label: 'a withdrawal without reason', schema: reviewDatasetSchema, input: { decision: 'withdraw' }, valid: false },
+    { label: 'a share to a non-address', schema: shareDatasetSchema, input: { email: 'not-an-address' }, valid: false },
+    { label: 'a share granting edit', schema: shareDatasetSchema, input: { email: 'a@b.test', capabilities: ['edit'] }, valid: false },
+    { label: 'an owner invitation', schema: addMemberSchema, input: { email: 'a@b.test', role: 'owner' }, valid: true },
+  ]
+  it.each(cases)('$label → valid: $valid', ({ schema, input, valid }) => {
     expect(schema.safeParse(input).success).toBe(valid)
   })
 

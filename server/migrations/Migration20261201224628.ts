@@ -1,6 +1,6 @@
 import { Migration } from '@mikro-orm/migrations';
 
-export class Migration20261201221607 extends Migration {
+export class Migration20261201224628 extends Migration {
 
   override async up(): Promise<void> {
     this.addSql(`create table \`organization\` (\`id\` integer not null primary key autoincrement, \`name\` text not null, \`kind\` text not null default 'lab', \`email_domain\` text null, \`created_at\` datetime not null);`);
@@ -32,8 +32,10 @@ export class Migration20261201221607 extends Migration {
     this.addSql(`create index \`dataset_project_id_index\` on \`dataset\` (\`project_id\`);`);
     this.addSql(`create index \`dataset_created_by_id_index\` on \`dataset\` (\`created_by_id\`);`);
     this.addSql(`create index \`dataset_created_at_index\` on \`dataset\` (\`created_at\`);`);
+    this.addSql(`create index \`dataset_updated_at_index\` on \`dataset\` (\`updated_at\`);`);
+    this.addSql(`create index \`dataset_title_index\` on \`dataset\` (\`title\`);`);
     this.addSql(`create index \`dataset_project_id_created_at_index\` on \`dataset\` (\`project_id\`, \`created_at\`);`);
-    this.addSql(`create index \`dataset_state_created_at_index\` on \`dataset\` (\`state\`, \`created_at\`);`);
+    this.addSql(`create index \`dataset_state_project_id_index\` on \`dataset\` (\`state\`, \`project_id\`);`);
 
     this.addSql(`create table \`dataset_share\` (\`id\` integer not null primary key autoincrement, \`dataset_id\` integer not null, \`user_id\` integer not null, \`capabilities\` json not null, \`created_by_id\` integer null, \`created_at\` datetime not null, constraint \`dataset_share_dataset_id_foreign\` foreign key(\`dataset_id\`) references \`dataset\`(\`id\`) on delete cascade on update cascade, constraint \`dataset_share_user_id_foreign\` foreign key(\`user_id\`) references \`user\`(\`id\`) on update cascade, constraint \`dataset_share_created_by_id_foreign\` foreign key(\`created_by_id\`) references \`user\`(\`id\`) on delete set null on update cascade);`);
     this.addSql(`create index \`dataset_share_dataset_id_index\` on \`dataset_share\` (\`dataset_id\`);`);

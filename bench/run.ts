@@ -1,0 +1,20 @@
+/**
+ * `npm run bench`: every benchmark, each printed as one block plus a final JSON line.
+ * Benchmarks are never part of `npm test`.
+ */
+import { benchDatasetList } from './datasets-list.bench'
+
+const only = process.argv[2]
+const benches: Record<string, () => Promise<Record<string, unknown>>> = {
+  'datasets-list': benchDatasetList,
+}
+
+const results: Record<string, unknown> = {}
+for (const [name, run] of Object.entries(benches)) {
+  if (only && only !== name) continue
+  process.stdout.write(`\n== ${name} ==\n`)
+  const figures = await run()
+  for (const [k, v] of Object.entries(figures)) process.stdout.write(`${k.padStart(18)}: ${String(v)}\n`)
+  results[name] = figures
+}
+process.stdout.write(`JSON ${JSON.stringify(results)}\n`)
