@@ -10,6 +10,7 @@ import { sameOriginWrites } from './http/csrf'
 import { apiNotFound, errorHandler } from './http/error-handler'
 import { requestContext } from './http/request-context'
 import { auditRouter } from './modules/audit/audit.routes'
+import { AccessVersionReader } from './modules/common/access-version'
 import { authRouter } from './modules/auth/auth.routes'
 import type { RelyingParty } from './modules/auth/relying-party'
 import { datasetsRouter } from './modules/datasets/datasets.routes'
@@ -40,6 +41,8 @@ export function createApp(options: CreateAppOptions): Express {
   const { orm, config } = options
   const app = express()
   app.disable('x-powered-by')
+  // Hashing every JSON body for a weak ETag costs more than it saves on an API of changing lists.
+  app.set('etag', false)
   app.set('trust proxy', config.trustProxy)
 
   const issuerOrigin = config.oidc.issuer ? new URL(config.oidc.issuer).origin : config.publicUrl
@@ -70,8 +73,7 @@ export function createApp(options: CreateAppOptions): Express {
   app.use('/server-assets', express.static(asset('./http/assets'), { maxAge: '1h' }))
   app.use('/server-assets/fonts', express.static(asset('../node_modules/@fontsource/lato/files'), { maxAge: '7d' }))
 
-  app.use(
-    session({
+  const sessions = session({
       name: SESSION_COOKIE,
       secret: config.sessionSecrets,
       store: new OrmSessionStore(orm),
@@ -79,9 +81,12 @@ export function createApp(options: CreateAppOptions): Express {
       saveUninitialized: false,
       rolling: true,
       cookie: { httpOnly: true, sameSite: 'lax', secure: 'auto', maxAge: 8 * 3600_000 },
-    }),
-  )
-  app.use(authenticate())
+    })
+  // Scripts and workstations authenticate with a bearer token and never carry a session.
+  app.use((req, res, next) => (req.headers.authorization && req.path.startsWith('/api/') ? next() : sessions(req, res, next)))
+  const accessVersion = new AccessVersionReader(orm.config.get('dbName') ?? ':memory:', () => orm.em.fork())
+  app.locals.close = () => accessVersion.close()
+  app.use(authenticate(accessVersion))
   app.use(sameOriginWrites(new URL(config.publicUrl).origin))
 
   app.use('/auth', authRouter(options, options.relyingParty))

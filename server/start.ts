@@ -114,6 +114,7 @@ export async function startStipple(config: AppConfig, options: { clientDir?: str
       await closed
       clearTimeout(force)
       await mailCatcher?.stop()
+      ;(app.locals.close as () => void)()
       await orm.close()
     },
   }

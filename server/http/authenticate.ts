@@ -1,34 +1,102 @@
+import type { EntityManager } from '@mikro-orm/better-sqlite'
 import type { RequestHandler } from 'express'
 import { defineAbilityFor } from '@shared/permissions/abilities'
+import type { Viewer } from '@shared/permissions/viewer'
 import { UnauthorizedError } from '../errors/http-error'
-import { requestEm } from './request-context'
-import { userForToken } from '../modules/tokens/tokens.service'
+import type { AccessVersionReader } from '../modules/common/access-version'
+import { ApiToken } from '../modules/tokens/api-token.entity'
+import { hashToken } from '../modules/tokens/token-secret'
 import { User, type IUser } from '../modules/users/user.entity'
 import { loadViewer } from '../modules/users/viewer.service'
+import { requestEm } from './request-context'
+import { VersionedCache } from './versioned-cache'
+
+/** Who is signed in: a snapshot of their user row, safe to keep beyond one request. */
+export type CurrentUser = Pick<IUser, 'id' | 'email' | 'name' | 'siteRole' | 'organization'>
+
+interface Identity {
+  user: CurrentUser
+  viewer: Viewer
+  tokenId?: number
+  expiresAt?: number | null
+  lastUsedWrite?: number
+}
+
+/** lastUsedAt is written at most this often, so token auth does not turn every read into a write. */
+const LAST_USED_RESOLUTION_MS = 60_000
+
+const snapshot = (u: IUser): CurrentUser => ({
+  id: u.id,
+  email: u.email,
+  name: u.name,
+  siteRole: u.siteRole ?? null,
+  organization: u.organization ?? null,
+})
+
+async function identityFor(em: EntityManager, user: IUser | null, extra: Partial<Identity> = {}): Promise<Identity | null> {
+  return user ? { user: snapshot(user), viewer: await loadViewer(em, user), ...extra } : null
+}
+
+async function tokenIdentity(em: EntityManager, tokenHash: string, now: number): Promise<Identity | null> {
+  const token = await em.findOne(ApiToken, {
+    tokenHash,
+    revokedAt: null,
+    $or: [{ expiresAt: null }, { expiresAt: { $gt: new Date(now) } }],
+  })
+  if (!token) return null
+  const user = await em.findOne(User, { id: token.user })
+  return identityFor(em, user, { tokenId: token.id, expiresAt: token.expiresAt?.getTime() ?? null, lastUsedWrite: token.lastUsedAt?.getTime() ?? 0 })
+}
 
 /**
  * Works out who is asking: a bearer token wins over the session cookie. Sets req.user, req.viewer
  * and req.ability (the shared CASL abilities); anonymous requests get the public abilities.
+ * Identities are cached per access version, so a revoked token or a changed membership takes
+ * effect on the very next request, whichever process made the change.
  */
-export function authenticate(): RequestHandler {
+export function authenticate(accessVersion: AccessVersionReader): RequestHandler {
+  const cache = new VersionedCache<Identity | null>(5000)
   return async (req, _res, next) => {
     const em = requestEm()
-    let user: IUser | null = null
+    const now = Date.now()
+    const version = await accessVersion.read()
+    req.accessVersion = version
     req.authMethod = null
+    let identity: Identity | null = null
     const header = req.get('authorization')
-    if (header !== undefined) {
-      const match = /^Bearer\s+(\S+)$/i.exec(header)
-      if (!match?.[1]) throw new UnauthorizedError('The Authorization header must be "Bearer <token>".')
-      user = await userForToken(em, match[1])
-      if (!user) throw new UnauthorizedError('That token is unknown, revoked or expired.')
-      req.authMethod = 'token'
-    } else if (req.session?.userId) {
-      user = await em.findOne(User, { id: req.session.userId })
-      if (user) req.authMethod = 'session'
+    const sessionUser = req.session?.userId
+    if (header !== undefined || sessionUser) {
+      if (header !== undefined) {
+        const match = /^Bearer\s+(\S+)$/i.exec(header)
+        if (!match?.[1]) throw new UnauthorizedError('The Authorization header must be "Bearer <token>".')
+        const key = `token:${hashToken(match[1])}`
+        identity = cache.get(key, version) ?? null
+        if (!identity) {
+          identity = await tokenIdentity(em, key.slice(6), now)
+          if (identity) cache.set(key, version, identity)
+        }
+        if (!identity || (identity.expiresAt != null && identity.expiresAt <= now)) {
+          throw new UnauthorizedError('That token is unknown, revoked or expired.')
+        }
+        if (now - (identity.lastUsedWrite ?? 0) > LAST_USED_RESOLUTION_MS) {
+          identity.lastUsedWrite = now
+          await em.nativeUpdate(ApiToken, { id: identity.tokenId }, { lastUsedAt: new Date(now) })
+        }
+        req.authMethod = 'token'
+      } else if (sessionUser) {
+        const key = `session:${sessionUser}`
+        identity = cache.get(key, version) ?? null
+        if (!identity) {
+          identity = await identityFor(em, await em.findOne(User, { id: sessionUser }))
+          if (identity) cache.set(key, version, identity)
+        }
+        if (identity) req.authMethod = 'session'
+      }
     }
-    req.user = user
-    req.viewer = user ? await loadViewer(em, user) : null
-    req.ability = defineAbilityFor(req.viewer)
+    req.user = identity?.user ?? null
+    // A copy: services may add to it (a new project's owner) without touching the cached one.
+    req.viewer = identity ? structuredClone(identity.viewer) : null
+    req.ability = defineAbilityFor(req.viewer, new Date(now))
     next()
   }
 }
@@ -40,7 +108,7 @@ export const requireUser: RequestHandler = (req, _res, next) => {
 }
 
 /** The signed-in user, for handlers behind requireUser. */
-export function signedInUser(req: Express.Request): IUser {
+export function signedInUser(req: Express.Request): CurrentUser {
   if (!req.user) throw new UnauthorizedError()
   return req.user
 }

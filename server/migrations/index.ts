@@ -1,7 +1,11 @@
 import { Migration20261201224628 } from './Migration20261201224628'
+import { Migration20261201230000 } from './Migration20261201230000'
 
 /**
  * Migrations in the order they run. `npm run db -- migration:create` writes new files here;
  * list each one below (static imports work under tsx, vitest and a bundle alike).
  */
-export const migrationsList = [{ name: 'Migration20261201224628', class: Migration20261201224628 }]
+export const migrationsList = [
+  { name: 'Migration20261201224628', class: Migration20261201224628 },
+  { name: 'Migration20261201230000', class: Migration20261201230000 },
+]

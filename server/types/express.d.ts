@@ -1,15 +1,17 @@
 import type { AppAbility } from '@shared/permissions/abilities'
 import type { Viewer } from '@shared/permissions/viewer'
-import type { IUser } from '../modules/users/user.entity'
+import type { CurrentUser } from '../http/authenticate'
 
 declare global {
   namespace Express {
     interface Request {
       /** Who is asking (null when signed out), as the abilities see them. */
       viewer: Viewer | null
-      user: IUser | null
+      user: CurrentUser | null
       ability: AppAbility
       authMethod: 'session' | 'token' | null
+      /** The database's access version when this request began (see AccessVersionReader). */
+      accessVersion: number
     }
   }
 }

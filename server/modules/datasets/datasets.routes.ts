@@ -18,17 +18,24 @@ import { datasetFor, datasetParams } from './dataset-access'
 import { reviewDataset, setEmbargo, submitDataset } from './dataset-lifecycle.service'
 import { toDatasetDto } from './dataset.mapper'
 import { listShares, revokeShare, shareDataset } from './dataset-shares.service'
-import { createDataset, deleteDataset, listDatasets, updateDataset } from './datasets.service'
+import { DatasetCatalogue } from './dataset-catalogue'
+import { createDataset, deleteDataset, updateDataset } from './datasets.service'
 
 const shareParams = datasetParams.extend({ shareId: idSchema })
 
 export function datasetsRouter(deps: AppDeps): Router {
   const router = Router()
+  const catalogue = new DatasetCatalogue()
   const target = (req: Parameters<typeof datasetFor>[0], action: Parameters<typeof datasetFor>[3]) =>
     datasetFor(req, em(), parseParams(datasetParams, req).id, action)
 
+  // Pages come back from the catalogue's cache as the same objects; encode each one once.
+  const encoded = new WeakMap<object, Buffer>()
   router.get('/', async (req, res) => {
-    res.json(await listDatasets(em(), req, parseQuery(listDatasetsQuerySchema, req)))
+    const page = await catalogue.list(em(), req, parseQuery(listDatasetsQuerySchema, req))
+    let body = encoded.get(page)
+    if (!body) encoded.set(page, (body = Buffer.from(JSON.stringify(page))))
+    res.type('application/json').send(body)
   })
 
   router.post('/', requireUser, async (req, res) => {

@@ -1,22 +1,19 @@
-import type { EntityManager, FilterQuery } from '@mikro-orm/better-sqlite'
+import type { EntityManager } from '@mikro-orm/better-sqlite'
 import { datasetSubject } from '@shared/permissions/abilities'
-import type { Page } from '@shared/schemas/common.schema'
 import type {
   CreateDatasetBody,
   DatasetDto,
-  ListDatasetsParams,
   UpdateDatasetBody,
 } from '@shared/schemas/dataset.schema'
 import { formatAccession } from '@shared/domain/dataset-state'
 import { DEFAULT_LICENCE } from '@shared/domain/licences'
 import { ForbiddenError, NotFoundError, ValidationError } from '../../errors/http-error'
-import { accessibleWhere } from '../../http/access'
 import type { Actor } from '../../services'
 import { audit } from '../audit/audit.service'
 import { nextSequenceValue } from '../common/sequence.service'
 import { Project } from '../projects/project.entity'
 import { Dataset, type IDataset } from './dataset.entity'
-import { parseDay, toDatasetDto, toDatasetDtos } from './dataset.mapper'
+import { parseDay, toDatasetDto } from './dataset.mapper'
 
 export async function createDataset(em: EntityManager, actor: Actor, input: CreateDatasetBody): Promise<DatasetDto> {
   const { projectId, title, description, licence } = input
@@ -43,36 +40,6 @@ export async function createDataset(em: EntityManager, actor: Actor, input: Crea
     return created
   })
   return toDatasetDto(em, dataset)
-}
-
-const SORT_COLUMNS = {
-  createdAt: 'createdAt',
-  updatedAt: 'updatedAt',
-  title: 'title',
-  accession: 'accession',
-  state: 'state',
-} as const
-
-export async function listDatasets(em: EntityManager, actor: Actor, q: ListDatasetsParams): Promise<Page<DatasetDto>> {
-  const allowed = accessibleWhere<IDataset>(actor.ability, 'read', 'Dataset')
-  if (allowed === null) return { items: [], total: 0 }
-
-  const filters: FilterQuery<IDataset>[] = [allowed]
-  if (q.projectId) filters.push({ project: q.projectId })
-  if (q.state) filters.push({ state: q.state })
-  if (q.q) {
-    const like = `%${q.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`
-    filters.push({ $or: [{ title: { $like: like } }, { description: { $like: like } }, { accession: { $like: like } }] })
-  }
-  const descending = q.sort.startsWith('-')
-  const field = SORT_COLUMNS[q.sort.replace(/^-/, '') as keyof typeof SORT_COLUMNS]
-  const direction = descending ? 'desc' : 'asc'
-  const [rows, total] = await em.findAndCount(
-    Dataset,
-    { $and: filters },
-    { limit: q.limit, offset: q.offset, orderBy: [{ [field]: direction }, { id: direction }], disableIdentityMap: true },
-  )
-  return { items: await toDatasetDtos(em, rows), total }
 }
 
 export async function updateDataset(em: EntityManager, actor: Actor, dataset: IDataset, changes: UpdateDatasetBody) {

@@ -1,13 +1,10 @@
 import type { EntityManager, FilterQuery } from '@mikro-orm/better-sqlite'
 import type { CreateTokenBody, CreatedTokenDto, TokenDto } from '@shared/schemas/token.schema'
 import { NotFoundError } from '../../errors/http-error'
-import { User, type IUser } from '../users/user.entity'
 import { ApiToken, type IApiToken } from './api-token.entity'
 import { hashToken, newTokenSecret } from './token-secret'
 
 const DAY_MS = 86_400_000
-/** lastUsedAt is written at most this often, so token auth does not turn every read into a write. */
-const LAST_USED_RESOLUTION_MS = 60_000
 
 export function toTokenDto(t: IApiToken): TokenDto {
   return {
@@ -50,18 +47,4 @@ export async function revokeToken(em: EntityManager, userId: number, tokenId: nu
   token.revokedAt = new Date()
   await em.flush()
   return token
-}
-
-/** The user a bearer token belongs to, or null if it is unknown, revoked or expired. */
-export async function userForToken(em: EntityManager, secret: string, now = new Date()): Promise<IUser | null> {
-  const token = await em.findOne(ApiToken, {
-    tokenHash: hashToken(secret),
-    revokedAt: null,
-    $or: [{ expiresAt: null }, { expiresAt: { $gt: now } }],
-  })
-  if (!token) return null
-  if (!token.lastUsedAt || now.getTime() - token.lastUsedAt.getTime() > LAST_USED_RESOLUTION_MS) {
-    await em.nativeUpdate(ApiToken, { id: token.id }, { lastUsedAt: now })
-  }
-  return em.findOne(User, { id: token.user })
 }

@@ -1,0 +1,36 @@
+import type { EntityManager } from '@mikro-orm/better-sqlite'
+import Database from 'better-sqlite3'
+
+const SQL = "select `value` from `sequence` where `name` = 'access-version'"
+
+/** Reads the counter the database raises on every access-relevant change (see its migration). */
+export async function readAccessVersion(em: EntityManager): Promise<number> {
+  const row = await em.getConnection().execute<{ value?: number }>(SQL, [], 'get', em.getTransactionContext())
+  return row?.value ?? 0
+}
+
+/**
+ * The same read for the hot path, done once per request. On a database file it uses its own
+ * read-only connection with the statement prepared once (microseconds, and it sees only committed
+ * changes, never another request's open transaction). An in-memory database has no second
+ * connection, so there it goes through the ORM.
+ */
+export class AccessVersionReader {
+  private readonly statement: Database.Statement<[], { value: number }> | null
+
+  constructor(
+    dbPath: string,
+    private readonly em: () => EntityManager,
+  ) {
+    this.statement = dbPath === ':memory:' ? null : new Database(dbPath, { readonly: true, fileMustExist: true }).prepare(SQL)
+  }
+
+  async read(): Promise<number> {
+    if (!this.statement) return readAccessVersion(this.em())
+    return this.statement.get()?.value ?? 0
+  }
+
+  close(): void {
+    this.statement?.database.close()
+  }
+}

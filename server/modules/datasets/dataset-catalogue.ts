@@ -1,0 +1,124 @@
+import type { EntityManager, FilterQuery, ObjectQuery } from '@mikro-orm/better-sqlite'
+import { raw } from '@mikro-orm/better-sqlite'
+import type { DatasetState } from '@shared/domain/dataset-state'
+import type { Page } from '@shared/schemas/common.schema'
+import type { DatasetDto, DatasetSortField, ListDatasetsParams } from '@shared/schemas/dataset.schema'
+import { accessibleWhere } from '../../http/access'
+import { VersionedCache } from '../../http/versioned-cache'
+import type { Actor } from '../../services'
+import { readAccessVersion } from '../common/access-version'
+import { Dataset, type IDataset } from './dataset.entity'
+
+const COLUMN: Record<DatasetSortField, string> = {
+  createdAt: 'd.created_at',
+  updatedAt: 'd.updated_at',
+  title: 'd.title',
+  accession: 'd.accession',
+  state: 'd.state',
+}
+
+/** One row of the page query: dataset columns plus the joined names, as SQLite returns them. */
+interface CatalogueRow {
+  id: number
+  accession: string
+  title: string
+  description: string
+  project_id: number
+  project_name: string
+  state: DatasetState
+  embargo_until: number | null
+  proposed_embargo_until: number | null
+  licence: string
+  version: number
+  created_by_id: number | null
+  creator_name: string | null
+  created_at: number
+  updated_at: number
+  submitted_at: number | null
+  approved_at: number | null
+}
+
+const iso = (ms: number | null) => (ms === null ? null : new Date(ms).toISOString())
+const day = (ms: number | null) => (ms === null ? null : new Date(ms).toISOString().slice(0, 10))
+
+function toDto(r: CatalogueRow): DatasetDto {
+  return {
+    id: r.id,
+    accession: r.accession,
+    title: r.title,
+    description: r.description,
+    project: { id: r.project_id, name: r.project_name },
+    state: r.state,
+    embargoUntil: day(r.embargo_until),
+    proposedEmbargoUntil: day(r.proposed_embargo_until),
+    licence: r.licence,
+    version: r.version,
+    createdBy: r.created_by_id === null ? null : { id: r.created_by_id, name: r.creator_name ?? '' },
+    createdAt: iso(r.created_at)!,
+    updatedAt: iso(r.updated_at)!,
+    submittedAt: iso(r.submitted_at),
+    approvedAt: iso(r.approved_at),
+  }
+}
+
+function filtersFor(allowed: FilterQuery<IDataset>, q: ListDatasetsParams): ObjectQuery<IDataset> {
+  const filters: FilterQuery<IDataset>[] = [allowed]
+  if (q.projectId) filters.push({ project: q.projectId })
+  if (q.state) filters.push({ state: q.state })
+  if (q.q) {
+    const like = `%${q.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`
+    filters.push({ $or: [{ title: { $like: like } }, { description: { $like: like } }, { accession: { $like: like } }] })
+  }
+  return { $and: filters }
+}
+
+/**
+ * The dataset list behind GET /api/datasets: narrowed in the database by the caller's abilities,
+ * paged and sorted by SQLite over indexes. Counting everything someone may see grows with the
+ * catalogue, and the same first pages are asked for again and again, so totals and pages are
+ * kept per access version. That is exact, not a time-to-live: any change to datasets, projects,
+ * shares, memberships or users raises the version in the same transaction, and the next request
+ * reads afresh.
+ */
+export class DatasetCatalogue {
+  private readonly totals = new VersionedCache<number>(2000)
+  private readonly pages = new VersionedCache<Page<DatasetDto>>(500)
+
+  async list(em: EntityManager, actor: Actor, q: ListDatasetsParams): Promise<Page<DatasetDto>> {
+    const allowed = accessibleWhere<IDataset>(actor.ability, 'read', 'Dataset')
+    if (allowed === null) return { items: [], total: 0 }
+    const where = filtersFor(allowed, q)
+    const version = actor.accessVersion ?? (await readAccessVersion(em))
+    const key = JSON.stringify(where)
+    const pageKey = `${key}|${q.sort}|${q.limit}|${q.offset}`
+    const cached = this.pages.get(pageKey, version)
+    if (cached) return cached
+    const page = await this.read(em, where, key, version, q)
+    this.pages.set(pageKey, version, page)
+    return page
+  }
+
+  private async read(em: EntityManager, where: ObjectQuery<IDataset>, key: string, version: number, q: ListDatasetsParams) {
+    let total = this.totals.get(key, version)
+    if (total === undefined) {
+      total = await em.count(Dataset, structuredClone(where))
+      this.totals.set(key, version, total)
+    }
+    if (total === 0 || q.offset >= total) return { items: [], total }
+
+    const descending = q.sort.startsWith('-')
+    const column = COLUMN[q.sort.replace(/^-/, '') as DatasetSortField]
+    const direction = descending ? 'desc' : 'asc'
+    const rows = await em
+      .createQueryBuilder(Dataset, 'd')
+      .select([raw('d.*'), raw('p.name as project_name'), raw('u.name as creator_name')])
+      .join('d.project', 'p')
+      .leftJoin('d.createdBy', 'u')
+      .where(where)
+      .orderBy([{ [raw(column)]: direction }, { id: direction }])
+      .limit(q.limit)
+      .offset(q.offset)
+      .execute<CatalogueRow[]>('all', false)
+    return { items: rows.map(toDto), total }
+  }
+}
