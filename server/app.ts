@@ -61,6 +61,8 @@ export function createApp(options: CreateAppOptions): Express {
         },
       },
       crossOriginEmbedderPolicy: false,
+      // 'no-referrer' would make browsers send `Origin: null` on our own form posts (sign-out).
+      referrerPolicy: { policy: 'same-origin' },
     }),
   )
   app.use(requestContext(orm))

@@ -147,7 +147,11 @@ describe('signing in through the local OpenID provider', () => {
     const json = { 'content-type': 'application/json' }
     expect((await jar.request(`${s.url}/api/projects`, { method: 'POST', headers: json, body })).status).toBe(403)
     expect((await jar.request(`${s.url}/api/projects`, { method: 'POST', headers: { ...json, origin: 'http://evil.test' }, body })).status).toBe(403)
+    expect((await jar.request(`${s.url}/api/projects`, { method: 'POST', headers: { ...json, origin: 'null', 'sec-fetch-site': 'cross-site' }, body })).status).toBe(403)
     expect((await jar.request(`${s.url}/api/projects`, { method: 'POST', headers: { ...json, origin: s.url }, body })).status).toBe(201)
+    // A same-origin form post under a strict referrer policy carries `Origin: null`; Sec-Fetch-Site vouches for it.
+    const again = JSON.stringify({ name: `Same-origin form ${Date.now()}` })
+    expect((await jar.request(`${s.url}/api/projects`, { method: 'POST', headers: { ...json, origin: 'null', 'sec-fetch-site': 'same-origin' }, body: again })).status).toBe(201)
   })
 })
 

@@ -1,0 +1,71 @@
+/**
+ * In a real browser (headless Debian chromium) against the real server with the demo data: a
+ * depositor signs in through the local OpenID provider, creates a dataset, finds it in the
+ * datasets table and signs out.
+ */
+import { mkdtempSync, rmSync } from 'node:fs'
+import { tmpdir } from 'node:os'
+import { join } from 'node:path'
+import type { BrowserContext, Page } from 'playwright-core'
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { loadConfig } from '@server/config'
+import { CLIENT_DIR } from '@server/paths'
+import { startStipple, type RunningStipple } from '@server/start'
+import { launchBrowser } from './browser'
+import { DatasetCreatePage, DatasetsPage } from './pages/datasets.page'
+import { SignInPage } from './pages/sign-in.page'
+
+let stipple: RunningStipple
+let browser: BrowserContext
+let page: Page
+let dataDir: string
+const consoleErrors: string[] = []
+
+beforeAll(async () => {
+  dataDir = mkdtempSync(join(tmpdir(), 'stipple-e2e-'))
+  const config = loadConfig({ NODE_ENV: 'test', DATA_DIR: dataDir, PORT: '0', HOST: '127.0.0.1', LOG_LEVEL: 'error' })
+  stipple = await startStipple(config, { clientDir: CLIENT_DIR })
+  browser = await launchBrowser()
+  page = await browser.newPage()
+  page.on('console', (m) => {
+    if (m.type() === 'error') consoleErrors.push(m.text())
+  })
+  page.on('pageerror', (e) => consoleErrors.push(e.message))
+})
+
+afterAll(async () => {
+  await browser?.close()
+  await stipple?.stop()
+  rmSync(dataDir, { recursive: true, force: true })
+})
+
+describe('a depositor in the browser', () => {
+  it('signs in, creates a dataset, sees it in the table and signs out', async () => {
+    await page.goto(stipple.url)
+    await new SignInPage(page).signIn('kasimir.feld@harrowgate.example', 'demo-depositor-pass')
+    await page.waitForURL(`${stipple.url}/`)
+    await expect.poll(() => page.getByTestId('user-name').textContent()).toContain('Kasimir Feld')
+
+    const title = `Clathrin lattice DNA-PAINT ${Date.now()}`
+    await page.goto(`${stipple.url}/datasets/new`)
+    await page.locator('.v-select', { has: page.getByLabel('Project') }).locator('.v-field').click()
+    await page.getByRole('option', { name: 'Nuclear pore scaffold census' }).click()
+    await new DatasetCreatePage(page).create({ title, description: 'Made by the browser test.' })
+    await page.waitForURL(/\/datasets\/STPL-\d{6}$/)
+    const accession = (await page.getByTestId('accession').textContent())?.trim()
+    expect(accession).toMatch(/^STPL-\d{6}$/)
+
+    await page.goto(`${stipple.url}/datasets`)
+    const datasets = new DatasetsPage(page)
+    await datasets.search('Clathrin lattice')
+    await expect.poll(() => datasets.table().textContent(), { timeout: 10_000 }).toContain(title)
+    expect(await datasets.table().textContent()).toContain(accession!)
+
+    await page.getByRole('button', { name: 'Sign out' }).click()
+    await page.waitForURL(`${stipple.url}/`)
+    await expect.poll(() => page.getByRole('button', { name: 'Sign in' }).count()).toBeGreaterThan(0)
+    const me = await page.evaluate(() => fetch('/api/me').then((r) => r.json()))
+    expect(me.user).toBeNull()
+    expect(consoleErrors).toEqual([])
+  })
+})
