@@ -183,3 +183,11 @@ describe('first sign-in and rate limits', () => {
     }
   })
 })
+
+describe('stale sign-in pages', () => {
+  it('answers an unknown or expired interaction with a page, not an error', async () => {
+    const res = await fetch(`${s.url}/idp/interaction/no-such-interaction`)
+    expect(res.status).toBe(400)
+    expect(await res.text()).toContain('This sign-in page has expired')
+  })
+})

@@ -23,6 +23,21 @@ function loginPage(uid: string, options: { login?: string; error?: string; demo:
   })
 }
 
+function expiredPage(res: Response) {
+  res
+    .status(400)
+    .type('html')
+    .send(
+      renderPage({
+        title: 'Sign-in expired',
+        body: '<h1>This sign-in page has expired</h1><p>It was used already, or it was left open too long. Start again from Stipple.</p><a class="button" href="/auth/login">Sign in again</a>',
+      }),
+    )
+}
+
+/** An interaction the provider no longer knows (used, expired, or from another browser). */
+const isStale = (err: unknown) => (err as { name?: string })?.name === 'SessionNotFound'
+
 /** The stand-in provider's own interaction pages: a login form, and cancel. */
 export function interactionRouter(provider: Provider, accounts: DemoAccount[], signInLimit: number): Router {
   const router = Router()
@@ -64,6 +79,8 @@ export function interactionRouter(provider: Provider, accounts: DemoAccount[], s
       { mergeWithLastSubmission: false },
     )
   })
+
+  router.use((err: unknown, _req: Request, res: Response, next: (e?: unknown) => void) => (isStale(err) ? expiredPage(res) : next(err)))
 
   return router
 }
