@@ -21,6 +21,8 @@ import { caughtMailRouter } from './modules/mail/mail.routes'
 import { projectsRouter } from './modules/projects/projects.routes'
 import { OrmSessionStore } from './modules/sessions/session-store'
 import { meRouter } from './modules/users/me.routes'
+import { instrumentProfilesRouter } from './modules/metadata/instrument-profiles.routes'
+import { metadataRouter } from './modules/metadata/metadata.routes'
 import { buildOpenApiDocument } from './openapi/document'
 import type { AppDeps } from './services'
 
@@ -107,6 +109,8 @@ export function createApp(options: CreateAppOptions): Express {
   api.use('/projects', projectsRouter(options))
   api.use('/datasets', datasetsRouter(options))
   api.use('/audit', auditRouter())
+  api.use('/instrument-profiles', instrumentProfilesRouter())
+  api.use(metadataRouter())
   if (config.demo && options.mailCatcher) api.use('/dev/mail', caughtMailRouter(options.mailCatcher))
   api.use(apiNotFound)
   app.use('/api', api)

@@ -3,6 +3,7 @@ import { Comment } from './modules/comments/comment.entity'
 import { Sequence } from './modules/common/sequence.entity'
 import { Dataset, DatasetShare } from './modules/datasets/dataset.entity'
 import { DatasetFile } from './modules/files/dataset-file.entity'
+import { DatasetMetadata, InstrumentProfile } from './modules/metadata/dataset-metadata.entity'
 import { Organization } from './modules/organizations/organization.entity'
 import { Membership, Project } from './modules/projects/project.entity'
 import { Session } from './modules/sessions/session.entity'
@@ -19,6 +20,8 @@ export const entities = [
   DatasetShare,
   DatasetFile,
   Comment,
+  DatasetMetadata,
+  InstrumentProfile,
   ApiToken,
   AuditEvent,
   Session,

@@ -49,8 +49,8 @@ export class NotFoundError extends HttpError {
 }
 
 export class ConflictError extends HttpError {
-  constructor(detail: string) {
-    super(409, 'Conflict', detail, '/problems/conflict')
+  constructor(detail: string, errors?: FieldError[]) {
+    super(409, 'Conflict', detail, '/problems/conflict', errors)
   }
 }
 

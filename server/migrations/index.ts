@@ -1,5 +1,6 @@
 import { Migration20261201224628 } from './Migration20261201224628'
 import { Migration20261201230000 } from './Migration20261201230000'
+import { Migration20261201231929 } from './Migration20261201231929'
 
 /**
  * Migrations in the order they run. `npm run db -- migration:create` writes new files here;
@@ -8,4 +9,5 @@ import { Migration20261201230000 } from './Migration20261201230000'
 export const migrationsList = [
   { name: 'Migration20261201224628', class: Migration20261201224628 },
   { name: 'Migration20261201230000', class: Migration20261201230000 },
+  { name: 'Migration20261201231929', class: Migration20261201231929 },
 ]

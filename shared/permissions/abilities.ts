@@ -28,11 +28,16 @@ export interface ApiTokenSubject {
   __type: 'ApiToken'
   user: number
 }
-type SubjectObject = DatasetSubject | ProjectSubject | ApiTokenSubject
+export interface InstrumentProfileSubject {
+  __type: 'InstrumentProfile'
+  organization: number | null
+}
+type SubjectObject = DatasetSubject | ProjectSubject | ApiTokenSubject | InstrumentProfileSubject
 export type SubjectName =
   | 'Dataset'
   | 'Project'
   | 'ApiToken'
+  | 'InstrumentProfile'
   | 'User'
   | 'Organization'
   | 'AuditEvent'
@@ -128,6 +133,10 @@ export function defineAbilityFor(viewer: Viewer | null, now: Date = new Date()):
 
   can(['create', 'read', 'manage'], 'ApiToken', { user: viewer.id })
   if (viewer.organizationId !== null || viewer.siteRole === 'admin') can('create', 'Project')
+  // A lab's saved instrument descriptions are shared by everyone in that lab.
+  if (viewer.organizationId !== null) {
+    can(['create', 'read', 'manage'], 'InstrumentProfile', { organization: viewer.organizationId })
+  }
 
   const site = viewer.siteRole
   if (site) {

@@ -5,6 +5,7 @@ import { Dataset, DatasetShare } from '@server/modules/datasets/dataset.entity'
 import { Membership } from '@server/modules/projects/project.entity'
 import type { IUser } from '@server/modules/users/user.entity'
 import { bearer, buildMember, buildProject, buildUser, tokenFor } from '../fixtures/builders'
+import { completeMetadata } from '../fixtures/metadata'
 import { createTestApp, mailTo, type TestApp } from '../fixtures/test-app'
 
 let t: TestApp
@@ -26,14 +27,26 @@ beforeAll(async () => {
 })
 afterAll(() => t.close())
 
+/** A draft with a complete description, ready to submit. */
 async function draft(title = 'Lifecycle sample') {
-  const res = await request(t.app).post('/api/datasets').set(bearer(depositorToken)).send({ projectId, title })
+  const res = await request(t.app).post('/api/datasets').set(bearer(depositorToken)).send({ projectId, title, description: 'A dataset going through curation' })
+  await request(t.app).put(`/api/datasets/${res.body.id}/metadata`).set(bearer(depositorToken)).send(completeMetadata()).expect(200)
   return res.body as { id: number; accession: string }
 }
 const submit = (id: number) => request(t.app).post(`/api/datasets/${id}/submit`).set(bearer(depositorToken))
 const review = (id: number, body: object) => request(t.app).post(`/api/datasets/${id}/review`).set(bearer(stewardToken)).send(body)
 
 describe('a dataset from draft to release', () => {
+  it('cannot be submitted while required fields are missing, and says which', async () => {
+    const bare = await request(t.app).post('/api/datasets').set(bearer(depositorToken)).send({ projectId, title: 'Bare draft' })
+    const res = await submit(bare.body.id)
+    expect(res.status).toBe(409)
+    expect(res.body.detail).toMatch(/required fields? missing/)
+    const pointers = res.body.errors.map((e: { pointer: string }) => e.pointer)
+    expect(pointers).toEqual(expect.arrayContaining(['#/description', '#/instrument/objective/lensNA', '#/acquisition/technique']))
+    expect((await t.em().findOneOrFail(Dataset, { id: bare.body.id })).state).toBe('draft')
+  })
+
   it('is submitted by the depositor, and the stewards are told by mail', async () => {
     const d = await draft('Submitted for review')
     const res = await submit(d.id)

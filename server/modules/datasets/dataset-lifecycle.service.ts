@@ -4,6 +4,7 @@ import type { ReviewDatasetBody, SetEmbargoBody } from '@shared/schemas/dataset.
 import { ConflictError, ValidationError } from '../../errors/http-error'
 import type { Actor, AppDeps } from '../../services'
 import { audit } from '../audit/audit.service'
+import { assertReadyToSubmit } from '../metadata/metadata.service'
 import { User } from '../users/user.entity'
 import type { IDataset } from './dataset.entity'
 import { parseDay, toDatasetDto } from './dataset.mapper'
@@ -28,6 +29,7 @@ async function mailCreator(em: EntityManager, deps: Notify, dataset: IDataset, s
 
 /** Depositor → steward: draft or changes requested → submitted. The ability has checked the state. */
 export async function submitDataset(em: EntityManager, actor: Actor, deps: Notify, dataset: IDataset) {
+  await assertReadyToSubmit(em, dataset)
   dataset.state = 'submitted'
   dataset.submittedAt = new Date()
   audit(em, actor, { action: 'dataset.submit', targetType: 'Dataset', targetId: dataset.accession })

@@ -14,6 +14,7 @@ import { parseBody, parseParams, parseQuery } from '../../http/validate'
 import type { AppDeps } from '../../services'
 import { commentsRouter } from '../comments/comments.routes'
 import { filesRouter } from '../files/files.routes'
+import { datasetMetadataRouter } from '../metadata/metadata.routes'
 import { datasetFor, datasetParams } from './dataset-access'
 import { reviewDataset, setEmbargo, submitDataset } from './dataset-lifecycle.service'
 import { toDatasetDto } from './dataset.mapper'
@@ -88,6 +89,7 @@ export function datasetsRouter(deps: AppDeps): Router {
   })
 
   router.use('/:id/comments', commentsRouter())
+  router.use('/:id', datasetMetadataRouter(deps))
   router.use('/:id', filesRouter())
 
   return router

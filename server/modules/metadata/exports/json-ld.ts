@@ -1,0 +1,39 @@
+import { orcidUrl } from '@shared/domain/identifiers'
+import { availableFrom, day, doiUrl, type DatasetExportSubject, spdxUrl } from './export-subject'
+
+/** schema.org Dataset as JSON-LD, for the public landing page and for harvesters. */
+export function toJsonLd(s: DatasetExportSubject) {
+  const m = s.metadata
+  const available = availableFrom(s)
+  const open = available !== null && available.getTime() <= Date.now()
+  return {
+    '@context': 'https://schema.org',
+    '@type': 'Dataset',
+    '@id': s.landingUrl,
+    name: s.title,
+    description: s.description || s.title,
+    identifier: [s.accession, s.landingUrl],
+    url: s.landingUrl,
+    version: String(s.version),
+    license: spdxUrl(s.licence),
+    isAccessibleForFree: true,
+    ...(available ? { datePublished: day(available) } : {}),
+    keywords: m.study?.keywords ?? [],
+    creator: (m.study?.authors ?? [])
+      .filter((a) => a.name)
+      .map((a) => ({
+        '@type': 'Person',
+        name: a.name,
+        ...(a.orcid ? { identifier: orcidUrl(a.orcid), sameAs: orcidUrl(a.orcid) } : {}),
+        ...(a.affiliation ? { affiliation: { '@type': 'Organization', name: a.affiliation } } : {}),
+      })),
+    measurementTechnique: [m.acquisition?.technique, m.acquisition?.illumination && `${m.acquisition.illumination} illumination`, 'single-molecule localization microscopy'].filter(Boolean),
+    variableMeasured: ['localization x (nm)', 'localization y (nm)', 'frame'],
+    ...(m.study?.relatedPublicationDoi ? { citation: doiUrl(m.study.relatedPublicationDoi) } : {}),
+    includedInDataCatalog: { '@type': 'DataCatalog', name: 'Stipple' },
+    // Files are listed only once they may be downloaded (no embargo left).
+    distribution: open
+      ? s.files.map((f) => ({ '@type': 'DataDownload', name: f.name, contentUrl: f.url, contentSize: `${f.size} B`, ...(f.mediaType ? { encodingFormat: f.mediaType } : {}) }))
+      : [],
+  }
+}
