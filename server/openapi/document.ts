@@ -3,6 +3,7 @@ import { registerAuditPaths } from '../modules/audit/audit.openapi'
 import { registerCommentPaths } from '../modules/comments/comments.openapi'
 import { registerDatasetPaths } from '../modules/datasets/datasets.openapi'
 import { registerFilePaths } from '../modules/files/files.openapi'
+import { registerMetadataPaths } from '../modules/metadata/metadata.openapi'
 import { registerProjectPaths } from '../modules/projects/projects.openapi'
 import { registerMePaths } from '../modules/users/me.openapi'
 import { z } from 'zod'
@@ -30,6 +31,7 @@ export function buildOpenApiDocument(publicUrl: string) {
   registerDatasetPaths(registry)
   registerFilePaths(registry)
   registerCommentPaths(registry)
+  registerMetadataPaths(registry)
   registerAuditPaths(registry)
   return new OpenApiGeneratorV31(registry.definitions).generateDocument({
     openapi: '3.1.0',

@@ -1,0 +1,117 @@
+/**
+ * Growable typed columns for the rows of one chunk, one per slot of the plan, and the checks a
+ * value must pass to be stored. Each storage kind has its own array list so every store site sees
+ * one typed-array class (V8 keeps such element accesses fast).
+ */
+import type { ParsePlan, StorageKind } from './parse-plan'
+import { REJECT_REASONS, type RejectReason } from './rejections'
+
+export type StoredArray = Float32Array | Float64Array | Uint32Array | Uint16Array
+
+/** 0 is "accepted"; a reason's code is its index in REJECT_REASONS plus one. */
+export const ACCEPTED = 0
+export const reasonCode = (reason: RejectReason) => REJECT_REASONS.indexOf(reason) + 1
+export const reasonOf = (code: number): RejectReason => REJECT_REASONS[code - 1] ?? 'not_a_number'
+
+const F32 = 0
+const F64 = 1
+const U32 = 2
+const U16 = 3
+const KIND_CODES: Record<StorageKind, number> = {
+  float32: F32,
+  float64: F64,
+  uint32: U32,
+  uint16: U16,
+}
+const NEGATIVE_FRAME = reasonCode('negative_frame')
+const NON_INTEGER = reasonCode('non_integer')
+const OUT_OF_RANGE = reasonCode('out_of_range')
+
+export class SlotColumns {
+  readonly count: number
+  private readonly kinds: Uint8Array
+  private readonly scales: Float64Array
+  private readonly offsets: Float64Array
+  private readonly maxima: Float64Array
+  private readonly negativeCodes: Uint8Array
+  private f32: Float32Array[] = []
+  private f64: Float64Array[] = []
+  private u32: Uint32Array[] = []
+  private u16: Uint16Array[] = []
+  capacity = 0
+
+  constructor(plan: ParsePlan) {
+    const slots = plan.slots
+    this.count = slots.length
+    this.kinds = Uint8Array.from(slots, (s) => KIND_CODES[s.storage])
+    this.scales = Float64Array.from(slots, (s) => s.scale)
+    this.offsets = Float64Array.from(slots, (s) => s.offset)
+    this.maxima = Float64Array.from(slots, (s) => s.maxValue)
+    this.negativeCodes = Uint8Array.from(slots, (s) =>
+      s.role === 'frame' ? NEGATIVE_FRAME : OUT_OF_RANGE,
+    )
+  }
+
+  /** Fresh arrays for a new chunk. */
+  reset(capacity: number) {
+    this.capacity = 0
+    this.resize(capacity)
+  }
+
+  /** Stores `value` for `slot` at `row`; returns ACCEPTED or the reason code. */
+  store(slot: number, row: number, value: number): number {
+    const kind = this.kinds[slot]!
+    if (kind === F32) {
+      this.f32[slot]![row] = value * this.scales[slot]!
+      return ACCEPTED
+    }
+    if (kind === F64) {
+      this.f64[slot]![row] = value * this.scales[slot]!
+      return ACCEPTED
+    }
+    const stored = value - this.offsets[slot]!
+    if (stored < 0) return this.negativeCodes[slot]!
+    if (Math.floor(stored) !== stored) return NON_INTEGER
+    if (stored > this.maxima[slot]!) return OUT_OF_RANGE
+    if (kind === U32) this.u32[slot]![row] = stored
+    else this.u16[slot]![row] = stored
+    return ACCEPTED
+  }
+
+  grow() {
+    this.resize(Math.ceil(this.capacity * 1.5) + 1024)
+  }
+
+  /** The first `rows` values of every slot, as arrays of their own (transferable). */
+  take(rows: number): StoredArray[] {
+    return Array.from({ length: this.count }, (_, s) => this.arrayOf(s).slice(0, rows))
+  }
+
+  private arrayOf(slot: number): StoredArray {
+    const kind = this.kinds[slot]!
+    if (kind === F32) return this.f32[slot]!
+    if (kind === F64) return this.f64[slot]!
+    return kind === U32 ? this.u32[slot]! : this.u16[slot]!
+  }
+
+  private resize(capacity: number) {
+    const used = this.capacity
+    const mine = (kind: number) => Array.from(this.kinds, (k) => (k === kind ? capacity : 0))
+    this.f32 = mine(F32).map((n, s) => resized(Float32Array, this.f32[s], used, n))
+    this.f64 = mine(F64).map((n, s) => resized(Float64Array, this.f64[s], used, n))
+    this.u32 = mine(U32).map((n, s) => resized(Uint32Array, this.u32[s], used, n))
+    this.u16 = mine(U16).map((n, s) => resized(Uint16Array, this.u16[s], used, n))
+    this.capacity = capacity
+  }
+}
+
+function resized<T extends StoredArray>(
+  make: new (length: number) => T,
+  previous: T | undefined,
+  used: number,
+  length: number,
+): T {
+  const next = new make(length)
+  if (previous && length > 0 && used > 0) next.set(previous.subarray(0, used))
+  return next
+}
