@@ -25,6 +25,14 @@ const envSchema = z.object({
   TRUST_PROXY: z.coerce.number().int().min(0).default(0),
   RATE_LIMIT_SIGN_IN: z.coerce.number().int().min(1).default(30),
   LOG_LEVEL: z.enum(['silent', 'error', 'info', 'debug']).default('info'),
+  /** Largest single upload, bytes (default 200 GiB). */
+  UPLOAD_MAX_BYTES: z.coerce.number().int().positive().default(200 * 1024 ** 3),
+  /** Bytes one project may hold, uploads in progress included (default 2 TiB). */
+  PROJECT_QUOTA_BYTES: z.coerce.number().int().positive().default(2 * 1024 ** 4),
+  /** Unfinished uploads untouched this long are deleted and their space freed. */
+  UPLOAD_EXPIRY_HOURS: z.coerce.number().positive().default(48),
+  /** Worker threads for heavy jobs (ingest, raw-stack scans). */
+  JOB_WORKERS: z.coerce.number().int().min(1).max(16).default(1),
 })
 
 export interface AppConfig {
@@ -43,6 +51,8 @@ export interface AppConfig {
   trustProxy: number
   rateLimitSignIn: number
   logLevel: 'silent' | 'error' | 'info' | 'debug'
+  uploads: { maxBytes: number; projectQuotaBytes: number; expiryMs: number }
+  jobWorkers: number
 }
 
 /** Secrets the server makes for itself on first start, kept in the data directory (never in git). */
@@ -113,5 +123,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): AppConfig {
     trustProxy: e.TRUST_PROXY,
     rateLimitSignIn: e.RATE_LIMIT_SIGN_IN,
     logLevel: e.LOG_LEVEL,
+    uploads: { maxBytes: e.UPLOAD_MAX_BYTES, projectQuotaBytes: e.PROJECT_QUOTA_BYTES, expiryMs: e.UPLOAD_EXPIRY_HOURS * 3600_000 },
+    jobWorkers: e.JOB_WORKERS,
   }
 }

@@ -1,3 +1,4 @@
+import { Job } from './jobs/job.entity'
 import { AuditEvent } from './modules/audit/audit-event.entity'
 import { Comment } from './modules/comments/comment.entity'
 import { Sequence } from './modules/common/sequence.entity'
@@ -22,6 +23,7 @@ export const entities = [
   Comment,
   DatasetMetadata,
   InstrumentProfile,
+  Job,
   ApiToken,
   AuditEvent,
   Session,

@@ -18,6 +18,12 @@ export const DatasetFile = defineEntity({
     status: p.string().$type<FileStatus>().default('processing'),
     storageKey: p.string().unique(),
     mediaType: p.string().nullable(),
+    /** Why the file cannot be used, in words (status 'rejected'), or what it waits for. */
+    problem: p.text().nullable(),
+    /** The confirmed column mapping of a localization table. */
+    mapping: p.json<Record<string, unknown>>().nullable(),
+    /** What validation or scanning found: row counts by reason, dimensions, statistics. */
+    report: p.json<Record<string, unknown>>().nullable(),
     createdBy: p.manyToOne(User).mapToPk().nullable(),
     createdAt: p.datetime().onCreate(() => new Date()),
   },

@@ -1,0 +1,134 @@
+import { Worker } from 'node:worker_threads'
+import type { EntityManager } from '@mikro-orm/better-sqlite'
+import type { Orm } from '../db'
+import type { Logger } from '../logger'
+import { Job, type IJob } from './job.entity'
+import type { JobMessage } from './job-protocol'
+import { claimNextJob, requeueAbandonedJobs } from './job-queue'
+
+/** What the main thread does with a job's outcome (database updates), per kind. */
+export interface JobCompletion {
+  done(em: EntityManager, job: IJob, result: unknown): Promise<void>
+  failed?(em: EntityManager, job: IJob, error: string): Promise<void>
+}
+
+export interface JobRunnerOptions {
+  orm: Orm
+  logger: Logger
+  workers: number
+  completions: Record<string, JobCompletion>
+  pollMs?: number
+  heartbeatMs?: number
+  /** A job interrupted this many times is given up (it probably kills its process). */
+  maxAttempts?: number
+}
+
+const WORKER_URL = new URL('./worker-bootstrap.mjs', import.meta.url)
+
+/**
+ * Runs queued jobs in worker threads, a few at a time, off the request thread. Progress and
+ * outcomes are written to the job rows, so the client can watch and a restart can resume.
+ */
+export class JobRunner {
+  private readonly running = new Map<number, Worker>()
+  private timer: NodeJS.Timeout | null = null
+  private ticking = false
+  private stopped = false
+
+  constructor(private readonly o: JobRunnerOptions) {}
+
+  start(): void {
+    this.stopped = false
+    const every = this.o.pollMs ?? 500
+    this.timer = setInterval(() => void this.tick(), every)
+    this.timer.unref()
+    void this.tick()
+  }
+
+  /** Looks for work now (after an enqueue) instead of at the next poll. */
+  notify(): void {
+    void this.tick()
+  }
+
+  async stop(): Promise<void> {
+    this.stopped = true
+    if (this.timer) clearInterval(this.timer)
+    // Interrupted jobs stay 'running' with an old heartbeat and are picked up again after a restart.
+    await Promise.all([...this.running.values()].map((w) => w.terminate()))
+    this.running.clear()
+  }
+
+  get busy(): number {
+    return this.running.size
+  }
+
+  private async tick(): Promise<void> {
+    if (this.ticking || this.stopped) return
+    this.ticking = true
+    try {
+      const em = this.o.orm.em.fork()
+      const heartbeat = this.o.heartbeatMs ?? 2000
+      if (this.running.size) {
+        await em.nativeUpdate(Job, { id: { $in: [...this.running.keys()] } }, { heartbeatAt: new Date() })
+      }
+      await requeueAbandonedJobs(em, heartbeat * 5)
+      while (this.running.size < this.o.workers && !this.stopped) {
+        const id = await claimNextJob(em)
+        if (id === null) break
+        const job = await em.findOneOrFail(Job, { id })
+        this.launch(job)
+      }
+    } catch (err) {
+      this.o.logger.error({ err }, 'job runner tick failed')
+    } finally {
+      this.ticking = false
+    }
+  }
+
+  private launch(job: IJob): void {
+    if (job.attempts > (this.o.maxAttempts ?? 3)) {
+      void this.finish(job.id, { type: 'failed', error: `Interrupted ${job.attempts - 1} times; given up.` })
+      return
+    }
+    const worker = new Worker(WORKER_URL, { workerData: { kind: job.kind, payload: job.payload } })
+    this.running.set(job.id, worker)
+    let settled = false
+    worker.on('message', (m: JobMessage) => {
+      if (m.type === 'progress') {
+        void this.o.orm.em.fork().nativeUpdate(Job, { id: job.id }, { progress: m.fraction, message: m.message ?? null, heartbeatAt: new Date() })
+        return
+      }
+      settled = true
+      void this.finish(job.id, m)
+    })
+    worker.on('error', (err) => {
+      settled = true
+      void this.finish(job.id, { type: 'failed', error: err.message })
+    })
+    worker.on('exit', (code) => {
+      this.running.delete(job.id)
+      if (!settled && !this.stopped) void this.finish(job.id, { type: 'failed', error: `The worker stopped unexpectedly (exit code ${code}).` })
+      if (!this.stopped) this.notify()
+    })
+  }
+
+  private async finish(id: number, outcome: Extract<JobMessage, { type: 'done' | 'failed' }>): Promise<void> {
+    const em = this.o.orm.em.fork()
+    try {
+      await em.transactional(async (tem) => {
+        const job = await tem.findOneOrFail(Job, { id })
+        const completion = this.o.completions[job.kind]
+        if (outcome.type === 'done') {
+          await completion?.done(tem, job, outcome.result)
+          Object.assign(job, { state: 'done', progress: 1, message: null, finishedAt: new Date() })
+        } else {
+          await completion?.failed?.(tem, job, outcome.error)
+          Object.assign(job, { state: 'failed', error: outcome.error, finishedAt: new Date() })
+        }
+      })
+    } catch (err) {
+      this.o.logger.error({ err, job: id }, 'recording a job outcome failed')
+      await em.nativeUpdate(Job, { id }, { state: 'failed', error: `Could not record the outcome: ${err instanceof Error ? err.message : String(err)}`, finishedAt: new Date() })
+    }
+  }
+}

@@ -1,0 +1,108 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { openDatabase, type Orm } from '@server/db'
+import { Job } from '@server/jobs/job.entity'
+import { enqueueJob } from '@server/jobs/job-queue'
+import { JobRunner } from '@server/jobs/job-runner'
+import { createLogger } from '@server/logger'
+
+let orm: Orm
+const outcomes: string[] = []
+beforeAll(async () => {
+  orm = await openDatabase(':memory:')
+})
+afterAll(() => orm.close())
+
+function runner() {
+  return new JobRunner({
+    orm,
+    logger: createLogger('silent'),
+    workers: 2,
+    pollMs: 50,
+    heartbeatMs: 100,
+    completions: {
+      'queue-probe': {
+        done: async (_em, job, result) => void outcomes.push(`done ${job.id} ${JSON.stringify(result)}`),
+        failed: async (_em, job, error) => void outcomes.push(`failed ${job.id} ${error}`),
+      },
+    },
+  })
+}
+
+async function until(check: () => Promise<boolean>, ms = 15_000) {
+  const end = Date.now() + ms
+  while (!(await check())) {
+    if (Date.now() > end) throw new Error('timed out')
+    await new Promise((r) => setTimeout(r, 50))
+  }
+}
+
+const jobState = async (id: number) => (await orm.em.fork().findOneOrFail(Job, { id })).state
+
+describe('the job queue', () => {
+  it('runs a job in a worker thread, recording progress and the outcome', async () => {
+    const em = orm.em.fork()
+    const job = enqueueJob(em, { kind: 'queue-probe', payload: { ms: 600, n: 1 } })
+    await em.flush()
+    const r = runner()
+    r.start()
+    const seen = new Set<number>()
+    await until(async () => {
+      const row = await orm.em.fork().findOneOrFail(Job, { id: job.id })
+      if (row.state === 'running') seen.add(row.progress)
+      return row.state === 'done'
+    })
+    await r.stop()
+    expect([...seen].some((p) => p > 0 && p < 1)).toBe(true)
+    expect(outcomes).toContain(`done ${job.id} {"echoed":{"ms":600,"n":1}}`)
+  })
+
+  it('records a failure in words', async () => {
+    const em = orm.em.fork()
+    const job = enqueueJob(em, { kind: 'queue-probe', payload: { fail: 'the table has no x column' } })
+    await em.flush()
+    const r = runner()
+    r.start()
+    await until(async () => (await jobState(job.id)) === 'failed')
+    await r.stop()
+    expect((await orm.em.fork().findOneOrFail(Job, { id: job.id })).error).toBe('the table has no x column')
+  })
+
+  it('takes up a job whose process died (stale heartbeat) and completes it', async () => {
+    const em = orm.em.fork()
+    const job = enqueueJob(em, { kind: 'queue-probe', payload: { ms: 100 } })
+    await em.flush()
+    // What a killed process leaves behind: the job marked running, its heartbeat long gone.
+    await em.nativeUpdate(Job, { id: job.id }, { state: 'running', attempts: 1, heartbeatAt: new Date(Date.now() - 60_000) })
+    const r = runner()
+    r.start()
+    await until(async () => (await jobState(job.id)) === 'done')
+    await r.stop()
+    expect((await orm.em.fork().findOneOrFail(Job, { id: job.id })).attempts).toBe(2)
+  })
+
+  it('a stopped runner leaves its job to be resumed by the next one', async () => {
+    const em = orm.em.fork()
+    const job = enqueueJob(em, { kind: 'queue-probe', payload: { ms: 3000 } })
+    await em.flush()
+    const first = runner()
+    first.start()
+    await until(async () => (await jobState(job.id)) === 'running')
+    await first.stop()
+    expect(await jobState(job.id)).toBe('running')
+    const second = runner()
+    second.start()
+    await until(async () => (await jobState(job.id)) === 'done', 20_000)
+    await second.stop()
+  })
+
+  it('fails an unknown kind of job', async () => {
+    const em = orm.em.fork()
+    const job = enqueueJob(em, { kind: 'no-such-work', payload: {} })
+    await em.flush()
+    const r = runner()
+    r.start()
+    await until(async () => (await jobState(job.id)) === 'failed')
+    await r.stop()
+    expect((await orm.em.fork().findOneOrFail(Job, { id: job.id })).error).toMatch(/No job of kind/)
+  })
+})
