@@ -38,6 +38,21 @@ function stripsOf(stack: OpenStack, page: PageDirectory, frame: number): Strips 
   return { offsets, byteCounts: counts }
 }
 
+function checkedLength<T extends Uint8Array>(
+  bytes: T,
+  needed: number,
+  strip: number,
+  frame: number,
+): T {
+  if (bytes.length < needed) {
+    throw new RawStackError(
+      'malformed',
+      `Frame ${frame}, strip ${strip} holds ${bytes.length} bytes but ${needed} are needed`,
+    )
+  }
+  return bytes
+}
+
 /** Per file: where bytes come from and how they become samples (byte order is per file). */
 class FileFrames {
   private readonly converter: SampleConverter
@@ -60,7 +75,8 @@ class FileFrames {
     const strips = stripsOf(this.stack, page, frame)
     for (let strip = 0; strip * page.rowsPerStrip < page.height; strip++) {
       const rows = Math.min(page.rowsPerStrip, page.height - strip * page.rowsPerStrip)
-      const bytes = await this.stripBytes(page, strips, strip, rows * bytesPerRow, frame)
+      const pending = this.stripBytes(page, strips, strip, rows * bytesPerRow, frame)
+      const bytes = pending instanceof Promise ? await pending : pending
       const samples = this.converter.convert(bytes.subarray(0, rows * bytesPerRow))
       if (page.predictor === 2) undoHorizontalDifferencing(samples, width)
       this.context.accumulator.addStrip(samples, strip * page.rowsPerStrip * width)
@@ -68,17 +84,31 @@ class FileFrames {
     this.context.accumulator.endFrame(frame)
   }
 
-  private async stripBytes(
+  /** Synchronous when the strip is uncompressed and already read: most strips, no await. */
+  private stripBytes(
     page: PageDirectory,
     strips: Strips,
     strip: number,
     needed: number,
     frame: number,
-  ) {
+  ): Buffer | Promise<Buffer> {
     const offset = strips.offsets[strip]!
     const stored = strips.byteCounts?.[strip] ?? needed
     const compressed = page.compressionCode !== 1
     const length = compressed ? stored : Math.min(stored, needed)
+    const ready = compressed ? undefined : this.reader.peek(offset, length)
+    if (ready) return checkedLength(ready, needed, strip, frame)
+    return this.loadStrip(page, offset, length, needed, strip, frame)
+  }
+
+  private async loadStrip(
+    page: PageDirectory,
+    offset: number,
+    length: number,
+    needed: number,
+    strip: number,
+    frame: number,
+  ): Promise<Buffer> {
     const bytes = await this.reader.read(offset, length)
     if (!bytes) {
       throw new RawStackError(
@@ -86,14 +116,9 @@ class FileFrames {
         `Truncated file: it ends at byte ${this.reader.size} but frame ${frame} points to byte ${offset + length} (the end of its pixel data)`,
       )
     }
-    const decoded = compressed ? await (await this.codec(page)).decode(bytes) : bytes
-    if (decoded.length < needed) {
-      throw new RawStackError(
-        'malformed',
-        `Frame ${frame}, strip ${strip} holds ${decoded.length} bytes but ${needed} are needed`,
-      )
-    }
-    return decoded
+    const decoded =
+      page.compressionCode === 1 ? bytes : await (await this.codec(page)).decode(bytes)
+    return checkedLength(decoded, needed, strip, frame)
   }
 
   private async codec(page: PageDirectory): Promise<StripCodec> {

@@ -32,6 +32,12 @@ export class SequentialReader {
     }
   }
 
+  /** The bytes when they are already in the chunk (no await needed), else undefined. */
+  peek(position: number, length: number): Buffer | undefined {
+    const at = position - this.start
+    return at >= 0 && at + length <= this.length ? this.buffer.subarray(at, at + length) : undefined
+  }
+
   /** Bytes [position, position + length), or null past the end; valid until the next call. */
   async read(position: number, length: number): Promise<Buffer | null> {
     if (position < 0 || position + length > this.size) return null

@@ -4,6 +4,7 @@ import { RawStackError } from './raw-stack.error'
 import type { ScanOptions, StackScan } from './raw-stack.types'
 import { type OpenStack, openStack } from './stack-header.service'
 import { frameLayoutOf } from './stack-layout'
+import { sampleTypeOf } from './strip-samples.decoder'
 import { renderThumbnail } from './thumbnail.renderer'
 
 /** Progress is reported whenever it has moved by this fraction (the brief of callers: ≤ 2 %). */
@@ -43,7 +44,8 @@ export async function scanStack({ paths, onProgress, signal }: ScanOptions): Pro
   try {
     const layout = frameLayoutOf(stacks)
     const frames = stacks.reduce((sum, stack) => sum + stack.directories.length, 0)
-    const accumulator = new ProjectionAccumulator(layout.width * layout.height, frames)
+    const samples = sampleTypeOf(layout.format, layout.bitsPerSample, true, 0)
+    const accumulator = new ProjectionAccumulator(layout.width * layout.height, frames, samples)
     const context = { accumulator, layout, frameDone: progressReporter(frames, onProgress), signal }
     let nextFrame = 0
     let bytesRead = 0
@@ -58,7 +60,7 @@ export async function scanStack({ paths, onProgress, signal }: ScanOptions): Pro
       width: layout.width,
       height: layout.height,
       meanTrace: accumulator.meanTrace,
-      maxProjection: accumulator.max,
+      maxProjection: accumulator.maxProjection(),
       meanProjection,
       thumbnail: await renderThumbnail(meanProjection, layout.width, layout.height),
       bytesRead,

@@ -7,7 +7,7 @@ const DECODABLE = new Set([5, 8, 32946, 32773])
 
 export interface StripCodec {
   /** Decoded bytes of one strip, in the file's byte order. */
-  decode(compressed: Uint8Array): Promise<Uint8Array>
+  decode(compressed: Uint8Array): Promise<Buffer>
 }
 
 export function isDecodable(compressionCode: number): boolean {
@@ -45,7 +45,7 @@ export async function stripCodec(
       const own = new Uint8Array(compressed.length)
       own.set(compressed)
       const decoded = await decoder.decode(own.buffer)
-      return new Uint8Array(decoded)
+      return Buffer.from(decoded)
     },
   }
 }
