@@ -5,7 +5,7 @@ import session from 'express-session'
 import helmet from 'helmet'
 import type Provider from 'oidc-provider'
 import swaggerUi from 'swagger-ui-express'
-import { authenticate } from './http/authenticate'
+import { authenticate, requireUser } from './http/authenticate'
 import { sameOriginWrites } from './http/csrf'
 import { apiNotFound, errorHandler } from './http/error-handler'
 import { requestContext } from './http/request-context'
@@ -25,8 +25,11 @@ import { instrumentProfilesRouter } from './modules/metadata/instrument-profiles
 import { metadataRouter } from './modules/metadata/metadata.routes'
 import { buildOpenApiDocument } from './openapi/document'
 import type { AppDeps } from './services'
+import { LocalStorage } from './storage/local-storage'
+import { createUploads, UPLOADS_PATH } from './modules/uploads/uploads'
 
-export interface CreateAppOptions extends AppDeps {
+export interface CreateAppOptions extends Omit<AppDeps, 'storage'> {
+  storage?: LocalStorage
   relyingParty: RelyingParty
   /** The stand-in identity provider, mounted at /oidc and /idp when no real one is configured. */
   localIdp?: { provider: Provider; accounts: DemoAccount[] }
@@ -39,7 +42,8 @@ const asset = (path: string) => fileURLToPath(new URL(path, import.meta.url))
 export const SESSION_COOKIE = 'stipple.sid'
 
 /** Builds the whole HTTP application; it never listens (server/main.ts does). */
-export function createApp(options: CreateAppOptions): Express {
+export function createApp(appOptions: CreateAppOptions): Express {
+  const options: AppDeps & CreateAppOptions = { ...appOptions, storage: appOptions.storage ?? new LocalStorage(appOptions.config.dataDir) }
   const { orm, config } = options
   const app = express()
   app.disable('x-powered-by')
@@ -94,6 +98,11 @@ export function createApp(options: CreateAppOptions): Express {
   app.use(sameOriginWrites(new URL(config.publicUrl).origin))
 
   app.use('/auth', authRouter(options, options.relyingParty))
+
+  // tus reads the raw request stream, so uploads are mounted before any body parser.
+  const uploads = createUploads({ ...options, onRegistered: () => options.jobs?.notify() })
+  app.locals.uploads = uploads
+  app.all(`${UPLOADS_PATH}{/*rest}`, requireUser, uploads.handler)
 
   const api = express.Router()
   api.use(express.json({ limit: '1mb' }))

@@ -9,6 +9,7 @@ import { Organization } from './modules/organizations/organization.entity'
 import { Membership, Project } from './modules/projects/project.entity'
 import { Session } from './modules/sessions/session.entity'
 import { ApiToken } from './modules/tokens/api-token.entity'
+import { UploadReservation } from './modules/uploads/upload-reservation.entity'
 import { User } from './modules/users/user.entity'
 
 /** Every entity, listed explicitly (no folder scanning), for the server, the CLI and the tests. */
@@ -24,6 +25,7 @@ export const entities = [
   DatasetMetadata,
   InstrumentProfile,
   Job,
+  UploadReservation,
   ApiToken,
   AuditEvent,
   Session,

@@ -14,6 +14,10 @@ import { createMailer } from './modules/mail/mailer'
 import { OrmSessionStore } from './modules/sessions/session-store'
 import { DEMO_DIR } from './paths'
 import { seedDemo } from './seeders/demo.seeder'
+import { JobRunner } from './jobs/job-runner'
+import { fileJobCompletions } from './modules/files/file-jobs.completions'
+import type { Uploads } from './modules/uploads/uploads'
+import { LocalStorage } from './storage/local-storage'
 
 
 export interface RunningStipple {
@@ -25,6 +29,7 @@ export interface RunningStipple {
   logger: Logger
   mailCatcher: MailCatcher | null
   accounts: DemoAccount[]
+  jobs: JobRunner
   stop(): Promise<void>
 }
 
@@ -77,6 +82,8 @@ export async function startStipple(config: AppConfig, options: { clientDir?: str
         }),
       }
     : undefined
+  const storage = new LocalStorage(cfg.dataDir)
+  const jobs = new JobRunner({ orm, logger, workers: cfg.jobWorkers, completions: fileJobCompletions() })
   const relyingParty = createRelyingParty({ issuer, clientId: cfg.oidc.clientId, clientSecret: cfg.oidc.clientSecret, publicUrl })
   const app = createApp({
     orm,
@@ -87,12 +94,18 @@ export async function startStipple(config: AppConfig, options: { clientDir?: str
     localIdp,
     mailCatcher: mailCatcher ?? undefined,
     clientDir: options.clientDir,
+    storage,
+    jobs,
   })
+  const uploads = app.locals.uploads as Uploads
+  const completed = await uploads.reconcile()
+  if (completed) logger.info({ completed }, 'interrupted uploads registered')
+  jobs.start()
   server.removeAllListeners('request')
   server.on('request', app)
 
   const sessions = new OrmSessionStore(orm)
-  const hourly = () => Promise.all([sessions.prune(), refreshPlannerStatistics(orm)]).catch((err: unknown) => logger.error({ err }, 'hourly upkeep failed'))
+  const hourly = () => Promise.all([sessions.prune(), refreshPlannerStatistics(orm), uploads.expire()]).catch((err: unknown) => logger.error({ err }, 'hourly upkeep failed'))
   const pruning = setInterval(() => void hourly(), 3600_000)
   pruning.unref()
 
@@ -105,8 +118,10 @@ export async function startStipple(config: AppConfig, options: { clientDir?: str
     logger,
     mailCatcher,
     accounts,
+    jobs,
     async stop() {
       clearInterval(pruning)
+      await jobs.stop()
       // Finish the requests in flight, then close; stragglers are cut after a grace period.
       const closed = new Promise<void>((resolve) => server.close(() => resolve()))
       server.closeIdleConnections()

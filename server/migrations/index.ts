@@ -2,6 +2,7 @@ import { Migration20261201224628 } from './Migration20261201224628'
 import { Migration20261201230000 } from './Migration20261201230000'
 import { Migration20261201231929 } from './Migration20261201231929'
 import { Migration20261201233454 } from './Migration20261201233454'
+import { Migration20261201233748 } from './Migration20261201233748'
 
 /**
  * Migrations in the order they run. `npm run db -- migration:create` writes new files here;
@@ -12,4 +13,5 @@ export const migrationsList = [
   { name: 'Migration20261201230000', class: Migration20261201230000 },
   { name: 'Migration20261201231929', class: Migration20261201231929 },
   { name: 'Migration20261201233454', class: Migration20261201233454 },
+  { name: 'Migration20261201233748', class: Migration20261201233748 },
 ]

@@ -1,5 +1,4 @@
 import type { EntityManager } from '@mikro-orm/better-sqlite'
-import type { Request } from 'express'
 import { AuditEvent } from './audit-event.entity'
 
 export interface AuditEntry {
@@ -10,7 +9,7 @@ export interface AuditEntry {
 }
 
 /** Adds an audit event to the unit of work; it is written with the change it describes. */
-export function audit(em: EntityManager, req: Pick<Request, 'user' | 'ip'> | null, entry: AuditEntry) {
+export function audit(em: EntityManager, req: { user?: { id: number } | null; ip?: string } | null, entry: AuditEntry) {
   em.create(AuditEvent, {
     actor: req?.user?.id ?? null,
     action: entry.action,

@@ -1,41 +1,97 @@
+import { rm } from 'node:fs/promises'
 import { Router } from 'express'
+import { datasetSubject } from '@shared/permissions/abilities'
+import { idSchema } from '@shared/schemas/common.schema'
+import { NotFoundError } from '../../errors/http-error'
+import { requireUser } from '../../http/authenticate'
 import { requestEm as em } from '../../http/request-context'
 import { parseParams } from '../../http/validate'
+import { Job } from '../../jobs/job.entity'
+import type { LocalStorage } from '../../storage/local-storage'
+import { audit } from '../audit/audit.service'
 import { datasetFor, datasetParams } from '../datasets/dataset-access'
-import { DatasetFile } from './dataset-file.entity'
+import { UploadReservation } from '../uploads/upload-reservation.entity'
+import { DatasetFile, type IDatasetFile } from './dataset-file.entity'
+import { fileDownloadsRouter } from './file-downloads.routes'
+
+const fileParams = datasetParams.extend({ fileId: idSchema })
+
+function toFileDto(f: IDatasetFile, job: { state: string; progress: number; message: string | null } | undefined) {
+  return {
+    id: f.id,
+    name: f.name,
+    size: f.size,
+    sha256: f.sha256 ?? null,
+    kind: f.kind,
+    status: f.status,
+    mediaType: f.mediaType ?? null,
+    problem: f.problem ?? null,
+    summary: summaryOf(f),
+    job: job ?? null,
+    createdAt: f.createdAt.toISOString(),
+  }
+}
+
+/** A few facts for the list; the whole report is at /validation. */
+function summaryOf(f: IDatasetFile): Record<string, unknown> | null {
+  const r = f.report
+  if (!r) return null
+  if (f.kind === 'raw_stack') return { width: r.width, height: r.height, frames: r.frames, bitsPerSample: r.bitsPerSample, hasOmeXml: r.hasOmeXml }
+  return { rowsRead: r.rowsRead, rowsAccepted: r.rowsAccepted, rejected: r.rowsRejected }
+}
 
 /**
  * A dataset's files. The list is part of the description (names, sizes, checksums); the bytes and
  * the checksum manifest need the download right, which an embargo withholds.
  */
-export function filesRouter(): Router {
+export function filesRouter(storage: LocalStorage): Router {
   const router = Router({ mergeParams: true })
 
   router.get('/files', async (req, res) => {
     const dataset = await datasetFor(req, em(), parseParams(datasetParams, req).id, 'read')
     const files = await em().find(DatasetFile, { dataset: dataset.id }, { orderBy: { name: 'asc' } })
+    const jobs = files.length ? await em().find(Job, { file: { $in: files.map((f) => f.id) }, state: { $in: ['queued', 'running'] } }) : []
+    const byFile = new Map(jobs.map((j) => [j.file!, { state: j.state, progress: j.progress, message: j.message ?? null }]))
+    const uploads = req.ability.can('edit', datasetSubject(dataset))
+      ? await em().find(UploadReservation, { dataset: dataset.id, user: req.user?.id ?? -1 })
+      : []
     res.json({
-      items: files.map((f) => ({
-        id: f.id,
-        name: f.name,
-        size: f.size,
-        sha256: f.sha256 ?? null,
-        kind: f.kind,
-        status: f.status,
-        createdAt: f.createdAt.toISOString(),
-      })),
+      items: files.map((f) => toFileDto(f, byFile.get(f.id))),
+      uploadsInProgress: uploads.map((u) => ({ uploadId: u.uploadId, name: u.fileName, size: u.size, startedAt: u.createdAt.toISOString() })),
     })
   })
 
-  /** One line per ready file, `<sha256>  <name>`, as `sha256sum -c` reads it. */
+  router.get('/files/:fileId/validation', async (req, res) => {
+    const { id, fileId } = parseParams(fileParams, req)
+    const dataset = await datasetFor(req, em(), id, 'read')
+    const file = await em().findOne(DatasetFile, { id: fileId, dataset: dataset.id })
+    if (!file) throw new NotFoundError('file', fileId)
+    res.json({ id: file.id, name: file.name, kind: file.kind, status: file.status, problem: file.problem ?? null, mapping: file.mapping ?? null, report: file.report ?? null })
+  })
+
+  router.delete('/files/:fileId', requireUser, async (req, res) => {
+    const { id, fileId } = parseParams(fileParams, req)
+    const dataset = await datasetFor(req, em(), id, 'edit')
+    const file = await em().findOne(DatasetFile, { id: fileId, dataset: dataset.id })
+    if (!file) throw new NotFoundError('file', fileId)
+    audit(em(), req, { action: 'file.delete', targetType: 'Dataset', targetId: dataset.accession, details: { file: file.name, sha256: file.sha256 } })
+    em().remove(file)
+    await em().flush()
+    await rm(storage.originalPath(file.storageKey), { force: true })
+    await rm(storage.derivedPath(file.id, '.'), { recursive: true, force: true })
+    res.status(204).end()
+  })
+
+  /** One line per stored file, `<sha256>  <name>`, as `sha256sum -c` reads it. */
   router.get('/manifest.txt', async (req, res) => {
     const dataset = await datasetFor(req, em(), parseParams(datasetParams, req).id, 'download')
-    const files = await em().find(DatasetFile, { dataset: dataset.id, status: 'ready', sha256: { $ne: null } }, { orderBy: { name: 'asc' } })
+    const files = await em().find(DatasetFile, { dataset: dataset.id, status: { $ne: 'rejected' }, sha256: { $ne: null } }, { orderBy: { name: 'asc' } })
     res
       .type('text/plain; charset=utf-8')
       .set('content-disposition', `inline; filename="${dataset.accession}-manifest.txt"`)
       .send(files.map((f) => `${f.sha256}  ${f.name}\n`).join(''))
   })
 
+  router.use(fileDownloadsRouter(storage))
   return router
 }

@@ -5,7 +5,7 @@
  * the slow path of `slowField`, which decides what the field holds.
  */
 import { classifyFieldText, type FieldValue } from './field.classifier'
-import { scanDecimal, scanned } from './decimal.scanner'
+import * as decimal from './decimal.scanner'
 import type { ParsePlan } from './parse-plan'
 import { splitRecord } from './record.splitter'
 import {
@@ -16,11 +16,16 @@ import {
 } from './rejections'
 import { ACCEPTED, reasonCode, reasonOf, SlotColumns, type StoredArray } from './slot.columns'
 
+// Local bindings: under a CommonJS transform each use of an imported name is a getter call.
+const { scanDecimal, scannedValue, POW10, MAX_FAST_DIGITS } = decimal
 const LF = 10
 const CR = 13
 const QUOTE = 34
 const SPACE = 32
 const TAB = 9
+const ZERO = 48
+const NINE = 57
+const MINUS = 45
 const SKIP = -1
 const TOO_MANY = -2
 const FIELD_COUNT = reasonCode('field_count')
@@ -60,6 +65,7 @@ export class ChunkParser {
   private blank = 0
   private quotedLines = 0
   private rowEnded = false
+  private value = 0
   private slowValue = 0
   private slowReason = ACCEPTED
   private tallies: RejectionTallies = {}
@@ -97,44 +103,85 @@ export class ChunkParser {
     }
     if (this.row === this.columns.capacity) this.columns.grow()
     this.quotedLines = 0
-    const D = this.delimiter
     let p = this.whitespace ? this.skipPads(u, start) : start
-    let field = 0
-    let reason = ACCEPTED
-    for (;;) {
+    for (let field = 0; ; field++) {
       const fieldStart = p
       const slot = field < this.fieldCount ? this.slotOfField[field]! : TOO_MANY
+      let reason = ACCEPTED
       if (slot >= 0) {
-        let value = scanDecimal(u, p, this.decimal)
-        const c = u[scanned.end]!
-        if (value === value && (c === this.fastEnd || c === LF)) p = scanned.end
-        else {
-          p = this.slowField(u, fieldStart, slot)
-          value = this.slowValue
-          reason = this.slowReason
-        }
-        if (reason === ACCEPTED) reason = this.columns.store(slot, this.row, value)
+        p = this.plainNumber(u, p)
+        if (p < 0) p = this.otherNumber(u, fieldStart, slot)
+        reason = this.slowReason
+        if (reason === ACCEPTED) reason = this.columns.store(slot, this.row, this.value)
       } else if (slot === SKIP) {
         p = this.slowField(u, fieldStart, SKIP)
         reason = this.slowReason
       } else reason = FIELD_COUNT
       if (reason !== ACCEPTED) return this.reject(u, start, fieldStart, field, p, reason)
       const c = u[p]!
-      if (c === D) {
+      if (c === this.delimiter) {
         p++
-        field++
         continue
       }
       p = c === LF ? p + 1 : this.afterField(u, p)
-      if (!this.rowEnded && c !== LF) {
-        field++
-        continue
-      }
+      if (c !== LF && !this.rowEnded) continue
       if (field + 1 !== this.fieldCount) return this.tally(u, start, start, field, p, FIELD_COUNT)
       this.row++
       this.line += 1 + this.quotedLines
       return p
     }
+  }
+
+  /**
+   * The hot path: `[-]digits[.digits]`, at most 15 digits, ended by the delimiter or a line feed.
+   * Exact for the reason given in decimal.scanner.ts (one division of exact doubles). Leaves the
+   * value in `value` and returns the end, or -1 for anything else.
+   */
+  private plainNumber(u: Uint8Array, start: number): number {
+    let p = start
+    let c = u[p]!
+    const negative = c === MINUS
+    if (negative) c = u[++p]!
+    const integerStart = p
+    let mantissa = 0
+    while (c >= ZERO && c <= NINE) {
+      mantissa = mantissa * 10 + (c - ZERO)
+      c = u[++p]!
+    }
+    let fraction = 0
+    let point = 0
+    if (c === this.decimal) {
+      point = 1
+      const fractionStart = ++p
+      c = u[p]!
+      while (c >= ZERO && c <= NINE) {
+        mantissa = mantissa * 10 + (c - ZERO)
+        c = u[++p]!
+      }
+      fraction = p - fractionStart
+    }
+    const digits = p - integerStart - point
+    if (digits === 0 || digits > MAX_FAST_DIGITS) return -1
+    if (c !== this.fastEnd && c !== LF && (c !== CR || u[p + 1] !== LF)) return -1
+    const magnitude = mantissa / POW10[fraction]!
+    this.value = negative ? -magnitude : magnitude
+    this.slowReason = ACCEPTED
+    return p
+  }
+
+  /** Exponents, plus signs, padding, long mantissas; then words and quotes in `slowField`. */
+  private otherNumber(u: Uint8Array, start: number, slot: number): number {
+    const from = this.whitespace ? start : this.skipPads(u, start)
+    const end = scanDecimal(u, from, this.decimal)
+    const after = end < 0 || this.whitespace ? end : this.skipPads(u, end)
+    if (end >= 0 && this.isFieldEnd(u, after)) {
+      this.value = scannedValue[0]!
+      this.slowReason = ACCEPTED
+      return after
+    }
+    const p = this.slowField(u, start, slot)
+    this.value = this.slowValue
+    return p
   }
 
   /** A line of nothing but padding: counts it and returns its end, else -1. */

@@ -1,0 +1,92 @@
+import { rename, rm } from 'node:fs/promises'
+import { dirname } from 'node:path'
+import { mkdirSync } from 'node:fs'
+import type { EntityManager } from '@mikro-orm/better-sqlite'
+import type { Upload } from '@tus/server'
+import { enqueueJob } from '../../jobs/job-queue'
+import type { LocalStorage } from '../../storage/local-storage'
+import { audit } from '../audit/audit.service'
+import { Dataset } from '../datasets/dataset.entity'
+import { UploadReservation } from '../uploads/upload-reservation.entity'
+import { refuse } from '../uploads/upload-errors'
+import { DatasetFile, type IDatasetFile } from './dataset-file.entity'
+import { detectFileKind } from './file-kind'
+import { firstJobFor } from './file-processing'
+
+export interface FinishedUpload {
+  upload: Upload
+  sha256: string
+  size: number
+  userId: number
+  ip: string | null
+  /** Set when a crash came between moving the bytes and recording the file. */
+  alreadyMoved?: boolean
+}
+
+/** The name a file gets in its dataset: the depositor's, with " (2)" etc. if it is already taken. */
+async function uniqueName(em: EntityManager, datasetId: number, name: string): Promise<string> {
+  const taken = new Set((await em.find(DatasetFile, { dataset: datasetId }, { fields: ['name'] })).map((f) => f.name))
+  if (!taken.has(name)) return name
+  const dot = name.lastIndexOf('.')
+  const [stem, ext] = dot > 0 ? [name.slice(0, dot), name.slice(dot)] : [name, '']
+  for (let i = 2; ; i++) if (!taken.has(`${stem} (${i})${ext}`)) return `${stem} (${i})${ext}`
+}
+
+export const storageKeyFor = (datasetId: number, uploadId: string) => `${datasetId}/${uploadId}`
+
+/**
+ * Turns a finished upload into a dataset file. Order matters for crash safety: the bytes are moved
+ * to their permanent key first (a rename, deterministic from the upload id), then the row, the
+ * first processing job and the audit event commit together; reconcileUploads() completes any
+ * step a crash interrupted. An empty file or an exact duplicate in the same dataset is refused
+ * and its bytes are removed.
+ */
+export async function registerUpload(em: EntityManager, storage: LocalStorage, f: FinishedUpload): Promise<IDatasetFile> {
+  const datasetId = Number(f.upload.metadata?.datasetId)
+  const tusPath = `${storage.uploadsDir}/${f.upload.id}`
+  const key = storageKeyFor(datasetId, f.upload.id)
+  const existing = await em.findOne(DatasetFile, { storageKey: key })
+  if (existing) return existing
+
+  const fail = async (status: number, title: string, detail: string) => {
+    await rm(tusPath, { force: true })
+    await em.nativeDelete(UploadReservation, { uploadId: f.upload.id })
+    return refuse(status, title, detail)
+  }
+  if (f.size === 0) throw await fail(400, 'Empty file', 'The file is empty (0 bytes); nothing was stored.')
+  const twin = await em.findOne(DatasetFile, { dataset: datasetId, sha256: f.sha256 })
+  if (twin) throw await fail(400, 'Duplicate file', `This file is identical (same SHA-256) to "${twin.name}", already in the dataset; it was not stored twice.`)
+
+  const original = storage.originalPath(key)
+  if (!f.alreadyMoved) {
+    mkdirSync(dirname(original), { recursive: true })
+    await rename(tusPath, original)
+  }
+  const { kind, mediaType } = await detectFileKind(original)
+  const dataset = await em.findOneOrFail(Dataset, { id: datasetId })
+  const file = em.create(DatasetFile, {
+    dataset: datasetId,
+    name: await uniqueName(em, datasetId, String(f.upload.metadata?.filename ?? 'file')),
+    size: f.size,
+    sha256: f.sha256,
+    kind,
+    mediaType,
+    status: kind === 'localization_table' || kind === 'raw_stack' ? 'processing' : 'ready',
+    storageKey: key,
+    createdBy: f.userId,
+  })
+  await em.flush()
+  const job = firstJobFor(file, storage)
+  if (job) enqueueJob(em, { ...job, fileId: file.id })
+  dataset.updatedAt = new Date()
+  audit(em, { user: { id: f.userId }, ip: f.ip ?? undefined }, {
+    action: 'file.upload',
+    targetType: 'Dataset',
+    targetId: dataset.accession,
+    details: { file: file.name, size: f.size, sha256: f.sha256, kind },
+  })
+  await em.nativeDelete(UploadReservation, { uploadId: f.upload.id })
+  await em.flush()
+  return file
+}
+

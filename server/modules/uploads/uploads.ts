@@ -1,0 +1,139 @@
+import { createHash } from 'node:crypto'
+import { createReadStream, existsSync } from 'node:fs'
+import { readdir } from 'node:fs/promises'
+import type { IncomingMessage } from 'node:http'
+import type { EntityManager } from '@mikro-orm/better-sqlite'
+import { Server, type Upload } from '@tus/server'
+import type { Request, RequestHandler } from 'express'
+import type { Orm } from '../../db'
+import type { AppConfig } from '../../config'
+import type { Logger } from '../../logger'
+import type { LocalStorage } from '../../storage/local-storage'
+import { audit } from '../audit/audit.service'
+import { registerUpload, storageKeyFor } from '../files/file-registry.service'
+import { HashingFileStore } from './hashing-file-store'
+import { refuse } from './upload-errors'
+import { checkQuota, uploadName, uploadTarget } from './upload-policy'
+import { UploadReservation } from './upload-reservation.entity'
+
+export const UPLOADS_PATH = '/api/uploads'
+
+/** tus hooks get a web Request; ours (with user and abilities) rides along as the Node request. */
+function expressRequest(req: globalThis.Request): Request {
+  const node = (req as unknown as { runtime?: { node?: { req?: IncomingMessage } } }).runtime?.node?.req
+  if (!node) throw refuse(500, 'Upload failed', 'The upload request lost its context.')
+  return node as Request
+}
+
+export interface Uploads {
+  handler: RequestHandler
+  store: HashingFileStore
+  /** Deletes unfinished uploads older than the expiry, freeing their space and quota. */
+  expire(): Promise<number>
+  /** Completes registrations a crash interrupted (finished uploads not yet registered). */
+  reconcile(): Promise<number>
+}
+
+/**
+ * Resumable uploads (tus 1.0.0 with creation, termination and expiration) at /api/uploads. Every
+ * request is authorised against the target dataset's abilities; a finished upload becomes a
+ * dataset file in the same request (registerUpload), and its heavy processing is queued.
+ */
+export function createUploads(deps: { orm: Orm; config: AppConfig; logger: Logger; storage: LocalStorage; onRegistered?: () => void }): Uploads {
+  const { orm, config, storage } = deps
+  const store = new HashingFileStore({ directory: storage.uploadsDir, expirationPeriodInMilliseconds: config.uploads.expiryMs })
+  const em = () => orm.em.fork() as EntityManager
+
+  async function ownUpload(req: Request, id: string): Promise<Upload> {
+    const upload = await store.getUpload(id).catch(() => null)
+    if (!upload || Number(upload.metadata?.userId) !== req.user?.id) throw refuse(404, 'Not found', 'No such upload of yours.')
+    return upload
+  }
+
+  const tus = new Server({
+    path: UPLOADS_PATH,
+    datastore: store,
+    relativeLocation: true,
+    respectForwardedHeaders: config.trustProxy > 0,
+    maxSize: config.uploads.maxBytes,
+    onIncomingRequest: async (req, id) => {
+      if (req.method === 'POST' || req.method === 'OPTIONS') return
+      await ownUpload(expressRequest(req), id)
+    },
+    onUploadCreate: async (req, upload) => {
+      const r = expressRequest(req)
+      const m = em()
+      const dataset = await uploadTarget(m, r, upload.metadata?.dataset)
+      const filename = uploadName(upload.metadata?.filename)
+      if (upload.size === undefined) throw refuse(400, 'Unknown size', 'Declare the file size when the upload starts (Upload-Length).')
+      await checkQuota(m, config, dataset, upload.size)
+      m.create(UploadReservation, { uploadId: upload.id, project: dataset.project, dataset: dataset.id, user: r.user!.id, fileName: filename, size: upload.size })
+      await m.flush()
+      return { metadata: { ...upload.metadata, filename, datasetId: String(dataset.id), userId: String(r.user!.id) } }
+    },
+    onUploadFinish: async (req, upload) => {
+      const r = expressRequest(req)
+      const { sha256, size } = await store.finish(upload.id)
+      const file = await registerUpload(em(), storage, { upload, sha256, size, userId: r.user!.id, ip: r.ip ?? null })
+      await store.configstore.delete(upload.id)
+      deps.onRegistered?.()
+      return { headers: { 'Stipple-File-Id': file.id, 'Stipple-File-Name': encodeURIComponent(file.name) } }
+    },
+  })
+
+  // Cancelling (tus termination) frees the reservation too.
+  tus.on('POST_TERMINATE', (_req, _res, id: string) => {
+    store.forget(id)
+    void em().nativeDelete(UploadReservation, { uploadId: id })
+  })
+
+  return {
+    store,
+    handler: (req, res) => {
+      void tus.handle(req, res)
+    },
+    async expire() {
+      const removed = await store.deleteExpired()
+      const cutoff = new Date(Date.now() - config.uploads.expiryMs)
+      const m = em()
+      const stale = await m.find(UploadReservation, { createdAt: { $lt: cutoff } })
+      for (const s of stale) audit(m, null, { action: 'upload.expire', targetType: 'Dataset', targetId: s.dataset, details: { file: s.fileName } })
+      await m.nativeDelete(UploadReservation, { createdAt: { $lt: cutoff } })
+      await m.flush()
+      return removed
+    },
+    async reconcile() {
+      let done = 0
+      for (const name of await readdir(storage.uploadsDir)) {
+        if (!name.endsWith('.json')) continue
+        const id = name.slice(0, -5)
+        const upload = await store.getUpload(id).catch(() => null)
+        const datasetId = Number(upload?.metadata?.datasetId)
+        const userId = Number(upload?.metadata?.userId)
+        if (!upload || !datasetId || !userId) continue
+        const moved = existsSync(storage.originalPath(storageKeyFor(datasetId, id)))
+        if (!moved && upload.offset !== upload.size) continue
+        try {
+          const { sha256, size } = moved ? await hashFile(storage.originalPath(storageKeyFor(datasetId, id))) : await store.finish(id)
+          await registerUpload(em(), storage, { upload: { ...upload, size } as Upload, sha256, size, userId, ip: null, alreadyMoved: moved })
+          done++
+        } catch (err) {
+          deps.logger.error({ err, upload: id }, 'could not complete an interrupted upload')
+        }
+        await store.configstore.delete(id)
+      }
+      if (done) deps.onRegistered?.()
+      return done
+    },
+  }
+}
+
+async function hashFile(path: string): Promise<{ sha256: string; size: number }> {
+  const hash = createHash('sha256')
+  let size = 0
+  for await (const chunk of createReadStream(path, { highWaterMark: 4 * 1024 * 1024 }) as AsyncIterable<Buffer>) {
+    hash.update(chunk)
+    size += chunk.length
+  }
+  return { sha256: hash.digest('hex'), size }
+}
