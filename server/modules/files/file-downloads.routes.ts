@@ -36,7 +36,11 @@ export function fileDownloadsRouter(storage: LocalStorage): Router {
     }
     res.type(file.mediaType ?? 'application/octet-stream')
     res.sendFile(storage.originalPath(file.storageKey), { etag: false, lastModified: false, cacheControl: false, acceptRanges: true, dotfiles: 'allow' }, (err) => {
-      if (err && !res.headersSent) next(err)
+      if (!err || res.headersSent) return
+      const failure = err as Error & { status?: number; headers?: Record<string, string> }
+      // An unsatisfiable range is the client's mistake: 416 with the size, as RFC 9110 15.5.17 asks.
+      if (failure.status === 416) return void res.status(416).set(failure.headers ?? {}).end()
+      next(err)
     })
   })
 

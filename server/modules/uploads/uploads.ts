@@ -74,8 +74,10 @@ export function createUploads(deps: { orm: Orm; config: AppConfig; logger: Logge
     onUploadFinish: async (req, upload) => {
       const r = expressRequest(req)
       const { sha256, size } = await store.finish(upload.id)
-      const file = await registerUpload(em(), storage, { upload, sha256, size, userId: r.user!.id, ip: r.ip ?? null })
-      await store.configstore.delete(upload.id)
+      const file = await registerUpload(em(), storage, { upload, sha256, size, userId: r.user!.id, ip: r.ip ?? null }).finally(() =>
+        // Registered or refused, the upload is over: its tus record goes either way.
+        store.configstore.delete(upload.id),
+      )
       deps.onRegistered?.()
       return { headers: { 'Stipple-File-Id': file.id, 'Stipple-File-Name': encodeURIComponent(file.name) } }
     },

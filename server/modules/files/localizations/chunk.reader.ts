@@ -13,7 +13,7 @@ import { MAX_RECORD_BYTES, TableFormatError, type TableFormat } from './table-fo
 const LF = 10
 
 export interface TableChunk {
-  bytes: Uint8Array
+  bytes: Uint8Array<ArrayBuffer>
   /** Share of the source file (compressed bytes for gzip) read so far, 0…1. */
   readFraction: number
 }
@@ -26,7 +26,10 @@ interface ByteSource {
 }
 
 export async function* readRecordChunks(path: string, format: TableFormat, chunkBytes: number) {
-  const source = format.compression === 'gzip' ? await gzipSource(path, format.dataOffset) : await plainSource(path, format.dataOffset)
+  const source =
+    format.compression === 'gzip'
+      ? await gzipSource(path, format.dataOffset)
+      : await plainSource(path, format.dataOffset)
   try {
     let carry = new Uint8Array(0)
     let offset = format.dataOffset
@@ -46,7 +49,10 @@ export async function* readRecordChunks(path: string, format: TableFormat, chunk
       }
       carry = buffer.slice(boundary.end)
       offset += boundary.end
-      yield { bytes: buffer.subarray(0, boundary.end), readFraction: source.readFraction() } satisfies TableChunk
+      yield {
+        bytes: buffer.subarray(0, boundary.end),
+        readFraction: source.readFraction(),
+      } satisfies TableChunk
     }
   } finally {
     await source.close()
@@ -74,7 +80,10 @@ function withFinalLineFeed(buffer: Uint8Array, filled: number): Uint8Array {
 function oversizedRecord(openQuote: boolean, offset: number) {
   const where = `near byte ${offset.toLocaleString('en')} of the table text`
   return openQuote
-    ? new TableFormatError('unterminated_quote', `A quoted field opened ${where} is not closed within 1 MiB`)
+    ? new TableFormatError(
+        'unterminated_quote',
+        `A quoted field opened ${where} is not closed within 1 MiB`,
+      )
     : new TableFormatError('line_too_long', `A line longer than 1 MiB starts ${where}`)
 }
 
@@ -99,12 +108,14 @@ async function gzipSource(path: string, skip: number): Promise<ByteSource> {
   const gunzip = createGunzip({ chunkSize: 1 << 20 })
   raw.on('error', (error) => gunzip.destroy(error))
   const pieces = raw.pipe(gunzip)[Symbol.asyncIterator]()
-  let piece = new Uint8Array(0)
+  let piece: Uint8Array = new Uint8Array(0)
   let toSkip = skip
   return {
     async fill(into, from) {
       while (piece.length === 0 || toSkip > 0) {
-        const next = await pieces.next().catch((error: unknown) => Promise.reject(damagedGzip(error)))
+        const next = await pieces
+          .next()
+          .catch((error: unknown) => Promise.reject(damagedGzip(error)))
         if (next.done) return 0
         piece = next.value as Buffer
         const skipped = Math.min(toSkip, piece.length)

@@ -60,12 +60,14 @@ export class ChunkStore {
   group(grid: TileGrid): GroupResult {
     const tiles = grid.columns * grid.rows
     const tileBounds = new Float64Array(tiles * 4)
-    for (let t = 0; t < tiles; t++) tileBounds.set([Infinity, -Infinity, Infinity, -Infinity], t * 4)
+    for (let t = 0; t < tiles; t++)
+      tileBounds.set([Infinity, -Infinity, Infinity, -Infinity], t * 4)
     const chunks: GroupedChunk[] = []
     for (const [seq, columns] of this.kept) {
       const x = columns[this.xSlot]
       const y = columns[this.ySlot]
-      if (!(x instanceof Float32Array) || !(y instanceof Float32Array)) throw new Error('x and y are Float32')
+      if (!(x instanceof Float32Array) || !(y instanceof Float32Array))
+        throw new Error('x and y are Float32')
       const { keys, tileStarts } = tileKeys(grid, x, y, tileBounds)
       chunks.push({ seq, tileStarts, columns: columns.map((c) => scatter(c, keys, tileStarts)) })
     }

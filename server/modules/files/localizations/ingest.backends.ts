@@ -51,7 +51,10 @@ import(workerData.entry).catch((error) => {
   require(workerData.tsxApi).register()
   return import(workerData.entry)
 })`
-const entry = new URL(`./parse.worker${import.meta.url.endsWith('.ts') ? '.ts' : '.js'}`, import.meta.url).href
+const entry = new URL(
+  `./parse.worker${import.meta.url.endsWith('.ts') ? '.ts' : '.js'}`,
+  import.meta.url,
+).href
 const tsxApi = createRequire(import.meta.url).resolve('tsx/esm/api')
 
 interface Pending<T> {
@@ -70,7 +73,9 @@ export class WorkerBackend implements ParseBackend {
     this.worker = new Worker(BOOTSTRAP, { eval: true, workerData: { entry, tsxApi, plan } })
     this.worker.on('message', (message: FromWorker) => this.receive(message))
     this.worker.on('error', (error) => this.fail(error))
-    this.worker.on('exit', (code) => this.fail(new Error(`A parse worker stopped (exit code ${code})`)))
+    this.worker.on('exit', (code) =>
+      this.fail(new Error(`A parse worker stopped (exit code ${code})`)),
+    )
   }
 
   get inFlight() {

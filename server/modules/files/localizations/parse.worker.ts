@@ -18,10 +18,16 @@ port.on('message', (message: ToWorker) => {
       port.postMessage({ type: 'parsed', summary } satisfies FromWorker)
     } else {
       const result = store.group(message.grid)
-      const buffers = result.chunks.flatMap((c) => [...c.columns.map((a) => a.buffer), c.tileStarts.buffer])
+      const buffers = result.chunks.flatMap((c) => [
+        ...c.columns.map((a) => a.buffer),
+        c.tileStarts.buffer,
+      ])
       port.postMessage({ type: 'grouped', result } satisfies FromWorker, buffers)
     }
   } catch (error) {
-    port.postMessage({ type: 'failed', message: error instanceof Error ? error.stack ?? error.message : String(error) } satisfies FromWorker)
+    port.postMessage({
+      type: 'failed',
+      message: error instanceof Error ? (error.stack ?? error.message) : String(error),
+    } satisfies FromWorker)
   }
 })

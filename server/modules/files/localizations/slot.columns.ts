@@ -6,7 +6,11 @@
 import type { ParsePlan, StorageKind } from './parse-plan'
 import { REJECT_REASONS, type RejectReason } from './rejections'
 
-export type StoredArray = Float32Array | Float64Array | Uint32Array | Uint16Array
+export type StoredArray =
+  | Float32Array<ArrayBuffer>
+  | Float64Array<ArrayBuffer>
+  | Uint32Array<ArrayBuffer>
+  | Uint16Array<ArrayBuffer>
 
 /** 0 is "accepted"; a reason's code is its index in REJECT_REASONS plus one. */
 export const ACCEPTED = 0
@@ -34,10 +38,10 @@ export class SlotColumns {
   private readonly offsets: Float64Array
   private readonly maxima: Float64Array
   private readonly negativeCodes: Uint8Array
-  private f32: Float32Array[] = []
-  private f64: Float64Array[] = []
-  private u32: Uint32Array[] = []
-  private u16: Uint16Array[] = []
+  private f32: Float32Array<ArrayBuffer>[] = []
+  private f64: Float64Array<ArrayBuffer>[] = []
+  private u32: Uint32Array<ArrayBuffer>[] = []
+  private u16: Uint16Array<ArrayBuffer>[] = []
   capacity = 0
 
   constructor(plan: ParsePlan) {

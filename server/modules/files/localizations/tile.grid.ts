@@ -25,15 +25,24 @@ export const TARGET_ROWS_PER_TILE = 50_000
 /** Keys fit a Uint16Array. */
 export const MAX_TILES = 65_536
 
-export function planGrid(bounds: Bounds, rowCount: number, rowsPerTile = TARGET_ROWS_PER_TILE): TileGrid {
+export function planGrid(
+  bounds: Bounds,
+  rowCount: number,
+  rowsPerTile = TARGET_ROWS_PER_TILE,
+): TileGrid {
   const width = bounds.xMax - bounds.xMin
   const height = bounds.yMax - bounds.yMin
   const wanted = Math.min(MAX_TILES, Math.max(1, Math.ceil(rowCount / rowsPerTile)))
-  let size = width * height > 0 ? Math.sqrt((width * height) / wanted) : Math.max(width, height) / wanted
+  let size =
+    width * height > 0 ? Math.sqrt((width * height) / wanted) : Math.max(width, height) / wanted
   if (!(size > 0)) size = 1
   while (Math.ceil(width / size || 1) * Math.ceil(height / size || 1) > MAX_TILES) size *= 1.25
   const grid = { originX: bounds.xMin, originY: bounds.yMin, tileSizeNm: size }
-  return { ...grid, columns: Math.max(1, Math.ceil(width / size)), rows: Math.max(1, Math.ceil(height / size)) }
+  return {
+    ...grid,
+    columns: Math.max(1, Math.ceil(width / size)),
+    rows: Math.max(1, Math.ceil(height / size)),
+  }
 }
 
 export function tileColumn(grid: TileGrid, x: number): number {

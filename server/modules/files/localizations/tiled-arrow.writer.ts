@@ -51,9 +51,19 @@ interface OutputColumn {
 }
 
 /** Arrow fields for the slots; a channel column whose values all fit in a byte is stored as Uint8. */
-export function outputColumns(plan: ParsePlan, stats: ColumnStats[], metadata: Map<string, string>) {
+export function outputColumns(
+  plan: ParsePlan,
+  stats: ColumnStats[],
+  metadata: Map<string, string>,
+) {
   const columns = plan.slots.map((slot, s) => outputColumn(slot, stats[s]))
-  return { columns, schema: new Schema(columns.map((c) => c.field), metadata) }
+  return {
+    columns,
+    schema: new Schema(
+      columns.map((c) => c.field),
+      metadata,
+    ),
+  }
 }
 
 function outputColumn(slot: SlotSpec, stats: ColumnStats | undefined): OutputColumn {
@@ -63,9 +73,12 @@ function outputColumn(slot: SlotSpec, stats: ColumnStats | undefined): OutputCol
   ])
   if (slot.storedUnit) meta.set('unit', slot.storedUnit)
   const field = (type: DataType) => new Field(slot.name, type, false, meta)
-  if (slot.storage === 'float32') return { field: field(new Float32()), make: (n) => new Float32Array(n) }
-  if (slot.storage === 'float64') return { field: field(new Float64()), make: (n) => new Float64Array(n) }
-  if (slot.storage === 'uint32') return { field: field(new Uint32()), make: (n) => new Uint32Array(n) }
+  if (slot.storage === 'float32')
+    return { field: field(new Float32()), make: (n) => new Float32Array(n) }
+  if (slot.storage === 'float64')
+    return { field: field(new Float64()), make: (n) => new Float64Array(n) }
+  if (slot.storage === 'uint32')
+    return { field: field(new Uint32()), make: (n) => new Uint32Array(n) }
   if ((stats?.max ?? 0) <= 255) return { field: field(new Uint8()), make: (n) => new Uint8Array(n) }
   return { field: field(new Uint16()), make: (n) => new Uint16Array(n) }
 }
@@ -82,7 +95,10 @@ export async function writeTiledArrow(
   const total = grid.columns * grid.rows
   let rowStart = 0
   for (let key = 0; key < total; key++) {
-    const rowCount = grouped.chunks.reduce((n, c) => n + c.tileStarts[key + 1]! - c.tileStarts[key]!, 0)
+    const rowCount = grouped.chunks.reduce(
+      (n, c) => n + c.tileStarts[key + 1]! - c.tileStarts[key]!,
+      0,
+    )
     if (rowCount > 0) {
       await sink.write(tileBatch(output, grouped.chunks, key, rowCount))
       const b = grouped.tileBounds.subarray(key * 4, key * 4 + 4)
@@ -97,7 +113,12 @@ export async function writeTiledArrow(
   return { schema: output.schema, tiles, bytes }
 }
 
-function tileBatch(output: { columns: OutputColumn[]; schema: Schema }, chunks: GroupedChunk[], key: number, rows: number) {
+function tileBatch(
+  output: { columns: OutputColumn[]; schema: Schema },
+  chunks: GroupedChunk[],
+  key: number,
+  rows: number,
+) {
   const children = output.columns.map((column, s) => {
     const values = column.make(rows)
     let at = 0
@@ -109,6 +130,11 @@ function tileBatch(output: { columns: OutputColumn[]; schema: Schema }, chunks: 
     }
     return makeData({ type: column.field.type, data: values, length: rows, nullCount: 0 })
   })
-  const data = makeData({ type: new Struct(output.schema.fields), length: rows, nullCount: 0, children })
+  const data = makeData({
+    type: new Struct(output.schema.fields),
+    length: rows,
+    nullCount: 0,
+    children,
+  })
   return new RecordBatch(output.schema, data)
 }

@@ -179,6 +179,7 @@ export function parseDirectory(
       `Frame ${index} (directory at byte ${ifdOffset}) has no image size`,
     )
   }
-  page.rowsPerStrip = Math.min(page.rowsPerStrip, page.height)
+  // RowsPerStrip 0 is invalid; reading it as "one strip" keeps strip loops finite.
+  page.rowsPerStrip = page.rowsPerStrip > 0 ? Math.min(page.rowsPerStrip, page.height) : page.height
   return page
 }

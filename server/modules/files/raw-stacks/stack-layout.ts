@@ -5,6 +5,9 @@ import { isDecodable, unsupportedCompression } from './strip.decompressor'
 import { sampleTypeOf } from './strip-samples.decoder'
 import { type SampleFormat, sampleFormatName } from './tiff.constants'
 
+/** 8192 × 8192: the projections alone then take about 1.5 GB. */
+const MAX_PIXELS = 2 ** 26
+
 /** What every frame of a scannable stack shares. */
 export interface FrameLayout {
   width: number
@@ -41,10 +44,12 @@ function checkScannable(page: PageDirectory, frame: number) {
     )
   }
   if (!isDecodable(page.compressionCode)) throw unsupportedCompression(page.compressionCode, frame)
-  if (page.predictor !== 1 && page.predictor !== 2) {
+  const floatWithDifferencing = page.predictor === 2 && page.sampleFormatCode === 3
+  if ((page.predictor !== 1 && page.predictor !== 2) || floatWithDifferencing) {
     throw new RawStackError(
       'unsupported',
-      `Frame ${frame} uses predictor ${page.predictor}; only 1 and 2 are supported`,
+      `Frame ${frame} uses predictor ${page.predictor}${floatWithDifferencing ? ' on float samples' : ''}; ` +
+        'scanning supports none (1) and horizontal differencing of integers (2)',
     )
   }
 }
@@ -56,6 +61,12 @@ function checkScannable(page: PageDirectory, frame: number) {
 export function frameLayoutOf(stacks: OpenStack[]): FrameLayout {
   const first = stacks[0]!
   const reference = first.directories[0]!
+  if (reference.width * reference.height > MAX_PIXELS) {
+    throw new RawStackError(
+      'unsupported',
+      `Frames of ${reference.width}×${reference.height} are larger than the ${MAX_PIXELS} pixels a scan holds in memory`,
+    )
+  }
   const format = first.header.sampleFormat
   sampleTypeOf(format, reference.bitsPerSample, true, 0)
   let frame = 0
