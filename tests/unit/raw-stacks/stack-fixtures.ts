@@ -33,3 +33,13 @@ export const MINIMUM_OME_XML = readFileSync(
   new URL('./minimum-specification.ome.xml', import.meta.url),
   'utf8',
 )
+
+/** The fixture writer's entries, sorted by tag as TIFF requires (no description, no predictor). */
+const FIXTURE_TAGS = [254, 256, 257, 258, 259, 262, 273, 277, 278, 279, 284, 339]
+
+/** File position of a tag's value field in a classic little-endian fixture IFD (2 + 12·k + 8). */
+export function classicValueField(ifdOffset: number, tag: number): number {
+  const k = FIXTURE_TAGS.indexOf(tag)
+  if (k < 0) throw new Error(`the fixture writes no tag ${tag}`)
+  return ifdOffset + 2 + 12 * k + 8
+}

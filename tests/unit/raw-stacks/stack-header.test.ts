@@ -5,7 +5,7 @@ import sharp from 'sharp'
 import { afterAll, describe, expect, it } from 'vitest'
 import { RawStackError, readStackHeader } from '@server/modules/files/raw-stacks'
 import { patchUint, writeTiffStack } from '../../fixtures/tiff-writer'
-import { MINIMUM_OME_XML, ramp, temporaryFolder } from './stack-fixtures'
+import { MINIMUM_OME_XML, classicValueField, ramp, temporaryFolder } from './stack-fixtures'
 
 const folder = temporaryFolder()
 afterAll(folder.cleanup)
@@ -194,7 +194,7 @@ describe('damaged files give clear errors', () => {
     const path = folder.file('pixels-cut.tif')
     // Point frame 2's strip offset far out; its IFD and the chain stay intact.
     const written = writeTiffStack(path, { ...ramp(8, 8, 1), width: 8, height: 8, frames: 3 })
-    const stripOffsetField = written.ifdOffsets[2]! + 2 + 6 * 12 + 8
+    const stripOffsetField = classicValueField(written.ifdOffsets[2]!, 273)
     patchUint(path, stripOffsetField, 1_000_000, 4)
     const error = await failure(path)
     expect(error).toMatchObject({ code: 'truncated' })

@@ -5,7 +5,7 @@ import sharp from 'sharp'
 import { afterAll, describe, expect, it } from 'vitest'
 import { readStackHeader, scanStack } from '@server/modules/files/raw-stacks'
 import { patchUint, writeTiffStack, type TiffStackSpec } from '../../fixtures/tiff-writer'
-import { ramp, temporaryFolder } from './stack-fixtures'
+import { classicValueField, ramp, temporaryFolder } from './stack-fixtures'
 
 const folder = temporaryFolder()
 afterAll(folder.cleanup)
@@ -46,6 +46,18 @@ describe('scanStack against stacks of known values', () => {
     },
   )
 
+  it('reads RowsPerStrip 0 (invalid) as one strip per frame', async () => {
+    const path = folder.file('rows-zero.tif')
+    const { ifdOffsets } = writeTiffStack(path, {
+      width: W,
+      height: H,
+      frames: FRAMES,
+      pixels: truth.pixels,
+    })
+    for (const ifd of ifdOffsets) patchUint(path, classicValueField(ifd, 278), 0, 4)
+    await expectRampScan([path])
+  })
+
   it('reads frames split into several strips, also at odd offsets', async () => {
     await expectRampScan([write('strips.tif', { rowsPerStrip: 2 })])
     await expectRampScan([write('rows.tif', { rowsPerStrip: 1, kind: 'bigtiff' })])
@@ -83,6 +95,20 @@ describe('scanStack against stacks of known values', () => {
         kind: 'bigtiff',
       }),
     ])
+  })
+
+  it('reads offsets past 2^31 (classic) and past 2^32 (BigTIFF) in sparse multi-GB files', async () => {
+    const classic = write('sparse-classic.tif', { frames: 3, gapBytes: 1.2e9 })
+    const big = write('sparse-big.tif', {
+      frames: 3,
+      gapBytes: 2.5e9,
+      kind: 'bigtiff',
+      littleEndian: false,
+    })
+    expect((await readStackHeader(classic)).fileBytes).toBeGreaterThan(2 ** 31 + 2 ** 30)
+    expect((await readStackHeader(big)).fileBytes).toBeGreaterThan(2 ** 32 + 2 ** 31)
+    await expectRampScan([classic], 3)
+    await expectRampScan([big], 3)
   })
 
   it('treats several files as one stack, frames in the order given', async () => {
@@ -155,19 +181,64 @@ describe('scanStack refuses what it cannot read, with a reason', () => {
 
   it('names a compression it cannot decode', async () => {
     const path = folder.file('jpeg2000.tif')
-    const compressionField = 2 + 4 * 12 + 8 // 5th entry (tag 259) of the first IFD, value field
     const { ifdOffsets } = writeTiffStack(path, {
       width: W,
       height: H,
       frames: 2,
       pixels: truth.pixels,
     })
-    patchUint(path, ifdOffsets[0]! + compressionField, 34712, 4)
+    patchUint(path, classicValueField(ifdOffsets[0]!, 259), 34712, 4)
     expect(await failure([path])).toMatchObject({
       code: 'unsupported',
       message: expect.stringContaining(
         'Frame 0 uses jpeg2000 compression, which cannot be scanned',
       ),
+    })
+  })
+
+  it('reports a middle frame whose strip lies past the end (found by the pass, not the header)', async () => {
+    const path = folder.file('middle-out.tif')
+    const { ifdOffsets, bytes } = writeTiffStack(path, {
+      width: W,
+      height: H,
+      frames: 3,
+      pixels: truth.pixels,
+    })
+    patchUint(path, classicValueField(ifdOffsets[1]!, 273), bytes + 10, 4)
+    expect(await failure([path])).toMatchObject({
+      code: 'truncated',
+      message: `Truncated file: it ends at byte ${bytes} but frame 1 points to byte ${bytes + 10 + W * H * 2} (the end of its pixel data)`,
+    })
+  })
+
+  it('refuses frames too large to project in memory, before reading pixels', async () => {
+    const path = folder.file('huge.tif')
+    const { ifdOffsets } = writeTiffStack(path, {
+      width: W,
+      height: H,
+      frames: 1,
+      pixels: truth.pixels,
+    })
+    patchUint(path, classicValueField(ifdOffsets[0]!, 256), 9000, 4)
+    patchUint(path, classicValueField(ifdOffsets[0]!, 257), 9000, 4)
+    expect(await failure([path])).toMatchObject({
+      code: 'unsupported',
+      message: expect.stringContaining('Frames of 9000×9000 are larger than'),
+    })
+  })
+
+  it('refuses horizontal differencing on float samples', async () => {
+    const withPredictor = folder.file('float-predictor-2.tif')
+    writeTiffStack(withPredictor, {
+      width: W,
+      height: H,
+      frames: 1,
+      pixels: truth.pixels,
+      predictor: true,
+      sampleType: 'float32',
+    })
+    expect(await failure([withPredictor])).toMatchObject({
+      message: expect.stringContaining('predictor 2 on float samples'),
     })
   })
 
@@ -194,7 +265,7 @@ describe('scanStack refuses what it cannot read, with a reason', () => {
       pixels: truth.pixels,
     })
     // Chain intact, strips of frame 2 point behind the new end: move them out of reach.
-    patchUint(path, ifdOffsets[2]! + 2 + 6 * 12 + 8, ifdOffsets[2]! + 4000, 4)
+    patchUint(path, classicValueField(ifdOffsets[2]!, 273), ifdOffsets[2]! + 4000, 4)
     truncateSync(path, ifdOffsets[2]! + 400)
     expect(await failure([path])).toMatchObject({
       code: 'truncated',
