@@ -3,10 +3,12 @@
  * Benchmarks are never part of `npm test`.
  */
 import { benchDatasetList } from './datasets-list.bench'
+import { benchRawStack } from './raw-stack.bench'
 
 const only = process.argv[2]
 const benches: Record<string, () => Promise<Record<string, unknown>>> = {
   'datasets-list': benchDatasetList,
+  'raw-stack': benchRawStack,
 }
 
 const results: Record<string, unknown> = {}

@@ -25,7 +25,9 @@ interface Options {
   quiet?: boolean
 }
 
-const RETRY_DELAYS = (n: number) => Array.from({ length: n }, (_, i) => Math.min(30_000, 500 * 2 ** i))
+/** Quick retries for blips and restarts, then longer waits for a real outage (capped at 30 s). */
+const BACK_OFF = [500, 1000, 1000, 2000, 2000, 3000, 5000, 5000, 10_000, 15_000]
+const RETRY_DELAYS = (n: number) => Array.from({ length: n }, (_, i) => BACK_OFF[i] ?? 30_000)
 const positiveInt = (v: string) => {
   const n = Number(v)
   if (!Number.isInteger(n) || n < 1) throw new InvalidArgumentError('Give a positive whole number.')
@@ -69,13 +71,30 @@ function uploadOne(path: string, size: number, o: Options, token: string, bars: 
         bar?.update(size)
         done(payload.lastResponse.getHeader('Stipple-File-Id') ?? '')
       },
-      onError: (err) => fail(err),
+      onError: (err) => {
+        // The server already holds exactly this file (a re-run, or a restart just after it was stored).
+        const existing = alreadyStored(err)
+        if (existing) {
+          bar?.update(size)
+          done(existing)
+        } else fail(err)
+      },
     })
     upload.findPreviousUploads().then((previous) => {
       if (previous[0]) upload.resumeFromPreviousUpload(previous[0])
       upload.start()
     }, fail)
   })
+}
+
+function alreadyStored(err: unknown): string | null {
+  const res = (err as { originalResponse?: { getBody(): string } | null }).originalResponse
+  try {
+    const problem = JSON.parse(res?.getBody() ?? '') as { type?: string; existingFileId?: number }
+    return problem.type === '/problems/duplicate-file' && problem.existingFileId ? String(problem.existingFileId) : null
+  } catch {
+    return null
+  }
 }
 
 /** The server's own words from a failed request (problem+json detail), or the error message. */

@@ -8,7 +8,7 @@ import type { LocalStorage } from '../../storage/local-storage'
 import { audit } from '../audit/audit.service'
 import { Dataset } from '../datasets/dataset.entity'
 import { UploadReservation } from '../uploads/upload-reservation.entity'
-import { refuse } from '../uploads/upload-errors'
+import { DUPLICATE_FILE_PROBLEM, refuse } from '../uploads/upload-errors'
 import { DatasetFile, type IDatasetFile } from './dataset-file.entity'
 import { detectFileKind } from './file-kind'
 import { firstJobFor } from './file-processing'
@@ -48,14 +48,20 @@ export async function registerUpload(em: EntityManager, storage: LocalStorage, f
   const existing = await em.findOne(DatasetFile, { storageKey: key })
   if (existing) return existing
 
-  const fail = async (status: number, title: string, detail: string) => {
+  const fail = async (status: number, title: string, detail: string, extra = {}) => {
     await rm(tusPath, { force: true })
     await em.nativeDelete(UploadReservation, { uploadId: f.upload.id })
-    return refuse(status, title, detail)
+    return refuse(status, title, detail, extra)
   }
   if (f.size === 0) throw await fail(400, 'Empty file', 'The file is empty (0 bytes); nothing was stored.')
   const twin = await em.findOne(DatasetFile, { dataset: datasetId, sha256: f.sha256 })
-  if (twin) throw await fail(400, 'Duplicate file', `This file is identical (same SHA-256) to "${twin.name}", already in the dataset; it was not stored twice.`)
+  if (twin) {
+    throw await fail(400, 'Duplicate file', `This file is identical (same SHA-256) to "${twin.name}", already in the dataset; it was not stored twice.`, {
+      type: DUPLICATE_FILE_PROBLEM,
+      existingFileId: twin.id,
+      sha256: twin.sha256,
+    })
+  }
 
   const original = storage.originalPath(key)
   if (!f.alreadyMoved) {

@@ -25,7 +25,11 @@ interface ByteSource {
   close(): Promise<void>
 }
 
-export async function* readRecordChunks(path: string, format: TableFormat, chunkBytes: number) {
+export async function* readRecordChunks(
+  path: string,
+  format: TableFormat,
+  chunkBytes: number,
+): AsyncGenerator<TableChunk> {
   const source =
     format.compression === 'gzip'
       ? await gzipSource(path, format.dataOffset)
@@ -69,7 +73,10 @@ async function fillFrom(source: ByteSource, buffer: Uint8Array, from: number): P
   return filled
 }
 
-function withFinalLineFeed(buffer: Uint8Array, filled: number): Uint8Array {
+function withFinalLineFeed(
+  buffer: Uint8Array<ArrayBuffer>,
+  filled: number,
+): Uint8Array<ArrayBuffer> {
   if (buffer[filled - 1] === LF) return buffer.subarray(0, filled)
   const bytes = new Uint8Array(filled + 1)
   bytes.set(buffer.subarray(0, filled))

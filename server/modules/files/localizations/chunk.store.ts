@@ -7,15 +7,10 @@ import { ChunkParser } from './chunk.parser'
 import type { ParsePlan } from './parse-plan'
 import type { RejectionTallies } from './rejections'
 import type { StoredArray } from './slot.columns'
-import { tileKey, type TileGrid } from './tile.grid'
+import type { TileGrid } from './tile.grid'
+import { scatter, statsOf, type ColumnStats } from './typed.loops'
 
-export interface ColumnStats {
-  /** Values that are numbers (not NaN). */
-  count: number
-  missing: number
-  min: number
-  max: number
-}
+export type { ColumnStats }
 
 export interface ChunkSummary {
   seq: number
@@ -30,7 +25,7 @@ export interface GroupedChunk {
   seq: number
   columns: StoredArray[]
   /** Rows of tile k are [tileStarts[k], tileStarts[k + 1]). */
-  tileStarts: Uint32Array
+  tileStarts: Uint32Array<ArrayBuffer>
 }
 
 export interface GroupResult {
@@ -76,28 +71,17 @@ export class ChunkStore {
   }
 }
 
-function statsOf(values: StoredArray): ColumnStats {
-  let min = Infinity
-  let max = -Infinity
-  let missing = 0
-  for (let i = 0; i < values.length; i++) {
-    const v = values[i]!
-    if (v !== v) missing++
-    else {
-      if (v < min) min = v
-      if (v > max) max = v
-    }
-  }
-  return { count: values.length - missing, missing, min, max }
-}
-
 function tileKeys(grid: TileGrid, x: Float32Array, y: Float32Array, bounds: Float64Array) {
   const keys = new Uint16Array(x.length)
   const tileStarts = new Uint32Array(grid.columns * grid.rows + 1)
+  const { originX, originY, tileSizeNm, columns, rows } = grid
   for (let i = 0; i < x.length; i++) {
     const xi = x[i]!
     const yi = y[i]!
-    const k = tileKey(grid, xi, yi)
+    // Same arithmetic as tileColumn/tileRow in tile.grid.ts, with the grid in locals.
+    const c = Math.min(columns - 1, Math.max(0, Math.floor((xi - originX) / tileSizeNm)))
+    const r = Math.min(rows - 1, Math.max(0, Math.floor((yi - originY) / tileSizeNm)))
+    const k = r * columns + c
     keys[i] = k
     tileStarts[k + 1]!++
     const b = k * 4
@@ -108,18 +92,4 @@ function tileKeys(grid: TileGrid, x: Float32Array, y: Float32Array, bounds: Floa
   }
   for (let k = 1; k < tileStarts.length; k++) tileStarts[k]! += tileStarts[k - 1]!
   return { keys, tileStarts }
-}
-
-function scatter(values: StoredArray, keys: Uint16Array, tileStarts: Uint32Array): StoredArray {
-  const grouped = emptyLike(values)
-  const cursor = tileStarts.slice(0, -1)
-  for (let i = 0; i < values.length; i++) grouped[cursor[keys[i]!]!++] = values[i]!
-  return grouped
-}
-
-function emptyLike(values: StoredArray): StoredArray {
-  if (values instanceof Float32Array) return new Float32Array(values.length)
-  if (values instanceof Float64Array) return new Float64Array(values.length)
-  if (values instanceof Uint32Array) return new Uint32Array(values.length)
-  return new Uint16Array(values.length)
 }

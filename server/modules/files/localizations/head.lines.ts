@@ -56,8 +56,9 @@ function lineFeedOutsideQuotes(bytes: Uint8Array, start: number): number {
 }
 
 function countQuotes(bytes: Uint8Array, from: number, to: number): number {
+  const line = bytes.subarray(from, to)
   let n = 0
-  for (let q = bytes.indexOf(QUOTE, from); q >= 0 && q < to; q = bytes.indexOf(QUOTE, q + 1)) n++
+  for (let q = line.indexOf(QUOTE); q >= 0; q = line.indexOf(QUOTE, q + 1)) n++
   return n
 }
 

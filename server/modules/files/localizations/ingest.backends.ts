@@ -4,6 +4,7 @@
  * every kept chunk by tile.
  */
 import { createRequire } from 'node:module'
+import { pathToFileURL } from 'node:url'
 import { Worker } from 'node:worker_threads'
 import { ChunkStore, type ChunkSummary, type GroupResult } from './chunk.store'
 import type { ParsePlan } from './parse-plan'
@@ -41,21 +42,25 @@ export class InlineBackend implements ParseBackend {
 }
 
 /**
- * Loads the worker module; when this process runs TypeScript through a loader that workers do
- * not inherit (a test runner), the worker registers tsx itself first.
+ * Loads the worker module. Node 20 does not pass the main thread's module hooks to workers, so a
+ * TypeScript entry registers tsx in the worker first.
  */
 const BOOTSTRAP = `
 const { workerData } = require('node:worker_threads')
-import(workerData.entry).catch((error) => {
-  if (!error || error.code !== 'ERR_UNKNOWN_FILE_EXTENSION') throw error
-  require(workerData.tsxApi).register()
-  return import(workerData.entry)
-})`
+const ready = workerData.tsxApi ? import(workerData.tsxApi).then((tsx) => tsx.register()) : Promise.resolve()
+ready.then(() => import(workerData.entry))`
 const entry = new URL(
   `./parse.worker${import.meta.url.endsWith('.ts') ? '.ts' : '.js'}`,
   import.meta.url,
 ).href
-const tsxApi = createRequire(import.meta.url).resolve('tsx/esm/api')
+/** tsx's ESM API (the package resolves its CommonJS twin for require). */
+const tsxApi = entry.endsWith('.ts')
+  ? pathToFileURL(
+      createRequire(import.meta.url)
+        .resolve('tsx/esm/api')
+        .replace(/\.cjs$/, '.mjs'),
+    ).href
+  : null
 
 interface Pending<T> {
   resolve: (value: T) => void

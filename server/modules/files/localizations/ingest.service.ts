@@ -58,7 +58,9 @@ export async function ingestLocalizationTable(options: IngestOptions): Promise<I
   try {
     const chunkBytes = options.tuning?.chunkBytes ?? chunkSizeFor(size)
     const chunks = readRecordChunks(options.sourcePath, sniff, chunkBytes)
+    console.time('parse')
     const summaries = await parseChunks(chunks, backends, (f) => progress(f * PARSE_SHARE))
+    console.timeEnd('parse')
     const totals = addUp(summaries, plan, sniff.dataStartLine)
     const bounds = boundsOf(totals.stats[slotOf(plan, 'x')], totals.stats[slotOf(plan, 'y')])
     const grid = planGrid(
@@ -66,7 +68,10 @@ export async function ingestLocalizationTable(options: IngestOptions): Promise<I
       totals.rows,
       options.tuning?.rowsPerTile,
     )
+    console.time('group')
     const grouped = await groupAll(backends, grid)
+    console.timeEnd('group')
+    console.time('write')
     progress(PARSE_SHARE + GROUP_SHARE)
     const output = outputColumns(plan, totals.stats, new Map([['stipple.layout', 'xy-tiles/1']]))
     const written = await writeTiledArrow(
@@ -77,6 +82,7 @@ export async function ingestLocalizationTable(options: IngestOptions): Promise<I
       (done, total) =>
         progress(PARSE_SHARE + GROUP_SHARE + (1 - PARSE_SHARE - GROUP_SHARE) * (done / total)),
     )
+    console.timeEnd('write')
     await writeTileIndex(
       options.outputPath,
       buildTileIndex(options.outputPath, written.schema, grid, written.tiles, bounds),

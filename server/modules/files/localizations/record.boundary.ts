@@ -18,8 +18,10 @@ export interface RecordBoundary {
   openQuote: boolean
 }
 
-/** `u` starts at the start of a record. */
-export function lastRecordEnd(u: Uint8Array, delimiter: Delimiter): RecordBoundary {
+/** `bytes` starts at the start of a record. */
+export function lastRecordEnd(bytes: Uint8Array, delimiter: Delimiter): RecordBoundary {
+  // Buffer's indexOf is a memchr; the typed-array one walks byte by byte.
+  const u = Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength)
   if (u.indexOf(QUOTE) < 0) return { end: u.lastIndexOf(LF) + 1, openQuote: false }
   const d = delimiter === 'whitespace' ? -1 : delimiter.charCodeAt(0)
   let safe = -1

@@ -56,8 +56,9 @@ export class SlotColumns {
     )
   }
 
-  /** Fresh arrays for a new chunk. */
+  /** Room for a new chunk's rows; the arrays are reused when they are large enough. */
   reset(capacity: number) {
+    if (capacity <= this.capacity) return
     this.capacity = 0
     this.resize(capacity)
   }
