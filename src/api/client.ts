@@ -29,6 +29,10 @@ export type Query = Record<string, QueryValue>
 interface RequestOptions {
   query?: Query
   body?: unknown
+  /** A body sent as it is (an XML document, say) instead of as JSON. */
+  text?: { content: string; type: string }
+  /** Read the answer as text rather than JSON. */
+  asText?: boolean
 }
 
 function urlFor(path: string, query?: Query): string {
@@ -59,15 +63,24 @@ export async function request<T>(
   path: string,
   opts: RequestOptions = {},
 ): Promise<T> {
-  const headers: Record<string, string> = { accept: 'application/json' }
-  if (opts.body !== undefined) headers['content-type'] = 'application/json'
+  const headers: Record<string, string> = {
+    accept: opts.asText ? 'text/plain, application/problem+json' : 'application/json',
+  }
+  let body: string | undefined
+  if (opts.text) {
+    headers['content-type'] = opts.text.type
+    body = opts.text.content
+  } else if (opts.body !== undefined) {
+    headers['content-type'] = 'application/json'
+    body = JSON.stringify(opts.body)
+  }
   let res: Response
   try {
     res = await fetch(urlFor(path, opts.query), {
       method,
       headers,
       credentials: 'same-origin',
-      body: opts.body === undefined ? undefined : JSON.stringify(opts.body),
+      body,
     })
   } catch {
     throw new ApiError({
@@ -78,7 +91,7 @@ export async function request<T>(
   }
   if (!res.ok) throw await errorFrom(res)
   if (res.status === 204) return undefined as T
-  return (await res.json()) as T
+  return (opts.asText ? await res.text() : await res.json()) as T
 }
 
 export const api = {
@@ -87,6 +100,9 @@ export const api = {
   patch: <T>(path: string, body: unknown) => request<T>('PATCH', path, { body }),
   put: <T>(path: string, body: unknown) => request<T>('PUT', path, { body }),
   delete: (path: string) => request<void>('DELETE', path),
+  getText: (path: string) => request<string>('GET', path, { asText: true }),
+  postText: <T>(path: string, content: string, type: string) =>
+    request<T>('POST', path, { text: { content, type } }),
 }
 
 /** The words to show for any error a page caught. */

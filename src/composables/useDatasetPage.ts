@@ -1,5 +1,6 @@
 import { computed, ref, toValue, watch, type MaybeRefOrGetter } from 'vue'
 import { useRouter } from 'vue-router'
+import { ApiError } from '@/api/client'
 import { projectSubject } from '@shared/permissions/abilities'
 import type { ReviewDecision } from '@shared/schemas/dataset.schema'
 import type { DatasetPermissions } from '@/components/DatasetActionBar.vue'
@@ -59,6 +60,20 @@ export function useDatasetPage(idOrAccession: MaybeRefOrGetter<string>) {
     dialogs.review.value = true
   }
 
+  /** Required fields the server named when it refused to submit (409), until dismissed. */
+  const submitGaps = ref<string[]>([])
+  async function submit() {
+    submitGaps.value = []
+    try {
+      await store.submit()
+    } catch (e) {
+      if (!(e instanceof ApiError) || e.status !== 409) throw e
+      const missing = Object.keys(e.fieldErrors)
+      if (!missing.length) throw e
+      submitGaps.value = missing
+    }
+  }
+
   async function remove() {
     const projectId = dataset.value?.project.id
     await store.remove()
@@ -75,6 +90,8 @@ export function useDatasetPage(idOrAccession: MaybeRefOrGetter<string>) {
     dialogs,
     decision,
     openReview,
+    submit,
+    submitGaps,
     remove,
     reload: () => store.open(toValue(idOrAccession)),
   }

@@ -20,6 +20,8 @@ export default createVuetify({
     VTextarea: { variant: 'outlined', density: 'comfortable' },
     VSelect: { variant: 'outlined', density: 'comfortable' },
     VAutocomplete: { variant: 'outlined', density: 'comfortable' },
+    VCombobox: { variant: 'outlined', density: 'comfortable' },
+    VFileInput: { variant: 'outlined', density: 'comfortable' },
     VCard: { rounded: 'lg' },
     VBtn: { rounded: 'md' },
   },

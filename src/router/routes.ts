@@ -36,6 +36,13 @@ export const routes: RouteRecordRaw[] = [
     meta: { requiresAuth: true, title: 'Edit dataset' },
   },
   {
+    path: '/datasets/:idOrAccession/describe',
+    name: 'dataset-describe',
+    component: () => import('@/views/DatasetMetadataView.vue'),
+    props: true,
+    meta: { title: 'Describe dataset' },
+  },
+  {
     path: '/projects',
     name: 'projects',
     component: () => import('@/views/ProjectsView.vue'),

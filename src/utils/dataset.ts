@@ -28,3 +28,10 @@ export function phaseOf(dto: Pick<DatasetDto, 'state' | 'embargoUntil'>): Access
 /** The subject of a not-yet-existing draft, to ask whether one may be created in a project. */
 export const newDraftIn = (projectId: number): DatasetSubject =>
   datasetSubject({ id: 0, project: projectId, state: 'draft', embargoUntil: null })
+
+/** The describe page of a dataset, opened at one field when `field` (a dotted path) is given. */
+export const describeRoute = (accession: string, field?: string) => ({
+  name: 'dataset-describe',
+  params: { idOrAccession: accession },
+  ...(field ? { query: { field } } : {}),
+})

@@ -1,3 +1,4 @@
+import { computeCompleteness } from '@shared/metadata/completeness'
 import type { DatasetDto } from '@shared/schemas/dataset.schema'
 import type { ProjectDto } from '@shared/schemas/project.schema'
 import type { MeDto } from '@shared/schemas/user.schema'
@@ -68,6 +69,14 @@ export function answerFor(url: string, me: MeDto, shown: DatasetDto): unknown {
     '/api/datasets': { items: [dataset], total: 1 },
     '/api/datasets/STPL-000001': shown,
     '/api/datasets/1/shares': { items: [] },
+    '/api/datasets/1/metadata': {
+      metadata: { instrument: { objective: { lensNA: 1.49, immersion: 'Oil' } } },
+      completeness: computeCompleteness(
+        { instrument: { objective: { lensNA: 1.49, immersion: 'Oil' } } },
+        shown,
+      ),
+    },
+    '/api/projects/7/suggestions': { 'biosample.structure': ['nuclear pore complex'] },
     '/api/me/tokens': {
       items: [
         {

@@ -10,6 +10,8 @@ import vuetify from '@/plugins/vuetify'
 import { requireSignIn } from '@/router/guards'
 import { routes } from '@/router/routes'
 import { answerFor, dataset, signedIn } from './fixtures'
+// The largest page, loaded with the file so that compiling it is not counted as drawing it.
+import '@/views/DatasetMetadataView.vue'
 
 let me: MeDto = signedIn
 let shown: DatasetDto = dataset
@@ -54,7 +56,20 @@ describe('every page draws from the API', () => {
     ['/datasets', ['Datasets', 'Search datasets', 'Nuclear pores imaged by dSTORM', 'Submitted']],
     [
       '/datasets/STPL-000001',
-      ['STPL-000001', 'Overview', 'Access and sharing', 'Approve', 'Request changes'],
+      [
+        'STPL-000001',
+        'Overview',
+        'Access and sharing',
+        'Approve',
+        'Request changes',
+        'Description of the experiment',
+        'required missing',
+        'Methods text',
+      ],
+    ],
+    [
+      '/datasets/STPL-000001/describe',
+      ['Describe STPL-000001', 'You can read this description', 'Instrument', '% complete'],
     ],
     ['/datasets/STPL-000001/edit', ['This dataset cannot be edited now']],
     ['/datasets/new?projectId=7', ['New dataset', 'Title', 'Description', 'Create dataset']],
@@ -119,7 +134,7 @@ describe('every page draws from the API', () => {
       .find('[role="toolbar"]')
       .findAll('a, button')
       .map((b) => b.text())
-    expect(buttons).toEqual(['Edit', 'Submit for curation', 'Delete'])
+    expect(buttons).toEqual(['Edit', 'Describe', 'Submit for curation', 'Delete'])
     wrapper.unmount()
   })
 

@@ -1,0 +1,86 @@
+/**
+ * In a real browser against the real server with the demo data: a depositor opens the describe
+ * page of their draft, fills objective fields, sees the completeness rise and the draft saved,
+ * and finds the values again after reloading the page.
+ */
+import { mkdtempSync, rmSync } from 'node:fs'
+import { tmpdir } from 'node:os'
+import { join } from 'node:path'
+import type { BrowserContext, Page } from 'playwright-core'
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { loadConfig } from '@server/config'
+import { CLIENT_DIR } from '@server/paths'
+import { startStipple, type RunningStipple } from '@server/start'
+import { launchBrowser } from './browser'
+import { MetadataFormPage } from './pages/metadata-form.page'
+import { SignInPage } from './pages/sign-in.page'
+
+let stipple: RunningStipple
+let browser: BrowserContext
+let page: Page
+let dataDir: string
+const consoleErrors: string[] = []
+
+beforeAll(async () => {
+  dataDir = mkdtempSync(join(tmpdir(), 'stipple-e2e-'))
+  const config = loadConfig({
+    NODE_ENV: 'test',
+    DATA_DIR: dataDir,
+    PORT: '0',
+    HOST: '127.0.0.1',
+    LOG_LEVEL: 'error',
+  })
+  stipple = await startStipple(config, { clientDir: CLIENT_DIR })
+  browser = await launchBrowser()
+  page = await browser.newPage()
+  page.on('console', (m) => {
+    if (m.type() === 'error') consoleErrors.push(m.text())
+  })
+  page.on('pageerror', (e) => consoleErrors.push(e.message))
+})
+
+afterAll(async () => {
+  await browser?.close()
+  await stipple?.stop()
+  rmSync(dataDir, { recursive: true, force: true })
+})
+
+describe('a depositor describing a draft in the browser', () => {
+  it('fills objective fields, sees completeness rise, and finds them saved after a reload', async () => {
+    await page.goto(stipple.url)
+    await new SignInPage(page).signIn('kasimir.feld@harrowgate.example', 'demo-depositor-pass')
+    await page.waitForURL(`${stipple.url}/`)
+
+    const found = await page.evaluate(() =>
+      fetch('/api/datasets?q=new%20EMCCD%20gain%20settings').then((r) => r.json()),
+    )
+    const draft = found.items.find(
+      (d: { title: string }) => d.title === 'Test acquisition with new EMCCD gain settings',
+    )
+    expect(draft?.state).toBe('draft')
+    await page.goto(`${stipple.url}/datasets/${draft.accession}`)
+    await page.getByRole('toolbar').getByRole('link', { name: 'Describe' }).click()
+    await page.waitForURL(/\/describe$/)
+
+    const form = new MetadataFormPage(page)
+    await expect.poll(() => form.score()).toBeGreaterThan(0)
+    const before = await form.score()
+    await form.openSection('Instrument')
+    await form.fill('Numerical aperture (NA)', '1.49')
+    await form.fill('Nominal magnification', '100')
+    await form.choose('Immersion', 'Oil')
+    await expect.poll(() => form.score()).toBeGreaterThan(before)
+    const after = await form.score()
+    await expect.poll(() => form.saveStatus(), { timeout: 10_000 }).toMatch(/^Saved/)
+
+    await page.reload()
+    await expect.poll(() => form.score()).toBe(after)
+    await form.openSection('Instrument')
+    expect(await form.field('Numerical aperture (NA)').inputValue()).toBe('1.49')
+    expect(await form.field('Nominal magnification').inputValue()).toBe('100')
+    expect(
+      await page.locator('.v-select', { has: page.getByLabel('Immersion') }).textContent(),
+    ).toContain('Oil')
+    expect(consoleErrors).toEqual([])
+  })
+})

@@ -1,0 +1,158 @@
+import { describe, expect, it } from 'vitest'
+import { mount } from '@vue/test-utils'
+import { createVuetify } from 'vuetify'
+import CameraCountsPanel from '@/components/metadata/CameraCountsPanel.vue'
+import ExpectedPrecisionPanel from '@/components/metadata/ExpectedPrecisionPanel.vue'
+import { derivedNotes } from '@/utils/derivedNotes'
+import { cameraReadout, expectedPrecision } from '@/utils/derivedOptics'
+
+const global = { plugins: [createVuetify()] }
+
+describe('diffraction limits beside NA and emission wavelength', () => {
+  it('shows Abbe and Rayleigh for 670 nm at NA 1.49', () => {
+    // DOMAIN.md 1.2 check values: Abbe λ/(2 NA) = 224.8 nm, Rayleigh 0.61 λ/NA = 274.3 nm.
+    const notes = derivedNotes({
+      instrument: { objective: { lensNA: 1.49 } },
+      acquisition: { emissionWavelengthNm: 670 },
+    })
+    expect(notes['instrument.objective.lensNA']).toEqual([
+      'Abbe limit λ/(2·NA) = 224.8 nm',
+      'Rayleigh limit 0.61·λ/NA = 274.3 nm',
+    ])
+    expect(notes['acquisition.emissionWavelengthNm']).toEqual(notes['instrument.objective.lensNA'])
+  })
+
+  it('gives the second check pair, 520 nm at NA 1.4', () => {
+    // DOMAIN.md 1.2: 185.7 and 226.6 nm.
+    const notes = derivedNotes({
+      instrument: { objective: { lensNA: 1.4 } },
+      acquisition: { emissionWavelengthNm: 520 },
+    })
+    expect(notes['instrument.objective.lensNA']).toEqual([
+      'Abbe limit λ/(2·NA) = 185.7 nm',
+      'Rayleigh limit 0.61·λ/NA = 226.6 nm',
+    ])
+  })
+
+  it('says what is still needed, and nothing while a value is being typed', () => {
+    const notes = derivedNotes({ instrument: { objective: { lensNA: 1.49 } } })
+    expect(notes['instrument.objective.lensNA']?.[0]).toMatch(/once the emission wavelength/)
+    expect(derivedNotes({ instrument: { objective: { lensNA: '1.' } } })).toEqual({})
+  })
+
+  it('projects the camera pixel onto the sample', () => {
+    // DOMAIN.md 1.3: 16 µm / 100× = 160 nm.
+    const notes = derivedNotes({
+      instrument: {
+        objective: { nominalMagnification: 100 },
+        detector: { physicalPixelSizeUm: 16 },
+      },
+    })
+    expect(notes['instrument.detector.pixelSizeNm']).toEqual([
+      '16 µm ÷ 100× = 160.0 nm at the sample',
+    ])
+  })
+})
+
+// 0.21·700/1.47 = 100 nm exactly, so the PSF is the s = 100 nm of DOMAIN.md's precision table.
+const optics = { emissionNm: 700, na: 1.47, pixelNm: 100 }
+
+describe('expected precision', () => {
+  it('matches the DOMAIN.md table for s = a = 100 nm, N = 1000, b² = 10', () => {
+    // DOMAIN.md 1.1 [S]: Thompson 3.653, Mortensen LSQ 4.713, MLE 4.093 nm; EMCCD 6.665 / 5.788.
+    const sCmos = expectedPrecision({
+      ...optics,
+      detectorType: 'CMOS',
+      photons: 1000,
+      background: 10,
+    })
+    expect(sCmos?.psfSigmaNm).toBeCloseTo(100, 9)
+    expect(sCmos?.thompsonNm).toBeCloseTo(3.653, 2)
+    expect(sCmos?.lsqNm).toBeCloseTo(4.713, 2)
+    expect(sCmos?.mleNm).toBeCloseTo(4.093, 2)
+    const emccd = expectedPrecision({
+      ...optics,
+      detectorType: 'EMCCD',
+      photons: 1000,
+      background: 10,
+    })
+    expect(emccd?.excessNoise).toBe(2)
+    expect(emccd?.lsqNm).toBeCloseTo(6.665, 2)
+    expect(emccd?.mleNm).toBeCloseTo(5.788, 2)
+  })
+
+  it('shows the three values in the panel, defaulting to N = 1000 and b² = 10', () => {
+    const wrapper = mount(ExpectedPrecisionPanel, {
+      global,
+      props: { ...optics, detectorType: 'EMCCD' },
+    })
+    const text = wrapper.text()
+    expect(text).toContain('PSF σ ≈ 0.21·λ/NA = 100.0 nm')
+    expect(text).toContain('excess noise F = 2 (EMCCD)')
+    expect(text).toMatch(/Thompson 2002\s*3\.7 nm/)
+    expect(text).toMatch(/least squares\s*6\.7 nm/)
+    expect(text).toMatch(/maximum likelihood\s*5\.8 nm/)
+  })
+
+  it('follows an edited background: none gives the pixelated shot-noise bound', async () => {
+    // DOMAIN.md 1.1: s = a = 100, N = 1000, b² = 0 → Thompson = MLE = 3.291 nm, LSQ 4.389 nm.
+    const wrapper = mount(ExpectedPrecisionPanel, {
+      global,
+      props: { ...optics, detectorType: 'CMOS' },
+    })
+    const [, background] = wrapper.findAll('input')
+    await background?.setValue('0')
+    expect(wrapper.text()).toMatch(/Thompson 2002\s*3\.3 nm/)
+    expect(wrapper.text()).toMatch(/least squares\s*4\.4 nm/)
+    expect(wrapper.text()).toMatch(/maximum likelihood\s*3\.3 nm/)
+  })
+
+  it('asks for the missing optics instead of guessing', () => {
+    const wrapper = mount(ExpectedPrecisionPanel, { global, props: { ...optics, na: undefined } })
+    expect(wrapper.text()).toContain('Give the emission wavelength, the objective NA')
+  })
+})
+
+describe('camera counts to photons', () => {
+  it('converts an EMCCD reading with offset, conversion factor and EM gain', async () => {
+    // DOMAIN.md 1.3: 5100 ADU, offset 100, 10 e⁻/ADU, gain 100 → 500 e⁻; QE 0.95 → 526.3.
+    const wrapper = mount(CameraCountsPanel, {
+      global,
+      props: {
+        offset: 100,
+        conversionFactor: 10,
+        emGain: 100,
+        detectorType: 'EMCCD',
+        convention: 'at unity EM gain',
+        quantumEfficiency: 0.95,
+      },
+    })
+    await wrapper.find('input').setValue('5100')
+    expect(wrapper.find('[data-testid="camera-electrons"]').text()).toBe('500 e⁻')
+    expect(wrapper.find('[data-testid="camera-photons"]').text()).toBe('526.3 photons')
+  })
+
+  it('ignores EM gain on a CMOS camera and on a factor quoted after the gain', () => {
+    // DOMAIN.md 1.3: sCMOS 600 ADU, offset 100, 0.5 e⁻/ADU → 250 e⁻; QE 0.8 → 312.5 photons.
+    const base = {
+      adu: 600,
+      offset: 100,
+      conversionFactor: 0.5,
+      emGain: 300,
+      quantumEfficiency: 0.8,
+    }
+    expect(cameraReadout({ ...base, detectorType: 'CMOS', convention: undefined })).toEqual({
+      electrons: 250,
+      incidentPhotons: 312.5,
+    })
+    // Arithmetic: (600 − 100) × 0.5 = 250 e⁻ when the factor already includes the gain.
+    expect(
+      cameraReadout({ ...base, detectorType: 'EMCCD', convention: 'after EM gain' }),
+    ).toMatchObject({ electrons: 250 })
+    expect(
+      cameraReadout({ ...base, detectorType: 'EMCCD', emGain: undefined, convention: undefined }),
+    ).toEqual({
+      missing: ['the EM gain'],
+    })
+  })
+})
