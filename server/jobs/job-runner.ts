@@ -31,6 +31,7 @@ const WORKER_URL = new URL('./worker-bootstrap.mjs', import.meta.url)
  */
 export class JobRunner {
   private readonly running = new Map<number, Worker>()
+  private idle: Worker[] = []
   private timer: NodeJS.Timeout | null = null
   private ticking = false
   private stopped = false
@@ -54,8 +55,10 @@ export class JobRunner {
     this.stopped = true
     if (this.timer) clearInterval(this.timer)
     // Interrupted jobs stay 'running' with an old heartbeat and are picked up again after a restart.
-    await Promise.all([...this.running.values()].map((w) => w.terminate()))
+    const workers = new Set([...this.running.values(), ...this.idle])
     this.running.clear()
+    this.idle = []
+    await Promise.all([...workers].map((w) => w.terminate()))
   }
 
   get busy(): number {
@@ -85,31 +88,45 @@ export class JobRunner {
     }
   }
 
+  /** An idle worker thread, or a new one (they load the job modules once, then stay). */
+  private worker(): Worker {
+    const idle = this.idle.pop()
+    if (idle) return idle
+    // workerData must be an object: geotiff's web-worker shim reads fields of it when loaded in a thread.
+    const worker = new Worker(WORKER_URL, { workerData: { role: 'job-worker' } })
+    worker.on('message', (m: JobMessage & { id?: number }) => {
+      if (m.id === undefined) return
+      if (m.type === 'progress') {
+        void this.o.orm.em.fork().nativeUpdate(Job, { id: m.id }, { progress: m.fraction, message: m.message ?? null, heartbeatAt: new Date() })
+        return
+      }
+      this.running.delete(m.id)
+      if (!this.stopped) this.idle.push(worker)
+      void this.finish(m.id, m).then(() => this.notify())
+    })
+    worker.on('error', (err) => this.lost(worker, err.message))
+    worker.on('exit', (code) => this.lost(worker, `The worker stopped unexpectedly (exit code ${code}).`))
+    return worker
+  }
+
+  /** A worker died: its job (if any) fails with the reason, and the worker is not reused. */
+  private lost(worker: Worker, reason: string) {
+    this.idle = this.idle.filter((w) => w !== worker)
+    for (const [id, w] of this.running) {
+      if (w !== worker) continue
+      this.running.delete(id)
+      if (!this.stopped) void this.finish(id, { type: 'failed', error: reason })
+    }
+  }
+
   private launch(job: IJob): void {
     if (job.attempts > (this.o.maxAttempts ?? 3)) {
       void this.finish(job.id, { type: 'failed', error: `Interrupted ${job.attempts - 1} times; given up.` })
       return
     }
-    const worker = new Worker(WORKER_URL, { workerData: { kind: job.kind, payload: job.payload } })
+    const worker = this.worker()
     this.running.set(job.id, worker)
-    let settled = false
-    worker.on('message', (m: JobMessage) => {
-      if (m.type === 'progress') {
-        void this.o.orm.em.fork().nativeUpdate(Job, { id: job.id }, { progress: m.fraction, message: m.message ?? null, heartbeatAt: new Date() })
-        return
-      }
-      settled = true
-      void this.finish(job.id, m)
-    })
-    worker.on('error', (err) => {
-      settled = true
-      void this.finish(job.id, { type: 'failed', error: err.message })
-    })
-    worker.on('exit', (code) => {
-      this.running.delete(job.id)
-      if (!settled && !this.stopped) void this.finish(job.id, { type: 'failed', error: `The worker stopped unexpectedly (exit code ${code}).` })
-      if (!this.stopped) this.notify()
-    })
+    worker.postMessage({ id: job.id, kind: job.kind, payload: job.payload })
   }
 
   private async finish(id: number, outcome: Extract<JobMessage, { type: 'done' | 'failed' }>): Promise<void> {

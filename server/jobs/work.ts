@@ -1,7 +1,13 @@
+import { FILE_JOBS } from '../modules/files/file-processing'
+import { scanRawStackWork } from '../modules/files/raw-stack.work'
+import { ingestTableWork, inspectTableWork } from '../modules/files/table.work'
 import type { JobWork } from './job-protocol'
 
 /** The kinds of work a worker thread can do. Each module registers itself here. */
 export const JOB_WORK: Record<string, JobWork> = {
+  [FILE_JOBS.inspectTable]: inspectTableWork,
+  [FILE_JOBS.ingestTable]: ingestTableWork,
+  [FILE_JOBS.scanRawStack]: scanRawStackWork,
   /** For tests of the queue itself: waits `ms`, reporting progress, then echoes its payload. */
   'queue-probe': async (payload, progress) => {
     const ms = Number(payload.ms ?? 0)

@@ -1,11 +1,13 @@
-import { parentPort, workerData } from 'node:worker_threads'
+import { parentPort } from 'node:worker_threads'
 import type { JobMessage, JobRequest } from './job-protocol'
 import { JOB_WORK } from './work'
 
-/** Entry point of a job's worker thread: runs one job and reports progress and the outcome. */
-async function run() {
-  const { kind, payload } = workerData as JobRequest
-  const post = (m: JobMessage) => parentPort?.postMessage(m)
+/**
+ * A long-lived job worker thread: it loads the heavy modules once and then runs one job at a time
+ * as the runner sends them, reporting progress and the outcome.
+ */
+async function run({ id, kind, payload }: JobRequest & { id: number }) {
+  const post = (m: JobMessage) => parentPort?.postMessage({ id, ...m })
   const work = JOB_WORK[kind]
   if (!work) return post({ type: 'failed', error: `No job of kind "${kind}".` })
   let last = 0
@@ -23,4 +25,5 @@ async function run() {
   }
 }
 
-void run()
+parentPort?.on('message', (request: JobRequest & { id: number }) => void run(request))
+parentPort?.postMessage({ type: 'ready' })

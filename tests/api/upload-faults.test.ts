@@ -38,9 +38,9 @@ async function writeSource(path: string, size: number) {
       x ^= x << 5
       block.writeUInt32LE(x >>> 0, i)
     }
-    if (!out.write(block)) await new Promise((r) => out.once('drain', r))
+    if (!out.write(block)) await new Promise<void>((r) => out.once('drain', () => r()))
   }
-  await new Promise((r) => out.end(r))
+  await new Promise<void>((r) => out.end(() => r()))
 }
 
 beforeAll(async () => {
@@ -102,5 +102,50 @@ describe('an upload from the CLI through repeated server crashes', () => {
     const stored = items.filter((f) => f.name.startsWith('stack-0001'))
     expect(stored).toEqual([expect.objectContaining({ name: 'stack-0001.bin', size: SIZE, sha256: expected })])
     expect(output).toContain(`sha256 ${expected} (verified)`)
+  }, 240_000)
+
+  it('a table ingest killed mid-way starts again after the restart and completes', async () => {
+    const rows = 4_000_000
+    const table = join(dir, 'locs-big.csv')
+    const out = createWriteStream(table)
+    out.write('frame,x [nm],y [nm],photons\n')
+    let x = 1
+    for (let start = 0; start < rows; start += 100_000) {
+      let block = ''
+      for (let i = start; i < start + 100_000; i++) {
+        x = (x * 48271) % 2147483647
+        block += `${1 + (i % 20000)},${(x % 4_000_000) / 100},${((x >>> 7) % 4_000_000) / 100},${500 + (x % 3000)}\n`
+      }
+      if (!out.write(block)) await new Promise<void>((r) => out.once('drain', () => r()))
+    }
+    await new Promise<void>((r) => out.end(() => r()))
+    await run(process.execPath, ['server/cli/stipple-upload.mjs', '--server', server.url, '--dataset', 'STPL-000005', '--state', join(dir, 'cli-state-2.json'), '--quiet', table], { env: { ...process.env, STIPPLE_TOKEN: token } })
+
+    const files = async () => {
+      const res = await fetch(`${server.url}/api/datasets/STPL-000005/files`, { headers: { authorization: `Bearer ${token}` } })
+      return ((await res.json()) as { items: { id: number; name: string; status: string; job: { state: string; progress: number } | null }[] }).items.find((f) => f.name === 'locs-big.csv')
+    }
+    let killed = false
+    for (const end = Date.now() + 60_000; Date.now() < end; ) {
+      const f = await files()
+      if (f?.job?.state === 'running' && f.job.progress > 0.05 && f.job.progress < 0.9) {
+        await server.kill()
+        killed = true
+        break
+      }
+      if (f?.status === 'ready') break
+      await new Promise((r) => setTimeout(r, 10))
+    }
+    expect(killed, 'the ingest finished before it could be interrupted').toBe(true)
+    await server.start()
+    let settled: Awaited<ReturnType<typeof files>>
+    for (const end = Date.now() + 120_000; Date.now() < end; ) {
+      settled = await files()
+      if (settled && settled.status !== 'processing') break
+      await new Promise((r) => setTimeout(r, 200))
+    }
+    expect(settled!.status).toBe('ready')
+    const report = await fetch(`${server.url}/api/datasets/STPL-000005/files/${settled!.id}/validation`, { headers: { authorization: `Bearer ${token}` } })
+    expect(((await report.json()) as { report: { rowsAccepted: number } }).report.rowsAccepted).toBe(rows)
   }, 240_000)
 })

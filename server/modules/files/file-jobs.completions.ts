@@ -5,18 +5,11 @@ import { importOmeXml } from '../metadata/ome/ome-import'
 import { DatasetFile } from './dataset-file.entity'
 import { FILE_JOBS } from './file-processing'
 import type { RawStackReport } from './raw-stack.work'
+import { rejectOnFailure } from './file-job-failure'
 import { tableCompletions } from './table-jobs.completions'
 
 async function fileOf(em: EntityManager, job: IJob) {
   return job.file == null ? null : em.findOne(DatasetFile, { id: job.file })
-}
-
-/** A job that failed leaves the file rejected, with the reason in words. */
-export const rejectOnFailure: JobCompletion['failed'] = async (em, job, error) => {
-  const file = await fileOf(em, job)
-  if (!file) return
-  file.status = 'rejected'
-  file.problem = error
 }
 
 const scanRawStack: JobCompletion = {

@@ -42,12 +42,13 @@ function looksLikeTable(text: string): boolean {
  * What a file is, from its content rather than its name: TIFF/BigTIFF raw stacks, delimited text
  * tables (plain or gzip), XML metadata. The extension is only a tie-breaker for text.
  */
-export async function detectFileKind(path: string): Promise<{ kind: FileKind; mediaType: string }> {
+export async function detectFileKind(path: string, name = ''): Promise<{ kind: FileKind; mediaType: string }> {
   const { bytes, gzip } = await head(path)
   if (!gzip && isTiff(bytes)) return { kind: 'raw_stack', mediaType: 'image/tiff' }
   if (bytes.includes(0)) return { kind: 'other', mediaType: gzip ? 'application/gzip' : 'application/octet-stream' }
   const text = bytes.toString('utf8').replace(/^\uFEFF/, '')
   if (/^\s*<(\?xml|OME[\s>])/.test(text)) return { kind: 'metadata', mediaType: 'application/xml' }
-  if (looksLikeTable(text)) return { kind: 'localization_table', mediaType: gzip ? 'application/gzip' : text.includes('\t') ? 'text/tab-separated-values' : 'text/csv' }
+  const tableName = /\.(csv|tsv|txt|dat)(\.gz)?$/i.test(name) && /[,\t;|]/.test(text.split(/\r?\n/)[0] ?? '')
+  if (looksLikeTable(text) || tableName) return { kind: 'localization_table', mediaType: gzip ? 'application/gzip' : text.includes('\t') ? 'text/tab-separated-values' : 'text/csv' }
   return { kind: 'other', mediaType: gzip ? 'application/gzip' : 'text/plain' }
 }

@@ -68,7 +68,7 @@ export async function registerUpload(em: EntityManager, storage: LocalStorage, f
     mkdirSync(dirname(original), { recursive: true })
     await rename(tusPath, original)
   }
-  const { kind, mediaType } = await detectFileKind(original)
+  const { kind, mediaType } = await detectFileKind(original, String(f.upload.metadata?.filename ?? ''))
   const dataset = await em.findOneOrFail(Dataset, { id: datasetId })
   const file = em.create(DatasetFile, {
     dataset: datasetId,

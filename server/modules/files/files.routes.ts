@@ -2,10 +2,11 @@ import { rm } from 'node:fs/promises'
 import { Router } from 'express'
 import { datasetSubject } from '@shared/permissions/abilities'
 import { idSchema } from '@shared/schemas/common.schema'
-import { NotFoundError } from '../../errors/http-error'
+import { ConflictError, NotFoundError } from '../../errors/http-error'
 import { requireUser } from '../../http/authenticate'
 import { requestEm as em } from '../../http/request-context'
-import { parseParams } from '../../http/validate'
+import { parseBody, parseParams } from '../../http/validate'
+import { columnMappingSchema } from '@shared/schemas/localization-mapping.schema'
 import { Job } from '../../jobs/job.entity'
 import type { LocalStorage } from '../../storage/local-storage'
 import { audit } from '../audit/audit.service'
@@ -13,6 +14,8 @@ import { datasetFor, datasetParams } from '../datasets/dataset-access'
 import { UploadReservation } from '../uploads/upload-reservation.entity'
 import { DatasetFile, type IDatasetFile } from './dataset-file.entity'
 import { fileDownloadsRouter } from './file-downloads.routes'
+import { derivedPaths } from './file-processing'
+import { queueIngest } from './table-jobs.completions'
 
 const fileParams = datasetParams.extend({ fileId: idSchema })
 
@@ -44,7 +47,7 @@ function summaryOf(f: IDatasetFile): Record<string, unknown> | null {
  * A dataset's files. The list is part of the description (names, sizes, checksums); the bytes and
  * the checksum manifest need the download right, which an embargo withholds.
  */
-export function filesRouter(storage: LocalStorage): Router {
+export function filesRouter(storage: LocalStorage, jobs?: { notify(): void }): Router {
   const router = Router({ mergeParams: true })
 
   router.get('/files', async (req, res) => {
@@ -67,6 +70,21 @@ export function filesRouter(storage: LocalStorage): Router {
     const file = await em().findOne(DatasetFile, { id: fileId, dataset: dataset.id })
     if (!file) throw new NotFoundError('file', fileId)
     res.json({ id: file.id, name: file.name, kind: file.kind, status: file.status, problem: file.problem ?? null, mapping: file.mapping ?? null, report: file.report ?? null })
+  })
+
+  /** The depositor confirms or corrects the column mapping; the table is (re-)ingested with it. */
+  router.put('/files/:fileId/mapping', requireUser, async (req, res) => {
+    const { id, fileId } = parseParams(fileParams, req)
+    const dataset = await datasetFor(req, em(), id, 'edit')
+    const file = await em().findOne(DatasetFile, { id: fileId, dataset: dataset.id })
+    if (!file) throw new NotFoundError('file', fileId)
+    if (file.kind !== 'localization_table') throw new ConflictError(`"${file.name}" is not a localization table.`)
+    const mapping = parseBody(columnMappingSchema, req)
+    queueIngest(em(), file, mapping, { source: storage.originalPath(file.storageKey), output: derivedPaths(storage, file.id).columnar })
+    audit(em(), req, { action: 'file.mapping', targetType: 'Dataset', targetId: dataset.accession, details: { file: file.name } })
+    await em().flush()
+    jobs?.notify()
+    res.status(202).json(toFileDto(file, { state: 'queued', progress: 0, message: null }))
   })
 
   router.delete('/files/:fileId', requireUser, async (req, res) => {

@@ -1,0 +1,156 @@
+/**
+ * What happens after an upload: content detection, column mapping (automatic when the header
+ * leaves no doubt, by the depositor otherwise), validation and conversion of localization tables,
+ * and the streaming pass over raw stacks — all as jobs in worker threads.
+ */
+import { mkdtempSync, readFileSync, truncateSync, writeFileSync } from 'node:fs'
+import { tmpdir } from 'node:os'
+import { join } from 'node:path'
+import { tableFromIPC } from 'apache-arrow'
+import request from 'supertest'
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { JobRunner } from '@server/jobs/job-runner'
+import { createLogger } from '@server/logger'
+import { DatasetFile, type IDatasetFile } from '@server/modules/files/dataset-file.entity'
+import { fileJobCompletions } from '@server/modules/files/file-jobs.completions'
+import { derivedPaths } from '@server/modules/files/file-processing'
+import { LocalStorage } from '@server/storage/local-storage'
+import { bearer, buildDataset, buildMember, buildProject, tokenFor } from '../fixtures/builders'
+import { listen } from '../fixtures/live-server'
+import { createTestApp, type TestApp } from '../fixtures/test-app'
+import { writeTiffStack } from '../fixtures/tiff-writer'
+import { tusUpload } from '../fixtures/tus-upload'
+
+let t: TestApp
+let live: Awaited<ReturnType<typeof listen>>
+let runner: JobRunner
+let token: string
+let accession: string
+let storage: LocalStorage
+
+beforeAll(async () => {
+  t = await createTestApp()
+  live = await listen(t.app)
+  storage = new LocalStorage(t.config.dataDir)
+  runner = new JobRunner({ orm: t.orm, logger: createLogger('silent'), workers: 1, pollMs: 50, completions: fileJobCompletions() })
+  runner.start()
+  const em = t.em()
+  const member = await buildMember(em)
+  const project = await buildProject(em, [{ user: member, role: 'member' }])
+  token = await tokenFor(em, member)
+  accession = (await buildDataset(em, project.id)).accession
+})
+afterAll(async () => {
+  await runner.stop()
+  await live.close()
+  await t.close()
+})
+
+async function uploadText(name: string, text: string | Buffer) {
+  const res = await tusUpload(`${live.url}/api/uploads`, token, Buffer.from(text), { dataset: accession, filename: name })
+  if (!res.fileId) throw new Error(`upload failed: ${res.status} ${res.body}`)
+  return Number(res.fileId)
+}
+
+/** Waits until the file leaves 'processing' (jobs may chain: inspect → ingest). */
+async function settled(id: number): Promise<IDatasetFile> {
+  const end = Date.now() + 20_000
+  for (;;) {
+    const file = await t.em().findOneOrFail(DatasetFile, { id })
+    if (file.status !== 'processing') return file
+    if (Date.now() > end) throw new Error(`file ${id} still processing`)
+    await new Promise((r) => setTimeout(r, 50))
+  }
+}
+
+const validation = async (id: number) => (await request(t.app).get(`/api/datasets/${accession}/files/${id}/validation`).set(bearer(token))).body
+
+describe('localization tables', () => {
+  it('ingests a table whose header leaves no doubt, without asking', async () => {
+    const id = await uploadText('clear.csv', 'frame,x [nm],y [nm],photons\n1,100.5,200.25,1500\n2,110,210,1400\n3,120,220,1300\n')
+    const file = await settled(id)
+    expect(file).toMatchObject({ kind: 'localization_table', status: 'ready' })
+    const v = await validation(id)
+    expect(v.report).toMatchObject({ rowsRead: 3, rowsAccepted: 3, rowsRejected: 0 })
+    const table = tableFromIPC(readFileSync(derivedPaths(storage, id).columnar))
+    expect(table.numRows).toBe(3)
+    expect([...table.getChild('x')!.toArray()].sort((a, b) => a - b)).toEqual([100.5, 110, 120])
+  })
+
+  it('waits for the depositor when the header is ambiguous, then ingests with their mapping', async () => {
+    const id = await uploadText('ambiguous.csv', 'a,b,c\n10,20,1\n11,21,2\n')
+    const waiting = await settled(id)
+    expect(waiting.status).toBe('needs_mapping')
+    expect(waiting.problem).toBeTruthy()
+    const bad = await request(t.app).put(`/api/datasets/${accession}/files/${id}/mapping`).set(bearer(token)).send({ columns: [{ index: 0, role: 'x', unit: 'nm' }, { index: 1, role: 'x', unit: 'nm' }], frameBase: 1 })
+    expect(bad.status).toBe(400)
+    const res = await request(t.app)
+      .put(`/api/datasets/${accession}/files/${id}/mapping`)
+      .set(bearer(token))
+      .send({ columns: [{ index: 0, role: 'x', unit: 'nm' }, { index: 1, role: 'y', unit: 'nm' }, { index: 2, role: 'frame' }], frameBase: 1 })
+    expect(res.status).toBe(202)
+    expect((await settled(id)).status).toBe('ready')
+  })
+
+  it('converts pixel units with the pixel size: 12.5 px at 107 nm/px is 1337.5 nm', async () => {
+    const id = await uploadText('pixels.csv', 'x (px),y (px),frame\n12.5,3,1\n')
+    expect((await settled(id)).status).toBe('needs_mapping')
+    await request(t.app)
+      .put(`/api/datasets/${accession}/files/${id}/mapping`)
+      .set(bearer(token))
+      .send({ columns: [{ index: 0, role: 'x', unit: 'px' }, { index: 1, role: 'y', unit: 'px' }, { index: 2, role: 'frame' }], frameBase: 1, pixelSizeNm: 107 })
+      .expect(202)
+    expect((await settled(id)).status).toBe('ready')
+    const table = tableFromIPC(readFileSync(derivedPaths(storage, id).columnar))
+    expect(table.getChild('x')!.get(0)).toBeCloseTo(1337.5, 3)
+    expect(table.getChild('y')!.get(0)).toBeCloseTo(321, 3)
+  })
+
+  it('counts bad rows by reason with their line numbers and keeps the good ones', async () => {
+    const id = await uploadText('bad-rows.csv', 'frame,x_nm,y_nm\n1,1,1\n2,abc,2\n3,NaN,3\n4,Infinity,4\n5,5,5\n')
+    const file = await settled(id)
+    expect(file.status).toBe('ready')
+    const v = await validation(id)
+    expect(v.report.rowsAccepted).toBe(2)
+    expect(v.report.rowsRejected).toBe(3)
+    const examples = Object.values(v.report.rejected as Record<string, { examples: { line: number }[] }>).flatMap((r) => r.examples.map((e) => e.line))
+    expect(examples.sort()).toEqual([3, 4, 5])
+  })
+
+  it('explains a table with no x or y column, and an empty table', async () => {
+    const id = await uploadText('no-xy.csv', 'frame,photons\n1,100\n2,200\n')
+    const file = await settled(id)
+    expect(file.status).toBe('needs_mapping')
+    expect(file.problem).toMatch(/\bx\b|\by\b/)
+    const header = await uploadText('header-only.csv', 'frame,x [nm],y [nm]\n')
+    expect((await settled(header)).problem).toBeTruthy()
+  })
+})
+
+describe('raw stacks', () => {
+  it('reads the header, traces the frame means and renders a projection thumbnail', async () => {
+    const dir = mkdtempSync(join(tmpdir(), 'stack-'))
+    const path = join(dir, 'stack.tif')
+    // Known ground truth: frame f has every pixel at 100 + f, so its mean is 100 + f.
+    writeTiffStack(path, { width: 32, height: 24, frames: 12, pixels: (f) => new Array(32 * 24).fill(100 + f), description: readFileSync(join(process.cwd(), '../shared/standards/ome-2016-06/minimum-specification.ome.xml'), 'utf8') })
+    const id = await uploadText('stack.tif', readFileSync(path))
+    const file = await settled(id)
+    expect(file).toMatchObject({ kind: 'raw_stack', status: 'ready' })
+    expect(file.report).toMatchObject({ width: 32, height: 24, frames: 12, bitsPerSample: 16, hasOmeXml: true })
+    const trace = JSON.parse(readFileSync(derivedPaths(storage, id).trace, 'utf8')) as number[]
+    expect(trace).toEqual(Array.from({ length: 12 }, (_, f) => 100 + f))
+    expect(readFileSync(derivedPaths(storage, id).thumbnail).subarray(1, 4).toString()).toBe('PNG')
+    expect((file.report as { omePrefill: { metadata: unknown } }).omePrefill.metadata).toEqual({ acquisition: { frames: 2 } })
+  })
+
+  it('rejects a truncated stack with the reason in words', async () => {
+    const dir = mkdtempSync(join(tmpdir(), 'stack-'))
+    const path = join(dir, 'cut.tif')
+    const written = writeTiffStack(path, { width: 64, height: 64, frames: 6, pixels: () => new Array(64 * 64).fill(7) })
+    truncateSync(path, Math.floor(written.bytes * 0.6))
+    const file = await settled(await uploadText('cut.tif', readFileSync(path)))
+    expect(file.status).toBe('rejected')
+    expect(file.problem).toMatch(/ends at byte|truncated/i)
+    writeFileSync(join(dir, 'unused'), '')
+  })
+})
