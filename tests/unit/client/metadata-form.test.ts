@@ -91,7 +91,7 @@ describe('the form generated from the schema', () => {
     expect(pixel.find('.v-text-field__suffix').text()).toBe('nm')
     expect(pixel.find('input').attributes('inputmode')).toBe('decimal')
     expect(field(wrapper, 'Numerical aperture (NA)').find('label').text()).toBe(
-      'Numerical aperture (NA)required',
+      'Numerical aperture (NA) required',
     )
     expect(field(wrapper, 'Microscope stand').find('.tier-mark').text()).toBe('recommended')
     expect(field(wrapper, 'Correction').find('.tier-mark').exists()).toBe(false)
