@@ -4,11 +4,13 @@
  */
 import { benchDatasetList } from './datasets-list.bench'
 import { benchRawStack } from './raw-stack.bench'
+import { benchUpload } from './upload.bench'
 
 const only = process.argv[2]
 const benches: Record<string, () => Promise<Record<string, unknown>>> = {
   'datasets-list': benchDatasetList,
   'raw-stack': benchRawStack,
+  upload: benchUpload,
 }
 
 const results: Record<string, unknown> = {}

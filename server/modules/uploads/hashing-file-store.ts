@@ -1,6 +1,6 @@
 import { createHash, type Hash } from 'node:crypto'
 import { createReadStream, createWriteStream } from 'node:fs'
-import { stat } from 'node:fs/promises'
+import { open, stat } from 'node:fs/promises'
 import type http from 'node:http'
 import { Transform, type Readable } from 'node:stream'
 import { pipeline } from 'node:stream/promises'
@@ -62,8 +62,17 @@ export class HashingFileStore extends FileStore {
     return state.offset
   }
 
-  /** The SHA-256 (hex) and size of a finished upload; hashes the file if the running state is gone. */
+  /**
+   * The SHA-256 (hex) and size of a finished upload; hashes the file if the running state is gone.
+   * The bytes are flushed to the disk first, so a registered file survives a power cut too.
+   */
   async finish(id: string): Promise<{ sha256: string; size: number }> {
+    const handle = await open(this.resolvePath(id), 'r+')
+    try {
+      await handle.datasync()
+    } finally {
+      await handle.close()
+    }
     const { size } = await stat(this.resolvePath(id))
     const state = await this.stateAt(id, size)
     this.states.delete(id)

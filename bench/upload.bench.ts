@@ -1,0 +1,95 @@
+/**
+ * A tus upload of a 2 GB file over loopback (server and client in their own processes, the SHA-256
+ * computed in the same pass, the file flushed to disk at the end) against `dd … conv=fdatasync`
+ * writing a new file of the same size to the same disk, in the same run. Target: ≥ 80 % of dd.
+ */
+import { execFile, spawn } from 'node:child_process'
+import { createHash } from 'node:crypto'
+import { createReadStream, createWriteStream, mkdtempSync, rmSync } from 'node:fs'
+import { tmpdir } from 'node:os'
+import { join } from 'node:path'
+import { promisify } from 'node:util'
+import { freePort, ServerProcess } from '../tests/fixtures/server-process'
+
+const run = promisify(execFile)
+const SIZE_MB = Number(process.env.BENCH_UPLOAD_MB ?? 2048)
+const BYTES = SIZE_MB * 1024 * 1024
+
+async function makeSource(path: string) {
+  const block = Buffer.alloc(16 << 20)
+  for (let i = 0; i < block.length; i += 4) block.writeUInt32LE((i * 2654435761) >>> 0, i)
+  const out = createWriteStream(path)
+  for (let written = 0; written < BYTES; written += block.length) {
+    block.writeUInt32LE(written >>> 0, 0)
+    if (!out.write(Buffer.from(block))) await new Promise<void>((r) => out.once('drain', () => r()))
+  }
+  await new Promise<void>((r) => out.end(() => r()))
+}
+
+async function sha256(path: string) {
+  const hash = createHash('sha256')
+  for await (const chunk of createReadStream(path, { highWaterMark: 8 << 20 }) as AsyncIterable<Buffer>) hash.update(chunk)
+  return hash.digest('hex')
+}
+
+async function ddSeconds(dir: string): Promise<number> {
+  const started = performance.now()
+  await run('dd', ['if=/dev/zero', `of=${join(dir, 'dd.bin')}`, 'bs=16M', `count=${SIZE_MB / 16}`, 'conv=fdatasync'])
+  const seconds = (performance.now() - started) / 1000
+  rmSync(join(dir, 'dd.bin'))
+  return seconds
+}
+
+/** tus-js-client in a child process, timing from the first request to the server's last answer. */
+async function uploadSeconds(url: string, token: string, source: string): Promise<number> {
+  const script = `
+    import { createReadStream } from 'node:fs'
+    import { Upload } from 'tus-js-client'
+    const started = performance.now()
+    new Upload(createReadStream(${JSON.stringify(source)}), {
+      endpoint: ${JSON.stringify(`${url}/api/uploads`)}, headers: { Authorization: 'Bearer ${token}' },
+      metadata: { dataset: 'STPL-000005', filename: 'bench-${Date.now()}.bin' }, uploadSize: ${BYTES}, chunkSize: 256 * 1024 * 1024,
+      onSuccess: () => { console.log('SECONDS', (performance.now() - started) / 1000) },
+      onError: (e) => { console.error(String(e)); process.exit(1) },
+    }).start()`
+  const child = spawn(process.execPath, ['--input-type=module', '-e', script], { stdio: ['ignore', 'pipe', 'inherit'] })
+  let out = ''
+  child.stdout.on('data', (d: Buffer) => (out += d.toString()))
+  await new Promise((r) => child.once('exit', r))
+  const m = /SECONDS (\S+)/.exec(out)
+  if (!m) throw new Error(`upload failed: ${out}`)
+  return Number(m[1])
+}
+
+export async function benchUpload(): Promise<Record<string, unknown>> {
+  const dir = mkdtempSync(join(tmpdir(), 'stipple-bench-upload-'))
+  const server = new ServerProcess(await freePort(), { DATA_DIR: join(dir, 'data'), DEMO: 'true' })
+  try {
+    const source = join(dir, 'source.bin')
+    await makeSource(source)
+    await server.start()
+    const { stdout } = await run(process.execPath, ['--import', 'tsx', 'server/cli/admin.ts', 'token', 'create', 'kasimir.feld@harrowgate.example'], { env: { ...process.env, DATA_DIR: join(dir, 'data') } })
+    const token = stdout.trim().split('\n').at(-1)!
+    const dd = await ddSeconds(dir)
+    const upload = await uploadSeconds(server.url, token, source)
+    const dd2 = await ddSeconds(dir)
+    const res = await fetch(`${server.url}/api/datasets/STPL-000005/files`, { headers: { authorization: `Bearer ${token}` } })
+    const stored = ((await res.json()) as { items: { size: number; sha256: string }[] }).items.find((f) => f.size === BYTES)
+    const expected = await sha256(source)
+    const ddMBps = BYTES / 1e6 / ((dd + dd2) / 2)
+    const uploadMBps = BYTES / 1e6 / upload
+    return {
+      megabytes: Math.round(BYTES / 1e6),
+      ddSeconds: `${dd.toFixed(2)} / ${dd2.toFixed(2)} (before / after)`,
+      ddMBps: Math.round(ddMBps),
+      uploadSeconds: upload.toFixed(2),
+      uploadMBps: Math.round(uploadMBps),
+      ratio: Number((uploadMBps / ddMBps).toFixed(2)),
+      target: '≥ 0.80',
+      sha256Matches: stored?.sha256 === expected,
+    }
+  } finally {
+    await server.stop()
+    rmSync(dir, { recursive: true, force: true })
+  }
+}
