@@ -76,6 +76,17 @@ function walkObject(node: SchemaNode, value: unknown, path: string, t: Tally, pr
   }
 }
 
+/**
+ * Tiers some answers raise: a human-derived sample makes the ethics reference required, an EMCCD
+ * makes the EM gain recommended. Keyed by field path; the form shows the same marks.
+ */
+export function promotedTiers(metadata: DatasetMetadata): Record<string, Tier> {
+  const raised: Record<string, Tier> = {}
+  if (isHumanDerived(metadata.biosample)) raised['biosample.ethicsReference'] = 'required'
+  if (metadata.instrument?.detector?.type === 'EMCCD') raised['instrument.detector.emGain'] = 'recommended'
+  return raised
+}
+
 let rootSchema: SchemaNode | null = null
 
 /**
@@ -85,10 +96,8 @@ let rootSchema: SchemaNode | null = null
  */
 export function computeCompleteness(metadata: DatasetMetadata, core: DatasetCore = {}): Completeness {
   rootSchema ??= metadataJsonSchema() as SchemaNode
-  const human = isHumanDerived(metadata.biosample)
-  const emccd = metadata.instrument?.detector?.type === 'EMCCD'
-  const promote = (p: string): Tier | null =>
-    p === 'biosample.ethicsReference' && human ? 'required' : p === 'instrument.detector.emGain' && emccd ? 'recommended' : null
+  const raised = promotedTiers(metadata)
+  const promote = (p: string): Tier | null => raised[p] ?? null
 
   const totals: Tally = { filled: { required: 0, recommended: 0, optional: 0 }, total: { required: 0, recommended: 0, optional: 0 }, missing: [] }
   const sections: SectionCompleteness[] = []

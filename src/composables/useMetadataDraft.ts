@@ -1,7 +1,6 @@
 import { computed, reactive, ref } from 'vue'
 import { isHumanDerived } from '@shared/metadata/biosample.schema'
-import { computeCompleteness } from '@shared/metadata/completeness'
-import type { Tier } from '@shared/metadata/field'
+import { computeCompleteness, promotedTiers } from '@shared/metadata/completeness'
 import type { DatasetMetadata } from '@shared/metadata/metadata.schema'
 import type { DatasetDto } from '@shared/schemas/dataset.schema'
 import { checkCore, checkDraft, type CoreValues, type FieldMessages } from '@/utils/metadataIssues'
@@ -34,14 +33,7 @@ export function useMetadataDraft() {
   const completeness = computed(() => computeCompleteness(asDocument.value, core))
   const humanDerived = computed(() => isHumanDerived(asDocument.value.biosample))
   /** Tiers some answers raise, as completeness counts them. */
-  const tiers = computed(() => {
-    const raised: Record<string, Tier> = {}
-    if (humanDerived.value) raised['biosample.ethicsReference'] = 'required'
-    if (asDocument.value.instrument?.detector?.type === 'EMCCD') {
-      raised['instrument.detector.emGain'] = 'recommended'
-    }
-    return raised
-  })
+  const tiers = computed(() => promotedTiers(asDocument.value))
 
   function set(path: string, value: unknown) {
     if (isCoreField(path)) core[path] = typeof value === 'string' ? value : ''

@@ -1,6 +1,6 @@
 import { Router } from 'express'
 import { z } from 'zod'
-import { instrumentSchema } from '@shared/metadata/instrument.schema'
+import { instrumentProfileInputSchema } from '@shared/schemas/instrument-profile.schema'
 import { idSchema } from '@shared/schemas/common.schema'
 import { ConflictError, ForbiddenError, NotFoundError } from '../../errors/http-error'
 import { accessibleWhere } from '../../http/access'
@@ -10,9 +10,6 @@ import { parseBody, parseParams } from '../../http/validate'
 import { audit } from '../audit/audit.service'
 import { InstrumentProfile, type IInstrumentProfile } from './dataset-metadata.entity'
 
-export const instrumentProfileInputSchema = z
-  .object({ name: z.string().trim().min(2, 'Name the instrument').max(120), instrument: instrumentSchema })
-  .meta({ id: 'InstrumentProfileInput' })
 
 const toDto = (p: IInstrumentProfile) => ({ id: p.id, name: p.name, instrument: p.instrument, createdAt: p.createdAt.toISOString() })
 

@@ -2,7 +2,7 @@ import type { OpenAPIRegistry } from '@asteasolutions/zod-to-openapi'
 import { z } from 'zod'
 import { metadataObjectSchema } from '@shared/metadata/metadata.schema'
 import { registerJsonRoute } from '../../openapi/registry'
-import { instrumentProfileInputSchema } from './instrument-profiles.routes'
+import { instrumentProfileInputSchema } from '@shared/schemas/instrument-profile.schema'
 
 const completenessSchema = z
   .object({

@@ -26,8 +26,8 @@ export function methodsSummary(s: DatasetExportSubject): string {
   }
   const objective = i?.objective
   const lens = objective ? join([objective.nominalMagnification && `${n(objective.nominalMagnification)}×`, objective.lensNA && `${n(objective.lensNA)} NA`], '/') : ''
-  const scope = join([a?.technique && `${a.technique} was performed`, a?.illumination && `with ${a.illumination} illumination`, i?.microscopeType && `on ${article(i.microscopeType)} ${i.microscopeType.toLowerCase()} microscope`, lens && `with a ${lens}${objective?.immersion ? ` ${objective.immersion.toLowerCase()}-immersion` : ''} objective`], ' ')
-  if (scope) out.push(sentence(scope))
+  const scope = join([a?.technique ? `${a.technique} was performed` : 'Imaging was performed', a?.illumination && `with ${a.illumination} illumination`, i?.microscopeType && `on ${article(i.microscopeType)} ${i.microscopeType.toLowerCase()} microscope`, lens && `with a ${lens}${objective?.immersion ? ` ${objective.immersion.toLowerCase()}-immersion` : ''} objective`], ' ')
+  if (a?.technique || a?.illumination || i?.microscopeType || lens) out.push(sentence(scope))
   const lights = (i?.lightSources ?? []).filter((l) => l.wavelengthNm).map((l) => join([`${n(l.wavelengthNm!)} nm`, l.powerMw !== undefined && `${n(l.powerMw)} mW`, l.irradianceWPerCm2 !== undefined && `${n(l.irradianceWPerCm2 / 1000)} kW/cm²`, l.role], ' '))
   if (lights.length) out.push(sentence(`light sources: ${lights.join('; ')}`))
   const d = i?.detector
