@@ -141,6 +141,10 @@ describe('raw stacks', () => {
     expect(trace).toEqual(Array.from({ length: 12 }, (_, f) => 100 + f))
     expect(readFileSync(derivedPaths(storage, id).thumbnail).subarray(1, 4).toString()).toBe('PNG')
     expect((file.report as { omePrefill: { metadata: unknown } }).omePrefill.metadata).toEqual({ acquisition: { frames: 2 } })
+    const png = await request(t.app).get(`/api/datasets/${accession}/files/${id}/thumbnail.png`).set(bearer(token))
+    expect(png.headers['content-type']).toBe('image/png')
+    const means = await request(t.app).get(`/api/datasets/${accession}/files/${id}/frame-means.json`).set(bearer(token))
+    expect(means.body).toHaveLength(12)
   })
 
   it('rejects a truncated stack with the reason in words', async () => {

@@ -8,6 +8,7 @@ import type { LocalStorage } from '../../storage/local-storage'
 import { audit } from '../audit/audit.service'
 import { datasetFor, datasetParams } from '../datasets/dataset-access'
 import { DatasetFile } from './dataset-file.entity'
+import { derivedPaths } from './file-processing'
 
 const fileParams = datasetParams.extend({ fileId: idSchema })
 const attachment = (name: string) => `attachment; filename="${name.replace(/[^\x20-\x7e]|["\\]/g, '_')}"; filename*=UTF-8''${encodeURIComponent(name)}`
@@ -43,6 +44,20 @@ export function fileDownloadsRouter(storage: LocalStorage): Router {
       next(err)
     })
   })
+
+  /** What the raw-stack scan drew: the projection thumbnail and the per-frame mean trace (preview right). */
+  for (const [route, pick] of [
+    ['thumbnail.png', 'thumbnail'],
+    ['frame-means.json', 'trace'],
+  ] as const) {
+    router.get(`/files/:fileId/${route}`, async (req, res) => {
+      const { id, fileId } = parseParams(fileParams, req)
+      const dataset = await datasetFor(req, em(), id, 'preview')
+      const file = await em().findOne(DatasetFile, { id: fileId, dataset: dataset.id, kind: 'raw_stack', status: 'ready' })
+      if (!file) throw new NotFoundError('scanned raw stack', fileId)
+      res.set('Cache-Control', 'private, max-age=300').sendFile(derivedPaths(storage, file.id)[pick])
+    })
+  }
 
   router.get('/archive.zip', async (req, res) => {
     const dataset = await datasetFor(req, em(), parseParams(datasetParams, req).id, 'download')
