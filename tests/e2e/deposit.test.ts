@@ -3,41 +3,23 @@
  * depositor signs in through the local OpenID provider, creates a dataset, finds it in the
  * datasets table and signs out.
  */
-import { mkdtempSync, rmSync } from 'node:fs'
-import { tmpdir } from 'node:os'
-import { join } from 'node:path'
-import type { BrowserContext, Page } from 'playwright-core'
+import type { Page } from 'playwright-core'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { loadConfig } from '@server/config'
-import { CLIENT_DIR } from '@server/paths'
-import { startStipple, type RunningStipple } from '@server/start'
-import { launchBrowser } from './browser'
+import type { RunningStipple } from '@server/start'
+import { startE2eSession, type E2eSession } from './e2e-session'
 import { DatasetCreatePage, DatasetsPage } from './pages/datasets.page'
 import { SignInPage } from './pages/sign-in.page'
 
+let session: E2eSession
 let stipple: RunningStipple
-let browser: BrowserContext
 let page: Page
-let dataDir: string
-const consoleErrors: string[] = []
+let consoleErrors: string[]
 
 beforeAll(async () => {
-  dataDir = mkdtempSync(join(tmpdir(), 'stipple-e2e-'))
-  const config = loadConfig({ NODE_ENV: 'test', DATA_DIR: dataDir, PORT: '0', HOST: '127.0.0.1', LOG_LEVEL: 'error' })
-  stipple = await startStipple(config, { clientDir: CLIENT_DIR })
-  browser = await launchBrowser()
-  page = await browser.newPage()
-  page.on('console', (m) => {
-    if (m.type() === 'error') consoleErrors.push(m.text())
-  })
-  page.on('pageerror', (e) => consoleErrors.push(e.message))
+  session = await startE2eSession()
+  ;({ stipple, page, consoleErrors } = session)
 })
-
-afterAll(async () => {
-  await browser?.close()
-  await stipple?.stop()
-  rmSync(dataDir, { recursive: true, force: true })
-})
+afterAll(() => session?.close())
 
 describe('a depositor in the browser', () => {
   it('signs in, creates a dataset, sees it in the table and signs out', async () => {

@@ -3,47 +3,23 @@
  * page of their draft, fills objective fields, sees the completeness rise and the draft saved,
  * and finds the values again after reloading the page.
  */
-import { mkdtempSync, rmSync } from 'node:fs'
-import { tmpdir } from 'node:os'
-import { join } from 'node:path'
-import type { BrowserContext, Page } from 'playwright-core'
+import type { Page } from 'playwright-core'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { loadConfig } from '@server/config'
-import { CLIENT_DIR } from '@server/paths'
-import { startStipple, type RunningStipple } from '@server/start'
-import { launchBrowser } from './browser'
+import type { RunningStipple } from '@server/start'
+import { startE2eSession, type E2eSession } from './e2e-session'
 import { MetadataFormPage } from './pages/metadata-form.page'
 import { SignInPage } from './pages/sign-in.page'
 
+let session: E2eSession
 let stipple: RunningStipple
-let browser: BrowserContext
 let page: Page
-let dataDir: string
-const consoleErrors: string[] = []
+let consoleErrors: string[]
 
 beforeAll(async () => {
-  dataDir = mkdtempSync(join(tmpdir(), 'stipple-e2e-'))
-  const config = loadConfig({
-    NODE_ENV: 'test',
-    DATA_DIR: dataDir,
-    PORT: '0',
-    HOST: '127.0.0.1',
-    LOG_LEVEL: 'error',
-  })
-  stipple = await startStipple(config, { clientDir: CLIENT_DIR })
-  browser = await launchBrowser()
-  page = await browser.newPage()
-  page.on('console', (m) => {
-    if (m.type() === 'error') consoleErrors.push(m.text())
-  })
-  page.on('pageerror', (e) => consoleErrors.push(e.message))
+  session = await startE2eSession()
+  ;({ stipple, page, consoleErrors } = session)
 })
-
-afterAll(async () => {
-  await browser?.close()
-  await stipple?.stop()
-  rmSync(dataDir, { recursive: true, force: true })
-})
+afterAll(() => session?.close())
 
 describe('a depositor describing a draft in the browser', () => {
   it('fills objective fields, sees completeness rise, and finds them saved after a reload', async () => {

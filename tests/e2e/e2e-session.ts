@@ -1,0 +1,42 @@
+import { mkdtempSync, rmSync } from 'node:fs'
+import { tmpdir } from 'node:os'
+import { join } from 'node:path'
+import type { BrowserContext, Page } from 'playwright-core'
+import { loadConfig } from '@server/config'
+import { CLIENT_DIR } from '@server/paths'
+import { startStipple, type RunningStipple } from '@server/start'
+import { launchBrowser } from './browser'
+
+export interface E2eSession {
+  stipple: RunningStipple
+  browser: BrowserContext
+  page: Page
+  /** Console errors and uncaught page errors seen so far; a test ends by expecting none. */
+  consoleErrors: string[]
+  close(): Promise<void>
+}
+
+/** The real server with the demo data and the built client, and a headless chromium page on it. */
+export async function startE2eSession(): Promise<E2eSession> {
+  const dataDir = mkdtempSync(join(tmpdir(), 'stipple-e2e-'))
+  const config = loadConfig({ NODE_ENV: 'test', DATA_DIR: dataDir, PORT: '0', HOST: '127.0.0.1', LOG_LEVEL: 'error' })
+  const stipple = await startStipple(config, { clientDir: CLIENT_DIR })
+  const browser = await launchBrowser()
+  const page = await browser.newPage()
+  const consoleErrors: string[] = []
+  page.on('console', (m) => {
+    if (m.type() === 'error') consoleErrors.push(m.text())
+  })
+  page.on('pageerror', (e) => consoleErrors.push(e.message))
+  return {
+    stipple,
+    browser,
+    page,
+    consoleErrors,
+    async close() {
+      await browser.close()
+      await stipple.stop()
+      rmSync(dataDir, { recursive: true, force: true })
+    },
+  }
+}
