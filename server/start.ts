@@ -129,6 +129,7 @@ export async function startStipple(config: AppConfig, options: { clientDir?: str
       await closed
       clearTimeout(force)
       await mailCatcher?.stop()
+      await uploads.close()
       ;(app.locals.close as () => void)()
       await orm.close()
     },

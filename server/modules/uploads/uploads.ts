@@ -32,6 +32,7 @@ export interface Uploads {
   expire(): Promise<number>
   /** Completes registrations a crash interrupted (finished uploads not yet registered). */
   reconcile(): Promise<number>
+  close(): Promise<void>
 }
 
 /**
@@ -104,6 +105,7 @@ export function createUploads(deps: { orm: Orm; config: AppConfig; logger: Logge
       await m.flush()
       return removed
     },
+    close: () => store.close(),
     async reconcile() {
       let done = 0
       for (const name of await readdir(storage.uploadsDir)) {
