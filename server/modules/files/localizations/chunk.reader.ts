@@ -6,6 +6,7 @@
 import { createReadStream } from 'node:fs'
 import { open, stat, type FileHandle } from 'node:fs/promises'
 import { createGunzip } from 'node:zlib'
+import type { BufferPool } from './buffer.pool'
 import { lastRecordEnd } from './record.boundary'
 import { damagedGzip } from './sniff.service'
 import { MAX_RECORD_BYTES, TableFormatError, type TableFormat } from './table-format.types'
@@ -29,6 +30,7 @@ export async function* readRecordChunks(
   path: string,
   format: TableFormat,
   chunkBytes: number,
+  buffers: BufferPool,
 ): AsyncGenerator<TableChunk> {
   const source =
     format.compression === 'gzip'
@@ -38,7 +40,8 @@ export async function* readRecordChunks(
     let carry = new Uint8Array(0)
     let offset = format.dataOffset
     for (;;) {
-      const buffer = new Uint8Array(carry.length + Math.max(chunkBytes, carry.length))
+      const size = carry.length + Math.max(chunkBytes, carry.length)
+      const buffer = new Uint8Array(buffers.take(size), 0, size)
       buffer.set(carry)
       const filled = await fillFrom(source, buffer, carry.length)
       if (filled < buffer.length) {

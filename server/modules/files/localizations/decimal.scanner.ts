@@ -15,7 +15,7 @@ const MINUS = 45
 const PLUS = 43
 const LOWER_E = 101
 const CASE_BIT = 0x20
-export const MAX_FAST_DIGITS = 15
+const MAX_FAST_DIGITS = 15
 const MAX_FAST_EXPONENT = 22
 
 /** Exact powers of ten; `Number('1e22')` is correctly rounded, `10 ** 22` need not be. */

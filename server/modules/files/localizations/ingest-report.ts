@@ -56,6 +56,8 @@ export interface IngestReport {
     recordBatches: number
   }
   seconds: number
+  /** Wall-clock seconds per phase: sniff, parse, group, write. */
+  phaseSeconds: Record<string, number>
 }
 
 export interface Totals {
@@ -79,12 +81,12 @@ export function addUp(summaries: ChunkSummary[], plan: ParsePlan, firstLine: num
     line += summary.lines
     totals.rows += summary.rows
     totals.blankLines += summary.blankLines
-    summary.stats.forEach((s, i) => mergeStats(totals.stats[i]!, s))
+    summary.stats.forEach((s, i) => s && mergeStats(totals.stats[i]!, s))
   }
   return totals
 }
 
-function emptyStats(): ColumnStats {
+export function emptyStats(): ColumnStats {
   return { count: 0, missing: 0, min: Infinity, max: -Infinity }
 }
 

@@ -124,3 +124,8 @@ function uniqueName(name: string, taken: Set<string>) {
   taken.add(candidate)
   return candidate
 }
+
+/** Index of the slot holding `role`, or -1. */
+export function slotOf(plan: ParsePlan, role: 'x' | 'y' | 'frame') {
+  return plan.slots.findIndex((s) => s.role === role)
+}

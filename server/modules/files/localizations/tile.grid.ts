@@ -45,13 +45,14 @@ export function planGrid(
   }
 }
 
+/** Multiplies by 1/size (faster than dividing, over millions of rows); the store does the same. */
 export function tileColumn(grid: TileGrid, x: number): number {
-  const c = Math.floor((x - grid.originX) / grid.tileSizeNm)
+  const c = Math.floor((x - grid.originX) * (1 / grid.tileSizeNm))
   return c < 0 ? 0 : c >= grid.columns ? grid.columns - 1 : c
 }
 
 export function tileRow(grid: TileGrid, y: number): number {
-  const r = Math.floor((y - grid.originY) / grid.tileSizeNm)
+  const r = Math.floor((y - grid.originY) * (1 / grid.tileSizeNm))
   return r < 0 ? 0 : r >= grid.rows ? grid.rows - 1 : r
 }
 

@@ -13,9 +13,21 @@ import { readFile, writeFile } from 'node:fs/promises'
 import { basename } from 'node:path'
 import type { Schema } from 'apache-arrow'
 import type { Bounds, TileGrid } from './tile.grid'
-import type { WrittenTile } from './tiled-arrow.writer'
 
 export const TILE_INDEX_FORMAT = 'stipple.localization-tiles'
+
+export interface WrittenTile {
+  key: number
+  column: number
+  row: number
+  /** Index of its record batch in the file. */
+  batch: number
+  /** First row of the tile in the whole table. */
+  rowStart: number
+  rowCount: number
+  /** Bounds of the tile's rows (not of the tile), nm. */
+  boundsNm: Bounds
+}
 
 export interface TileIndex {
   format: typeof TILE_INDEX_FORMAT

@@ -1,8 +1,9 @@
 /**
  * Column loops written once per typed-array class. A loop that sees several classes makes V8's
- * element accesses polymorphic, several times slower over millions of rows (measured in the
- * ingest benchmark), so each class gets its own copy and `statsOf` / `scatter` pick one.
+ * element accesses polymorphic, several times slower over millions of rows (measured with the
+ * ingest benchmark), so each class gets its own copy and a small dispatcher picks one.
  */
+import type { OutputArray } from './output.columns'
 import type { StoredArray } from './slot.columns'
 
 export interface ColumnStats {
@@ -13,112 +14,174 @@ export interface ColumnStats {
   max: number
 }
 
+/** min, max and NaN count, carried from chunk to chunk. */
+export type Tally = Float64Array
+
+export const newTally = (): Tally => Float64Array.of(Infinity, -Infinity, 0)
+
+export function tallyStats(tally: Tally, values: number): ColumnStats {
+  return { count: values - tally[2]!, missing: tally[2]!, min: tally[0]!, max: tally[1]! }
+}
+
+/** Statistics of a column read before writing: x and y (Float32) or channel (Uint16). */
 export function statsOf(values: StoredArray): ColumnStats {
-  if (values instanceof Float32Array) return floatStats32(values)
-  if (values instanceof Float64Array) return floatStats64(values)
-  return values instanceof Uint32Array ? intStats32(values) : intStats16(values)
+  const tally = newTally()
+  if (values instanceof Float32Array) tallyFloat32(values, tally)
+  else if (values instanceof Uint16Array) tallyUint16(values, tally)
+  else throw new Error(`statsOf: no loop for ${values.constructor.name}`)
+  return tallyStats(tally, values.length)
 }
 
-function floatStats32(values: Float32Array): ColumnStats {
-  let min = Infinity
-  let max = -Infinity
-  let missing = 0
+function tallyFloat32(values: Float32Array, tally: Tally) {
+  let min = tally[0]!
+  let max = tally[1]!
+  let missing = tally[2]!
   for (let i = 0; i < values.length; i++) {
     const v = values[i]!
     if (v < min) min = v
     if (v > max) max = v
     if (v !== v) missing++
   }
-  return { count: values.length - missing, missing, min, max }
+  tally.set([min, max, missing])
 }
 
-function floatStats64(values: Float64Array): ColumnStats {
-  let min = Infinity
-  let max = -Infinity
-  let missing = 0
-  for (let i = 0; i < values.length; i++) {
-    const v = values[i]!
-    if (v < min) min = v
-    if (v > max) max = v
-    if (v !== v) missing++
-  }
-  return { count: values.length - missing, missing, min, max }
-}
-
-function intStats32(values: Uint32Array): ColumnStats {
-  let min = Infinity
-  let max = -Infinity
+function tallyUint16(values: Uint16Array, tally: Tally) {
+  let min = tally[0]!
+  let max = tally[1]!
   for (let i = 0; i < values.length; i++) {
     const v = values[i]!
     if (v < min) min = v
     if (v > max) max = v
   }
-  return { count: values.length, missing: 0, min, max }
+  tally.set([min, max, 0])
 }
 
-function intStats16(values: Uint16Array): ColumnStats {
-  let min = Infinity
-  let max = -Infinity
-  for (let i = 0; i < values.length; i++) {
-    const v = values[i]!
-    if (v < min) min = v
-    if (v > max) max = v
-  }
-  return { count: values.length, missing: 0, min, max }
-}
-
-/** A copy of `values` with row i moved to `cursor[keys[i]]++` (a counting sort's second pass). */
-export function scatter(
+/**
+ * Moves row i of `values` to `target[cursor[keys[i]]++]` (the second pass of a counting sort,
+ * straight into the tile-ordered output) and tallies min, max and NaNs on the way. With `ranges`,
+ * also the min and max per tile (2 entries per tile), for x and y.
+ */
+export function scatterInto(
   values: StoredArray,
-  keys: Uint16Array,
-  tileStarts: Uint32Array,
-): StoredArray {
-  const cursor = tileStarts.slice(0, -1)
-  if (values instanceof Float32Array)
-    return scatter32(values, new Float32Array(values.length), keys, cursor)
-  if (values instanceof Float64Array)
-    return scatter64(values, new Float64Array(values.length), keys, cursor)
-  if (values instanceof Uint32Array)
-    return scatterU32(values, new Uint32Array(values.length), keys, cursor)
-  return scatterU16(values, new Uint16Array(values.length), keys, cursor)
-}
-
-function scatter32(
-  from: Float32Array<ArrayBuffer>,
-  to: Float32Array<ArrayBuffer>,
+  target: OutputArray,
   keys: Uint16Array,
   cursor: Uint32Array,
+  tally: Tally,
+  ranges: Float64Array | null,
 ) {
-  for (let i = 0; i < from.length; i++) to[cursor[keys[i]!]!++] = from[i]!
-  return to
+  if (values instanceof Float32Array && target instanceof Float32Array) {
+    if (ranges) scatterRanged(values, target, keys, cursor, tally, ranges)
+    else scatterFloat32(values, target, keys, cursor, tally)
+  } else if (values instanceof Float64Array && target instanceof Float64Array) {
+    scatterFloat64(values, target, keys, cursor, tally)
+  } else if (values instanceof Uint32Array && target instanceof Uint32Array) {
+    scatterUint32(values, target, keys, cursor, tally)
+  } else if (
+    values instanceof Uint16Array &&
+    (target instanceof Uint16Array || target instanceof Uint8Array)
+  ) {
+    scatterUint16(values, target, keys, cursor, tally)
+  } else throw new Error('scatterInto: the target type does not fit the column')
 }
 
-function scatter64(
-  from: Float64Array<ArrayBuffer>,
-  to: Float64Array<ArrayBuffer>,
+function scatterFloat32(
+  from: Float32Array,
+  to: Float32Array,
   keys: Uint16Array,
   cursor: Uint32Array,
+  tally: Tally,
 ) {
-  for (let i = 0; i < from.length; i++) to[cursor[keys[i]!]!++] = from[i]!
-  return to
+  let min = tally[0]!
+  let max = tally[1]!
+  let missing = tally[2]!
+  for (let i = 0; i < from.length; i++) {
+    const v = from[i]!
+    to[cursor[keys[i]!]!++] = v
+    if (v < min) min = v
+    if (v > max) max = v
+    if (v !== v) missing++
+  }
+  tally.set([min, max, missing])
 }
 
-function scatterU32(
-  from: Uint32Array<ArrayBuffer>,
-  to: Uint32Array<ArrayBuffer>,
+function scatterFloat64(
+  from: Float64Array,
+  to: Float64Array,
   keys: Uint16Array,
   cursor: Uint32Array,
+  tally: Tally,
 ) {
-  for (let i = 0; i < from.length; i++) to[cursor[keys[i]!]!++] = from[i]!
-  return to
+  let min = tally[0]!
+  let max = tally[1]!
+  let missing = tally[2]!
+  for (let i = 0; i < from.length; i++) {
+    const v = from[i]!
+    to[cursor[keys[i]!]!++] = v
+    if (v < min) min = v
+    if (v > max) max = v
+    if (v !== v) missing++
+  }
+  tally.set([min, max, missing])
 }
 
-function scatterU16(
-  from: Uint16Array<ArrayBuffer>,
-  to: Uint16Array<ArrayBuffer>,
+function scatterUint32(
+  from: Uint32Array,
+  to: Uint32Array,
   keys: Uint16Array,
   cursor: Uint32Array,
+  tally: Tally,
 ) {
-  for (let i = 0; i < from.length; i++) to[cursor[keys[i]!]!++] = from[i]!
-  return to
+  let min = tally[0]!
+  let max = tally[1]!
+  for (let i = 0; i < from.length; i++) {
+    const v = from[i]!
+    to[cursor[keys[i]!]!++] = v
+    if (v < min) min = v
+    if (v > max) max = v
+  }
+  tally.set([min, max, 0])
+}
+
+/** A channel column: into Uint16 or, when every value fits, Uint8. */
+function scatterUint16(
+  from: Uint16Array,
+  to: Uint16Array | Uint8Array,
+  keys: Uint16Array,
+  cursor: Uint32Array,
+  tally: Tally,
+) {
+  let min = tally[0]!
+  let max = tally[1]!
+  for (let i = 0; i < from.length; i++) {
+    const v = from[i]!
+    to[cursor[keys[i]!]!++] = v
+    if (v < min) min = v
+    if (v > max) max = v
+  }
+  tally.set([min, max, 0])
+}
+
+/** x or y: also the range of each tile's values (x and y are never NaN). */
+function scatterRanged(
+  from: Float32Array,
+  to: Float32Array,
+  keys: Uint16Array,
+  cursor: Uint32Array,
+  tally: Tally,
+  ranges: Float64Array,
+) {
+  for (let i = 0; i < from.length; i++) {
+    const v = from[i]!
+    const k = keys[i]!
+    to[cursor[k]!++] = v
+    if (v < ranges[2 * k]!) ranges[2 * k] = v
+    if (v > ranges[2 * k + 1]!) ranges[2 * k + 1] = v
+  }
+  let min = tally[0]!
+  let max = tally[1]!
+  for (let k = 0; k < ranges.length; k += 2) {
+    if (ranges[k]! < min) min = ranges[k]!
+    if (ranges[k + 1]! > max) max = ranges[k + 1]!
+  }
+  tally.set([min, max, 0])
 }
