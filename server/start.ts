@@ -83,7 +83,7 @@ export async function startStipple(config: AppConfig, options: { clientDir?: str
       }
     : undefined
   const storage = new LocalStorage(cfg.dataDir)
-  const jobs = new JobRunner({ orm, logger, workers: cfg.jobWorkers, completions: fileJobCompletions() })
+  const jobs = new JobRunner({ orm, logger, workers: cfg.jobWorkers, completions: fileJobCompletions(storage) })
   const relyingParty = createRelyingParty({ issuer, clientId: cfg.oidc.clientId, clientSecret: cfg.oidc.clientSecret, publicUrl })
   const app = createApp({
     orm,

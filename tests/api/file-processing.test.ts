@@ -32,7 +32,7 @@ beforeAll(async () => {
   t = await createTestApp()
   live = await listen(t.app)
   storage = new LocalStorage(t.config.dataDir)
-  runner = new JobRunner({ orm: t.orm, logger: createLogger('silent'), workers: 1, pollMs: 50, completions: fileJobCompletions() })
+  runner = new JobRunner({ orm: t.orm, logger: createLogger('silent'), workers: 1, pollMs: 50, completions: fileJobCompletions(storage) })
   runner.start()
   const em = t.em()
   const member = await buildMember(em)
@@ -145,6 +145,33 @@ describe('raw stacks', () => {
     expect(png.headers['content-type']).toBe('image/png')
     const means = await request(t.app).get(`/api/datasets/${accession}/files/${id}/frame-means.json`).set(bearer(token))
     expect(means.body).toHaveLength(12)
+  })
+
+  it('waits for every part of a multi-file OME-TIFF, then scans them all in plane order', async () => {
+    const dir = mkdtempSync(join(tmpdir(), 'parts-'))
+    const ome = (uuid: string) => `<?xml version="1.0" encoding="UTF-8"?>
+<OME xmlns="http://www.openmicroscopy.org/Schemas/OME/2016-06" UUID="${uuid}">
+  <Image ID="Image:0"><Pixels ID="Pixels:0" DimensionOrder="XYZCT" Type="uint16" SizeX="8" SizeY="8" SizeZ="1" SizeC="1" SizeT="7">
+    <Channel ID="Channel:0:0" SamplesPerPixel="1"/>
+    <TiffData IFD="0" PlaneCount="4" FirstT="0"><UUID FileName="run_part0.ome.tif">urn:uuid:00000000-0000-4000-8000-000000000001</UUID></TiffData>
+    <TiffData IFD="0" PlaneCount="3" FirstT="4"><UUID FileName="run_part1.ome.tif">urn:uuid:00000000-0000-4000-8000-000000000002</UUID></TiffData>
+  </Pixels></Image>
+</OME>`
+    // Plane t holds the value 10 + t in every pixel, over both files.
+    writeTiffStack(join(dir, 'p0.tif'), { width: 8, height: 8, frames: 4, pixels: (f) => new Array(64).fill(10 + f), description: ome('urn:uuid:00000000-0000-4000-8000-000000000001') })
+    writeTiffStack(join(dir, 'p1.tif'), { width: 8, height: 8, frames: 3, pixels: (f) => new Array(64).fill(14 + f), description: ome('urn:uuid:00000000-0000-4000-8000-000000000002') })
+    const first = await settled(await uploadText('run_part0.ome.tif', readFileSync(join(dir, 'p0.tif'))))
+    expect(first.problem).toBe('Part of a multi-file OME-TIFF; still to upload: run_part1.ome.tif.')
+    const second = await settled(await uploadText('run_part1.ome.tif', readFileSync(join(dir, 'p1.tif'))))
+    await settled(second.id)
+    const end = Date.now() + 15_000
+    let whole = await t.em().findOneOrFail(DatasetFile, { id: second.id })
+    while ((whole.report as { frames?: number }).frames !== 7 && Date.now() < end) {
+      await new Promise((r) => setTimeout(r, 100))
+      whole = await settled(second.id)
+    }
+    expect(whole.report).toMatchObject({ frames: 7 })
+    expect(JSON.parse(readFileSync(derivedPaths(storage, second.id).trace, 'utf8'))).toEqual([10, 11, 12, 13, 14, 15, 16])
   })
 
   it('rejects a truncated stack with the reason in words', async () => {

@@ -2,7 +2,9 @@ import type { EntityManager } from '@mikro-orm/better-sqlite'
 import type { JobCompletion } from '../../jobs/job-runner'
 import type { IJob } from '../../jobs/job.entity'
 import { importOmeXml } from '../metadata/ome/ome-import'
-import { DatasetFile } from './dataset-file.entity'
+import { DatasetFile, type IDatasetFile } from './dataset-file.entity'
+import { enqueueJob } from '../../jobs/job-queue'
+import type { LocalStorage } from '../../storage/local-storage'
 import { FILE_JOBS } from './file-processing'
 import type { RawStackReport } from './raw-stack.work'
 import { rejectOnFailure } from './file-job-failure'
@@ -12,7 +14,23 @@ async function fileOf(em: EntityManager, job: IJob) {
   return job.file == null ? null : em.findOne(DatasetFile, { id: job.file })
 }
 
-const scanRawStack: JobCompletion = {
+/**
+ * A multi-file OME-TIFF names its parts in its OME-XML. Until all have arrived the file says which
+ * are missing; when they have, the whole stack is scanned once more, over all parts in plane order.
+ */
+async function multiFilePart(em: EntityManager, storage: LocalStorage, file: IDatasetFile, report: RawStackReport, job: IJob): Promise<string | null> {
+  if (report.fileSet.length < 2 || Array.isArray(job.payload.parts)) return null
+  const siblings = await em.find(DatasetFile, { dataset: file.dataset, name: { $in: report.fileSet } })
+  const byName = new Map(siblings.map((f) => [f.name, f]))
+  const missing = report.fileSet.filter((n) => !byName.has(n))
+  if (missing.length) return `Part of a multi-file OME-TIFF; still to upload: ${missing.join(', ')}.`
+  const parts = report.fileSet.map((n) => storage.originalPath(byName.get(n)!.storageKey))
+  enqueueJob(em, { kind: FILE_JOBS.scanRawStack, payload: { ...job.payload, parts }, fileId: file.id })
+  file.status = 'processing'
+  return null
+}
+
+const scanRawStack = (storage: LocalStorage): JobCompletion => ({
   async done(em, job, result) {
     const file = await fileOf(em, job)
     if (!file) return
@@ -28,11 +46,11 @@ const scanRawStack: JobCompletion = {
     }
     file.report = { ...report, omeXml: undefined, hasOmeXml: report.omeXml !== null, omePrefill }
     file.status = 'ready'
-    file.problem = null
+    file.problem = await multiFilePart(em, storage, file, report, job)
   },
   failed: rejectOnFailure,
-}
+})
 
-export function fileJobCompletions(): Record<string, JobCompletion> {
-  return { [FILE_JOBS.scanRawStack]: scanRawStack, ...tableCompletions() }
+export function fileJobCompletions(storage: LocalStorage): Record<string, JobCompletion> {
+  return { [FILE_JOBS.scanRawStack]: scanRawStack(storage), ...tableCompletions() }
 }
