@@ -1,13 +1,6 @@
+import type { CaughtMailDto } from '@shared/schemas/audit.schema'
 import { api } from './client'
 
-/** A message the demo mail catcher received (the server's shape for GET /api/dev/mail). */
-export interface CaughtMailDto {
-  id: number
-  to: string[]
-  from: string
-  subject: string
-  text: string
-  receivedAt: string
-}
+export type { CaughtMailDto }
 
 export const listCaughtMail = () => api.get<{ items: CaughtMailDto[] }>('/api/dev/mail')

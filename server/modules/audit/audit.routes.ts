@@ -1,17 +1,11 @@
 import { Router } from 'express'
-import { z } from 'zod'
-import { pageQuerySchema } from '@shared/schemas/common.schema'
+import { auditQuerySchema, type AuditEventDto } from '@shared/schemas/audit.schema'
 import { ForbiddenError } from '../../errors/http-error'
 import { requireUser } from '../../http/authenticate'
 import { requestEm as em } from '../../http/request-context'
 import { parseQuery } from '../../http/validate'
 import { AuditEvent } from './audit-event.entity'
 
-const auditQuerySchema = pageQuerySchema.extend({
-  targetType: z.string().max(40).optional(),
-  targetId: z.string().max(60).optional(),
-  action: z.string().max(60).optional(),
-})
 
 /** The audit log, newest first, for stewards and admins. */
 export function auditRouter(): Router {
@@ -26,7 +20,7 @@ export function auditRouter(): Router {
     }
     const [rows, total] = await em().findAndCount(AuditEvent, where, { orderBy: { id: 'desc' }, limit: q.limit, offset: q.offset })
     res.json({
-      items: rows.map((e) => ({
+      items: rows.map((e): AuditEventDto => ({
         id: e.id,
         actor: e.actor ?? null,
         action: e.action,

@@ -2,14 +2,9 @@ import type { AddressInfo } from 'node:net'
 import { simpleParser } from 'mailparser'
 import { SMTPServer } from 'smtp-server'
 
-export interface CaughtMail {
-  id: number
-  to: string[]
-  from: string
-  subject: string
-  text: string
-  receivedAt: string
-}
+import type { CaughtMailDto as CaughtMail } from '@shared/schemas/audit.schema'
+
+export type { CaughtMail }
 
 export interface MailCatcher {
   url: string
