@@ -11,7 +11,7 @@ export default defineConfigWithVueTs(
   skipFormatting,
   {
     name: 'app/node-globals',
-    files: ['server/**', 'tests/**', 'bench/**', 'scripts/**', 'bin/**', '*.config.*'],
+    files: ['server/**', 'tests/**', 'bench/**', '*.config.*'],
     languageOptions: { globals: globals.node },
   },
   {
