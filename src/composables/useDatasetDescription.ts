@@ -36,6 +36,7 @@ export function useDatasetDescription(datasetId: MaybeRefOrGetter<number | null>
 
   return {
     completeness: computed(() => state.data.value?.completeness ?? null),
+    metadata: computed(() => state.data.value?.metadata ?? null),
     loading: state.loading,
     error: state.error,
     reload,

@@ -9,6 +9,13 @@ import { useProjectsStore } from '@/stores/projects.store'
 import { useSessionStore } from '@/stores/session.store'
 import { subjectOf } from '@/utils/dataset'
 
+export type DatasetPagePermissions = DatasetPermissions & {
+  share: boolean
+  readProject: boolean
+  download: boolean
+  preview: boolean
+}
+
 /** The open dataset, what this person may do with it, and the dialogs of its actions. */
 export function useDatasetPage(idOrAccession: MaybeRefOrGetter<string>) {
   const store = useDatasetsStore()
@@ -22,7 +29,7 @@ export function useDatasetPage(idOrAccession: MaybeRefOrGetter<string>) {
 
   const dataset = computed(() => store.showing(toValue(idOrAccession)))
 
-  const can = computed<DatasetPermissions & { share: boolean; readProject: boolean }>(() => {
+  const can = computed<DatasetPagePermissions>(() => {
     const d = dataset.value
     const a = session.ability
     if (!d) {
@@ -34,6 +41,8 @@ export function useDatasetPage(idOrAccession: MaybeRefOrGetter<string>) {
         embargo: false,
         share: false,
         readProject: false,
+        download: false,
+        preview: false,
       }
     }
     const subject = subjectOf(d)
@@ -45,6 +54,8 @@ export function useDatasetPage(idOrAccession: MaybeRefOrGetter<string>) {
       embargo: a.can('embargo', subject),
       share: a.can('share', subject),
       readProject: a.can('read', projectSubject(d.project.id)),
+      download: a.can('download', subject),
+      preview: a.can('preview', subject),
     }
   })
 
