@@ -45,6 +45,18 @@ export default defineConfig({
       {
         extends: true,
         test: {
+          // Real server processes killed and restarted: run alone, so timing is not starved by other tests.
+          name: 'faults',
+          include: ['tests/faults/**/*.test.ts'],
+          environment: 'node',
+          testTimeout: 300_000,
+          hookTimeout: 120_000,
+          fileParallelism: false,
+        },
+      },
+      {
+        extends: true,
+        test: {
           name: 'e2e',
           include: ['tests/e2e/**/*.test.ts'],
           environment: 'node',

@@ -69,9 +69,8 @@ function uploadedBytes(): number | null {
 
 describe('an upload from the CLI through repeated server crashes', () => {
   it(`survives ${KILLS} SIGKILLs at random points and stores exactly the source's bytes`, async () => {
-    // One random point in each tenth of the 3–90 % span: random, yet far enough apart that every kill lands mid-upload.
-    const span = 0.87 / KILLS
-    const targets = Array.from({ length: KILLS }, (_, i) => Math.floor(SIZE * (0.03 + span * (i + Math.random()))))
+    // Each kill lands a random 2–12 MB after the bytes already on disk, so all of them fall mid-upload.
+    const nextTarget = () => (uploadedBytes() ?? 0) + Math.floor((2 + 10 * Math.random()) * 1024 * 1024)
     const cli = spawn(process.execPath, ['server/cli/stipple-upload.mjs', '--server', server.url, '--dataset', 'STPL-000005', '--chunk-mib', '4', '--retries', '40', '--state', join(dir, 'cli-state.json'), '--quiet', source], {
       env: { ...process.env, STIPPLE_TOKEN: token },
       stdio: ['ignore', 'pipe', 'pipe'],
@@ -84,7 +83,8 @@ describe('an upload from the CLI through repeated server crashes', () => {
     void exited.then(() => (done = true))
 
     const killedAt: number[] = []
-    for (const target of targets) {
+    for (let kill = 0; kill < KILLS; kill++) {
+      const target = nextTarget()
       while (!done && (uploadedBytes() ?? 0) < target) await new Promise((r) => setTimeout(r, 5))
       if (done) break
       killedAt.push(uploadedBytes() ?? 0)

@@ -93,6 +93,15 @@ export function createUploads(deps: { orm: Orm; config: AppConfig; logger: Logge
   return {
     store,
     handler: (req, res) => {
+      // The tus server ends responses with res.end(callback); express-session's wrapper of res.end
+      // takes (chunk, encoding) and would write the callback as data. Hand it a bare end() instead.
+      const end = res.end.bind(res) as (...args: unknown[]) => typeof res
+      res.end = ((...args: unknown[]) => {
+        const [first] = args
+        if (typeof first !== 'function') return end(...args)
+        res.once('finish', first as () => void)
+        return end()
+      }) as typeof res.end
       void tus.handle(req, res)
     },
     async expire() {
