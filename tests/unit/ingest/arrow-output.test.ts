@@ -155,3 +155,40 @@ describe('readTilesInBox', () => {
     expect(outside).toMatchObject({ rowCount: 0, tilesRead: 0 })
   })
 })
+
+describe('a table sorted by position', () => {
+  it('is regrouped on the bounds of all rows when its first rows cover a corner only', async () => {
+    const sorted = Array.from(
+      { length: 6000 },
+      (_, i) => `${i + 1},${((i * 40_000) / 6000).toFixed(1)},${(random() * 40_000).toFixed(1)}`,
+    )
+    const sourcePath = tmp.file('sorted.csv', `frame,x_nm,y_nm\n${sorted.join('\n')}\n`)
+    const out = tmp.path('sorted.arrow')
+    const sortedMapping = {
+      frameBase: 1 as const,
+      columns: mapping.columns.slice(1, 4).map((c, index) => ({ ...c, index })),
+    }
+    const tuning = { workers: 0, chunkBytes: 4096, rowsPerTile: 300 }
+    const sortedReport = await ingestLocalizationTable({
+      sourcePath,
+      outputPath: out,
+      mapping: sortedMapping,
+      tuning,
+    })
+    const sortedIndex = await readTileIndex(out)
+    // 6000 rows at about 300 per tile: the grid spans all of x, no tile holds a large share.
+    expect(sortedReport.output.grid.originX).toBe(0)
+    expect(Math.max(...sortedIndex.tiles.map((t) => t.rowCount))).toBeLessThan(1000)
+    const box = { xMin: 10_000, xMax: 12_000, yMin: 5000, yMax: 9000 }
+    const inside = sorted.filter((line) => {
+      const [, x, y] = line.split(',').map(Number)
+      return (
+        Math.fround(x!) >= box.xMin &&
+        Math.fround(x!) <= box.xMax &&
+        Math.fround(y!) >= box.yMin &&
+        Math.fround(y!) <= box.yMax
+      )
+    })
+    expect((await readTilesInBox(out, box)).rowCount).toBe(inside.length)
+  })
+})

@@ -1,36 +1,50 @@
 /**
- * Sends chunks to the parse workers as they are read, at most a couple waiting per worker, so
- * reading, decompressing and parsing overlap while memory stays bounded. Until a worker has
- * started (a few hundred ms), this thread parses the chunks itself.
+ * Sends chunks to the workers as they are read, at most a couple waiting per worker, so reading,
+ * decompressing and parsing overlap while memory stays bounded. This thread processes the first
+ * chunk with rows itself, which fixes the tile grid (laid over that chunk's bounds), and any chunk
+ * read before a worker has started (a few hundred ms).
  */
-import type { TableChunk } from './chunk.reader'
-import type { ChunkSummary } from './chunk.store'
 import type { BufferPool } from './buffer.pool'
-import type { ParseBackend } from './ingest.backends'
+import type { TableChunk } from './chunk.reader'
+import type { GridRule } from './chunk.processor'
+import type { ChunkBackend, InlineBackend, Processed } from './ingest.backends'
+import type { TileGrid } from './tile.grid'
 
 const MAX_IN_FLIGHT = 2
 
-export async function parseChunks(
-  chunks: AsyncIterable<TableChunk>,
-  backends: { inline: ParseBackend; workers: ParseBackend[] },
-  buffers: BufferPool,
-  onParsed: (readFraction: number) => void,
-): Promise<ChunkSummary[]> {
-  const summaries: ChunkSummary[] = []
+export interface Dispatch {
+  inline: InlineBackend
+  workers: ChunkBackend[]
+  buffers: BufferPool
+  /** The grid from the first rows; `readFraction` says how much of the file they are. */
+  gridFor: (readFraction: number) => GridRule
+  onProcessed: (readFraction: number) => void
+}
+
+export async function processChunks(chunks: AsyncIterable<TableChunk>, d: Dispatch) {
+  const done: Processed[] = []
   const running = new Set<Promise<void>>()
   let failure: unknown = null
+  let grid: TileGrid | null = null
   let seq = 0
+  const finish = (processed: Processed, readFraction: number) => {
+    done.push(processed)
+    d.buffers.give(processed.buffer)
+    d.onProcessed(readFraction)
+  }
   for await (const chunk of chunks) {
-    const backend = await pickBackend(backends, running)
+    if (!grid) {
+      const first = d.inline.first(seq++, chunk.bytes, d.gridFor(chunk.readFraction))
+      grid = first.grid
+      finish(first.processed, chunk.readFraction)
+      continue
+    }
+    const backend = await pickBackend(d, running)
     if (failure) break
     const task: Promise<void> = backend
-      .parse(seq++, chunk.bytes)
+      .process(seq++, chunk.bytes, grid)
       .then(
-        ({ summary, buffer }) => {
-          summaries.push(summary)
-          buffers.give(buffer)
-          onParsed(chunk.readFraction)
-        },
+        (processed) => finish(processed, chunk.readFraction),
         (error: unknown) => void (failure ??= error),
       )
       .finally(() => running.delete(task))
@@ -38,17 +52,14 @@ export async function parseChunks(
   }
   await Promise.all(running)
   if (failure) throw failure
-  return summaries.sort((a, b) => a.seq - b.seq)
+  return { processed: done.sort((a, b) => a.summary.seq - b.summary.seq), grid }
 }
 
 /** A started worker with room; this thread while none has started; else wait for room. */
-async function pickBackend(
-  backends: { inline: ParseBackend; workers: ParseBackend[] },
-  running: Set<Promise<void>>,
-) {
+async function pickBackend(d: Dispatch, running: Set<Promise<void>>): Promise<ChunkBackend> {
   for (;;) {
-    const started = backends.workers.filter((w) => w.ready)
-    if (started.length === 0) return backends.inline
+    const started = d.workers.filter((w) => w.ready)
+    if (started.length === 0) return d.inline
     const free = started.filter((w) => w.inFlight < MAX_IN_FLIGHT)
     if (free.length > 0) return free.reduce((a, b) => (b.inFlight < a.inFlight ? b : a))
     await Promise.race(running)

@@ -1,6 +1,6 @@
 /** The validation report of an ingest, and how chunk summaries add up to it. */
 import type { ColumnRole, ColumnUnit } from '@shared/domain/localization-columns'
-import type { ChunkSummary, ColumnStats } from './chunk.store'
+import type { ChunkSummary, ColumnStats } from './chunk.processor'
 import type { ParsePlan } from './parse-plan'
 import {
   countRejections,
@@ -62,6 +62,8 @@ export interface IngestReport {
 
 export interface Totals {
   rows: number
+  /** Rows outside the extent of the first grid. */
+  outside: number
   blankLines: number
   rejections: RejectionTallies
   stats: ColumnStats[]
@@ -71,6 +73,7 @@ export interface Totals {
 export function addUp(summaries: ChunkSummary[], plan: ParsePlan, firstLine: number): Totals {
   const totals: Totals = {
     rows: 0,
+    outside: 0,
     blankLines: 0,
     rejections: {},
     stats: plan.slots.map(() => emptyStats()),
@@ -80,6 +83,7 @@ export function addUp(summaries: ChunkSummary[], plan: ParsePlan, firstLine: num
     mergeRejections(totals.rejections, summary.rejections, line)
     line += summary.lines
     totals.rows += summary.rows
+    totals.outside += summary.outside
     totals.blankLines += summary.blankLines
     summary.stats.forEach((s, i) => s && mergeStats(totals.stats[i]!, s))
   }

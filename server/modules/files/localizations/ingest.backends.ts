@@ -1,67 +1,63 @@
 /**
- * Where chunks are parsed: in this thread, and in worker threads (parse-worker.pool.ts). All
- * answer the same requests: parse a chunk (keep its columns, return a summary), count the kept
- * rows per tile, and scatter one column at a time into a shared buffer.
+ * Where chunks are processed (parsed and grouped by tile): in this thread, or in worker threads
+ * (parse-worker.pool.ts). This thread also takes the first chunk with rows, which fixes the grid.
  */
 import {
-  ChunkStore,
-  type ChunkCounts,
+  ChunkProcessor,
   type ChunkSummary,
-  type ScatterRequest,
-  type Scattered,
-} from './chunk.store'
+  type GridRule,
+  type GroupedChunk,
+} from './chunk.processor'
 import type { ParsePlan } from './parse-plan'
 import type { TileGrid } from './tile.grid'
 
 export type ToWorker =
   | { type: 'begin'; plan: ParsePlan }
-  | { type: 'parse'; seq: number; buffer: ArrayBuffer; length: number }
-  | { type: 'count'; grid: TileGrid }
-  | { type: 'scatter'; request: ScatterRequest }
+  | { type: 'process'; seq: number; buffer: ArrayBuffer; length: number; grid: TileGrid }
   | { type: 'end' }
 export type FromWorker =
   | { type: 'ready' }
-  | { type: 'parsed'; summary: ChunkSummary; buffer: ArrayBuffer }
-  | { type: 'counted'; chunks: ChunkCounts[] }
-  | { type: 'scattered'; scattered: Scattered }
+  | { type: 'processed'; summary: ChunkSummary; grouped: GroupedChunk; buffer: ArrayBuffer }
   | { type: 'failed'; message: string }
 
-export interface Parsed {
+export interface Processed {
   summary: ChunkSummary
+  /** Null for a chunk without rows seen before the grid was fixed. */
+  grouped: GroupedChunk | null
+  /** The chunk's buffer, handed back for reuse. */
   buffer: ArrayBuffer
 }
 
-export interface ParseBackend {
+export interface ChunkBackend {
   /** Loaded and able to take chunks. */
   readonly ready: boolean
   /** Chunks sent and not yet answered. */
   readonly inFlight: number
-  /** Parses a chunk; the answer hands its buffer back for reuse. */
-  parse(seq: number, bytes: Uint8Array<ArrayBuffer>): Promise<Parsed>
-  /** Rows per tile of every kept chunk. */
-  count(grid: TileGrid): Promise<ChunkCounts[]>
-  /** Moves one column of every kept chunk into the shared buffer, in tile order. */
-  scatter(request: ScatterRequest): Promise<Scattered>
+  process(seq: number, bytes: Uint8Array<ArrayBuffer>, grid: TileGrid): Promise<Processed>
 }
 
-export class InlineBackend implements ParseBackend {
+export class InlineBackend implements ChunkBackend {
   readonly ready = true
   readonly inFlight = 0
-  private readonly store: ChunkStore
+  private readonly processor: ChunkProcessor
 
   constructor(plan: ParsePlan) {
-    this.store = new ChunkStore(plan)
+    this.processor = new ChunkProcessor(plan)
   }
 
-  async parse(seq: number, bytes: Uint8Array<ArrayBuffer>): Promise<Parsed> {
-    return { summary: this.store.parse(seq, bytes), buffer: bytes.buffer }
+  async process(seq: number, bytes: Uint8Array<ArrayBuffer>, grid: TileGrid): Promise<Processed> {
+    return { ...this.processor.process(seq, bytes, grid), buffer: bytes.buffer }
   }
 
-  async count(grid: TileGrid) {
-    return this.store.count(grid)
+  regroup(chunk: GroupedChunk, grid: TileGrid): GroupedChunk {
+    return this.processor.regroup(chunk, grid)
   }
 
-  async scatter(request: ScatterRequest) {
-    return this.store.scatter(request)
+  /** A chunk before the grid is fixed; the grid too, once the chunk has rows. */
+  first(seq: number, bytes: Uint8Array<ArrayBuffer>, gridFor: GridRule) {
+    const first = this.processor.processFirst(seq, bytes, gridFor)
+    const grouped = first.processed?.grouped ?? null
+    const processed: Processed = { summary: first.summary, grouped, buffer: bytes.buffer }
+    return { processed, grid: first.grid }
   }
 }

@@ -12,15 +12,17 @@ import {
 } from '@shared/schemas/localization-mapping.schema'
 import { BufferPool } from './buffer.pool'
 import { readRecordChunks } from './chunk.reader'
-import { parseChunks } from './chunk.dispatcher'
+import { processChunks } from './chunk.dispatcher'
+import type { GridRule, GroupedChunk } from './chunk.processor'
 import { InlineBackend } from './ingest.backends'
-import { addUp, type IngestReport } from './ingest-report'
-import { buildParsePlan } from './parse-plan'
+import { addUp, boundsOf, type IngestReport, type Totals } from './ingest-report'
+import { buildParsePlan, slotOf } from './parse-plan'
 import { acquireParseWorkers } from './parse-worker.pool'
 import { PARSED_SHARE, writeOutput, type Run } from './output.writer'
 import { buildReport } from './report.builder'
 import { sniffTable } from './sniff.service'
 import type { FormatOverrides } from './table.sniffer'
+import { planGrid, type Bounds, type TileGrid } from './tile.grid'
 
 export interface IngestOptions {
   sourcePath: string
@@ -51,11 +53,19 @@ export async function ingestLocalizationTable(options: IngestOptions): Promise<I
     const chunkBytes = options.tuning?.chunkBytes ?? chunkSizeFor(size)
     const buffers = new BufferPool()
     const chunks = readRecordChunks(options.sourcePath, sniff, chunkBytes, buffers)
-    const onParsed = (fraction: number) => run.progress(fraction * PARSED_SHARE)
-    const summaries = await parseChunks(chunks, { inline, workers }, buffers, onParsed)
-    const totals = addUp(summaries, plan, sniff.dataStartLine)
+    const gridFor = (readFraction: number) => gridRule(readFraction, options.tuning?.rowsPerTile)
+    const onProcessed = (fraction: number) => run.progress(fraction * PARSED_SHARE)
+    const dispatch = { inline, workers, buffers, gridFor, onProcessed }
+    const { processed, grid } = await processChunks(chunks, dispatch)
+    const totals = addUp(
+      processed.map((p) => p.summary),
+      plan,
+      sniff.dataStartLine,
+    )
     clock.lap('parse')
-    const outcome = await writeOutput(run, totals, [inline, ...workers])
+    const grouped = processed.flatMap((p) => (p.grouped ? [p.grouped] : []))
+    const layout = fitGrid(run, totals, grid, grouped, inline)
+    const outcome = await writeOutput(run, totals, layout.grid, layout.chunks)
     return buildReport(options.outputPath, outcome, clock.phases)
   } finally {
     for (const worker of workers) worker.release()
@@ -73,6 +83,51 @@ function defaultWorkers(size: number) {
 /** About 1/64 of the file (progress every ~1.5 %), between 64 KiB and 16 MiB. */
 function chunkSizeFor(size: number) {
   return Math.min(16 << 20, Math.max(64 << 10, Math.ceil(size / 64)))
+}
+
+const NO_EXTENT: Bounds = { xMin: 0, xMax: 0, yMin: 0, yMax: 0 }
+
+/**
+ * The grid is laid over the bounds of the first chunk with rows, 1 % wider on each side, and
+ * sized for the rows the whole file should hold at that density. Localization tables run in frame
+ * order and early frames span the field, so this is the field; rows outside it go to the edge
+ * tiles, whose recorded bounds then include them (queries stay exact).
+ */
+function gridRule(readFraction: number, rowsPerTile: number | undefined): GridRule {
+  return (x, y, rows): TileGrid => {
+    const padX = (x.max - x.min) * 0.01
+    const padY = (y.max - y.min) * 0.01
+    const extent = {
+      xMin: x.min - padX,
+      xMax: x.max + padX,
+      yMin: y.min - padY,
+      yMax: y.max + padY,
+    }
+    return planGrid(extent, Math.round(rows / Math.max(readFraction, 1e-6)), rowsPerTile)
+  }
+}
+
+/** Share of rows outside the grid laid over the first rows beyond which the table is regrouped. */
+const MAX_OUTSIDE = 0.05
+
+/**
+ * When the first rows did not span the field (a table sorted by position, say), the edge tiles
+ * hold too much: then the chunks are regrouped here on a grid over the bounds of all rows.
+ */
+function fitGrid(
+  run: Run,
+  totals: Totals,
+  grid: TileGrid | null,
+  chunks: GroupedChunk[],
+  inline: InlineBackend,
+) {
+  const outside = totals.outside
+  if (grid && outside <= MAX_OUTSIDE * totals.rows) return { grid, chunks }
+  const x = totals.stats[slotOf(run.plan, 'x')]
+  const y = totals.stats[slotOf(run.plan, 'y')]
+  const bounds = boundsOf(x, y) ?? NO_EXTENT
+  const fitted = planGrid(bounds, totals.rows, run.options.tuning?.rowsPerTile)
+  return { grid: fitted, chunks: chunks.map((c) => inline.regroup(c, fitted)) }
 }
 
 function monotonic(report: ((fraction: number) => void) | undefined) {

@@ -4,7 +4,7 @@
  * whose values all fit in a byte is stored as Uint8; the others keep the type they were parsed
  * into (parse-plan.ts says why Float32 is enough for positions).
  */
-import type { ColumnStats } from './chunk.store'
+import type { ColumnStats } from './chunk.processor'
 import type { ParsePlan } from './parse-plan'
 
 export type OutputKind = 'float32' | 'float64' | 'uint32' | 'uint16' | 'uint8'

@@ -1,12 +1,12 @@
 /**
- * After parsing: the tile grid over the bounds, the rows per tile, the Arrow file (skeleton, then
- * columns) and its index.
+ * After parsing: the record batches (one per non-empty tile), the Arrow file (skeleton, then the
+ * batches' columns) and its index.
  */
 import { open } from 'node:fs/promises'
 import type { Schema } from 'apache-arrow'
 import { writeArrowSkeleton } from './arrow-skeleton.writer'
-import { fillColumns, type TileBatch } from './column.filler'
-import type { ParseBackend } from './ingest.backends'
+import { writeBatches, type TileBatch } from './batch.writer'
+import type { GroupedChunk } from './chunk.processor'
 import type { IngestOptions } from './ingest.service'
 import { boundsOf, type Totals } from './ingest-report'
 import { outputKinds, type OutputKind } from './output.columns'
@@ -14,12 +14,11 @@ import { outputSchema } from './output.schema'
 import { slotOf, type ParsePlan } from './parse-plan'
 import type { Outcome } from './report.builder'
 import type { TableSniff } from './table-format.types'
-import { planGrid, type TileGrid } from './tile.grid'
+import type { TileGrid } from './tile.grid'
 import { buildTileIndex, writeTileIndex, type WrittenTile } from './tile.index'
-import { layTiles, type TileLayout } from './tile.layout'
 
-/** Share of the progress bar for reading and parsing; the rest is writing, column by column. */
-export const PARSED_SHARE = 0.85
+/** Share of the progress bar for reading and parsing; the rest is writing. */
+export const PARSED_SHARE = 0.9
 
 export interface Run {
   options: IngestOptions
@@ -32,87 +31,75 @@ export interface Run {
 export async function writeOutput(
   run: Run,
   totals: Totals,
-  backends: ParseBackend[],
+  grid: TileGrid,
+  chunks: GroupedChunk[],
 ): Promise<Outcome> {
   const { plan, options } = run
   const bounds = boundsOf(totals.stats[slotOf(plan, 'x')], totals.stats[slotOf(plan, 'y')])
-  const extent = bounds ?? { xMin: 0, xMax: 0, yMin: 0, yMax: 0 }
-  const grid = planGrid(extent, totals.rows, options.tuning?.rowsPerTile)
-  const counts = await Promise.all(backends.map((b) => b.count(grid)))
-  const layout = layTiles(counts.flat(), grid.columns * grid.rows)
+  const batches = batchesOf(chunks, grid.columns * grid.rows)
   const kinds = outputKinds(plan, totals.stats)
   const schema = outputSchema(plan, kinds, new Map([['stipple.layout', 'xy-tiles/1']]))
-  const batches = nonEmptyTiles(layout)
-  const { filled, bytes } = await writeArrowFile(run, { schema, kinds, batches, layout, backends })
-  const tiles = writtenTiles(batches, filled.batchBounds, grid)
-  const index = buildTileIndex(options.outputPath, schema, grid, tiles, bounds)
-  await writeTileIndex(options.outputPath, index)
+  const bytes = await writeArrowFile(run, { schema, kinds, batches, chunks })
+  const tiles = writtenTiles(batches, chunks, grid)
+  await writeTileIndex(
+    options.outputPath,
+    buildTileIndex(options.outputPath, schema, grid, tiles, bounds),
+  )
   run.progress(1)
   run.lap('write')
   const types = schema.fields.map((f) => String(f.type))
-  const counted = { ...totals, stats: filled.stats }
-  return {
-    sniff: run.sniff,
-    plan,
-    totals: counted,
-    bounds,
-    grid,
-    types,
-    bytes,
-    batches: tiles.length,
+  return { sniff: run.sniff, plan, totals, bounds, grid, types, bytes, batches: tiles.length }
+}
+
+/** Non-empty tiles in key order, with their place in the tile-ordered table. */
+function batchesOf(chunks: GroupedChunk[], tiles: number): TileBatch[] {
+  const batches: TileBatch[] = []
+  let rowStart = 0
+  for (let key = 0; key < tiles; key++) {
+    const rowCount = chunks.reduce((n, c) => n + c.tileStarts[key + 1]! - c.tileStarts[key]!, 0)
+    if (rowCount === 0) continue
+    batches.push({ key, rowStart, rowCount })
+    rowStart += rowCount
   }
+  return batches
 }
 
 interface ArrowJob {
   schema: Schema
   kinds: OutputKind[]
   batches: TileBatch[]
-  layout: TileLayout
-  backends: ParseBackend[]
+  chunks: GroupedChunk[]
 }
 
 /** The skeleton first (schema, batch headers, footer), then the columns into its holes. */
-async function writeArrowFile(run: Run, job: ArrowJob) {
+async function writeArrowFile(run: Run, job: ArrowJob): Promise<number> {
   const file = await open(run.options.outputPath, 'w')
   try {
-    const rows = job.batches.map((b) => b.rowCount)
-    const skeleton = await writeArrowSkeleton(file, job.schema, job.kinds, rows)
-    run.lap('tiles')
-    const filled = await fillColumns({
-      ...job,
+    const skeleton = await writeArrowSkeleton(
       file,
-      skeleton,
-      rows: job.layout.rows,
-      tiles: job.layout.tileStarts.length - 1,
-      chunkOffsets: job.layout.chunkOffsets,
-      xSlot: slotOf(run.plan, 'x'),
-      ySlot: slotOf(run.plan, 'y'),
-      onColumn: (done, all) => run.progress(PARSED_SHARE + (1 - PARSED_SHARE) * (done / all)),
-    })
-    return { filled, bytes: skeleton.bytes }
+      job.schema,
+      job.kinds,
+      job.batches.map((b) => b.rowCount),
+    )
+    await writeBatches(file, skeleton, job, (done, all) =>
+      run.progress(PARSED_SHARE + (1 - PARSED_SHARE) * (done / all)),
+    )
+    return skeleton.bytes
   } finally {
     await file.close()
   }
 }
 
-function nonEmptyTiles(layout: TileLayout): TileBatch[] {
-  const batches: TileBatch[] = []
-  for (let key = 0; key + 1 < layout.tileStarts.length; key++) {
-    const rowStart = layout.tileStarts[key]!
-    const rowCount = layout.tileStarts[key + 1]! - rowStart
-    if (rowCount > 0) batches.push({ key, rowStart, rowCount })
-  }
-  return batches
-}
-
-function writtenTiles(batches: TileBatch[], bounds: Float64Array, grid: TileGrid): WrittenTile[] {
+/** The index entry of each batch: its tile and the bounds of its rows over all chunks. */
+function writtenTiles(batches: TileBatch[], chunks: GroupedChunk[], grid: TileGrid): WrittenTile[] {
   return batches.map((b, batch) => {
-    const at = batch * 4
+    const range = (pick: (c: GroupedChunk) => Float64Array, i: 0 | 1) =>
+      (i === 0 ? Math.min : Math.max)(...chunks.map((c) => pick(c)[b.key * 2 + i]!))
     const boundsNm = {
-      xMin: bounds[at]!,
-      xMax: bounds[at + 1]!,
-      yMin: bounds[at + 2]!,
-      yMax: bounds[at + 3]!,
+      xMin: range((c) => c.xRanges, 0),
+      xMax: range((c) => c.xRanges, 1),
+      yMin: range((c) => c.yRanges, 0),
+      yMax: range((c) => c.yRanges, 1),
     }
     const cell = { column: b.key % grid.columns, row: Math.floor(b.key / grid.columns) }
     return { ...b, ...cell, batch, boundsNm }

@@ -1,13 +1,12 @@
 /**
- * Parse workers, kept per thread between ingests: starting one costs a few hundred ms (it loads
+ * Chunk workers, kept per thread between ingests: starting one costs a few hundred ms (it loads
  * tsx to read our TypeScript), more than parsing a small table. Idle workers are unreferenced, so
  * they never keep the process alive, and stop after a minute.
  */
 import { createRequire } from 'node:module'
 import { pathToFileURL } from 'node:url'
 import { Worker } from 'node:worker_threads'
-import type { ChunkCounts, ScatterRequest, Scattered } from './chunk.store'
-import type { FromWorker, ParseBackend, Parsed, ToWorker } from './ingest.backends'
+import type { ChunkBackend, FromWorker, Processed, ToWorker } from './ingest.backends'
 import type { ParsePlan } from './parse-plan'
 import type { TileGrid } from './tile.grid'
 
@@ -30,18 +29,16 @@ const tsxApi = entry.endsWith('.ts')
     ).href
   : null
 
-interface Pending<T> {
-  resolve: (value: T) => void
+interface Pending {
+  resolve: (value: Processed) => void
   reject: (error: Error) => void
 }
 
-export class ParseWorker implements ParseBackend {
+export class ParseWorker implements ChunkBackend {
   ready = false
   failure: Error | null = null
   private readonly worker = new Worker(BOOTSTRAP, { eval: true, workerData: { entry, tsxApi } })
-  private readonly parses = new Map<number, Pending<Parsed>>()
-  /** The one count or scatter request in flight. */
-  private request: Pending<unknown> | null = null
+  private readonly pending = new Map<number, Pending>()
   private idleTimer: NodeJS.Timeout | null = null
 
   constructor() {
@@ -53,7 +50,7 @@ export class ParseWorker implements ParseBackend {
   }
 
   get inFlight() {
-    return this.parses.size
+    return this.pending.size
   }
 
   begin(plan: ParsePlan) {
@@ -62,32 +59,18 @@ export class ParseWorker implements ParseBackend {
     this.send({ type: 'begin', plan })
   }
 
-  parse(seq: number, bytes: Uint8Array<ArrayBuffer>): Promise<Parsed> {
+  process(seq: number, bytes: Uint8Array<ArrayBuffer>, grid: TileGrid): Promise<Processed> {
     if (this.failure) return Promise.reject(this.failure)
     if (bytes.byteOffset !== 0) throw new Error('A chunk must start its buffer')
-    this.send({ type: 'parse', seq, buffer: bytes.buffer, length: bytes.length }, [bytes.buffer])
-    return new Promise((resolve, reject) => this.parses.set(seq, { resolve, reject }))
-  }
-
-  count(grid: TileGrid): Promise<ChunkCounts[]> {
-    return this.ask<ChunkCounts[]>({ type: 'count', grid })
-  }
-
-  scatter(request: ScatterRequest): Promise<Scattered> {
-    return this.ask<Scattered>({ type: 'scatter', request })
-  }
-
-  private ask<T>(message: ToWorker): Promise<T> {
-    if (this.failure) return Promise.reject(this.failure)
-    this.send(message)
-    return new Promise<T>((resolve, reject) => {
-      this.request = { resolve: (value) => resolve(value as T), reject }
-    })
+    this.send({ type: 'process', seq, buffer: bytes.buffer, length: bytes.length, grid }, [
+      bytes.buffer,
+    ])
+    return new Promise((resolve, reject) => this.pending.set(seq, { resolve, reject }))
   }
 
   /** Back to the pool (after a clean ingest) or gone (after a failed one). */
   release() {
-    if (this.failure || this.inFlight > 0 || this.request) return void this.stop()
+    if (this.failure || this.inFlight > 0) return void this.stop()
     this.send({ type: 'end' })
     this.worker.unref()
     this.idleTimer = setTimeout(() => this.stop(), IDLE_MS).unref()
@@ -107,23 +90,17 @@ export class ParseWorker implements ParseBackend {
 
   private receive(message: FromWorker) {
     if (message.type === 'ready') this.ready = true
-    else if (message.type === 'parsed') {
-      this.parses.get(message.summary.seq)?.resolve(message)
-      this.parses.delete(message.summary.seq)
-    } else if (message.type === 'counted' || message.type === 'scattered') {
-      const request = this.request
-      this.request = null
-      request?.resolve(message.type === 'counted' ? message.chunks : message.scattered)
+    else if (message.type === 'processed') {
+      this.pending.get(message.summary.seq)?.resolve(message)
+      this.pending.delete(message.summary.seq)
     } else this.fail(new Error(message.message))
   }
 
   private fail(error: Error) {
     if (this.failure) return
     this.failure = error
-    for (const pending of this.parses.values()) pending.reject(error)
-    this.parses.clear()
-    this.request?.reject(error)
-    this.request = null
+    for (const pending of this.pending.values()) pending.reject(error)
+    this.pending.clear()
     this.stop()
   }
 }

@@ -1,28 +1,26 @@
 /**
- * Worker thread entry: keeps the chunks of the current ingest and answers the messages of
- * ingest.backends.ts (begin, parse, count, scatter, end).
+ * Worker thread entry: processes (parses and groups by tile) the chunks of the current ingest,
+ * answering the messages of ingest.backends.ts, and hands the chunk and its columns back.
  */
 import { parentPort } from 'node:worker_threads'
-import { ChunkStore } from './chunk.store'
+import { ChunkProcessor } from './chunk.processor'
 import type { FromWorker, ToWorker } from './ingest.backends'
 
 const port = parentPort
 if (!port) throw new Error('parse.worker.ts runs as a worker thread')
-let store: ChunkStore | null = null
+let processor: ChunkProcessor | null = null
 
 function answer(message: ToWorker) {
-  if (message.type === 'begin') store = new ChunkStore(message.plan)
-  else if (message.type === 'end') store = null
-  else if (!store) throw new Error(`"${message.type}" before "begin"`)
-  else if (message.type === 'parse') {
-    const summary = store.parse(message.seq, new Uint8Array(message.buffer, 0, message.length))
-    const reply: FromWorker = { type: 'parsed', summary, buffer: message.buffer }
-    port!.postMessage(reply, [message.buffer])
-  } else if (message.type === 'count') {
-    port!.postMessage({ type: 'counted', chunks: store.count(message.grid) } satisfies FromWorker)
-  } else {
-    const scattered = store.scatter(message.request)
-    port!.postMessage({ type: 'scattered', scattered } satisfies FromWorker)
+  if (message.type === 'begin') processor = new ChunkProcessor(message.plan)
+  else if (message.type === 'end') processor = null
+  else if (!processor) throw new Error('"process" before "begin"')
+  else {
+    const bytes = new Uint8Array(message.buffer, 0, message.length)
+    const { summary, grouped } = processor.process(message.seq, bytes, message.grid)
+    const reply: FromWorker = { type: 'processed', summary, grouped, buffer: message.buffer }
+    const columns = grouped.columns.map((c) => c.buffer)
+    const tiles = [grouped.tileStarts.buffer, grouped.xRanges.buffer, grouped.yRanges.buffer]
+    port!.postMessage(reply, [message.buffer, ...columns, ...tiles])
   }
 }
 

@@ -56,11 +56,9 @@ export class SlotColumns {
     )
   }
 
-  /**
-   * Fresh arrays for a new chunk. They are handed over as they are (`take`): copying them to an
-   * exact size would touch every page twice, and first touches are what new memory costs.
-   */
+  /** Room for a new chunk's rows; the arrays are reused when they are large enough. */
   reset(capacity: number) {
+    if (capacity <= this.capacity) return
     this.capacity = 0
     this.resize(capacity)
   }
@@ -89,7 +87,7 @@ export class SlotColumns {
     this.resize(Math.ceil(this.capacity * 1.5) + 1024)
   }
 
-  /** The first `rows` values of every slot (views of the arrays, which then belong to the caller). */
+  /** The first `rows` values of every slot: views, valid until the next chunk is parsed. */
   take(rows: number): StoredArray[] {
     return Array.from({ length: this.count }, (_, s) => this.arrayOf(s).subarray(0, rows))
   }

@@ -3,7 +3,6 @@
  * element accesses polymorphic, several times slower over millions of rows (measured with the
  * ingest benchmark), so each class gets its own copy and a small dispatcher picks one.
  */
-import type { OutputArray } from './output.columns'
 import type { StoredArray } from './slot.columns'
 
 export interface ColumnStats {
@@ -23,7 +22,15 @@ export function tallyStats(tally: Tally, values: number): ColumnStats {
   return { count: values - tally[2]!, missing: tally[2]!, min: tally[0]!, max: tally[1]! }
 }
 
-/** Statistics of a column read before writing: x and y (Float32) or channel (Uint16). */
+/** An array of the same class and length, zeroed. */
+export function emptyLike(values: StoredArray): StoredArray {
+  if (values instanceof Float32Array) return new Float32Array(values.length)
+  if (values instanceof Float64Array) return new Float64Array(values.length)
+  if (values instanceof Uint32Array) return new Uint32Array(values.length)
+  return new Uint16Array(values.length)
+}
+
+/** Statistics of a Float32 (x, y) or Uint16 (channel) column, without moving it. */
 export function statsOf(values: StoredArray): ColumnStats {
   const tally = newTally()
   if (values instanceof Float32Array) tallyFloat32(values, tally)
@@ -57,13 +64,13 @@ function tallyUint16(values: Uint16Array, tally: Tally) {
 }
 
 /**
- * Moves row i of `values` to `target[cursor[keys[i]]++]` (the second pass of a counting sort,
- * straight into the tile-ordered output) and tallies min, max and NaNs on the way. With `ranges`,
- * also the min and max per tile (2 entries per tile), for x and y.
+ * Moves row i of `values` to `target[cursor[keys[i]]++]` (the second pass of a counting sort)
+ * and tallies min, max and NaNs on the way. With `ranges`, also the min and max per tile (2
+ * entries per tile), for x and y.
  */
 export function scatterInto(
   values: StoredArray,
-  target: OutputArray,
+  target: StoredArray,
   keys: Uint16Array,
   cursor: Uint32Array,
   tally: Tally,
@@ -76,10 +83,7 @@ export function scatterInto(
     scatterFloat64(values, target, keys, cursor, tally)
   } else if (values instanceof Uint32Array && target instanceof Uint32Array) {
     scatterUint32(values, target, keys, cursor, tally)
-  } else if (
-    values instanceof Uint16Array &&
-    (target instanceof Uint16Array || target instanceof Uint8Array)
-  ) {
+  } else if (values instanceof Uint16Array && target instanceof Uint16Array) {
     scatterUint16(values, target, keys, cursor, tally)
   } else throw new Error('scatterInto: the target type does not fit the column')
 }
@@ -142,10 +146,9 @@ function scatterUint32(
   tally.set([min, max, 0])
 }
 
-/** A channel column: into Uint16 or, when every value fits, Uint8. */
 function scatterUint16(
   from: Uint16Array,
-  to: Uint16Array | Uint8Array,
+  to: Uint16Array,
   keys: Uint16Array,
   cursor: Uint32Array,
   tally: Tally,
