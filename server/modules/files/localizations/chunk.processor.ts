@@ -130,7 +130,11 @@ function emptyRanges(tiles: number) {
   return ranges
 }
 
-/** Each row's tile key (as tileKey in tile.grid.ts, with the grid in locals), and tile starts. */
+/**
+ * Each row's tile key and the tiles' first rows. Column c = ⌊(x − originX) · (1/size)⌋ clamped to
+ * the grid (multiplying by the inverse is cheaper than dividing, over millions of rows); row r
+ * likewise from y; key = r · columns + c.
+ */
 function tileKeys(grid: TileGrid, x: Float32Array, y: Float32Array) {
   const keys = new Uint16Array(x.length)
   const tiles = grid.columns * grid.rows

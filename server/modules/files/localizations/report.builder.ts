@@ -44,7 +44,8 @@ export function buildReport(
       arrowPath: outputPath,
       indexPath: indexPathFor(outputPath),
       bytes: o.bytes,
-      layout: 'one record batch per non-empty tile of a square grid over the x/y bounds, row-major',
+      layout:
+        'one record batch per non-empty tile of a square x/y grid, tiles row-major (tile.index.ts)',
       grid: o.grid,
       recordBatches: o.batches,
     },

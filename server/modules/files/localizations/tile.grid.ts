@@ -1,7 +1,7 @@
 /**
- * The fixed square grid over the x/y bounds that orders the output. Tile (column c, row r) covers
- * [originX + c·size, originX + (c+1)·size) × [originY + r·size, …); the last column and row also
- * take the upper edge. Its key is r·columns + c, the order tiles are written in.
+ * The fixed square grid that orders the output. Tile (column c, row r) covers [originX + c·size,
+ * originX + (c+1)·size) × [originY + r·size, …); the first and last columns and rows also take
+ * what lies beyond the grid's extent. Its key is r·columns + c, the order tiles are written in.
  */
 
 export interface TileGrid {
@@ -43,19 +43,4 @@ export function planGrid(
     columns: Math.max(1, Math.ceil(width / size)),
     rows: Math.max(1, Math.ceil(height / size)),
   }
-}
-
-/** Multiplies by 1/size (faster than dividing, over millions of rows); the store does the same. */
-export function tileColumn(grid: TileGrid, x: number): number {
-  const c = Math.floor((x - grid.originX) * (1 / grid.tileSizeNm))
-  return c < 0 ? 0 : c >= grid.columns ? grid.columns - 1 : c
-}
-
-export function tileRow(grid: TileGrid, y: number): number {
-  const r = Math.floor((y - grid.originY) * (1 / grid.tileSizeNm))
-  return r < 0 ? 0 : r >= grid.rows ? grid.rows - 1 : r
-}
-
-export function tileKey(grid: TileGrid, x: number, y: number): number {
-  return tileRow(grid, y) * grid.columns + tileColumn(grid, x)
 }

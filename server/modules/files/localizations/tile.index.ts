@@ -1,13 +1,15 @@
 /**
  * The JSON index written beside the Arrow file (`<output>.index.json`). Layout of the pair:
  *
- * - The Arrow IPC file holds one record batch per non-empty tile of a square grid laid over the
- *   x/y bounds of the accepted rows, batches in tile-key order (key = row · columns + column,
- *   row-major from the lower x/y corner), rows inside a batch in source order. Concatenated, the
- *   batches are the table sorted by tile key.
- * - The index names the grid (origin, tile side, columns, rows), the bounds, the row count, the
- *   columns and, per tile, its batch number, first row, row count and the bounds of its rows. A
- *   region query reads the index, then only the batches whose bounds meet the region.
+ * - The Arrow IPC file holds one record batch per non-empty tile of a square grid, batches in
+ *   tile-key order (key = row · columns + column, row-major from the lower x/y corner), rows
+ *   inside a batch in source order. Concatenated, the batches are the table sorted by tile key.
+ *   The grid is laid over the extent of the first rows (localization tables run in frame order,
+ *   and early frames span the field), or of all rows when more than 5 % fell outside it; rows
+ *   beyond its extent belong to its edge tiles.
+ * - The index names the grid (origin, tile side, columns, rows), the bounds of all rows, the row
+ *   count, the columns and, per tile, its batch number, first row, row count and the bounds of its
+ *   rows. A region query reads the index, then only the batches whose row bounds meet the region.
  */
 import { readFile, writeFile } from 'node:fs/promises'
 import { basename } from 'node:path'
