@@ -6,6 +6,7 @@ import { afterAll, describe, expect, it } from 'vitest'
 import { ZodError } from 'zod'
 import {
   ingestLocalizationTable,
+  prestartParseWorkers,
   TableFormatError,
   type IngestOptions,
 } from '@server/modules/files/localizations'
@@ -259,5 +260,7 @@ describe('ingestLocalizationTable: refusals', () => {
     await expect(ingest(broken, { tuning })).rejects.toMatchObject({ code: 'line_too_long' })
     const { report } = await ingest(`frame,x,y,photons\n${rows}\n`, { tuning })
     expect(report.rowsAccepted).toBe(3000)
+    // Both workers went back to the pool; prestarting finds them there.
+    expect(prestartParseWorkers(2)).toBe(2)
   })
 })

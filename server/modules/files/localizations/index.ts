@@ -1,6 +1,7 @@
 /** Localization tables: sniff, ingest into a tile-ordered Arrow file, read regions back. */
 export { sniffTable } from './sniff.service'
 export { ingestLocalizationTable, type IngestOptions } from './ingest.service'
+export { prestartParseWorkers } from './parse-worker.pool'
 export { readTilesInBox, type BoxRows } from './tile.reader'
 export type { IngestReport, ColumnReport } from './ingest-report'
 export type { FormatOverrides } from './table.sniffer'

@@ -1,7 +1,7 @@
 /**
  * Chunk workers, kept per thread between ingests: starting one costs a few hundred ms (it loads
  * tsx to read our TypeScript), more than parsing a small table. Idle workers are unreferenced, so
- * they never keep the process alive, and stop after a minute.
+ * they never keep the process alive, and stop after five idle minutes.
  */
 import { createRequire } from 'node:module'
 import { pathToFileURL } from 'node:url'
@@ -10,7 +10,7 @@ import type { ChunkBackend, FromWorker, Processed, ToWorker } from './ingest.bac
 import type { ParsePlan } from './parse-plan'
 import type { TileGrid } from './tile.grid'
 
-const IDLE_MS = 60_000
+const IDLE_MS = 5 * 60_000
 
 /** Node 20 does not pass module hooks to workers: a TypeScript entry registers tsx first. */
 const BOOTSTRAP = `
@@ -59,6 +59,13 @@ export class ParseWorker implements ChunkBackend {
     this.send({ type: 'begin', plan })
   }
 
+  /** Idle in the pool from the start (for prestarting). */
+  park() {
+    this.worker.unref()
+    this.idleTimer = setTimeout(() => this.stop(), IDLE_MS).unref()
+    idle.push(this)
+  }
+
   process(seq: number, bytes: Uint8Array<ArrayBuffer>, grid: TileGrid): Promise<Processed> {
     if (this.failure) return Promise.reject(this.failure)
     if (bytes.byteOffset !== 0) throw new Error('A chunk must start its buffer')
@@ -72,9 +79,7 @@ export class ParseWorker implements ChunkBackend {
   release() {
     if (this.failure || this.inFlight > 0) return void this.stop()
     this.send({ type: 'end' })
-    this.worker.unref()
-    this.idleTimer = setTimeout(() => this.stop(), IDLE_MS).unref()
-    idle.push(this)
+    this.park()
   }
 
   private send(message: ToWorker, transfer: ArrayBuffer[] = []) {
@@ -113,4 +118,13 @@ export function acquireParseWorkers(count: number, plan: ParsePlan): ParseWorker
   while (workers.length < count) workers.push(new ParseWorker())
   for (const worker of workers) worker.begin(plan)
   return workers
+}
+
+/**
+ * Starts workers ahead of the first ingest (a job runner can call this when it starts), so that
+ * ingest does not wait for them to load. Returns how many are idle in the pool.
+ */
+export function prestartParseWorkers(count: number): number {
+  while (idle.length < count) new ParseWorker().park()
+  return idle.length
 }
