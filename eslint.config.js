@@ -11,7 +11,7 @@ export default defineConfigWithVueTs(
   skipFormatting,
   {
     name: 'app/node-globals',
-    files: ['server/**', 'tests/**', 'bench/**', '*.config.*'],
+    files: ['server/**', 'tests/**', '*.config.*'],
     languageOptions: { globals: globals.node },
   },
   {

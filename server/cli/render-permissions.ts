@@ -1,5 +1,5 @@
 import { writeFileSync } from 'node:fs'
 import { renderPermissionsMarkdown } from '../../shared/permissions/render-matrix'
 
-writeFileSync(new URL('../../docs/permissions.md', import.meta.url), renderPermissionsMarkdown())
-process.stdout.write('docs/permissions.md written\n')
+writeFileSync(new URL('../../shared/permissions/PERMISSIONS.md', import.meta.url), renderPermissionsMarkdown())
+process.stdout.write('shared/permissions/PERMISSIONS.md written\n')

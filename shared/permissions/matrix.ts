@@ -2,7 +2,7 @@ import { ACCESS_PHASES, type AccessPhase } from '../domain/dataset-state'
 import type { DatasetAction, ProjectAction } from './actions'
 
 /**
- * The permission matrix, written once. The CASL abilities are built from it, docs/permissions.md is
+ * The permission matrix, written once. The CASL abilities are built from it, shared/permissions/PERMISSIONS.md is
  * rendered from it, and tests/api/permission-matrix.test.ts checks every cell against the HTTP API.
  *
  * Rows are the ways a person can stand towards a dataset. A cell lists the access phases (state, and

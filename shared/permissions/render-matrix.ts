@@ -5,7 +5,7 @@ import { DATASET_MATRIX, MATRIX_ROLES, MATRIX_ROLE_LABELS, PROJECT_MATRIX } from
 const YES = '✓'
 const NO = '·'
 
-/** docs/permissions.md, rendered from the matrix the abilities are built from. */
+/** shared/permissions/PERMISSIONS.md, rendered from the matrix the abilities are built from. */
 export function renderPermissionsMarkdown(): string {
   const out: string[] = [
     '# Who may do what',

@@ -14,9 +14,21 @@ const subjectIn = (phase: AccessPhase, id = 1) =>
     id,
     project: 7,
     state: phase === 'embargoed' || phase === 'released' ? 'approved' : phase,
-    embargoUntil: phase === 'embargoed' ? new Date('2026-06-16T00:00:00Z') : phase === 'released' ? new Date('2026-06-15T00:00:00Z') : null,
+    embargoUntil:
+      phase === 'embargoed'
+        ? new Date('2026-06-16T00:00:00Z')
+        : phase === 'released'
+          ? new Date('2026-06-15T00:00:00Z')
+          : null,
   })
-const viewer = (overrides: Partial<Viewer>): Viewer => ({ id: 1, siteRole: null, organizationId: 3, memberships: [], shares: [], ...overrides })
+const viewer = (overrides: Partial<Viewer>): Viewer => ({
+  id: 1,
+  siteRole: null,
+  organizationId: 3,
+  memberships: [],
+  shares: [],
+  ...overrides,
+})
 
 describe('abilities built from the matrix', () => {
   const cases: [string, Viewer | null, keyof typeof DATASET_MATRIX][] = [
@@ -27,39 +39,68 @@ describe('abilities built from the matrix', () => {
     ['steward', viewer({ siteRole: 'steward' }), 'steward'],
     ['editor', viewer({ siteRole: 'editor' }), 'editor'],
     ['admin', viewer({ siteRole: 'admin' }), 'admin'],
-    ['collaborator', viewer({ organizationId: null, shares: [{ datasetId: 1, capabilities: ['preview', 'annotate', 'download'] }] }), 'collaborator'],
+    [
+      'collaborator',
+      viewer({
+        organizationId: null,
+        shares: [{ datasetId: 1, capabilities: ['preview', 'annotate', 'download'] }],
+      }),
+      'collaborator',
+    ],
   ]
   it.each(cases)('%s: can() agrees with every cell', (_name, who, role) => {
     const ability = defineAbilityFor(who, NOW)
     for (const phase of ACCESS_PHASES) {
       for (const action of DATASET_ACTIONS) {
-        expect(ability.can(action, subjectIn(phase)), `${action} in ${phase}`).toBe(DATASET_MATRIX[role][action].includes(phase))
+        expect(ability.can(action, subjectIn(phase)), `${action} in ${phase}`).toBe(
+          DATASET_MATRIX[role][action].includes(phase),
+        )
       }
     }
   })
 
   it('a member of another project has only the public rights', () => {
-    const ability = defineAbilityFor(viewer({ memberships: [{ projectId: 8, role: 'owner' }] }), NOW)
+    const ability = defineAbilityFor(
+      viewer({ memberships: [{ projectId: 8, role: 'owner' }] }),
+      NOW,
+    )
     expect(ability.can('read', subjectIn('draft'))).toBe(false)
     expect(ability.can('read', subjectIn('released'))).toBe(true)
   })
 
   it('an embargo ends at 00:00 UTC of its day', () => {
-    const facts = { id: 1, project: 7, state: 'approved' as const, embargoUntil: new Date('2026-06-16T00:00:00Z') }
-    expect(defineAbilityFor(null, new Date('2026-06-15T23:59:59Z')).can('download', datasetSubject(facts))).toBe(false)
-    expect(defineAbilityFor(null, new Date('2026-06-16T00:00:00Z')).can('download', datasetSubject(facts))).toBe(true)
+    const facts = {
+      id: 1,
+      project: 7,
+      state: 'approved' as const,
+      embargoUntil: new Date('2026-06-16T00:00:00Z'),
+    }
+    expect(
+      defineAbilityFor(null, new Date('2026-06-15T23:59:59Z')).can(
+        'download',
+        datasetSubject(facts),
+      ),
+    ).toBe(false)
+    expect(
+      defineAbilityFor(null, new Date('2026-06-16T00:00:00Z')).can(
+        'download',
+        datasetSubject(facts),
+      ),
+    ).toBe(true)
   })
 
   it('only people of a consortium organization may create projects', () => {
     expect(defineAbilityFor(viewer({}), NOW).can('create', 'Project')).toBe(true)
-    expect(defineAbilityFor(viewer({ organizationId: null }), NOW).can('create', 'Project')).toBe(false)
+    expect(defineAbilityFor(viewer({ organizationId: null }), NOW).can('create', 'Project')).toBe(
+      false,
+    )
     expect(defineAbilityFor(null, NOW).can('create', 'Project')).toBe(false)
   })
 })
 
-describe('docs/permissions.md', () => {
+describe('shared/permissions/PERMISSIONS.md', () => {
   it('is up to date with the matrix (run `npm run docs:permissions`)', () => {
-    const committed = readFileSync(join(process.cwd(), 'docs/permissions.md'), 'utf8')
+    const committed = readFileSync(join(process.cwd(), 'shared/permissions/PERMISSIONS.md'), 'utf8')
     expect(committed).toBe(renderPermissionsMarkdown())
   })
 })

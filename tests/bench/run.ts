@@ -3,12 +3,14 @@
  * Benchmarks are never part of `npm test`.
  */
 import { benchDatasetList } from './datasets-list.bench'
+import { benchIngest } from './ingest.bench'
 import { benchRawStack } from './raw-stack.bench'
 import { benchUpload } from './upload.bench'
 
 const only = process.argv[2]
 const benches: Record<string, () => Promise<Record<string, unknown>>> = {
   'datasets-list': benchDatasetList,
+  ingest: benchIngest,
   'raw-stack': benchRawStack,
   upload: benchUpload,
 }

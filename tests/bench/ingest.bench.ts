@@ -12,7 +12,7 @@ import { fileURLToPath } from 'node:url'
 import { promisify } from 'node:util'
 
 const run = promisify(execFile)
-const repo = fileURLToPath(new URL('..', import.meta.url))
+const repo = fileURLToPath(new URL('../..', import.meta.url))
 /** The reference scripts: STIPPLE_SHARED_DIR, else ../shared beside the repository. */
 const shared = process.env.STIPPLE_SHARED_DIR ?? join(repo, '..', 'shared')
 const ROWS = Number(process.env.BENCH_INGEST_ROWS ?? 10_000_000)
@@ -43,7 +43,7 @@ async function referenceTable(): Promise<string> {
 }
 
 async function ingestInChild(table: string, output: string): Promise<ChildResult> {
-  const args = ['--import', 'tsx', join(repo, 'bench', 'ingest-child.ts'), table, output]
+  const args = ['--import', 'tsx', join(repo, 'tests', 'bench', 'ingest-child.ts'), table, output]
   const { stdout } = await run(process.execPath, args, { cwd: repo, maxBuffer: MAX_BUFFER })
   const line = stdout.split('\n').find((l) => l.startsWith('RESULT '))
   if (!line) throw new Error(`the ingest child printed no result:\n${stdout}`)

@@ -10,7 +10,7 @@ import { tmpdir } from 'node:os'
 import { join } from 'node:path'
 import { fromFile } from 'geotiff'
 import { readStackHeader, scanStack } from '@server/modules/files/raw-stacks'
-import { writeTiffStack } from '../tests/fixtures/tiff-writer'
+import { writeTiffStack } from '../fixtures/tiff-writer'
 
 const SIDE = 512
 const FRAMES = Number(process.env.RAW_STACK_FRAMES ?? 2000)

@@ -2,7 +2,7 @@
  * One ingest in a process of its own, so its peak RSS is the ingest's: sniffs the table, takes the
  * suggested mapping, ingests, then prints `RESULT {json}` with the wall time, CPU time and peak
  * RSS (taken before a second, warm ingest).
- * usage: tsx bench/ingest-child.ts <table> <output.arrow>
+ * usage: tsx tests/bench/ingest-child.ts <table> <output.arrow>
  */
 import { ingestLocalizationTable, sniffTable } from '@server/modules/files/localizations'
 import { suggestMapping } from '@shared/domain/localization-columns'

@@ -9,7 +9,7 @@ import { createReadStream, createWriteStream, mkdtempSync, rmSync } from 'node:f
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
 import { promisify } from 'node:util'
-import { freePort, ServerProcess } from '../tests/fixtures/server-process'
+import { freePort, ServerProcess } from '../fixtures/server-process'
 
 const run = promisify(execFile)
 const SIZE_MB = Number(process.env.BENCH_UPLOAD_MB ?? 2048)
