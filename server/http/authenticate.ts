@@ -1,6 +1,6 @@
 import type { EntityManager } from '@mikro-orm/better-sqlite'
 import type { RequestHandler } from 'express'
-import { defineAbilityFor } from '@shared/permissions/abilities'
+import { defineAbilityFor, type AppAbility } from '@shared/permissions/abilities'
 import type { Viewer } from '@shared/permissions/viewer'
 import { UnauthorizedError } from '../errors/http-error'
 import type { AccessVersionReader } from '../modules/common/access-version'
@@ -16,10 +16,13 @@ export type CurrentUser = Pick<IUser, 'id' | 'email' | 'name' | 'siteRole' | 'or
 
 interface Identity {
   user: CurrentUser
-  viewer: Viewer
+  /** Frozen: it is shared by every request of this identity until the access version moves. */
+  viewer: Readonly<Viewer>
   tokenId?: number
   expiresAt?: number | null
   lastUsedWrite?: number
+  /** The abilities built for one clock second (see abilityAt). */
+  ability?: { second: number; value: AppAbility }
 }
 
 /** lastUsedAt is written at most this often, so token auth does not turn every read into a write. */
@@ -34,7 +37,28 @@ const snapshot = (u: IUser): CurrentUser => ({
 })
 
 async function identityFor(em: EntityManager, user: IUser | null, extra: Partial<Identity> = {}): Promise<Identity | null> {
-  return user ? { user: snapshot(user), viewer: await loadViewer(em, user), ...extra } : null
+  return user ? { user: snapshot(user), viewer: deepFreeze(await loadViewer(em, user)), ...extra } : null
+}
+
+function deepFreeze<T extends object>(value: T): T {
+  for (const inner of Object.values(value)) if (inner && typeof inner === 'object') deepFreeze(inner as object)
+  return Object.freeze(value)
+}
+
+/**
+ * Abilities depend on the clock only through embargo dates, which are whole days. Building them
+ * once per identity and second (at the start of that second) saves the work on every request and
+ * keeps the list filters, and so the page caches, the same for that second. An embargo therefore
+ * ends at most one second late, never early.
+ */
+function abilityAt(identity: Identity | null, now: number, publicAbility: { second: number; value: AppAbility }): AppAbility {
+  const second = Math.floor(now / 1000)
+  const slot = identity ? identity.ability : publicAbility
+  if (slot?.second === second) return slot.value
+  const value = defineAbilityFor(identity?.viewer ?? null, new Date(second * 1000))
+  if (identity) identity.ability = { second, value }
+  else Object.assign(publicAbility, { second, value })
+  return value
 }
 
 async function tokenIdentity(em: EntityManager, tokenHash: string, now: number): Promise<Identity | null> {
@@ -56,6 +80,7 @@ async function tokenIdentity(em: EntityManager, tokenHash: string, now: number):
  */
 export function authenticate(accessVersion: AccessVersionReader): RequestHandler {
   const cache = new VersionedCache<Identity | null>(5000)
+  const publicAbility = { second: -1, value: defineAbilityFor(null) }
   return async (req, _res, next) => {
     const em = requestEm()
     const now = Date.now()
@@ -94,9 +119,8 @@ export function authenticate(accessVersion: AccessVersionReader): RequestHandler
       }
     }
     req.user = identity?.user ?? null
-    // A copy: services may add to it (a new project's owner) without touching the cached one.
-    req.viewer = identity ? structuredClone(identity.viewer) : null
-    req.ability = defineAbilityFor(req.viewer, new Date(now))
+    req.viewer = identity?.viewer ?? null
+    req.ability = abilityAt(identity, now, publicAbility)
     next()
   }
 }

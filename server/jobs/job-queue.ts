@@ -25,6 +25,20 @@ export async function claimNextJob(em: EntityManager, now = new Date()): Promise
   return rows[0]?.id ?? null
 }
 
+/**
+ * Whether a poll has anything to do: a queued job, or a running one whose heartbeat is older than
+ * `staleAfterMs`. A read only, so an idle poll never takes SQLite's write lock (nor waits for a
+ * commit's fsync on the request thread).
+ */
+export async function hasClaimableJobs(em: EntityManager, staleAfterMs: number, now = new Date()): Promise<boolean> {
+  const row = await em.getConnection().execute<{ found?: number }>(
+    "select 1 as `found` from `job` where `state` = 'queued' or (`state` = 'running' and (`heartbeat_at` is null or `heartbeat_at` < ?)) limit 1",
+    [now.getTime() - staleAfterMs],
+    'get',
+  )
+  return row?.found === 1
+}
+
 /** Jobs whose process stopped beating (killed, crashed) go back to the queue. */
 export async function requeueAbandonedJobs(em: EntityManager, staleAfterMs: number, now = new Date()): Promise<number> {
   return em.nativeUpdate(

@@ -4,7 +4,7 @@ import type { Orm } from '../db'
 import type { Logger } from '../logger'
 import { Job, type IJob } from './job.entity'
 import type { JobMessage } from './job-protocol'
-import { claimNextJob, requeueAbandonedJobs } from './job-queue'
+import { claimNextJob, hasClaimableJobs, requeueAbandonedJobs } from './job-queue'
 
 /** What the main thread does with a job's outcome (database updates), per kind. */
 export interface JobCompletion {
@@ -74,6 +74,7 @@ export class JobRunner {
       if (this.running.size) {
         await em.nativeUpdate(Job, { id: { $in: [...this.running.keys()] } }, { heartbeatAt: new Date() })
       }
+      if (this.running.size >= this.o.workers || !(await hasClaimableJobs(em, heartbeat * 5))) return
       await requeueAbandonedJobs(em, heartbeat * 5)
       while (this.running.size < this.o.workers && !this.stopped) {
         const id = await claimNextJob(em)

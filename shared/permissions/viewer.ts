@@ -2,13 +2,14 @@ import type { ProjectRole, ShareCapability, SiteRole } from '../domain/roles'
 
 /**
  * Everything the abilities need to know about the person asking. The server builds it from the
- * database for every request; the client receives the same object from GET /api/me.
+ * database and caches it frozen per access version, so it is never changed in place; the client
+ * receives the same facts from GET /api/me.
  */
 export interface Viewer {
-  id: number
-  siteRole: SiteRole | null
+  readonly id: number
+  readonly siteRole: SiteRole | null
   /** Consortium members belong to an organization (lab or institute); external people do not. */
-  organizationId: number | null
-  memberships: { projectId: number; role: ProjectRole }[]
-  shares: { datasetId: number; capabilities: ShareCapability[] }[]
+  readonly organizationId: number | null
+  readonly memberships: readonly { readonly projectId: number; readonly role: ProjectRole }[]
+  readonly shares: readonly { readonly datasetId: number; readonly capabilities: readonly ShareCapability[] }[]
 }

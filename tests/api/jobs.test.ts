@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { openDatabase, type Orm } from '@server/db'
 import { Job } from '@server/jobs/job.entity'
-import { enqueueJob } from '@server/jobs/job-queue'
+import { enqueueJob, hasClaimableJobs } from '@server/jobs/job-queue'
 import { JobRunner } from '@server/jobs/job-runner'
 import { createLogger } from '@server/logger'
 
@@ -93,6 +93,20 @@ describe('the job queue', () => {
     second.start()
     await until(async () => (await jobState(job.id)) === 'done', 20_000)
     await second.stop()
+  })
+
+  it('an idle poll sees nothing to claim; a queued or stale job is seen', async () => {
+    const em = orm.em.fork()
+    await em.nativeDelete(Job, {})
+    expect(await hasClaimableJobs(em, 1000)).toBe(false)
+    const job = enqueueJob(em, { kind: 'queue-probe', payload: {} })
+    await em.flush()
+    expect(await hasClaimableJobs(em, 1000)).toBe(true)
+    await em.nativeUpdate(Job, { id: job.id }, { state: 'running', heartbeatAt: new Date() })
+    expect(await hasClaimableJobs(em, 1000)).toBe(false)
+    await em.nativeUpdate(Job, { id: job.id }, { heartbeatAt: new Date(Date.now() - 5000) })
+    expect(await hasClaimableJobs(em, 1000)).toBe(true)
+    await em.nativeDelete(Job, { id: job.id })
   })
 
   it('fails an unknown kind of job', async () => {

@@ -83,19 +83,35 @@ function filtersFor(allowed: FilterQuery<IDataset>, q: ListDatasetsParams): Obje
 export class DatasetCatalogue {
   private readonly totals = new VersionedCache<number>(2000)
   private readonly pages = new VersionedCache<Page<DatasetDto>>(500)
+  /** The filter (and its cache key) per abilities object and query; abilities are reused for a second. */
+  private readonly filters = new WeakMap<object, Map<string, { where: ObjectQuery<IDataset>; key: string } | null>>()
 
   async list(em: EntityManager, actor: Actor, q: ListDatasetsParams): Promise<Page<DatasetDto>> {
-    const allowed = accessibleWhere<IDataset>(actor.ability, 'read', 'Dataset')
-    if (allowed === null) return { items: [], total: 0 }
-    const where = filtersFor(allowed, q)
+    const filter = this.filterFor(actor, q)
+    if (filter === null) return { items: [], total: 0 }
     const version = actor.accessVersion ?? (await readAccessVersion(em))
-    const key = JSON.stringify(where)
-    const pageKey = `${key}|${q.sort}|${q.limit}|${q.offset}`
+    const pageKey = `${filter.key}|${q.sort}|${q.limit}|${q.offset}`
     const cached = this.pages.get(pageKey, version)
     if (cached) return cached
-    const page = await this.read(em, where, key, version, q)
+    // MikroORM rewrites the filter objects it is given; the memoised one must stay intact.
+    const page = await this.read(em, structuredClone(filter.where), filter.key, version, q)
     this.pages.set(pageKey, version, page)
     return page
+  }
+
+  private filterFor(actor: Actor, q: ListDatasetsParams) {
+    let perAbility = this.filters.get(actor.ability)
+    if (!perAbility) this.filters.set(actor.ability, (perAbility = new Map()))
+    const queryKey = `${q.projectId ?? ''}|${q.state ?? ''}|${q.q ?? ''}`
+    let filter = perAbility.get(queryKey)
+    if (filter === undefined) {
+      const allowed = accessibleWhere<IDataset>(actor.ability, 'read', 'Dataset')
+      const where = allowed === null ? null : filtersFor(allowed, q)
+      filter = where === null ? null : { where, key: JSON.stringify(where) }
+      // Free-text searches are too varied to keep; the rest are a handful per person.
+      if (!q.q) perAbility.set(queryKey, filter)
+    }
+    return filter
   }
 
   private async read(em: EntityManager, where: ObjectQuery<IDataset>, key: string, version: number, q: ListDatasetsParams) {

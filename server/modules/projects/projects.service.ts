@@ -94,7 +94,8 @@ export async function createProject(em: EntityManager, actor: Actor, input: Crea
   em.create(Membership, { project: project.id, user: actor.user.id, role: 'owner' })
   audit(em, actor, { action: 'project.create', targetType: 'Project', targetId: project.id, details: { name } })
   await em.flush()
-  actor.viewer?.memberships.push({ projectId: project.id, role: 'owner' })
+  // The cached viewer is frozen; this request sees its new project through a copy.
+  if (actor.viewer) actor.viewer = { ...actor.viewer, memberships: [...actor.viewer.memberships, { projectId: project.id, role: 'owner' }] }
   const [dto] = await toProjectDtos(em, actor, [project])
   return dto!
 }

@@ -26,7 +26,11 @@ export function meRouter(deps: AppDeps): Router {
       user: user
         ? { id: user.id, email: user.email, name: user.name, siteRole: user.siteRole ?? null, organization: org ? { id: org.id, name: org.name } : null }
         : null,
-      viewer: req.viewer,
+      viewer: req.viewer && {
+        ...req.viewer,
+        memberships: req.viewer.memberships.map((m) => ({ ...m })),
+        shares: req.viewer.shares.map((sh) => ({ ...sh, capabilities: [...sh.capabilities] })),
+      },
       demo: deps.config.demo,
     }
     res.json(body)
