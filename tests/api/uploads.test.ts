@@ -1,4 +1,5 @@
 import { createHash, randomBytes } from 'node:crypto'
+import { request as httpRequest } from 'node:http'
 import { mkdtempSync, readdirSync, readFileSync, writeFileSync } from 'node:fs'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
@@ -153,5 +154,30 @@ describe('resumable uploads with tus-js-client (the protocol’s reference clien
     await uploads.expire()
     expect(readdirSync(join(t.config.dataDir, 'uploads'))).toEqual([])
     expect(await t.em().count(UploadReservation)).toBe(0)
+  })
+
+  it('keeps the bytes of a PATCH whose client vanished mid-body, and the checksum stays right on resumption', async () => {
+    const data = randomBytes(5 * 1024 * 1024 + 5)
+    const created = await request(live.url).post('/api/uploads').set(bearer(token)).set('Tus-Resumable', '1.0.0').set('Upload-Length', String(data.length)).set('Upload-Metadata', `dataset ${Buffer.from(draft.accession).toString('base64')},filename ${Buffer.from('vanished.bin').toString('base64')}`)
+    const path = created.headers.location as string
+    // Declares the whole body, sends 4.5 MiB (more than one of the store’s 4 MiB blocks), then cuts the socket.
+    await new Promise<void>((resolve) => {
+      const req = httpRequest(`${live.url}${path}`, {
+        method: 'PATCH',
+        headers: { ...bearer(token), 'tus-resumable': '1.0.0', 'upload-offset': '0', 'content-type': 'application/offset+octet-stream', 'content-length': String(data.length) },
+      })
+      req.on('error', () => resolve())
+      req.write(data.subarray(0, 4.5 * 1024 * 1024), () => setTimeout(() => req.destroy(), 200))
+    })
+    let offset = 0
+    for (let i = 0; i < 50 && offset === 0; i++) {
+      await new Promise((r) => setTimeout(r, 50))
+      offset = Number((await request(live.url).head(path).set(bearer(token)).set('Tus-Resumable', '1.0.0')).headers['upload-offset'])
+    }
+    expect(offset).toBeGreaterThan(4 * 1024 * 1024)
+    expect(offset).toBeLessThanOrEqual(4.5 * 1024 * 1024)
+    const finish = await request(live.url).patch(path).set(bearer(token)).set('Tus-Resumable', '1.0.0').set('Upload-Offset', String(offset)).set('Content-Type', 'application/offset+octet-stream').send(data.subarray(offset))
+    expect(finish.status).toBe(204)
+    expect((await fileRow(finish.headers['stipple-file-id'] ?? null)).sha256).toBe(sha256(data))
   })
 })

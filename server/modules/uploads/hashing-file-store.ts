@@ -1,22 +1,19 @@
-import { createWriteStream } from 'node:fs'
 import { open, stat } from 'node:fs/promises'
 import type http from 'node:http'
-import { Transform, type Readable } from 'node:stream'
+import type { Readable } from 'node:stream'
 import { pipeline } from 'node:stream/promises'
 import { FileStore } from '@tus/file-store'
 import { ERRORS } from '@tus/server'
-import { HashThread } from './hash-thread'
-
-const IO_CHUNK = 4 * 1024 * 1024
+import { UploadWriterThread } from './upload-writer-thread'
 
 /**
  * The tus file store, hashing every byte as it is written, so the SHA-256 of a finished upload is
- * known without reading the file again. The running hashes live in a thread of their own (so the
- * hash overlaps network and disk work); after a restart, or when another process took part of the
- * upload, an upload's hash is rebuilt once from the bytes already on disk.
+ * known without reading the file again. Writing and hashing happen in a thread of their own (so
+ * they overlap the network work of the request thread); after a restart, or when another process
+ * took part of the upload, an upload's hash is rebuilt once from the bytes already on disk.
  */
 export class HashingFileStore extends FileStore {
-  private readonly hashes = new HashThread()
+  private readonly hashes = new UploadWriterThread()
   /** How far each running hash has got. */
   private readonly hashedTo = new Map<string, number>()
 
@@ -32,26 +29,19 @@ export class HashingFileStore extends FileStore {
 
   override async write(readable: http.IncomingMessage | Readable, id: string, offset: number): Promise<number> {
     await this.hashFrom(id, offset)
-    const hashes = this.hashes
-    let received = 0
-    const tee = new Transform({
-      transform(chunk: Buffer, _encoding, callback) {
-        received += chunk.length
-        hashes.update(id, chunk).then(() => callback(null, chunk), callback)
-      },
-    })
-    const out = createWriteStream(this.resolvePath(id), { flags: 'r+', start: offset, highWaterMark: IO_CHUNK })
+    const writer = this.hashes.writer(id, this.resolvePath(id), offset)
     try {
-      await pipeline(readable, tee, out)
-      hashes.flush(id)
+      await pipeline(readable, writer)
     } catch {
-      // What reached the disk may be less than what was hashed: rebuild from the file next time.
-      this.hashedTo.delete(id)
-      void hashes.drop(id)
+      // When only the request broke off, what reached the disk is hashed too (the thread does
+      // both, in order), so the running hash is good for a resumption from there. After a failed
+      // disk write it is rebuilt from the file next time.
+      if (writer.failed) this.hashedTo.delete(id)
+      else this.hashedTo.set(id, offset + writer.written)
       throw ERRORS.FILE_WRITE_ERROR
     }
-    this.hashedTo.set(id, offset + received)
-    return offset + received
+    this.hashedTo.set(id, offset + writer.written)
+    return offset + writer.written
   }
 
   /**
@@ -79,6 +69,6 @@ export class HashingFileStore extends FileStore {
   }
 
   close(): Promise<void> {
-    return this.hashes.close()
+    return this.hashes.shutdown()
   }
 }
