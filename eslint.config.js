@@ -5,7 +5,17 @@ import globals from 'globals'
 
 export default defineConfigWithVueTs(
   { name: 'app/files-to-lint', files: ['**/*.{ts,mts,vue}'] },
-  { name: 'app/ignores', ignores: ['dist/**', 'data/**', 'node_modules/**', 'server/migrations/**', 'coverage/**'] },
+  {
+    name: 'app/ignores',
+    ignores: [
+      'dist/**',
+      'data/**',
+      'node_modules/**',
+      'server/migrations/**',
+      'coverage/**',
+      'tmp/**',
+    ],
+  },
   pluginVue.configs['flat/essential'],
   vueTsConfigs.recommended,
   skipFormatting,
@@ -37,7 +47,10 @@ export default defineConfigWithVueTs(
   {
     name: 'app/unused',
     rules: {
-      '@typescript-eslint/no-unused-vars': ['error', { argsIgnorePattern: '^_', varsIgnorePattern: '^_' }],
+      '@typescript-eslint/no-unused-vars': [
+        'error',
+        { argsIgnorePattern: '^_', varsIgnorePattern: '^_' },
+      ],
     },
   },
 )

@@ -25,7 +25,10 @@ export function createOrmConfig(dbName: string) {
     },
     pool: {
       // WAL lets readers run while a writer commits; one writer at a time is SQLite's own rule.
-      afterCreate: (db: { pragma: (sql: string) => unknown }, done: (err: Error | null, db: unknown) => void) => {
+      afterCreate: (
+        db: { pragma: (sql: string) => unknown },
+        done: (err: Error | null, db: unknown) => void,
+      ) => {
         try {
           db.pragma('journal_mode = WAL')
           db.pragma('foreign_keys = ON')

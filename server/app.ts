@@ -43,7 +43,10 @@ export const SESSION_COOKIE = 'stipple.sid'
 
 /** Builds the whole HTTP application; it never listens (server/main.ts does). */
 export function createApp(appOptions: CreateAppOptions): Express {
-  const options: AppDeps & CreateAppOptions = { ...appOptions, storage: appOptions.storage ?? new LocalStorage(appOptions.config.dataDir) }
+  const options: AppDeps & CreateAppOptions = {
+    ...appOptions,
+    storage: appOptions.storage ?? new LocalStorage(appOptions.config.dataDir),
+  }
   const { orm, config } = options
   const app = express()
   app.disable('x-powered-by')
@@ -76,23 +79,37 @@ export function createApp(appOptions: CreateAppOptions): Express {
   // The identity provider parses its own bodies; no global body parser sits before it.
   if (options.localIdp) {
     app.use('/oidc', options.localIdp.provider.callback())
-    app.use('/idp', interactionRouter(options.localIdp.provider, options.localIdp.accounts, config.rateLimitSignIn))
+    app.use(
+      '/idp',
+      interactionRouter(
+        options.localIdp.provider,
+        options.localIdp.accounts,
+        config.rateLimitSignIn,
+      ),
+    )
   }
   app.use('/server-assets', express.static(asset('./http/assets'), { maxAge: '1h' }))
-  app.use('/server-assets/fonts', express.static(asset('../node_modules/@fontsource/lato/files'), { maxAge: '7d' }))
+  app.use(
+    '/server-assets/fonts',
+    express.static(asset('../node_modules/@fontsource/lato/files'), { maxAge: '7d' }),
+  )
 
   const sessions = session({
-      name: SESSION_COOKIE,
-      secret: config.sessionSecrets,
-      store: new OrmSessionStore(orm),
-      resave: false,
-      saveUninitialized: false,
-      rolling: true,
-      cookie: { httpOnly: true, sameSite: 'lax', secure: 'auto', maxAge: 8 * 3600_000 },
-    })
+    name: SESSION_COOKIE,
+    secret: config.sessionSecrets,
+    store: new OrmSessionStore(orm),
+    resave: false,
+    saveUninitialized: false,
+    rolling: true,
+    cookie: { httpOnly: true, sameSite: 'lax', secure: 'auto', maxAge: 8 * 3600_000 },
+  })
   // Scripts and workstations authenticate with a bearer token and never carry a session.
-  app.use((req, res, next) => (req.headers.authorization && req.path.startsWith('/api/') ? next() : sessions(req, res, next)))
-  const accessVersion = new AccessVersionReader(orm.config.get('dbName') ?? ':memory:', () => orm.em.fork())
+  app.use((req, res, next) =>
+    req.headers.authorization && req.path.startsWith('/api/') ? next() : sessions(req, res, next),
+  )
+  const accessVersion = new AccessVersionReader(orm.config.get('dbName') ?? ':memory:', () =>
+    orm.em.fork(),
+  )
   app.locals.close = () => accessVersion.close()
   app.use(authenticate(accessVersion))
   app.use(sameOriginWrites(new URL(config.publicUrl).origin))
@@ -107,7 +124,9 @@ export function createApp(appOptions: CreateAppOptions): Express {
   const api = express.Router()
   const json = express.json({ limit: '1mb' })
   // Reads carry no body; skipping the parser there keeps the hot list route short.
-  api.use((req, res, next) => (req.method === 'GET' || req.method === 'HEAD' ? next() : json(req, res, next)))
+  api.use((req, res, next) =>
+    req.method === 'GET' || req.method === 'HEAD' ? next() : json(req, res, next),
+  )
   api.get('/health', (_req, res) => {
     res.json({ status: 'ok' })
   })
@@ -122,7 +141,8 @@ export function createApp(appOptions: CreateAppOptions): Express {
   api.use('/audit', auditRouter())
   api.use('/instrument-profiles', instrumentProfilesRouter())
   api.use(metadataRouter())
-  if (config.demo && options.mailCatcher) api.use('/dev/mail', caughtMailRouter(options.mailCatcher))
+  if (config.demo && options.mailCatcher)
+    api.use('/dev/mail', caughtMailRouter(options.mailCatcher))
   api.use(apiNotFound)
   app.use('/api', api)
 

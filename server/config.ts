@@ -26,9 +26,17 @@ const envSchema = z.object({
   RATE_LIMIT_SIGN_IN: z.coerce.number().int().min(1).default(30),
   LOG_LEVEL: z.enum(['silent', 'error', 'info', 'debug']).default('info'),
   /** Largest single upload, bytes (default 200 GiB). */
-  UPLOAD_MAX_BYTES: z.coerce.number().int().positive().default(200 * 1024 ** 3),
+  UPLOAD_MAX_BYTES: z.coerce
+    .number()
+    .int()
+    .positive()
+    .default(200 * 1024 ** 3),
   /** Bytes one project may hold, uploads in progress included (default 2 TiB). */
-  PROJECT_QUOTA_BYTES: z.coerce.number().int().positive().default(2 * 1024 ** 4),
+  PROJECT_QUOTA_BYTES: z.coerce
+    .number()
+    .int()
+    .positive()
+    .default(2 * 1024 ** 4),
   /** Unfinished uploads untouched this long are deleted and their space freed. */
   UPLOAD_EXPIRY_HOURS: z.coerce.number().positive().default(48),
   /** Worker threads for heavy jobs (ingest, raw-stack scans). */
@@ -93,15 +101,20 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): AppConfig {
   if (production) {
     const problems: string[] = []
     if (demo) problems.push('DEMO must be false in production')
-    if (local) problems.push('OIDC_ISSUER, OIDC_CLIENT_ID and OIDC_CLIENT_SECRET must name a real provider')
+    if (local)
+      problems.push('OIDC_ISSUER, OIDC_CLIENT_ID and OIDC_CLIENT_SECRET must name a real provider')
     if (!e.SMTP_URL) problems.push('SMTP_URL must name a real mail server')
     if (!e.PUBLIC_URL?.startsWith('https://')) problems.push('PUBLIC_URL must be an https:// URL')
     if (problems.length) {
-      throw new ConfigError(`Refusing to start in production with demo settings:\n  ${problems.join('\n  ')}`)
+      throw new ConfigError(
+        `Refusing to start in production with demo settings:\n  ${problems.join('\n  ')}`,
+      )
     }
   }
   if (!local && (!e.OIDC_CLIENT_ID || !e.OIDC_CLIENT_SECRET)) {
-    throw new ConfigError('OIDC_ISSUER is set, so OIDC_CLIENT_ID and OIDC_CLIENT_SECRET are needed too')
+    throw new ConfigError(
+      'OIDC_ISSUER is set, so OIDC_CLIENT_ID and OIDC_CLIENT_SECRET are needed too',
+    )
   }
 
   const secrets = loadLocalSecrets(dataDir)
@@ -116,14 +129,23 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): AppConfig {
     demo,
     oidc: local
       ? { issuer: null, clientId: 'stipple-web', clientSecret: secrets.localClientSecret, local }
-      : { issuer: e.OIDC_ISSUER!, clientId: e.OIDC_CLIENT_ID!, clientSecret: e.OIDC_CLIENT_SECRET!, local },
+      : {
+          issuer: e.OIDC_ISSUER!,
+          clientId: e.OIDC_CLIENT_ID!,
+          clientSecret: e.OIDC_CLIENT_SECRET!,
+          local,
+        },
     sessionSecrets: [e.SESSION_SECRET ?? secrets.sessionSecret],
     smtpUrl: e.SMTP_URL ?? null,
     mailFrom: e.MAIL_FROM,
     trustProxy: e.TRUST_PROXY,
     rateLimitSignIn: e.RATE_LIMIT_SIGN_IN,
     logLevel: e.LOG_LEVEL,
-    uploads: { maxBytes: e.UPLOAD_MAX_BYTES, projectQuotaBytes: e.PROJECT_QUOTA_BYTES, expiryMs: e.UPLOAD_EXPIRY_HOURS * 3600_000 },
+    uploads: {
+      maxBytes: e.UPLOAD_MAX_BYTES,
+      projectQuotaBytes: e.PROJECT_QUOTA_BYTES,
+      expiryMs: e.UPLOAD_EXPIRY_HOURS * 3600_000,
+    },
     jobWorkers: e.JOB_WORKERS,
   }
 }

@@ -17,7 +17,9 @@ function serialise(fields: Record<string, unknown>) {
 export function createLogger(level: LogLevel): Logger {
   const write = (at: LogLevel) => (fields: Record<string, unknown>, message: string) => {
     if (RANK[at] > RANK[level]) return
-    process.stderr.write(`${JSON.stringify({ time: new Date().toISOString(), level: at, message, ...serialise(fields) })}\n`)
+    process.stderr.write(
+      `${JSON.stringify({ time: new Date().toISOString(), level: at, message, ...serialise(fields) })}\n`,
+    )
   }
   return { error: write('error'), info: write('info'), debug: write('debug') }
 }

@@ -8,8 +8,14 @@ async function main() {
   const lines = [``, `Stipple is running at ${stipple.url}`, ``]
   if (stipple.config.demo) {
     lines.push('Demo sign-ins (local identity provider):')
-    for (const a of stipple.accounts) lines.push(`  ${a.role.padEnd(13)} ${a.email.padEnd(40)} ${a.password}`)
-    lines.push('', `Caught mail: ${stipple.url}/admin/mail (as admin)`, `API docs:    ${stipple.url}/api/docs`, '')
+    for (const a of stipple.accounts)
+      lines.push(`  ${a.role.padEnd(13)} ${a.email.padEnd(40)} ${a.password}`)
+    lines.push(
+      '',
+      `Caught mail: ${stipple.url}/admin/mail (as admin)`,
+      `API docs:    ${stipple.url}/api/docs`,
+      '',
+    )
   }
   process.stdout.write(lines.join('\n') + '\n')
 
@@ -23,6 +29,8 @@ async function main() {
 }
 
 main().catch((err: unknown) => {
-  process.stderr.write(`${err instanceof ConfigError ? err.message : err instanceof Error ? (err.stack ?? err.message) : String(err)}\n`)
+  process.stderr.write(
+    `${err instanceof ConfigError ? err.message : err instanceof Error ? (err.stack ?? err.message) : String(err)}\n`,
+  )
   process.exit(1)
 })

@@ -17,4 +17,5 @@ export interface AppDeps {
 }
 
 /** The part of a request services may use: who acts, with which abilities, from where. */
-export type Actor = Pick<Request, 'user' | 'viewer' | 'ability' | 'ip'> & Partial<Pick<Request, 'accessVersion'>>
+export type Actor = Pick<Request, 'user' | 'viewer' | 'ability' | 'ip'> &
+  Partial<Pick<Request, 'accessVersion'>>

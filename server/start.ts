@@ -19,7 +19,6 @@ import { fileJobCompletions } from './modules/files/file-jobs.completions'
 import type { Uploads } from './modules/uploads/uploads'
 import { LocalStorage } from './storage/local-storage'
 
-
 export interface RunningStipple {
   url: string
   server: Server
@@ -44,7 +43,10 @@ const listen = (server: Server, port: number, host: string) =>
  * identity provider when no real one is configured, and the HTTP server. Tests call this with
  * port 0; server/main.ts calls it with the configured port.
  */
-export async function startStipple(config: AppConfig, options: { clientDir?: string } = {}): Promise<RunningStipple> {
+export async function startStipple(
+  config: AppConfig,
+  options: { clientDir?: string } = {},
+): Promise<RunningStipple> {
   const logger = createLogger(config.logLevel)
   const server = createServer((_req, res) => {
     res.writeHead(503, { 'retry-after': '1' }).end('Stipple is starting')
@@ -65,7 +67,10 @@ export async function startStipple(config: AppConfig, options: { clientDir?: str
   const smtpUrl = mailCatcher?.url ?? cfg.smtpUrl
   const mailer = smtpUrl
     ? createMailer(smtpUrl, cfg.mailFrom, logger)
-    : { send: async (m: { to: string; subject: string }) => logger.info({ to: m.to, subject: m.subject }, 'mail not sent: no SMTP_URL') }
+    : {
+        send: async (m: { to: string; subject: string }) =>
+          logger.info({ to: m.to, subject: m.subject }, 'mail not sent: no SMTP_URL'),
+      }
 
   const issuer = cfg.oidc.issuer ?? `${publicUrl}/oidc`
   const localIdp = cfg.oidc.local
@@ -83,8 +88,18 @@ export async function startStipple(config: AppConfig, options: { clientDir?: str
       }
     : undefined
   const storage = new LocalStorage(cfg.dataDir)
-  const jobs = new JobRunner({ orm, logger, workers: cfg.jobWorkers, completions: fileJobCompletions(storage) })
-  const relyingParty = createRelyingParty({ issuer, clientId: cfg.oidc.clientId, clientSecret: cfg.oidc.clientSecret, publicUrl })
+  const jobs = new JobRunner({
+    orm,
+    logger,
+    workers: cfg.jobWorkers,
+    completions: fileJobCompletions(storage),
+  })
+  const relyingParty = createRelyingParty({
+    issuer,
+    clientId: cfg.oidc.clientId,
+    clientSecret: cfg.oidc.clientSecret,
+    publicUrl,
+  })
   const app = createApp({
     orm,
     config: { ...cfg, oidc: { ...cfg.oidc, issuer } },
@@ -105,7 +120,10 @@ export async function startStipple(config: AppConfig, options: { clientDir?: str
   server.on('request', app)
 
   const sessions = new OrmSessionStore(orm)
-  const hourly = () => Promise.all([sessions.prune(), refreshPlannerStatistics(orm), uploads.expire()]).catch((err: unknown) => logger.error({ err }, 'hourly upkeep failed'))
+  const hourly = () =>
+    Promise.all([sessions.prune(), refreshPlannerStatistics(orm), uploads.expire()]).catch(
+      (err: unknown) => logger.error({ err }, 'hourly upkeep failed'),
+    )
   const pruning = setInterval(() => void hourly(), 3600_000)
   pruning.unref()
 

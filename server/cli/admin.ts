@@ -26,12 +26,14 @@ const email = (value: string) => {
   return parsed.data
 }
 const siteRole = (value: string): SiteRole => {
-  if (!(SITE_ROLES as readonly string[]).includes(value)) throw new InvalidArgumentError(`Use one of: ${SITE_ROLES.join(', ')}.`)
+  if (!(SITE_ROLES as readonly string[]).includes(value))
+    throw new InvalidArgumentError(`Use one of: ${SITE_ROLES.join(', ')}.`)
   return value as SiteRole
 }
 const days = (value: string) => {
   const n = Number(value)
-  if (!Number.isInteger(n) || n < 1 || n > 3650) throw new InvalidArgumentError('Give a whole number of days from 1 to 3650.')
+  if (!Number.isInteger(n) || n < 1 || n > 3650)
+    throw new InvalidArgumentError('Give a whole number of days from 1 to 3650.')
   return n
 }
 const out = (line: string) => process.stdout.write(`${line}\n`)
@@ -48,10 +50,20 @@ user
   .action(async (address: string, opts: { name?: string; siteRole?: SiteRole }) =>
     withDatabase(async (orm) => {
       const em = orm.em.fork()
-      const { user: u, created } = await findOrInviteUser(em, address, { name: opts.name, siteRole: opts.siteRole })
-      audit(em, null, { action: created ? 'user.add' : 'user.update', targetType: 'User', targetId: u.id, details: { by: 'cli', siteRole: u.siteRole ?? null } })
+      const { user: u, created } = await findOrInviteUser(em, address, {
+        name: opts.name,
+        siteRole: opts.siteRole,
+      })
+      audit(em, null, {
+        action: created ? 'user.add' : 'user.update',
+        targetType: 'User',
+        targetId: u.id,
+        details: { by: 'cli', siteRole: u.siteRole ?? null },
+      })
       await em.flush()
-      out(`${created ? 'Added' : 'Updated'} ${u.email} (id ${u.id}, site role ${u.siteRole ?? 'none'})`)
+      out(
+        `${created ? 'Added' : 'Updated'} ${u.email} (id ${u.id}, site role ${u.siteRole ?? 'none'})`,
+      )
     }),
   )
 
@@ -61,7 +73,9 @@ user
   .action(async () =>
     withDatabase(async (orm) => {
       for (const u of await orm.em.fork().find(User, {}, { orderBy: { id: 'asc' } })) {
-        out(`${String(u.id).padStart(4)}  ${u.email.padEnd(42)} ${(u.siteRole ?? '').padEnd(8)} ${u.subject ? 'signed in' : 'invited'}`)
+        out(
+          `${String(u.id).padStart(4)}  ${u.email.padEnd(42)} ${(u.siteRole ?? '').padEnd(8)} ${u.subject ? 'signed in' : 'invited'}`,
+        )
       }
     }),
   )
@@ -80,9 +94,16 @@ program
       const u = await em.findOne(User, { email: address })
       if (!u) throw new InvalidArgumentError(`No user ${address}; add them first with "user add".`)
       const token = await createToken(em, u.id, { name: opts.name, expiresInDays: opts.days })
-      audit(em, null, { action: 'token.create', targetType: 'ApiToken', targetId: token.id, details: { by: 'cli', for: address } })
+      audit(em, null, {
+        action: 'token.create',
+        targetType: 'ApiToken',
+        targetId: token.id,
+        details: { by: 'cli', for: address },
+      })
       await em.flush()
-      out(`Token "${token.name}" for ${address}, expires ${token.expiresAt?.slice(0, 10) ?? 'never'}. It is shown only now:`)
+      out(
+        `Token "${token.name}" for ${address}, expires ${token.expiresAt?.slice(0, 10) ?? 'never'}. It is shown only now:`,
+      )
       out(token.token)
     }),
   )

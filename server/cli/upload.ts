@@ -36,18 +36,29 @@ const positiveInt = (v: string) => {
 
 async function sha256Of(path: string): Promise<string> {
   const hash = createHash('sha256')
-  for await (const chunk of createReadStream(path, { highWaterMark: 4 * 1024 * 1024 }) as AsyncIterable<Buffer>) hash.update(chunk)
+  for await (const chunk of createReadStream(path, {
+    highWaterMark: 4 * 1024 * 1024,
+  }) as AsyncIterable<Buffer>)
+    hash.update(chunk)
   return hash.digest('hex')
 }
 
 async function serverChecksum(o: Options, token: string, fileId: string): Promise<string | null> {
-  const res = await fetch(`${o.server}/api/datasets/${encodeURIComponent(o.dataset)}/files`, { headers: { authorization: `Bearer ${token}` } })
+  const res = await fetch(`${o.server}/api/datasets/${encodeURIComponent(o.dataset)}/files`, {
+    headers: { authorization: `Bearer ${token}` },
+  })
   if (!res.ok) return null
   const body = (await res.json()) as { items: { id: number; sha256: string | null }[] }
   return body.items.find((f) => String(f.id) === fileId)?.sha256 ?? null
 }
 
-function uploadOne(path: string, size: number, o: Options, token: string, bars: MultiBar | null): Promise<string> {
+function uploadOne(
+  path: string,
+  size: number,
+  o: Options,
+  token: string,
+  bars: MultiBar | null,
+): Promise<string> {
   const bar = bars?.create(size, 0, { file: basename(path).slice(0, 28).padEnd(28), speed: '' })
   const started = Date.now()
   return new Promise((done, fail) => {
@@ -62,7 +73,8 @@ function uploadOne(path: string, size: number, o: Options, token: string, bars: 
       storeFingerprintForResuming: true,
       removeFingerprintOnSuccess: true,
       // The same file sent to two datasets is two uploads.
-      fingerprint: async () => `stipple-${resolve(path)}-${size}-${(await stat(path)).mtimeMs}-${o.server}-${o.dataset}`,
+      fingerprint: async () =>
+        `stipple-${resolve(path)}-${size}-${(await stat(path)).mtimeMs}-${o.server}-${o.dataset}`,
       onProgress: (sent) => {
         const mibps = sent / 1024 / 1024 / Math.max(0.001, (Date.now() - started) / 1000)
         bar?.update(sent, { speed: `${mibps.toFixed(1)} MiB/s` })
@@ -91,7 +103,9 @@ function alreadyStored(err: unknown): string | null {
   const res = (err as { originalResponse?: { getBody(): string } | null }).originalResponse
   try {
     const problem = JSON.parse(res?.getBody() ?? '') as { type?: string; existingFileId?: number }
-    return problem.type === '/problems/duplicate-file' && problem.existingFileId ? String(problem.existingFileId) : null
+    return problem.type === '/problems/duplicate-file' && problem.existingFileId
+      ? String(problem.existingFileId)
+      : null
   } catch {
     return null
   }
@@ -99,7 +113,10 @@ function alreadyStored(err: unknown): string | null {
 
 /** The server's own words from a failed request (problem+json detail), or the error message. */
 function explain(err: unknown): string {
-  const detailed = err as { originalResponse?: { getBody(): string; getStatus(): number } | null; message?: string }
+  const detailed = err as {
+    originalResponse?: { getBody(): string; getStatus(): number } | null
+    message?: string
+  }
   const res = detailed.originalResponse
   if (res) {
     try {
@@ -114,19 +131,34 @@ function explain(err: unknown): string {
 
 async function main(files: string[], o: Options) {
   const token = o.token ?? process.env.STIPPLE_TOKEN
-  if (!token) throw new InvalidArgumentError('Give a personal access token with --token or the STIPPLE_TOKEN environment variable.')
+  if (!token)
+    throw new InvalidArgumentError(
+      'Give a personal access token with --token or the STIPPLE_TOKEN environment variable.',
+    )
   o.server = o.server.replace(/\/$/, '')
   await mkdir(dirname(o.state), { recursive: true })
   const sizes = await Promise.all(files.map(async (f) => (await stat(f)).size))
-  const bars = o.quiet || !process.stderr.isTTY ? null : new MultiBar({ format: ' {file} {bar} {percentage}% | {speed} | {eta_formatted} left', hideCursor: true }, Presets.shades_classic)
+  const bars =
+    o.quiet || !process.stderr.isTTY
+      ? null
+      : new MultiBar(
+          {
+            format: ' {file} {bar} {percentage}% | {speed} | {eta_formatted} left',
+            hideCursor: true,
+          },
+          Presets.shades_classic,
+        )
   let failures = 0
   for (const [i, file] of files.entries()) {
     const local = sha256Of(file)
     try {
       const fileId = await uploadOne(file, sizes[i]!, o, token, bars)
       const [mine, theirs] = await Promise.all([local, serverChecksum(o, token, fileId)])
-      if (theirs && theirs !== mine) throw new Error(`the server stored SHA-256 ${theirs}, but the file has ${mine}`)
-      process.stdout.write(`${bars ? '\n' : ''}uploaded ${file} → file ${fileId}, sha256 ${mine}${theirs ? ' (verified)' : ''}\n`)
+      if (theirs && theirs !== mine)
+        throw new Error(`the server stored SHA-256 ${theirs}, but the file has ${mine}`)
+      process.stdout.write(
+        `${bars ? '\n' : ''}uploaded ${file} → file ${fileId}, sha256 ${mine}${theirs ? ' (verified)' : ''}\n`,
+      )
     } catch (err) {
       failures++
       process.stderr.write(`${bars ? '\n' : ''}failed ${file}: ${explain(err)}\n`)
@@ -134,7 +166,9 @@ async function main(files: string[], o: Options) {
   }
   bars?.stop()
   if (failures) {
-    process.stderr.write(`${failures} of ${files.length} file${files.length > 1 ? 's' : ''} not uploaded. Interrupted uploads resume when you run the same command again.\n`)
+    process.stderr.write(
+      `${failures} of ${files.length} file${files.length > 1 ? 's' : ''} not uploaded. Interrupted uploads resume when you run the same command again.\n`,
+    )
     process.exitCode = 1
   }
 }
@@ -142,11 +176,23 @@ async function main(files: string[], o: Options) {
 new Command('stipple-upload')
   .description('Upload files to a Stipple dataset, resumably.')
   .requiredOption('--server <url>', 'the Stipple address, e.g. https://hub.example.org')
-  .option('--token <token>', 'a personal access token (or set STIPPLE_TOKEN, which keeps it out of your shell history)')
+  .option(
+    '--token <token>',
+    'a personal access token (or set STIPPLE_TOKEN, which keeps it out of your shell history)',
+  )
   .requiredOption('--dataset <accession>', 'the dataset, by accession or id')
   .option('--chunk-mib <n>', 'bytes per request, MiB', positiveInt, 32)
-  .option('--retries <n>', 'how many times to retry a failed request (waits grow up to 30 s)', positiveInt, 20)
-  .option('--state <file>', 'where unfinished uploads are remembered', join(homedir(), '.stipple', 'uploads.json'))
+  .option(
+    '--retries <n>',
+    'how many times to retry a failed request (waits grow up to 30 s)',
+    positiveInt,
+    20,
+  )
+  .option(
+    '--state <file>',
+    'where unfinished uploads are remembered',
+    join(homedir(), '.stipple', 'uploads.json'),
+  )
   .option('--quiet', 'no progress bars')
   .argument('<files...>', 'files to upload')
   .action(main)

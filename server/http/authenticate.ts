@@ -36,12 +36,19 @@ const snapshot = (u: IUser): CurrentUser => ({
   organization: u.organization ?? null,
 })
 
-async function identityFor(em: EntityManager, user: IUser | null, extra: Partial<Identity> = {}): Promise<Identity | null> {
-  return user ? { user: snapshot(user), viewer: deepFreeze(await loadViewer(em, user)), ...extra } : null
+async function identityFor(
+  em: EntityManager,
+  user: IUser | null,
+  extra: Partial<Identity> = {},
+): Promise<Identity | null> {
+  return user
+    ? { user: snapshot(user), viewer: deepFreeze(await loadViewer(em, user)), ...extra }
+    : null
 }
 
 function deepFreeze<T extends object>(value: T): T {
-  for (const inner of Object.values(value)) if (inner && typeof inner === 'object') deepFreeze(inner as object)
+  for (const inner of Object.values(value))
+    if (inner && typeof inner === 'object') deepFreeze(inner as object)
   return Object.freeze(value)
 }
 
@@ -51,7 +58,11 @@ function deepFreeze<T extends object>(value: T): T {
  * keeps the list filters, and so the page caches, the same for that second. An embargo therefore
  * ends at most one second late, never early.
  */
-function abilityAt(identity: Identity | null, now: number, publicAbility: { second: number; value: AppAbility }): AppAbility {
+function abilityAt(
+  identity: Identity | null,
+  now: number,
+  publicAbility: { second: number; value: AppAbility },
+): AppAbility {
   const second = Math.floor(now / 1000)
   const slot = identity ? identity.ability : publicAbility
   if (slot?.second === second) return slot.value
@@ -61,7 +72,11 @@ function abilityAt(identity: Identity | null, now: number, publicAbility: { seco
   return value
 }
 
-async function tokenIdentity(em: EntityManager, tokenHash: string, now: number): Promise<Identity | null> {
+async function tokenIdentity(
+  em: EntityManager,
+  tokenHash: string,
+  now: number,
+): Promise<Identity | null> {
   const token = await em.findOne(ApiToken, {
     tokenHash,
     revokedAt: null,
@@ -69,7 +84,11 @@ async function tokenIdentity(em: EntityManager, tokenHash: string, now: number):
   })
   if (!token) return null
   const user = await em.findOne(User, { id: token.user })
-  return identityFor(em, user, { tokenId: token.id, expiresAt: token.expiresAt?.getTime() ?? null, lastUsedWrite: token.lastUsedAt?.getTime() ?? 0 })
+  return identityFor(em, user, {
+    tokenId: token.id,
+    expiresAt: token.expiresAt?.getTime() ?? null,
+    lastUsedWrite: token.lastUsedAt?.getTime() ?? 0,
+  })
 }
 
 /**
@@ -93,7 +112,8 @@ export function authenticate(accessVersion: AccessVersionReader): RequestHandler
     if (header !== undefined || sessionUser) {
       if (header !== undefined) {
         const match = /^Bearer\s+(\S+)$/i.exec(header)
-        if (!match?.[1]) throw new UnauthorizedError('The Authorization header must be "Bearer <token>".')
+        if (!match?.[1])
+          throw new UnauthorizedError('The Authorization header must be "Bearer <token>".')
         const key = `token:${hashToken(match[1])}`
         identity = cache.get(key, version) ?? null
         if (!identity) {

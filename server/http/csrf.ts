@@ -13,9 +13,13 @@ export function sameOriginWrites(publicOrigin: string): RequestHandler {
   return (req, _res, next) => {
     if (SAFE.has(req.method) || req.authMethod !== 'session') return next()
     const origin = req.get('origin') ?? originOf(req.get('referer'))
-    const fromOurPage = origin === publicOrigin || ((origin === undefined || origin === 'null') && req.get('sec-fetch-site') === 'same-origin')
+    const fromOurPage =
+      origin === publicOrigin ||
+      ((origin === undefined || origin === 'null') && req.get('sec-fetch-site') === 'same-origin')
     if (!fromOurPage) {
-      throw new ForbiddenError('This request did not come from a Stipple page, so it was refused (cross-site request protection).')
+      throw new ForbiddenError(
+        'This request did not come from a Stipple page, so it was refused (cross-site request protection).',
+      )
     }
     next()
   }

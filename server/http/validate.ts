@@ -13,7 +13,10 @@ export function zodFieldErrors(error: z.ZodError): FieldError[] {
 function parseWith<T extends z.ZodType>(schema: T, value: unknown, where: string): z.output<T> {
   const result = schema.safeParse(value)
   if (!result.success) {
-    throw new ValidationError(zodFieldErrors(result.error), `The ${where} has missing or invalid fields.`)
+    throw new ValidationError(
+      zodFieldErrors(result.error),
+      `The ${where} has missing or invalid fields.`,
+    )
   }
   return result.data
 }

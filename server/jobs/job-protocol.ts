@@ -12,4 +12,7 @@ export type JobMessage =
 export type ProgressReporter = (fraction: number, message?: string) => void
 
 /** Work done in a worker thread: files in, files and a JSON result out; never the database. */
-export type JobWork = (payload: Record<string, unknown>, progress: ProgressReporter) => Promise<unknown>
+export type JobWork = (
+  payload: Record<string, unknown>,
+  progress: ProgressReporter,
+) => Promise<unknown>

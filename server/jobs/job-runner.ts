@@ -72,9 +72,14 @@ export class JobRunner {
       const em = this.o.orm.em.fork()
       const heartbeat = this.o.heartbeatMs ?? 2000
       if (this.running.size) {
-        await em.nativeUpdate(Job, { id: { $in: [...this.running.keys()] } }, { heartbeatAt: new Date() })
+        await em.nativeUpdate(
+          Job,
+          { id: { $in: [...this.running.keys()] } },
+          { heartbeatAt: new Date() },
+        )
       }
-      if (this.running.size >= this.o.workers || !(await hasClaimableJobs(em, heartbeat * 5))) return
+      if (this.running.size >= this.o.workers || !(await hasClaimableJobs(em, heartbeat * 5)))
+        return
       await requeueAbandonedJobs(em, heartbeat * 5)
       while (this.running.size < this.o.workers && !this.stopped) {
         const id = await claimNextJob(em)
@@ -98,7 +103,13 @@ export class JobRunner {
     worker.on('message', (m: JobMessage & { id?: number }) => {
       if (m.id === undefined) return
       if (m.type === 'progress') {
-        void this.o.orm.em.fork().nativeUpdate(Job, { id: m.id }, { progress: m.fraction, message: m.message ?? null, heartbeatAt: new Date() })
+        void this.o.orm.em
+          .fork()
+          .nativeUpdate(
+            Job,
+            { id: m.id },
+            { progress: m.fraction, message: m.message ?? null, heartbeatAt: new Date() },
+          )
         return
       }
       this.running.delete(m.id)
@@ -106,7 +117,9 @@ export class JobRunner {
       void this.finish(m.id, m).then(() => this.notify())
     })
     worker.on('error', (err) => this.lost(worker, err.message))
-    worker.on('exit', (code) => this.lost(worker, `The worker stopped unexpectedly (exit code ${code}).`))
+    worker.on('exit', (code) =>
+      this.lost(worker, `The worker stopped unexpectedly (exit code ${code}).`),
+    )
     return worker
   }
 
@@ -122,7 +135,10 @@ export class JobRunner {
 
   private launch(job: IJob): void {
     if (job.attempts > (this.o.maxAttempts ?? 3)) {
-      void this.finish(job.id, { type: 'failed', error: `Interrupted ${job.attempts - 1} times; given up.` })
+      void this.finish(job.id, {
+        type: 'failed',
+        error: `Interrupted ${job.attempts - 1} times; given up.`,
+      })
       return
     }
     const worker = this.worker()
@@ -130,7 +146,10 @@ export class JobRunner {
     worker.postMessage({ id: job.id, kind: job.kind, payload: job.payload })
   }
 
-  private async finish(id: number, outcome: Extract<JobMessage, { type: 'done' | 'failed' }>): Promise<void> {
+  private async finish(
+    id: number,
+    outcome: Extract<JobMessage, { type: 'done' | 'failed' }>,
+  ): Promise<void> {
     const em = this.o.orm.em.fork()
     try {
       await em.transactional(async (tem) => {
@@ -146,7 +165,15 @@ export class JobRunner {
       })
     } catch (err) {
       this.o.logger.error({ err, job: id }, 'recording a job outcome failed')
-      await em.nativeUpdate(Job, { id }, { state: 'failed', error: `Could not record the outcome: ${err instanceof Error ? err.message : String(err)}`, finishedAt: new Date() })
+      await em.nativeUpdate(
+        Job,
+        { id },
+        {
+          state: 'failed',
+          error: `Could not record the outcome: ${err instanceof Error ? err.message : String(err)}`,
+          finishedAt: new Date(),
+        },
+      )
     }
   }
 }

@@ -11,11 +11,16 @@ import { z } from 'zod'
 /** The OpenAPI 3.1 description of /api, generated from the same zod schemas the routes use. */
 export function buildOpenApiDocument(publicUrl: string) {
   const registry = new OpenAPIRegistry()
-  registry.registerComponent('securitySchemes', 'session', { type: 'apiKey', in: 'cookie', name: 'stipple.sid' })
+  registry.registerComponent('securitySchemes', 'session', {
+    type: 'apiKey',
+    in: 'cookie',
+    name: 'stipple.sid',
+  })
   registry.registerComponent('securitySchemes', 'bearer', {
     type: 'http',
     scheme: 'bearer',
-    description: 'A personal access token from your profile page (or `npm run admin -- token create`).',
+    description:
+      'A personal access token from your profile page (or `npm run admin -- token create`).',
   })
   registry.registerPath({
     method: 'get',
@@ -23,7 +28,10 @@ export function buildOpenApiDocument(publicUrl: string) {
     summary: 'Liveness check',
     tags: ['Service'],
     responses: {
-      200: { description: 'OK', content: { 'application/json': { schema: z.object({ status: z.literal('ok') }) } } },
+      200: {
+        description: 'OK',
+        content: { 'application/json': { schema: z.object({ status: z.literal('ok') }) } },
+      },
     },
   })
   registerMePaths(registry)

@@ -11,7 +11,10 @@ export const problemSchema = z
     instance: z.string().optional(),
     errors: z.array(z.object({ pointer: z.string(), detail: z.string() })).optional(),
   })
-  .meta({ id: 'Problem', description: 'An error (RFC 9457). Validation errors list each failing field.' })
+  .meta({
+    id: 'Problem',
+    description: 'An error (RFC 9457). Validation errors list each failing field.',
+  })
 
 const PROBLEMS: Record<number, string> = {
   400: 'Invalid input (field errors in `errors`)',
@@ -45,7 +48,10 @@ export function registerJsonRoute(registry: OpenAPIRegistry, route: JsonRoute) {
       : { description: 'Done, no content' },
   }
   for (const code of route.errors ?? []) {
-    responses[code] = { description: PROBLEMS[code] ?? 'Error', content: { [PROBLEM_CONTENT_TYPE]: { schema: problemSchema } } }
+    responses[code] = {
+      description: PROBLEMS[code] ?? 'Error',
+      content: { [PROBLEM_CONTENT_TYPE]: { schema: problemSchema } },
+    }
   }
   registry.registerPath({
     method: route.method,
@@ -63,5 +69,6 @@ export function registerJsonRoute(registry: OpenAPIRegistry, route: JsonRoute) {
   })
 }
 
-export const pageOf = (item: z.ZodType) => z.object({ items: z.array(item), total: z.number().int() })
+export const pageOf = (item: z.ZodType) =>
+  z.object({ items: z.array(item), total: z.number().int() })
 export const listOf = (item: z.ZodType) => z.object({ items: z.array(item) })

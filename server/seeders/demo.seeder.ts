@@ -13,7 +13,9 @@ import { Membership, Project } from '../modules/projects/project.entity'
 import { User } from '../modules/users/user.entity'
 
 const consortiumSchema = z.object({
-  organizations: z.array(z.object({ name: z.string(), kind: z.enum(['lab', 'institute']), emailDomain: z.string() })),
+  organizations: z.array(
+    z.object({ name: z.string(), kind: z.enum(['lab', 'institute']), emailDomain: z.string() }),
+  ),
   projects: z.array(
     z.object({
       name: z.string(),
@@ -32,7 +34,9 @@ const consortiumSchema = z.object({
       licence: licenceSchema,
       embargoDays: z.number().int().positive().optional(),
       proposedEmbargoDays: z.number().int().positive().optional(),
-      shares: z.array(z.object({ email: z.string(), capabilities: z.array(z.enum(SHARE_CAPABILITIES)) })).optional(),
+      shares: z
+        .array(z.object({ email: z.string(), capabilities: z.array(z.enum(SHARE_CAPABILITIES)) }))
+        .optional(),
     }),
   ),
 })
@@ -44,8 +48,14 @@ const startOfDayUtc = (t: number) => new Date(Math.floor(t / DAY) * DAY)
  * Seeds the invented demo consortium from demo-data/. Every record is found by its natural key
  * first, so running it again changes nothing.
  */
-export async function seedDemo(em: EntityManager, demoDir: string, now = new Date()): Promise<{ created: number }> {
-  const consortium = consortiumSchema.parse(JSON.parse(readFileSync(join(demoDir, 'consortium.json'), 'utf8')))
+export async function seedDemo(
+  em: EntityManager,
+  demoDir: string,
+  now = new Date(),
+): Promise<{ created: number }> {
+  const consortium = consortiumSchema.parse(
+    JSON.parse(readFileSync(join(demoDir, 'consortium.json'), 'utf8')),
+  )
   const accounts = loadAccounts(join(demoDir, 'accounts.json'))
   let created = 0
 
@@ -59,15 +69,25 @@ export async function seedDemo(em: EntityManager, demoDir: string, now = new Dat
     await em.flush()
     orgs.set(o.name, org.id)
   }
-  const orgByDomain = new Map(consortium.organizations.map((o) => [o.emailDomain, orgs.get(o.name)!]))
+  const orgByDomain = new Map(
+    consortium.organizations.map((o) => [o.emailDomain, orgs.get(o.name)!]),
+  )
 
   const users = new Map<string, number>()
   for (const a of accounts) {
     let user = await em.findOne(User, { email: a.email })
     if (!user) {
-      const siteRole = (SITE_ROLES as readonly string[]).includes(a.role) ? (a.role as SiteRole) : null
+      const siteRole = (SITE_ROLES as readonly string[]).includes(a.role)
+        ? (a.role as SiteRole)
+        : null
       const domain = a.email.slice(a.email.indexOf('@') + 1)
-      user = em.create(User, { email: a.email, name: a.name, subject: a.sub, siteRole, organization: orgByDomain.get(domain) ?? null })
+      user = em.create(User, {
+        email: a.email,
+        name: a.name,
+        subject: a.sub,
+        siteRole,
+        organization: orgByDomain.get(domain) ?? null,
+      })
       created++
     }
     await em.flush()
@@ -117,7 +137,9 @@ export async function seedDemo(em: EntityManager, demoDir: string, now = new Dat
       licence: d.licence,
       createdBy: userId(d.createdBy),
       embargoUntil: d.embargoDays ? startOfDayUtc(now.getTime() + d.embargoDays * DAY) : null,
-      proposedEmbargoUntil: d.proposedEmbargoDays ? startOfDayUtc(now.getTime() + d.proposedEmbargoDays * DAY) : null,
+      proposedEmbargoUntil: d.proposedEmbargoDays
+        ? startOfDayUtc(now.getTime() + d.proposedEmbargoDays * DAY)
+        : null,
       submittedAt: submitted ? now : null,
       approvedAt: approved ? now : null,
     })
@@ -125,7 +147,12 @@ export async function seedDemo(em: EntityManager, demoDir: string, now = new Dat
     await em.flush()
     for (const s of d.shares ?? []) {
       const user = userId(s.email)
-      em.create(DatasetShare, { dataset: dataset.id, user, capabilities: s.capabilities, createdBy: userId(d.createdBy) })
+      em.create(DatasetShare, {
+        dataset: dataset.id,
+        user,
+        capabilities: s.capabilities,
+        createdBy: userId(d.createdBy),
+      })
       if (!(await em.findOne(Membership, { project: projectId, user }))) {
         em.create(Membership, { project: projectId, user, role: 'collaborator' })
       }

@@ -15,7 +15,8 @@ export class LocalStorage {
     this.uploadsDir = join(dataDir, 'uploads')
     this.filesDir = join(dataDir, 'files')
     this.derivedDir = join(dataDir, 'derived')
-    for (const dir of [this.uploadsDir, this.filesDir, this.derivedDir]) mkdirSync(dir, { recursive: true })
+    for (const dir of [this.uploadsDir, this.filesDir, this.derivedDir])
+      mkdirSync(dir, { recursive: true })
   }
 
   /** The untouched original of a deposited file. Keys never change once written. */

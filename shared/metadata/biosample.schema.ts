@@ -6,7 +6,12 @@ import { quantity, text } from './quantities'
 export const HUMAN_TAXON_ID = 9606
 
 export const organismSchema = z.object({
-  name: field(text('Organism', 200), { tier: 'required', label: 'Organism', help: 'Scientific name, e.g. Homo sapiens', suggest: true }),
+  name: field(text('Organism', 200), {
+    tier: 'required',
+    label: 'Organism',
+    help: 'Scientific name, e.g. Homo sapiens',
+    suggest: true,
+  }),
   taxonId: field(quantity('Taxon id', '', 1, 1e8, { int: true }), {
     tier: 'recommended',
     label: 'NCBI Taxonomy id',
@@ -16,12 +21,35 @@ export const organismSchema = z.object({
 
 /** REMBI "Biosample" and "Specimen". */
 export const biosampleSchema = z.object({
-  organism: field(organismSchema, { tier: 'required', label: 'Organism', term: 'REMBI Biosample: organism' }),
-  cellType: field(text('Cell type', 200), { tier: 'recommended', label: 'Cell type', suggest: true }),
+  organism: field(organismSchema, {
+    tier: 'required',
+    label: 'Organism',
+    term: 'REMBI Biosample: organism',
+  }),
+  cellType: field(text('Cell type', 200), {
+    tier: 'recommended',
+    label: 'Cell type',
+    suggest: true,
+  }),
   cellLine: field(text('Cell line', 200), { tier: 'optional', label: 'Cell line', suggest: true }),
-  structure: field(text('Structure', 200), { tier: 'required', label: 'Structure imaged', help: 'e.g. nuclear pore complex, microtubules, synapse', suggest: true }),
-  preparation: field(text('Preparation', 2000), { tier: 'recommended', label: 'Sample preparation', multiline: true, term: 'REMBI Specimen: preparation' }),
-  fixation: field(text('Fixation', 500), { tier: 'recommended', label: 'Fixation', help: 'e.g. 4 % PFA, 15 min; or "live"', suggest: true }),
+  structure: field(text('Structure', 200), {
+    tier: 'required',
+    label: 'Structure imaged',
+    help: 'e.g. nuclear pore complex, microtubules, synapse',
+    suggest: true,
+  }),
+  preparation: field(text('Preparation', 2000), {
+    tier: 'recommended',
+    label: 'Sample preparation',
+    multiline: true,
+    term: 'REMBI Specimen: preparation',
+  }),
+  fixation: field(text('Fixation', 500), {
+    tier: 'recommended',
+    label: 'Fixation',
+    help: 'e.g. 4 % PFA, 15 min; or "live"',
+    suggest: true,
+  }),
   ethicsReference: field(text('Ethics reference', 300), {
     tier: 'optional',
     label: 'Ethics approval or consent reference',

@@ -42,7 +42,10 @@ export interface DatasetCore {
 
 const WEIGHT: Record<Tier, number> = { required: 3, recommended: 1, optional: 0 }
 const filledValue = (v: unknown) =>
-  v !== undefined && v !== null && !(typeof v === 'string' && v.trim() === '') && !(Array.isArray(v) && v.length === 0)
+  v !== undefined &&
+  v !== null &&
+  !(typeof v === 'string' && v.trim() === '') &&
+  !(Array.isArray(v) && v.length === 0)
 
 interface Tally {
   filled: Record<Tier, number>
@@ -57,7 +60,15 @@ function count(t: Tally, path: string, label: string, tier: Tier, present: boole
 }
 
 /** Walks a schema node and its value, counting leaves (and "has at least one" for lists). */
-function walk(node: SchemaNode, value: unknown, path: string, label: string, tier: Tier, t: Tally, promote: (p: string) => Tier | null) {
+function walk(
+  node: SchemaNode,
+  value: unknown,
+  path: string,
+  label: string,
+  tier: Tier,
+  t: Tally,
+  promote: (p: string) => Tier | null,
+) {
   const effective = promote(path) ?? tier
   if (node.type === 'array' && node.items?.properties) {
     const list = Array.isArray(value) ? value : []
@@ -69,10 +80,24 @@ function walk(node: SchemaNode, value: unknown, path: string, label: string, tie
   count(t, path, label, effective, filledValue(value))
 }
 
-function walkObject(node: SchemaNode, value: unknown, path: string, t: Tally, promote: (p: string) => Tier | null) {
+function walkObject(
+  node: SchemaNode,
+  value: unknown,
+  path: string,
+  t: Tally,
+  promote: (p: string) => Tier | null,
+) {
   const obj = (value && typeof value === 'object' ? value : {}) as Record<string, unknown>
   for (const [key, child] of Object.entries(node.properties ?? {})) {
-    walk(child, obj[key], path ? `${path}.${key}` : key, child.title ?? key, child['x-tier'] ?? 'optional', t, promote)
+    walk(
+      child,
+      obj[key],
+      path ? `${path}.${key}` : key,
+      child.title ?? key,
+      child['x-tier'] ?? 'optional',
+      t,
+      promote,
+    )
   }
 }
 
@@ -83,7 +108,8 @@ function walkObject(node: SchemaNode, value: unknown, path: string, t: Tally, pr
 export function promotedTiers(metadata: DatasetMetadata): Record<string, Tier> {
   const raised: Record<string, Tier> = {}
   if (isHumanDerived(metadata.biosample)) raised['biosample.ethicsReference'] = 'required'
-  if (metadata.instrument?.detector?.type === 'EMCCD') raised['instrument.detector.emGain'] = 'recommended'
+  if (metadata.instrument?.detector?.type === 'EMCCD')
+    raised['instrument.detector.emGain'] = 'recommended'
   return raised
 }
 
@@ -94,23 +120,35 @@ let rootSchema: SchemaNode | null = null
  * per section the required and recommended fields still missing. A human-derived sample makes
  * the ethics reference required; an EMCCD makes the EM gain recommended.
  */
-export function computeCompleteness(metadata: DatasetMetadata, core: DatasetCore = {}): Completeness {
+export function computeCompleteness(
+  metadata: DatasetMetadata,
+  core: DatasetCore = {},
+): Completeness {
   rootSchema ??= metadataJsonSchema() as SchemaNode
   const raised = promotedTiers(metadata)
   const promote = (p: string): Tier | null => raised[p] ?? null
 
-  const totals: Tally = { filled: { required: 0, recommended: 0, optional: 0 }, total: { required: 0, recommended: 0, optional: 0 }, missing: [] }
+  const totals: Tally = {
+    filled: { required: 0, recommended: 0, optional: 0 },
+    total: { required: 0, recommended: 0, optional: 0 },
+    missing: [],
+  }
   const sections: SectionCompleteness[] = []
   for (const section of METADATA_SECTIONS) {
     const node = rootSchema.properties![section]!
-    const t: Tally = { filled: { required: 0, recommended: 0, optional: 0 }, total: { required: 0, recommended: 0, optional: 0 }, missing: [] }
+    const t: Tally = {
+      filled: { required: 0, recommended: 0, optional: 0 },
+      total: { required: 0, recommended: 0, optional: 0 },
+      missing: [],
+    }
     if (section === 'study') {
       count(t, 'title', 'Title', 'required', filledValue(core.title))
       count(t, 'description', 'Description', 'required', filledValue(core.description))
       count(t, 'licence', 'Licence', 'required', filledValue(core.licence))
     }
     const value = (metadata as Record<string, unknown>)[section]
-    if (node.type === 'array') walk(node, value, section, node.title ?? section, node['x-tier'] ?? 'optional', t, promote)
+    if (node.type === 'array')
+      walk(node, value, section, node.title ?? section, node['x-tier'] ?? 'optional', t, promote)
     else walkObject(node, value, section, t, promote)
     sections.push({ section, score: scoreOf(t), missing: t.missing })
     for (const tier of ['required', 'recommended', 'optional'] as const) {

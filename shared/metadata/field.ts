@@ -5,7 +5,20 @@ export const TIERS = ['required', 'recommended', 'optional'] as const
 export type Tier = (typeof TIERS)[number]
 
 /** Units a quantity can carry; every quantity in the schema names one. */
-export type Unit = 'nm' | 'µm' | 'ms' | 's' | 'mW' | 'W/cm²' | '°C' | 'e⁻/ADU' | 'ADU' | 'e⁻' | '×' | 'frames' | 'fraction'
+export type Unit =
+  | 'nm'
+  | 'µm'
+  | 'ms'
+  | 's'
+  | 'mW'
+  | 'W/cm²'
+  | '°C'
+  | 'e⁻/ADU'
+  | 'ADU'
+  | 'e⁻'
+  | '×'
+  | 'frames'
+  | 'fraction'
 
 export interface FieldInfo {
   tier: Tier

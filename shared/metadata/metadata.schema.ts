@@ -17,15 +17,43 @@ import { studySchema } from './study.schema'
  */
 export const metadataObjectSchema = z.object({
   study: field(studySchema, { tier: 'required', label: 'Study', term: 'REMBI Study' }),
-  biosample: field(biosampleSchema, { tier: 'required', label: 'Biosample and specimen', term: 'REMBI Biosample, Specimen' }),
-  labelling: group(z.array(labelSchema).max(20), { tier: 'required', label: 'Labelling', term: 'REMBI Specimen: signal/contrast mechanism' }),
-  instrument: field(instrumentSchema, { tier: 'required', label: 'Instrument', term: 'OME Instrument' }),
-  acquisition: field(acquisitionSchema, { tier: 'required', label: 'Acquisition', term: 'REMBI Image acquisition' }),
-  processing: field(processingSchema, { tier: 'required', label: 'Localization processing', term: 'REMBI Analysed data' }),
+  biosample: field(biosampleSchema, {
+    tier: 'required',
+    label: 'Biosample and specimen',
+    term: 'REMBI Biosample, Specimen',
+  }),
+  labelling: group(z.array(labelSchema).max(20), {
+    tier: 'required',
+    label: 'Labelling',
+    term: 'REMBI Specimen: signal/contrast mechanism',
+  }),
+  instrument: field(instrumentSchema, {
+    tier: 'required',
+    label: 'Instrument',
+    term: 'OME Instrument',
+  }),
+  acquisition: field(acquisitionSchema, {
+    tier: 'required',
+    label: 'Acquisition',
+    term: 'REMBI Image acquisition',
+  }),
+  processing: field(processingSchema, {
+    tier: 'required',
+    label: 'Localization processing',
+    term: 'REMBI Analysed data',
+  }),
   files: group(filesSchema, { tier: 'optional', label: 'Files', term: 'REMBI Image data' }),
 })
 
-export const METADATA_SECTIONS = ['study', 'biosample', 'labelling', 'instrument', 'acquisition', 'processing', 'files'] as const
+export const METADATA_SECTIONS = [
+  'study',
+  'biosample',
+  'labelling',
+  'instrument',
+  'acquisition',
+  'processing',
+  'files',
+] as const
 export type MetadataSection = (typeof METADATA_SECTIONS)[number]
 
 export const metadataSchema = metadataObjectSchema

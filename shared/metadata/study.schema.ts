@@ -5,7 +5,11 @@ import { text } from './quantities'
 
 export const authorSchema = z.object({
   name: field(text('Name', 200), { tier: 'required', label: 'Name', term: 'REMBI Study: author' }),
-  orcid: field(orcidSchema, { tier: 'recommended', label: 'ORCID iD', help: 'For example 0000-0002-1825-0097' }),
+  orcid: field(orcidSchema, {
+    tier: 'recommended',
+    label: 'ORCID iD',
+    help: 'For example 0000-0002-1825-0097',
+  }),
   affiliation: field(text('Affiliation', 300), { tier: 'recommended', label: 'Affiliation' }),
 })
 
@@ -20,8 +24,16 @@ export const fundingSchema = z.object({
  */
 export const studySchema = z.object({
   keywords: group(z.array(text('Keyword', 80)).max(30), { tier: 'recommended', label: 'Keywords' }),
-  authors: group(z.array(authorSchema).max(100), { tier: 'required', label: 'Authors', term: 'REMBI Study: authors' }),
+  authors: group(z.array(authorSchema).max(100), {
+    tier: 'required',
+    label: 'Authors',
+    term: 'REMBI Study: authors',
+  }),
   funding: group(z.array(fundingSchema).max(30), { tier: 'optional', label: 'Funding' }),
-  relatedPublicationDoi: field(doiSchema, { tier: 'recommended', label: 'Related publication (DOI)', help: 'For example 10.1000/xyz123' }),
+  relatedPublicationDoi: field(doiSchema, {
+    tier: 'recommended',
+    label: 'Related publication (DOI)',
+    help: 'For example 10.1000/xyz123',
+  }),
 })
 export type StudyMetadata = z.infer<typeof studySchema>

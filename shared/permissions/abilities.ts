@@ -61,7 +61,8 @@ export const projectSubject = (id: number): ProjectSubject => ({ __type: 'Projec
 /** CASL conditions that select datasets in the given access phases (see accessPhase()). */
 function phaseConditions(phases: readonly AccessPhase[], now: Date): MongoQuery[] {
   const plain: DatasetState[] = phases.filter(
-    (p): p is Exclude<AccessPhase, 'embargoed' | 'released'> => p !== 'embargoed' && p !== 'released',
+    (p): p is Exclude<AccessPhase, 'embargoed' | 'released'> =>
+      p !== 'embargoed' && p !== 'released',
   )
   const embargoed = phases.includes('embargoed')
   const released = phases.includes('released')

@@ -1,5 +1,10 @@
 import { ACCESS_PHASES, ACCESS_PHASE_LABELS } from '../domain/dataset-state'
-import { DATASET_ACTIONS, DATASET_ACTION_LABELS, PROJECT_ACTIONS, PROJECT_ACTION_LABELS } from './actions'
+import {
+  DATASET_ACTIONS,
+  DATASET_ACTION_LABELS,
+  PROJECT_ACTIONS,
+  PROJECT_ACTION_LABELS,
+} from './actions'
 import { DATASET_MATRIX, MATRIX_ROLES, MATRIX_ROLE_LABELS, PROJECT_MATRIX } from './matrix'
 
 const YES = '✓'
@@ -39,8 +44,14 @@ export function renderPermissionsMarkdown(): string {
   out.push(`| role | ${PROJECT_ACTIONS.map((a) => PROJECT_ACTION_LABELS[a]).join(' | ')} |`)
   out.push(`| --- | ${PROJECT_ACTIONS.map(() => ':-:').join(' | ')} |`)
   for (const role of MATRIX_ROLES) {
-    out.push(`| ${MATRIX_ROLE_LABELS[role]} | ${PROJECT_ACTIONS.map((a) => (PROJECT_MATRIX[role][a] ? YES : NO)).join(' | ')} |`)
+    out.push(
+      `| ${MATRIX_ROLE_LABELS[role]} | ${PROJECT_ACTIONS.map((a) => (PROJECT_MATRIX[role][a] ? YES : NO)).join(' | ')} |`,
+    )
   }
-  out.push('', 'Creating a project needs membership of a consortium organization (or the site admin role).', '')
+  out.push(
+    '',
+    'Creating a project needs membership of a consortium organization (or the site admin role).',
+    '',
+  )
   return out.join('\n')
 }

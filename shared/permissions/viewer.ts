@@ -11,5 +11,8 @@ export interface Viewer {
   /** Consortium members belong to an organization (lab or institute); external people do not. */
   readonly organizationId: number | null
   readonly memberships: readonly { readonly projectId: number; readonly role: ProjectRole }[]
-  readonly shares: readonly { readonly datasetId: number; readonly capabilities: readonly ShareCapability[] }[]
+  readonly shares: readonly {
+    readonly datasetId: number
+    readonly capabilities: readonly ShareCapability[]
+  }[]
 }

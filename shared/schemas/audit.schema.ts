@@ -25,6 +25,13 @@ export type AuditEventDto = z.infer<typeof auditEventSchema>
 
 /** A message the demo mail catcher received (GET /api/dev/mail). */
 export const caughtMailSchema = z
-  .object({ id: z.number(), to: z.array(z.string()), from: z.string(), subject: z.string(), text: z.string(), receivedAt: z.string() })
+  .object({
+    id: z.number(),
+    to: z.array(z.string()),
+    from: z.string(),
+    subject: z.string(),
+    text: z.string(),
+    receivedAt: z.string(),
+  })
   .meta({ id: 'CaughtMail' })
 export type CaughtMailDto = z.infer<typeof caughtMailSchema>

@@ -16,14 +16,21 @@ export const regionSchema = z
       (r.shape === 'point' && r.pointsNm.length === 1) ||
       (r.shape === 'rectangle' && r.pointsNm.length === 2) ||
       (r.shape === 'polygon' && r.pointsNm.length >= 3),
-    { error: 'A point has one vertex, a rectangle two corners, a polygon at least three vertices', path: ['pointsNm'] },
+    {
+      error: 'A point has one vertex, a rectangle two corners, a polygon at least three vertices',
+      path: ['pointsNm'],
+    },
   )
   .meta({ id: 'Region' })
 export type Region = z.infer<typeof regionSchema>
 
 export const createCommentSchema = z
   .object({
-    body: z.string().trim().min(1, 'Write something').max(10_000, 'A comment can have at most 10000 characters'),
+    body: z
+      .string()
+      .trim()
+      .min(1, 'Write something')
+      .max(10_000, 'A comment can have at most 10000 characters'),
     region: regionSchema.nullable().default(null),
     replyTo: z.number().int().positive().nullable().default(null),
   })

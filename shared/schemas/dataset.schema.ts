@@ -47,7 +47,13 @@ export const updateDatasetSchema = z
 export type UpdateDatasetInput = z.input<typeof updateDatasetSchema>
 export type UpdateDatasetBody = z.output<typeof updateDatasetSchema>
 
-export const DATASET_SORT_FIELDS = ['createdAt', 'updatedAt', 'title', 'accession', 'state'] as const
+export const DATASET_SORT_FIELDS = [
+  'createdAt',
+  'updatedAt',
+  'title',
+  'accession',
+  'state',
+] as const
 export type DatasetSortField = (typeof DATASET_SORT_FIELDS)[number]
 const sortValues = DATASET_SORT_FIELDS.flatMap((f) => [f, `-${f}`] as const)
 

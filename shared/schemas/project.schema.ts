@@ -5,7 +5,11 @@ import { emailSchema, textField } from './common.schema'
 export const createProjectSchema = z
   .object({
     name: textField('Name', 120, 3),
-    description: z.string().trim().max(4000, 'Description can have at most 4000 characters').default(''),
+    description: z
+      .string()
+      .trim()
+      .max(4000, 'Description can have at most 4000 characters')
+      .default(''),
   })
   .meta({ id: 'CreateProject' })
 export type CreateProjectInput = z.input<typeof createProjectSchema>

@@ -23,5 +23,7 @@ export const tokenSchema = z
 export type TokenDto = z.infer<typeof tokenSchema>
 
 /** Returned once, at creation: the only time the secret is ever shown. */
-export const createdTokenSchema = tokenSchema.extend({ token: z.string() }).meta({ id: 'CreatedToken' })
+export const createdTokenSchema = tokenSchema
+  .extend({ token: z.string() })
+  .meta({ id: 'CreatedToken' })
 export type CreatedTokenDto = z.infer<typeof createdTokenSchema>

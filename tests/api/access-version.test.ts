@@ -26,7 +26,12 @@ async function instance() {
     config: testConfig(),
     logger: createLogger('silent'),
     mailer: { send: async () => undefined },
-    relyingParty: createRelyingParty({ issuer: 'http://127.0.0.1:9/oidc', clientId: 'x', clientSecret: 'y', publicUrl: TEST_ORIGIN }),
+    relyingParty: createRelyingParty({
+      issuer: 'http://127.0.0.1:9/oidc',
+      clientId: 'x',
+      clientSecret: 'y',
+      publicUrl: TEST_ORIGIN,
+    }),
   })
   return { app, orm }
 }
@@ -48,25 +53,37 @@ afterAll(async () => {
   rmSync(dir, { recursive: true, force: true })
 })
 
-const list = (app: typeof a.app, token: string) => request(app).get(`/api/datasets?projectId=${projectId}`).set(bearer(token))
+const list = (app: typeof a.app, token: string) =>
+  request(app).get(`/api/datasets?projectId=${projectId}`).set(bearer(token))
 
 describe('the access version', () => {
   it('is raised by the database on every access-relevant write', async () => {
     const before = await readAccessVersion(a.orm.em.fork())
-    await request(b.app).post('/api/datasets').set(bearer(owner)).send({ projectId, title: 'Raises the version' }).expect(201)
+    await request(b.app)
+      .post('/api/datasets')
+      .set(bearer(owner))
+      .send({ projectId, title: 'Raises the version' })
+      .expect(201)
     expect(await readAccessVersion(a.orm.em.fork())).toBeGreaterThan(before)
   })
 
   it('keeps lists exact across processes: a dataset created in one appears in the other at once', async () => {
     const first = await list(a.app, owner)
-    await request(b.app).post('/api/datasets').set(bearer(owner)).send({ projectId, title: 'Created elsewhere' }).expect(201)
+    await request(b.app)
+      .post('/api/datasets')
+      .set(bearer(owner))
+      .send({ projectId, title: 'Created elsewhere' })
+      .expect(201)
     const second = await list(a.app, owner)
     expect(second.body.total).toBe(first.body.total + 1)
     expect(second.body.items[0].title).toBe('Created elsewhere')
   })
 
   it('drops a revoked token everywhere on the next request', async () => {
-    const created = await request(a.app).post('/api/me/tokens').set(bearer(owner)).send({ name: 'Revoke me', expiresInDays: 5 })
+    const created = await request(a.app)
+      .post('/api/me/tokens')
+      .set(bearer(owner))
+      .send({ name: 'Revoke me', expiresInDays: 5 })
     const secret = created.body.token as string
     expect((await request(a.app).get('/api/me').set(bearer(secret))).status).toBe(200)
     await request(b.app).delete(`/api/me/tokens/${created.body.id}`).set(bearer(owner)).expect(204)
@@ -77,9 +94,17 @@ describe('the access version', () => {
     const em = a.orm.em.fork()
     const newcomer = await buildMember(em)
     const token = await tokenFor(em, newcomer)
-    await request(b.app).post('/api/datasets').set(bearer(owner)).send({ projectId, title: 'Draft for the newcomer' }).expect(201)
+    await request(b.app)
+      .post('/api/datasets')
+      .set(bearer(owner))
+      .send({ projectId, title: 'Draft for the newcomer' })
+      .expect(201)
     expect((await list(a.app, token)).body.total).toBe(0)
-    await request(b.app).post(`/api/projects/${projectId}/members`).set(bearer(owner)).send({ email: newcomer.email, role: 'member' }).expect(201)
+    await request(b.app)
+      .post(`/api/projects/${projectId}/members`)
+      .set(bearer(owner))
+      .send({ email: newcomer.email, role: 'member' })
+      .expect(201)
     expect((await list(a.app, token)).body.total).toBeGreaterThan(0)
   })
 

@@ -15,19 +15,34 @@ import { User } from '@server/modules/users/user.entity'
 const run = promisify(execFile)
 const dataDir = mkdtempSync(join(tmpdir(), 'stipple-cli-'))
 const admin = (...args: string[]) =>
-  run(process.execPath, ['--import', 'tsx', 'server/cli/admin.ts', ...args], { env: { ...process.env, DATA_DIR: dataDir, LOG_LEVEL: 'silent' } })
+  run(process.execPath, ['--import', 'tsx', 'server/cli/admin.ts', ...args], {
+    env: { ...process.env, DATA_DIR: dataDir, LOG_LEVEL: 'silent' },
+  })
 
 afterAll(() => rmSync(dataDir, { recursive: true, force: true }))
 
 describe('npm run admin', () => {
   it('adds a user with a site role, then creates a token the API accepts', async () => {
-    const added = await admin('user', 'add', 'Curator@Hub.test', '--name', 'Hub Curator', '--site-role', 'steward')
+    const added = await admin(
+      'user',
+      'add',
+      'Curator@Hub.test',
+      '--name',
+      'Hub Curator',
+      '--site-role',
+      'steward',
+    )
     expect(added.stdout).toContain('Added curator@hub.test')
     const { stdout } = await admin('token', 'create', 'curator@hub.test', '--days', '7')
     const token = stdout.trim().split('\n').at(-1)!
     expect(token).toMatch(/^stp_/)
 
-    const config = loadConfig({ NODE_ENV: 'test', DATA_DIR: dataDir, LOG_LEVEL: 'silent', DEMO: 'false' })
+    const config = loadConfig({
+      NODE_ENV: 'test',
+      DATA_DIR: dataDir,
+      LOG_LEVEL: 'silent',
+      DEMO: 'false',
+    })
     const orm = await openDatabase(config.dbPath)
     try {
       const user = await orm.em.fork().findOneOrFail(User, { email: 'curator@hub.test' })
@@ -37,7 +52,12 @@ describe('npm run admin', () => {
         config,
         logger: createLogger('silent'),
         mailer: { send: async () => undefined },
-        relyingParty: createRelyingParty({ issuer: 'http://127.0.0.1:9/oidc', clientId: 'x', clientSecret: 'y', publicUrl: config.publicUrl }),
+        relyingParty: createRelyingParty({
+          issuer: 'http://127.0.0.1:9/oidc',
+          clientId: 'x',
+          clientSecret: 'y',
+          publicUrl: config.publicUrl,
+        }),
       })
       const me = await request(app).get('/api/me').set('Authorization', `Bearer ${token}`)
       expect(me.body.user).toMatchObject({ email: 'curator@hub.test', siteRole: 'steward' })
@@ -47,7 +67,14 @@ describe('npm run admin', () => {
   })
 
   it('fails with a clear message and a non-zero exit code', async () => {
-    await expect(admin('token', 'create', 'nobody@hub.test')).rejects.toMatchObject({ code: 1, stderr: expect.stringContaining('No user nobody@hub.test') })
-    await expect(admin('user', 'add', 'someone@hub.test', '--site-role', 'boss')).rejects.toMatchObject({ stderr: expect.stringContaining('Use one of: admin, steward, editor') })
+    await expect(admin('token', 'create', 'nobody@hub.test')).rejects.toMatchObject({
+      code: 1,
+      stderr: expect.stringContaining('No user nobody@hub.test'),
+    })
+    await expect(
+      admin('user', 'add', 'someone@hub.test', '--site-role', 'boss'),
+    ).rejects.toMatchObject({
+      stderr: expect.stringContaining('Use one of: admin, steward, editor'),
+    })
   })
 })

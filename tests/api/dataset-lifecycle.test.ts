@@ -29,21 +29,39 @@ afterAll(() => t.close())
 
 /** A draft with a complete description, ready to submit. */
 async function draft(title = 'Lifecycle sample') {
-  const res = await request(t.app).post('/api/datasets').set(bearer(depositorToken)).send({ projectId, title, description: 'A dataset going through curation' })
-  await request(t.app).put(`/api/datasets/${res.body.id}/metadata`).set(bearer(depositorToken)).send(completeMetadata()).expect(200)
+  const res = await request(t.app)
+    .post('/api/datasets')
+    .set(bearer(depositorToken))
+    .send({ projectId, title, description: 'A dataset going through curation' })
+  await request(t.app)
+    .put(`/api/datasets/${res.body.id}/metadata`)
+    .set(bearer(depositorToken))
+    .send(completeMetadata())
+    .expect(200)
   return res.body as { id: number; accession: string }
 }
-const submit = (id: number) => request(t.app).post(`/api/datasets/${id}/submit`).set(bearer(depositorToken))
-const review = (id: number, body: object) => request(t.app).post(`/api/datasets/${id}/review`).set(bearer(stewardToken)).send(body)
+const submit = (id: number) =>
+  request(t.app).post(`/api/datasets/${id}/submit`).set(bearer(depositorToken))
+const review = (id: number, body: object) =>
+  request(t.app).post(`/api/datasets/${id}/review`).set(bearer(stewardToken)).send(body)
 
 describe('a dataset from draft to release', () => {
   it('cannot be submitted while required fields are missing, and says which', async () => {
-    const bare = await request(t.app).post('/api/datasets').set(bearer(depositorToken)).send({ projectId, title: 'Bare draft' })
+    const bare = await request(t.app)
+      .post('/api/datasets')
+      .set(bearer(depositorToken))
+      .send({ projectId, title: 'Bare draft' })
     const res = await submit(bare.body.id)
     expect(res.status).toBe(409)
     expect(res.body.detail).toMatch(/required fields? missing/)
     const pointers = res.body.errors.map((e: { pointer: string }) => e.pointer)
-    expect(pointers).toEqual(expect.arrayContaining(['#/description', '#/instrument/objective/lensNA', '#/acquisition/technique']))
+    expect(pointers).toEqual(
+      expect.arrayContaining([
+        '#/description',
+        '#/instrument/objective/lensNA',
+        '#/acquisition/technique',
+      ]),
+    )
     expect((await t.em().findOneOrFail(Dataset, { id: bare.body.id })).state).toBe('draft')
   })
 
@@ -63,7 +81,10 @@ describe('a dataset from draft to release', () => {
     const noReason = await review(d.id, { decision: 'request_changes' })
     expect(noReason.status).toBe(400)
     expect(noReason.body.errors[0].pointer).toBe('#/comment')
-    const back = await review(d.id, { decision: 'request_changes', comment: 'Say which imaging buffer was used.' })
+    const back = await review(d.id, {
+      decision: 'request_changes',
+      comment: 'Say which imaging buffer was used.',
+    })
     expect(back.body.state).toBe('changes_requested')
     const mail = await mailTo(t.mail, depositor.email)
     expect(mail.text).toContain('imaging buffer')
@@ -72,7 +93,11 @@ describe('a dataset from draft to release', () => {
 
   it('is approved under embargo; the embargo date is taken from the proposal', async () => {
     const d = await draft('Embargoed until publication')
-    await request(t.app).patch(`/api/datasets/${d.id}`).set(bearer(depositorToken)).send({ proposedEmbargoUntil: inDays(120) }).expect(200)
+    await request(t.app)
+      .patch(`/api/datasets/${d.id}`)
+      .set(bearer(depositorToken))
+      .send({ proposedEmbargoUntil: inDays(120) })
+      .expect(200)
     await submit(d.id)
     const res = await review(d.id, { decision: 'approve' })
     expect(res.body).toMatchObject({ state: 'approved', embargoUntil: inDays(120) })
@@ -85,7 +110,9 @@ describe('a dataset from draft to release', () => {
     const d = await draft('Wrong order')
     await submit(d.id)
     expect((await review(d.id, { decision: 'withdraw', comment: 'x' })).status).toBe(409)
-    expect((await review(d.id, { decision: 'approve', embargoUntil: '2020-01-01' })).status).toBe(400)
+    expect((await review(d.id, { decision: 'approve', embargoUntil: '2020-01-01' })).status).toBe(
+      400,
+    )
     expect((await t.em().findOneOrFail(Dataset, { id: d.id })).state).toBe('submitted')
   })
 
@@ -93,16 +120,36 @@ describe('a dataset from draft to release', () => {
     const d = await draft('Embargo changes')
     await submit(d.id)
     await review(d.id, { decision: 'approve', embargoUntil: inDays(30) })
-    const noReason = await request(t.app).put(`/api/datasets/${d.id}/embargo`).set(bearer(stewardToken)).send({ until: inDays(60) })
+    const noReason = await request(t.app)
+      .put(`/api/datasets/${d.id}/embargo`)
+      .set(bearer(stewardToken))
+      .send({ until: inDays(60) })
     expect(noReason.status).toBe(400)
-    const extended = await request(t.app).put(`/api/datasets/${d.id}/embargo`).set(bearer(stewardToken)).send({ until: inDays(60), reason: 'Publication delayed' })
+    const extended = await request(t.app)
+      .put(`/api/datasets/${d.id}/embargo`)
+      .set(bearer(stewardToken))
+      .send({ until: inDays(60), reason: 'Publication delayed' })
     expect(extended.body.embargoUntil).toBe(inDays(60))
-    const lifted = await request(t.app).put(`/api/datasets/${d.id}/embargo`).set(bearer(stewardToken)).send({ until: null, reason: 'Article published' })
+    const lifted = await request(t.app)
+      .put(`/api/datasets/${d.id}/embargo`)
+      .set(bearer(stewardToken))
+      .send({ until: null, reason: 'Article published' })
     expect(lifted.body.embargoUntil).toBeNull()
     expect((await request(t.app).get(`/api/datasets/${d.id}/manifest.txt`)).status).toBe(200)
-    const events = await t.em().find(AuditEvent, { action: 'dataset.embargo', targetId: d.accession }, { orderBy: { id: 'asc' } })
-    expect(events.map((e) => e.details?.reason)).toEqual(['Publication delayed', 'Article published'])
-    const audit = await request(t.app).get(`/api/audit?targetId=${d.accession}`).set(bearer(stewardToken))
+    const events = await t
+      .em()
+      .find(
+        AuditEvent,
+        { action: 'dataset.embargo', targetId: d.accession },
+        { orderBy: { id: 'asc' } },
+      )
+    expect(events.map((e) => e.details?.reason)).toEqual([
+      'Publication delayed',
+      'Article published',
+    ])
+    const audit = await request(t.app)
+      .get(`/api/audit?targetId=${d.accession}`)
+      .set(bearer(stewardToken))
     expect(audit.body.items.map((e: { action: string }) => e.action)).toContain('dataset.approve')
     expect((await request(t.app).get('/api/audit').set(bearer(depositorToken))).status).toBe(403)
   })
@@ -124,10 +171,16 @@ describe('sharing with an external collaborator', () => {
     const res = await request(t.app)
       .post(`/api/datasets/${d.id}/shares`)
       .set(bearer(depositorToken))
-      .send({ email: 'guest@partner.test', capabilities: ['preview', 'annotate', 'preview'], message: 'Please look at the ring region.' })
+      .send({
+        email: 'guest@partner.test',
+        capabilities: ['preview', 'annotate', 'preview'],
+        message: 'Please look at the ring region.',
+      })
     expect(res.status).toBe(201)
     expect(res.body.capabilities).toEqual(['preview', 'annotate'])
-    const membership = await t.em().findOneOrFail(Membership, { project: projectId, user: res.body.userId })
+    const membership = await t
+      .em()
+      .findOneOrFail(Membership, { project: projectId, user: res.body.userId })
     expect(membership.role).toBe('collaborator')
     const mail = await mailTo(t.mail, 'guest@partner.test')
     expect(mail.subject).toContain(d.accession)
@@ -142,31 +195,60 @@ describe('sharing with an external collaborator', () => {
     const owner = await buildMember(em)
     const ownerToken = await tokenFor(em, owner)
     const separate = (await buildProject(em, [{ user: owner, role: 'owner' }])).id
-    const make = (title: string) => request(t.app).post('/api/datasets').set(bearer(ownerToken)).send({ projectId: separate, title })
+    const make = (title: string) =>
+      request(t.app)
+        .post('/api/datasets')
+        .set(bearer(ownerToken))
+        .send({ projectId: separate, title })
     const shared = (await make('Visible to guest 2')).body
     await make('Not visible to guest 2')
-    await request(t.app).post(`/api/datasets/${shared.id}/shares`).set(bearer(ownerToken)).send({ email: guest.email, capabilities: ['preview'] }).expect(201)
-    const list = await request(t.app).get(`/api/datasets?projectId=${separate}&limit=200`).set(bearer(token))
+    await request(t.app)
+      .post(`/api/datasets/${shared.id}/shares`)
+      .set(bearer(ownerToken))
+      .send({ email: guest.email, capabilities: ['preview'] })
+      .expect(201)
+    const list = await request(t.app)
+      .get(`/api/datasets?projectId=${separate}&limit=200`)
+      .set(bearer(token))
     expect(list.body.items.map((i: { id: number }) => i.id)).toEqual([shared.id])
     const projects = await request(t.app).get('/api/projects').set(bearer(token))
     expect(projects.body.items).toHaveLength(1)
-    expect(projects.body.items[0]).toMatchObject({ id: separate, myRole: 'collaborator', datasetCount: 1 })
-    const comment = await request(t.app).post(`/api/datasets/${shared.id}/comments`).set(bearer(token)).send({ body: 'Nice' })
+    expect(projects.body.items[0]).toMatchObject({
+      id: separate,
+      myRole: 'collaborator',
+      datasetCount: 1,
+    })
+    const comment = await request(t.app)
+      .post(`/api/datasets/${shared.id}/comments`)
+      .set(bearer(token))
+      .send({ body: 'Nice' })
     expect(comment.status).toBe(403)
   })
 
   it('refuses to share with someone already in the project', async () => {
     const d = await draft('Already a member')
-    const res = await request(t.app).post(`/api/datasets/${d.id}/shares`).set(bearer(depositorToken)).send({ email: depositor.email })
+    const res = await request(t.app)
+      .post(`/api/datasets/${d.id}/shares`)
+      .set(bearer(depositorToken))
+      .send({ email: depositor.email })
     expect(res.status).toBe(409)
   })
 
   it('stops sharing', async () => {
     const d = await draft('Share then revoke')
-    const share = await request(t.app).post(`/api/datasets/${d.id}/shares`).set(bearer(depositorToken)).send({ email: 'brief@partner.test' })
-    await request(t.app).delete(`/api/datasets/${d.id}/shares/${share.body.id}`).set(bearer(depositorToken)).expect(204)
+    const share = await request(t.app)
+      .post(`/api/datasets/${d.id}/shares`)
+      .set(bearer(depositorToken))
+      .send({ email: 'brief@partner.test' })
+    await request(t.app)
+      .delete(`/api/datasets/${d.id}/shares/${share.body.id}`)
+      .set(bearer(depositorToken))
+      .expect(204)
     expect(await t.em().count(DatasetShare, { dataset: d.id })).toBe(0)
-    expect((await request(t.app).get(`/api/datasets/${d.id}/shares`).set(bearer(depositorToken))).body.items).toEqual([])
+    expect(
+      (await request(t.app).get(`/api/datasets/${d.id}/shares`).set(bearer(depositorToken))).body
+        .items,
+    ).toEqual([])
   })
 })
 
@@ -176,9 +258,21 @@ describe('comments on regions of interest', () => {
     const ok = await request(t.app)
       .post(`/api/datasets/${d.id}/comments`)
       .set(bearer(depositorToken))
-      .send({ body: 'Two rings overlap here', region: { shape: 'rectangle', pointsNm: [[1000, 2000], [1500, 2600]] } })
+      .send({
+        body: 'Two rings overlap here',
+        region: {
+          shape: 'rectangle',
+          pointsNm: [
+            [1000, 2000],
+            [1500, 2600],
+          ],
+        },
+      })
     expect(ok.status).toBe(201)
-    const reply = await request(t.app).post(`/api/datasets/${d.id}/comments`).set(bearer(depositorToken)).send({ body: 'Agreed', replyTo: ok.body.id })
+    const reply = await request(t.app)
+      .post(`/api/datasets/${d.id}/comments`)
+      .set(bearer(depositorToken))
+      .send({ body: 'Agreed', replyTo: ok.body.id })
     expect(reply.body.replyTo).toBe(ok.body.id)
     const bad = await request(t.app)
       .post(`/api/datasets/${d.id}/comments`)
@@ -186,7 +280,9 @@ describe('comments on regions of interest', () => {
       .send({ body: 'Bad', region: { shape: 'rectangle', pointsNm: [[1, 2]] } })
     expect(bad.status).toBe(400)
     expect(bad.body.errors[0].pointer).toBe('#/region/pointsNm')
-    const list = await request(t.app).get(`/api/datasets/${d.id}/comments`).set(bearer(depositorToken))
+    const list = await request(t.app)
+      .get(`/api/datasets/${d.id}/comments`)
+      .set(bearer(depositorToken))
     expect(list.body.items).toHaveLength(2)
   })
 })

@@ -32,7 +32,13 @@ beforeAll(async () => {
   t = await createTestApp()
   live = await listen(t.app)
   storage = new LocalStorage(t.config.dataDir)
-  runner = new JobRunner({ orm: t.orm, logger: createLogger('silent'), workers: 1, pollMs: 50, completions: fileJobCompletions(storage) })
+  runner = new JobRunner({
+    orm: t.orm,
+    logger: createLogger('silent'),
+    workers: 1,
+    pollMs: 50,
+    completions: fileJobCompletions(storage),
+  })
   runner.start()
   const em = t.em()
   const member = await buildMember(em)
@@ -47,7 +53,10 @@ afterAll(async () => {
 })
 
 async function uploadText(name: string, text: string | Buffer) {
-  const res = await tusUpload(`${live.url}/api/uploads`, token, Buffer.from(text), { dataset: accession, filename: name })
+  const res = await tusUpload(`${live.url}/api/uploads`, token, Buffer.from(text), {
+    dataset: accession,
+    filename: name,
+  })
   if (!res.fileId) throw new Error(`upload failed: ${res.status} ${res.body}`)
   return Number(res.fileId)
 }
@@ -63,11 +72,16 @@ async function settled(id: number): Promise<IDatasetFile> {
   }
 }
 
-const validation = async (id: number) => (await request(t.app).get(`/api/datasets/${accession}/files/${id}/validation`).set(bearer(token))).body
+const validation = async (id: number) =>
+  (await request(t.app).get(`/api/datasets/${accession}/files/${id}/validation`).set(bearer(token)))
+    .body
 
 describe('localization tables', () => {
   it('ingests a table whose header leaves no doubt, without asking', async () => {
-    const id = await uploadText('clear.csv', 'frame,x [nm],y [nm],photons\n1,100.5,200.25,1500\n2,110,210,1400\n3,120,220,1300\n')
+    const id = await uploadText(
+      'clear.csv',
+      'frame,x [nm],y [nm],photons\n1,100.5,200.25,1500\n2,110,210,1400\n3,120,220,1300\n',
+    )
     const file = await settled(id)
     expect(file).toMatchObject({ kind: 'localization_table', status: 'ready' })
     const v = await validation(id)
@@ -82,12 +96,28 @@ describe('localization tables', () => {
     const waiting = await settled(id)
     expect(waiting.status).toBe('needs_mapping')
     expect(waiting.problem).toBeTruthy()
-    const bad = await request(t.app).put(`/api/datasets/${accession}/files/${id}/mapping`).set(bearer(token)).send({ columns: [{ index: 0, role: 'x', unit: 'nm' }, { index: 1, role: 'x', unit: 'nm' }], frameBase: 1 })
+    const bad = await request(t.app)
+      .put(`/api/datasets/${accession}/files/${id}/mapping`)
+      .set(bearer(token))
+      .send({
+        columns: [
+          { index: 0, role: 'x', unit: 'nm' },
+          { index: 1, role: 'x', unit: 'nm' },
+        ],
+        frameBase: 1,
+      })
     expect(bad.status).toBe(400)
     const res = await request(t.app)
       .put(`/api/datasets/${accession}/files/${id}/mapping`)
       .set(bearer(token))
-      .send({ columns: [{ index: 0, role: 'x', unit: 'nm' }, { index: 1, role: 'y', unit: 'nm' }, { index: 2, role: 'frame' }], frameBase: 1 })
+      .send({
+        columns: [
+          { index: 0, role: 'x', unit: 'nm' },
+          { index: 1, role: 'y', unit: 'nm' },
+          { index: 2, role: 'frame' },
+        ],
+        frameBase: 1,
+      })
     expect(res.status).toBe(202)
     expect((await settled(id)).status).toBe('ready')
   })
@@ -98,7 +128,15 @@ describe('localization tables', () => {
     await request(t.app)
       .put(`/api/datasets/${accession}/files/${id}/mapping`)
       .set(bearer(token))
-      .send({ columns: [{ index: 0, role: 'x', unit: 'px' }, { index: 1, role: 'y', unit: 'px' }, { index: 2, role: 'frame' }], frameBase: 1, pixelSizeNm: 107 })
+      .send({
+        columns: [
+          { index: 0, role: 'x', unit: 'px' },
+          { index: 1, role: 'y', unit: 'px' },
+          { index: 2, role: 'frame' },
+        ],
+        frameBase: 1,
+        pixelSizeNm: 107,
+      })
       .expect(202)
     expect((await settled(id)).status).toBe('ready')
     const table = tableFromIPC(readFileSync(derivedPaths(storage, id).columnar))
@@ -107,13 +145,18 @@ describe('localization tables', () => {
   })
 
   it('counts bad rows by reason with their line numbers and keeps the good ones', async () => {
-    const id = await uploadText('bad-rows.csv', 'frame,x_nm,y_nm\n1,1,1\n2,abc,2\n3,NaN,3\n4,Infinity,4\n5,5,5\n')
+    const id = await uploadText(
+      'bad-rows.csv',
+      'frame,x_nm,y_nm\n1,1,1\n2,abc,2\n3,NaN,3\n4,Infinity,4\n5,5,5\n',
+    )
     const file = await settled(id)
     expect(file.status).toBe('ready')
     const v = await validation(id)
     expect(v.report.rowsAccepted).toBe(2)
     expect(v.report.rowsRejected).toBe(3)
-    const examples = Object.values(v.report.rejected as Record<string, { examples: { line: number }[] }>).flatMap((r) => r.examples.map((e) => e.line))
+    const examples = Object.values(
+      v.report.rejected as Record<string, { examples: { line: number }[] }>,
+    ).flatMap((r) => r.examples.map((e) => e.line))
     expect(examples.sort()).toEqual([3, 4, 5])
   })
 
@@ -132,18 +175,39 @@ describe('raw stacks', () => {
     const dir = mkdtempSync(join(tmpdir(), 'stack-'))
     const path = join(dir, 'stack.tif')
     // Known ground truth: frame f has every pixel at 100 + f, so its mean is 100 + f.
-    writeTiffStack(path, { width: 32, height: 24, frames: 12, pixels: (f) => new Array(32 * 24).fill(100 + f), description: readFileSync(join(process.cwd(), '../shared/standards/ome-2016-06/minimum-specification.ome.xml'), 'utf8') })
+    writeTiffStack(path, {
+      width: 32,
+      height: 24,
+      frames: 12,
+      pixels: (f) => new Array(32 * 24).fill(100 + f),
+      description: readFileSync(
+        join(process.cwd(), '../shared/standards/ome-2016-06/minimum-specification.ome.xml'),
+        'utf8',
+      ),
+    })
     const id = await uploadText('stack.tif', readFileSync(path))
     const file = await settled(id)
     expect(file).toMatchObject({ kind: 'raw_stack', status: 'ready' })
-    expect(file.report).toMatchObject({ width: 32, height: 24, frames: 12, bitsPerSample: 16, hasOmeXml: true })
+    expect(file.report).toMatchObject({
+      width: 32,
+      height: 24,
+      frames: 12,
+      bitsPerSample: 16,
+      hasOmeXml: true,
+    })
     const trace = JSON.parse(readFileSync(derivedPaths(storage, id).trace, 'utf8')) as number[]
     expect(trace).toEqual(Array.from({ length: 12 }, (_, f) => 100 + f))
     expect(readFileSync(derivedPaths(storage, id).thumbnail).subarray(1, 4).toString()).toBe('PNG')
-    expect((file.report as { omePrefill: { metadata: unknown } }).omePrefill.metadata).toEqual({ acquisition: { frames: 2 } })
-    const png = await request(t.app).get(`/api/datasets/${accession}/files/${id}/thumbnail.png`).set(bearer(token))
+    expect((file.report as { omePrefill: { metadata: unknown } }).omePrefill.metadata).toEqual({
+      acquisition: { frames: 2 },
+    })
+    const png = await request(t.app)
+      .get(`/api/datasets/${accession}/files/${id}/thumbnail.png`)
+      .set(bearer(token))
     expect(png.headers['content-type']).toBe('image/png')
-    const means = await request(t.app).get(`/api/datasets/${accession}/files/${id}/frame-means.json`).set(bearer(token))
+    const means = await request(t.app)
+      .get(`/api/datasets/${accession}/files/${id}/frame-means.json`)
+      .set(bearer(token))
     expect(means.body).toHaveLength(12)
   })
 
@@ -158,11 +222,27 @@ describe('raw stacks', () => {
   </Pixels></Image>
 </OME>`
     // Plane t holds the value 10 + t in every pixel, over both files.
-    writeTiffStack(join(dir, 'p0.tif'), { width: 8, height: 8, frames: 4, pixels: (f) => new Array(64).fill(10 + f), description: ome('urn:uuid:00000000-0000-4000-8000-000000000001') })
-    writeTiffStack(join(dir, 'p1.tif'), { width: 8, height: 8, frames: 3, pixels: (f) => new Array(64).fill(14 + f), description: ome('urn:uuid:00000000-0000-4000-8000-000000000002') })
-    const first = await settled(await uploadText('run_part0.ome.tif', readFileSync(join(dir, 'p0.tif'))))
+    writeTiffStack(join(dir, 'p0.tif'), {
+      width: 8,
+      height: 8,
+      frames: 4,
+      pixels: (f) => new Array(64).fill(10 + f),
+      description: ome('urn:uuid:00000000-0000-4000-8000-000000000001'),
+    })
+    writeTiffStack(join(dir, 'p1.tif'), {
+      width: 8,
+      height: 8,
+      frames: 3,
+      pixels: (f) => new Array(64).fill(14 + f),
+      description: ome('urn:uuid:00000000-0000-4000-8000-000000000002'),
+    })
+    const first = await settled(
+      await uploadText('run_part0.ome.tif', readFileSync(join(dir, 'p0.tif'))),
+    )
     expect(first.problem).toBe('Part of a multi-file OME-TIFF; still to upload: run_part1.ome.tif.')
-    const second = await settled(await uploadText('run_part1.ome.tif', readFileSync(join(dir, 'p1.tif'))))
+    const second = await settled(
+      await uploadText('run_part1.ome.tif', readFileSync(join(dir, 'p1.tif'))),
+    )
     await settled(second.id)
     const end = Date.now() + 15_000
     let whole = await t.em().findOneOrFail(DatasetFile, { id: second.id })
@@ -171,13 +251,20 @@ describe('raw stacks', () => {
       whole = await settled(second.id)
     }
     expect(whole.report).toMatchObject({ frames: 7 })
-    expect(JSON.parse(readFileSync(derivedPaths(storage, second.id).trace, 'utf8'))).toEqual([10, 11, 12, 13, 14, 15, 16])
+    expect(JSON.parse(readFileSync(derivedPaths(storage, second.id).trace, 'utf8'))).toEqual([
+      10, 11, 12, 13, 14, 15, 16,
+    ])
   })
 
   it('rejects a truncated stack with the reason in words', async () => {
     const dir = mkdtempSync(join(tmpdir(), 'stack-'))
     const path = join(dir, 'cut.tif')
-    const written = writeTiffStack(path, { width: 64, height: 64, frames: 6, pixels: () => new Array(64 * 64).fill(7) })
+    const written = writeTiffStack(path, {
+      width: 64,
+      height: 64,
+      frames: 6,
+      pixels: () => new Array(64 * 64).fill(7),
+    })
     truncateSync(path, Math.floor(written.bytes * 0.6))
     const file = await settled(await uploadText('cut.tif', readFileSync(path)))
     expect(file.status).toBe('rejected')

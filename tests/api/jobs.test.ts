@@ -21,7 +21,8 @@ function runner() {
     heartbeatMs: 100,
     completions: {
       'queue-probe': {
-        done: async (_em, job, result) => void outcomes.push(`done ${job.id} ${JSON.stringify(result)}`),
+        done: async (_em, job, result) =>
+          void outcomes.push(`done ${job.id} ${JSON.stringify(result)}`),
         failed: async (_em, job, error) => void outcomes.push(`failed ${job.id} ${error}`),
       },
     },
@@ -58,13 +59,18 @@ describe('the job queue', () => {
 
   it('records a failure in words', async () => {
     const em = orm.em.fork()
-    const job = enqueueJob(em, { kind: 'queue-probe', payload: { fail: 'the table has no x column' } })
+    const job = enqueueJob(em, {
+      kind: 'queue-probe',
+      payload: { fail: 'the table has no x column' },
+    })
     await em.flush()
     const r = runner()
     r.start()
     await until(async () => (await jobState(job.id)) === 'failed')
     await r.stop()
-    expect((await orm.em.fork().findOneOrFail(Job, { id: job.id })).error).toBe('the table has no x column')
+    expect((await orm.em.fork().findOneOrFail(Job, { id: job.id })).error).toBe(
+      'the table has no x column',
+    )
   })
 
   it('takes up a job whose process died (stale heartbeat) and completes it', async () => {
@@ -72,7 +78,11 @@ describe('the job queue', () => {
     const job = enqueueJob(em, { kind: 'queue-probe', payload: { ms: 100 } })
     await em.flush()
     // What a killed process leaves behind: the job marked running, its heartbeat long gone.
-    await em.nativeUpdate(Job, { id: job.id }, { state: 'running', attempts: 1, heartbeatAt: new Date(Date.now() - 60_000) })
+    await em.nativeUpdate(
+      Job,
+      { id: job.id },
+      { state: 'running', attempts: 1, heartbeatAt: new Date(Date.now() - 60_000) },
+    )
     const r = runner()
     r.start()
     await until(async () => (await jobState(job.id)) === 'done')

@@ -15,13 +15,28 @@ const DEPOSITOR = { login: 'kasimir.feld@harrowgate.example', password: 'demo-de
 
 async function boot(env: Record<string, string> = {}) {
   const dataDir = mkdtempSync(join(tmpdir(), 'stipple-oidc-'))
-  const config = loadConfig({ NODE_ENV: 'test', DATA_DIR: dataDir, PORT: '0', HOST: '127.0.0.1', LOG_LEVEL: 'silent', RATE_LIMIT_SIGN_IN: '1000', ...env })
+  const config = loadConfig({
+    NODE_ENV: 'test',
+    DATA_DIR: dataDir,
+    PORT: '0',
+    HOST: '127.0.0.1',
+    LOG_LEVEL: 'silent',
+    RATE_LIMIT_SIGN_IN: '1000',
+    ...env,
+  })
   return { stipple: await startStipple(config), dataDir }
 }
 
 /** Walks from /auth/login to the provider's login form and submits it. */
-async function signIn(s: RunningStipple, jar: BrowserSession, account = DEPOSITOR, returnTo = '/datasets') {
-  const { res: formPage, url } = await jar.follow(`${s.url}/auth/login?returnTo=${encodeURIComponent(returnTo)}`)
+async function signIn(
+  s: RunningStipple,
+  jar: BrowserSession,
+  account = DEPOSITOR,
+  returnTo = '/datasets',
+) {
+  const { res: formPage, url } = await jar.follow(
+    `${s.url}/auth/login?returnTo=${encodeURIComponent(returnTo)}`,
+  )
   expect(formPage.status).toBe(200)
   const html = await formPage.text()
   const form = parseForm(html, url)
@@ -32,7 +47,8 @@ async function signIn(s: RunningStipple, jar: BrowserSession, account = DEPOSITO
   })
 }
 
-const me = async (s: RunningStipple, jar: BrowserSession) => (await (await jar.request(`${s.url}/api/me`)).json()) as { user: { email: string } | null }
+const me = async (s: RunningStipple, jar: BrowserSession) =>
+  (await (await jar.request(`${s.url}/api/me`)).json()) as { user: { email: string } | null }
 
 let s: RunningStipple
 let dataDir: string
@@ -124,7 +140,10 @@ describe('signing in through the local OpenID provider', () => {
   it('signs out at Stipple and at the provider', async () => {
     const jar = new BrowserSession()
     await signIn(s, jar)
-    const out = await jar.request(`${s.url}/auth/logout`, { method: 'POST', headers: { origin: s.url } })
+    const out = await jar.request(`${s.url}/auth/logout`, {
+      method: 'POST',
+      headers: { origin: s.url },
+    })
     expect(out.status).toBe(303)
     const { res: confirm, url } = await jar.follow(out.headers.get('location')!)
     const form = parseForm(await confirm.text(), url)
@@ -142,16 +161,53 @@ describe('signing in through the local OpenID provider', () => {
 
   it('refuses cookie-authenticated writes from another origin', async () => {
     const jar = new BrowserSession()
-    await signIn(s, jar, { login: 'mireille.stroud@harrowgate.example', password: 'demo-owner-pass' })
+    await signIn(s, jar, {
+      login: 'mireille.stroud@harrowgate.example',
+      password: 'demo-owner-pass',
+    })
     const body = JSON.stringify({ name: `Cross-site probe ${Date.now()}` })
     const json = { 'content-type': 'application/json' }
-    expect((await jar.request(`${s.url}/api/projects`, { method: 'POST', headers: json, body })).status).toBe(403)
-    expect((await jar.request(`${s.url}/api/projects`, { method: 'POST', headers: { ...json, origin: 'http://evil.test' }, body })).status).toBe(403)
-    expect((await jar.request(`${s.url}/api/projects`, { method: 'POST', headers: { ...json, origin: 'null', 'sec-fetch-site': 'cross-site' }, body })).status).toBe(403)
-    expect((await jar.request(`${s.url}/api/projects`, { method: 'POST', headers: { ...json, origin: s.url }, body })).status).toBe(201)
+    expect(
+      (await jar.request(`${s.url}/api/projects`, { method: 'POST', headers: json, body })).status,
+    ).toBe(403)
+    expect(
+      (
+        await jar.request(`${s.url}/api/projects`, {
+          method: 'POST',
+          headers: { ...json, origin: 'http://evil.test' },
+          body,
+        })
+      ).status,
+    ).toBe(403)
+    expect(
+      (
+        await jar.request(`${s.url}/api/projects`, {
+          method: 'POST',
+          headers: { ...json, origin: 'null', 'sec-fetch-site': 'cross-site' },
+          body,
+        })
+      ).status,
+    ).toBe(403)
+    expect(
+      (
+        await jar.request(`${s.url}/api/projects`, {
+          method: 'POST',
+          headers: { ...json, origin: s.url },
+          body,
+        })
+      ).status,
+    ).toBe(201)
     // A same-origin form post under a strict referrer policy carries `Origin: null`; Sec-Fetch-Site vouches for it.
     const again = JSON.stringify({ name: `Same-origin form ${Date.now()}` })
-    expect((await jar.request(`${s.url}/api/projects`, { method: 'POST', headers: { ...json, origin: 'null', 'sec-fetch-site': 'same-origin' }, body: again })).status).toBe(201)
+    expect(
+      (
+        await jar.request(`${s.url}/api/projects`, {
+          method: 'POST',
+          headers: { ...json, origin: 'null', 'sec-fetch-site': 'same-origin' },
+          body: again,
+        })
+      ).status,
+    ).toBe(201)
   })
 })
 
@@ -161,8 +217,13 @@ describe('first sign-in and rate limits', () => {
     try {
       expect(await stipple.orm.em.fork().count(User)).toBe(0)
       const jar = new BrowserSession()
-      await signIn(stipple, jar, { login: 'tobias.wren@journal.example', password: 'demo-editor-pass' })
-      const user = await stipple.orm.em.fork().findOneOrFail(User, { email: 'tobias.wren@journal.example' })
+      await signIn(stipple, jar, {
+        login: 'tobias.wren@journal.example',
+        password: 'demo-editor-pass',
+      })
+      const user = await stipple.orm.em
+        .fork()
+        .findOneOrFail(User, { email: 'tobias.wren@journal.example' })
       expect(user.name).toBe('Tobias Wren')
       expect(user.subject).toMatch(/^acct-[0-9a-f]{16}$/)
     } finally {
@@ -175,7 +236,8 @@ describe('first sign-in and rate limits', () => {
     const { stipple, dataDir: dir } = await boot({ RATE_LIMIT_SIGN_IN: '3' })
     try {
       const codes = []
-      for (let i = 0; i < 4; i++) codes.push((await fetch(`${stipple.url}/auth/login`, { redirect: 'manual' })).status)
+      for (let i = 0; i < 4; i++)
+        codes.push((await fetch(`${stipple.url}/auth/login`, { redirect: 'manual' })).status)
       expect(codes).toEqual([302, 302, 302, 429])
     } finally {
       await stipple.stop()

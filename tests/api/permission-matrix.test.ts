@@ -6,11 +6,29 @@
 import request from 'supertest'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { ACCESS_PHASES, type AccessPhase } from '@shared/domain/dataset-state'
-import { DATASET_ACTIONS, PROJECT_ACTIONS, type DatasetAction, type ProjectAction } from '@shared/permissions/actions'
-import { DATASET_MATRIX, MATRIX_ROLES, PROJECT_MATRIX, type MatrixRole } from '@shared/permissions/matrix'
+import {
+  DATASET_ACTIONS,
+  PROJECT_ACTIONS,
+  type DatasetAction,
+  type ProjectAction,
+} from '@shared/permissions/actions'
+import {
+  DATASET_MATRIX,
+  MATRIX_ROLES,
+  PROJECT_MATRIX,
+  type MatrixRole,
+} from '@shared/permissions/matrix'
 import { SHARE_CAPABILITIES } from '@shared/domain/roles'
 import type { IUser } from '@server/modules/users/user.entity'
-import { bearer, buildDataset, buildMember, buildProject, buildShare, buildUser, tokenFor } from '../fixtures/builders'
+import {
+  bearer,
+  buildDataset,
+  buildMember,
+  buildProject,
+  buildShare,
+  buildUser,
+  tokenFor,
+} from '../fixtures/builders'
 import { createTestApp, type TestApp } from '../fixtures/test-app'
 
 let t: TestApp
@@ -28,7 +46,12 @@ beforeAll(async () => {
   const owner = await buildMember(em)
   const member = await buildMember(em)
   collaborator = await buildUser(em, { organization: null })
-  projectId = (await buildProject(em, [{ user: owner, role: 'owner' }, { user: member, role: 'member' }])).id
+  projectId = (
+    await buildProject(em, [
+      { user: owner, role: 'owner' },
+      { user: member, role: 'member' },
+    ])
+  ).id
   tokens.set('admin', await tokenFor(em, await buildUser(em, { siteRole: 'admin' })))
   tokens.set('steward', await tokenFor(em, await buildUser(em, { siteRole: 'steward' })))
   tokens.set('editor', await tokenFor(em, await buildUser(em, { siteRole: 'editor' })))
@@ -44,7 +67,10 @@ afterAll(() => t.close())
 async function datasetIn(phase: AccessPhase) {
   const em = t.em()
   const state = phase === 'embargoed' || phase === 'released' ? 'approved' : phase
-  const dataset = await buildDataset(em, projectId, { state, embargoUntil: phase === 'embargoed' ? future(1) : null })
+  const dataset = await buildDataset(em, projectId, {
+    state,
+    embargoUntil: phase === 'embargoed' ? future(1) : null,
+  })
   await buildShare(em, dataset.id, projectId, collaborator, [...SHARE_CAPABILITIES])
   return dataset
 }
@@ -59,7 +85,9 @@ function probe(action: DatasetAction, id: number, phase: AccessPhase) {
     case 'preview':
       return request(t.app).get(`${path}/comments`)
     case 'annotate':
-      return request(t.app).post(`${path}/comments`).send({ body: 'Looks like a ring', region: { shape: 'point', pointsNm: [[100, 200]] } })
+      return request(t.app)
+        .post(`${path}/comments`)
+        .send({ body: 'Looks like a ring', region: { shape: 'point', pointsNm: [[100, 200]] } })
     case 'download':
       return request(t.app).get(`${path}/manifest.txt`)
     case 'edit':
@@ -71,17 +99,37 @@ function probe(action: DatasetAction, id: number, phase: AccessPhase) {
     case 'curate':
       return request(t.app)
         .post(`${path}/review`)
-        .send(phase === 'embargoed' || phase === 'released' ? { decision: 'withdraw', comment: 'Faulty drift correction' } : { decision: 'approve' })
+        .send(
+          phase === 'embargoed' || phase === 'released'
+            ? { decision: 'withdraw', comment: 'Faulty drift correction' }
+            : { decision: 'approve' },
+        )
     case 'embargo':
-      return request(t.app).put(`${path}/embargo`).send({ until: futureDay, reason: 'Manuscript in review' })
+      return request(t.app)
+        .put(`${path}/embargo`)
+        .send({ until: futureDay, reason: 'Manuscript in review' })
     case 'share':
-      return request(t.app).post(`${path}/shares`).send({ email: `guest-${probeCounter++}@elsewhere.test`, capabilities: ['preview'] })
+      return request(t.app)
+        .post(`${path}/shares`)
+        .send({ email: `guest-${probeCounter++}@elsewhere.test`, capabilities: ['preview'] })
   }
 }
 
-const NEEDS_SIGN_IN: DatasetAction[] = ['annotate', 'edit', 'delete', 'submit', 'curate', 'embargo', 'share']
+const NEEDS_SIGN_IN: DatasetAction[] = [
+  'annotate',
+  'edit',
+  'delete',
+  'submit',
+  'curate',
+  'embargo',
+  'share',
+]
 
-function expectedStatus(role: MatrixRole, action: DatasetAction, phase: AccessPhase): number | 'ok' {
+function expectedStatus(
+  role: MatrixRole,
+  action: DatasetAction,
+  phase: AccessPhase,
+): number | 'ok' {
   if (DATASET_MATRIX[role][action].includes(phase)) return 'ok'
   if (role === 'public' && NEEDS_SIGN_IN.includes(action)) return 401
   return DATASET_MATRIX[role].read.includes(phase) ? 403 : 404
@@ -126,7 +174,9 @@ function projectProbe(action: ProjectAction) {
     case 'create_dataset':
       return request(t.app).post('/api/datasets').send({ projectId, title: 'Probe dataset' })
     case 'manage_members':
-      return request(t.app).post(`/api/projects/${projectId}/members`).send({ email: `new-${probeCounter++}@lab.test`, role: 'member' })
+      return request(t.app)
+        .post(`/api/projects/${projectId}/members`)
+        .send({ email: `new-${probeCounter++}@lab.test`, role: 'member' })
   }
 }
 
@@ -140,7 +190,8 @@ describe.each(MATRIX_ROLES)('project actions as %s', (role) => {
       const res = await (token ? req.set(bearer(token)) : req)
       got.push(`${action}: ${res.status >= 200 && res.status < 300 ? 'ok' : 'denied'}`)
       want.push(`${action}: ${PROJECT_MATRIX[role][action] ? 'ok' : 'denied'}`)
-      if (!PROJECT_MATRIX[role][action]) expect(res.status, `${role} ${action}`).toBeOneOf([400, 401, 403, 404])
+      if (!PROJECT_MATRIX[role][action])
+        expect(res.status, `${role} ${action}`).toBeOneOf([400, 401, 403, 404])
     }
     expect(got).toEqual(want)
   })
@@ -151,12 +202,18 @@ describe('a share grants only the capabilities it names', () => {
     const em = t.em()
     const person = await buildUser(em)
     const token = await tokenFor(em, person)
-    const dataset = await buildDataset(em, projectId, { state: 'approved', embargoUntil: future(5) })
+    const dataset = await buildDataset(em, projectId, {
+      state: 'approved',
+      embargoUntil: future(5),
+    })
     await buildShare(em, dataset.id, projectId, person, [])
     const path = `/api/datasets/${dataset.id}`
     expect((await request(t.app).get(path).set(bearer(token))).status).toBe(200)
     expect((await request(t.app).get(`${path}/comments`).set(bearer(token))).status).toBe(403)
-    expect((await request(t.app).post(`${path}/comments`).set(bearer(token)).send({ body: 'hi' })).status).toBe(403)
+    expect(
+      (await request(t.app).post(`${path}/comments`).set(bearer(token)).send({ body: 'hi' }))
+        .status,
+    ).toBe(403)
     expect((await request(t.app).get(`${path}/manifest.txt`).set(bearer(token))).status).toBe(403)
   })
 })

@@ -16,17 +16,31 @@ afterAll(() => t.close())
 
 describe('projects', () => {
   it('makes the creator the owner', async () => {
-    const res = await request(t.app).post('/api/projects').set(bearer(lead)).send({ name: 'Centriole ninefold survey', description: 'dSTORM of centriole proteins' })
+    const res = await request(t.app)
+      .post('/api/projects')
+      .set(bearer(lead))
+      .send({ name: 'Centriole ninefold survey', description: 'dSTORM of centriole proteins' })
     expect(res.status).toBe(201)
-    expect(res.body).toMatchObject({ name: 'Centriole ninefold survey', myRole: 'owner', datasetCount: 0 })
+    expect(res.body).toMatchObject({
+      name: 'Centriole ninefold survey',
+      myRole: 'owner',
+      datasetCount: 0,
+    })
     const detail = await request(t.app).get(`/api/projects/${res.body.id}`).set(bearer(lead))
     expect(detail.body.members).toHaveLength(1)
     expect(detail.body.members[0].role).toBe('owner')
   })
 
   it('refuses a duplicate name with 409 and a short name with 400', async () => {
-    await request(t.app).post('/api/projects').set(bearer(lead)).send({ name: 'Duplicated name' }).expect(201)
-    const dup = await request(t.app).post('/api/projects').set(bearer(lead)).send({ name: 'Duplicated name' })
+    await request(t.app)
+      .post('/api/projects')
+      .set(bearer(lead))
+      .send({ name: 'Duplicated name' })
+      .expect(201)
+    const dup = await request(t.app)
+      .post('/api/projects')
+      .set(bearer(lead))
+      .send({ name: 'Duplicated name' })
     expect(dup.status).toBe(409)
     const short = await request(t.app).post('/api/projects').set(bearer(lead)).send({ name: 'ab' })
     expect(short.status).toBe(400)
@@ -36,7 +50,10 @@ describe('projects', () => {
   it('lets only consortium members create projects', async () => {
     const em = t.em()
     const external = await tokenFor(em, await buildUser(em, { organization: null }))
-    const res = await request(t.app).post('/api/projects').set(bearer(external)).send({ name: 'External attempt' })
+    const res = await request(t.app)
+      .post('/api/projects')
+      .set(bearer(external))
+      .send({ name: 'External attempt' })
     expect(res.status).toBe(403)
     expect(await t.em().count(Project, { name: 'External attempt' })).toBe(0)
   })
@@ -46,15 +63,23 @@ describe('projects', () => {
     const a = await buildMember(em)
     const mine = await buildProject(em, [{ user: a, role: 'member' }])
     await buildProject(em, [{ user: await buildMember(em), role: 'owner' }])
-    const res = await request(t.app).get('/api/projects').set(bearer(await tokenFor(em, a)))
+    const res = await request(t.app)
+      .get('/api/projects')
+      .set(bearer(await tokenFor(em, a)))
     expect(res.body.items.map((p: { id: number }) => p.id)).toEqual([mine.id])
   })
 })
 
 describe('members', () => {
   it('adds a member by e-mail, inviting people who never signed in, and tells them by mail', async () => {
-    const created = await request(t.app).post('/api/projects').set(bearer(lead)).send({ name: 'Actin cortex nanoscopy' })
-    const res = await request(t.app).post(`/api/projects/${created.body.id}/members`).set(bearer(lead)).send({ email: ' New.Person@Lab.test ', role: 'member' })
+    const created = await request(t.app)
+      .post('/api/projects')
+      .set(bearer(lead))
+      .send({ name: 'Actin cortex nanoscopy' })
+    const res = await request(t.app)
+      .post(`/api/projects/${created.body.id}/members`)
+      .set(bearer(lead))
+      .send({ email: ' New.Person@Lab.test ', role: 'member' })
     expect(res.status).toBe(201)
     expect(res.body).toMatchObject({ email: 'new.person@lab.test', role: 'member' })
     const invited = await t.em().findOneOrFail(User, { email: 'new.person@lab.test' })
@@ -67,10 +92,19 @@ describe('members', () => {
     const em = t.em()
     const owner = await buildMember(em)
     const member = await buildMember(em)
-    const project = await buildProject(em, [{ user: owner, role: 'owner' }, { user: member, role: 'member' }])
-    const res = await request(t.app).post(`/api/projects/${project.id}/members`).set(bearer(await tokenFor(em, member))).send({ email: 'x@lab.test', role: 'member' })
+    const project = await buildProject(em, [
+      { user: owner, role: 'owner' },
+      { user: member, role: 'member' },
+    ])
+    const res = await request(t.app)
+      .post(`/api/projects/${project.id}/members`)
+      .set(bearer(await tokenFor(em, member)))
+      .send({ email: 'x@lab.test', role: 'member' })
     expect(res.status).toBe(403)
-    const stranger = await request(t.app).post(`/api/projects/${project.id}/members`).set(bearer(lead)).send({ email: 'x@lab.test', role: 'member' })
+    const stranger = await request(t.app)
+      .post(`/api/projects/${project.id}/members`)
+      .set(bearer(lead))
+      .send({ email: 'x@lab.test', role: 'member' })
     expect(stranger.status).toBe(404)
   })
 
@@ -79,12 +113,20 @@ describe('members', () => {
     const owner = await buildMember(em)
     const project = await buildProject(em, [{ user: owner, role: 'owner' }])
     const token = await tokenFor(em, owner)
-    const bad = await request(t.app).post(`/api/projects/${project.id}/members`).set(bearer(token)).send({ email: 'y@lab.test', role: 'boss' })
+    const bad = await request(t.app)
+      .post(`/api/projects/${project.id}/members`)
+      .set(bearer(token))
+      .send({ email: 'y@lab.test', role: 'boss' })
     expect(bad.status).toBe(400)
     expect(bad.body.errors[0].pointer).toBe('#/role')
-    const demote = await request(t.app).post(`/api/projects/${project.id}/members`).set(bearer(token)).send({ email: owner.email, role: 'member' })
+    const demote = await request(t.app)
+      .post(`/api/projects/${project.id}/members`)
+      .set(bearer(token))
+      .send({ email: owner.email, role: 'member' })
     expect(demote.status).toBe(409)
-    expect((await t.em().findOneOrFail(Membership, { project: project.id, user: owner.id })).role).toBe('owner')
+    expect(
+      (await t.em().findOneOrFail(Membership, { project: project.id, user: owner.id })).role,
+    ).toBe('owner')
   })
 
   it('unknown projects are 404', async () => {

@@ -17,10 +17,18 @@ describe('service routes', () => {
   it('describes the API in OpenAPI 3.1 with the shared schemas', async () => {
     const { body } = await request(t.app).get('/api/openapi.json')
     expect(body.openapi).toBe('3.1.0')
-    for (const path of ['/api/datasets', '/api/datasets/{idOrAccession}', '/api/projects/{id}/members', '/api/datasets/{idOrAccession}/shares', '/api/me/tokens']) {
+    for (const path of [
+      '/api/datasets',
+      '/api/datasets/{idOrAccession}',
+      '/api/projects/{id}/members',
+      '/api/datasets/{idOrAccession}/shares',
+      '/api/me/tokens',
+    ]) {
       expect(Object.keys(body.paths)).toContain(path)
     }
-    expect(body.components.schemas.CreateDataset.required).toEqual(expect.arrayContaining(['projectId', 'title']))
+    expect(body.components.schemas.CreateDataset.required).toEqual(
+      expect.arrayContaining(['projectId', 'title']),
+    )
     expect(body.components.schemas.Problem).toBeDefined()
     const docs = await request(t.app).get('/api/docs/')
     expect(docs.status).toBe(200)
@@ -52,7 +60,9 @@ describe('configuration', () => {
     expect(attempt).toThrow(ConfigError)
     expect(attempt).toThrow(/OIDC_ISSUER/)
     expect(attempt).toThrow(/SMTP_URL/)
-    expect(() => loadConfig({ NODE_ENV: 'production', DEMO: 'true', DATA_DIR: t.config.dataDir })).toThrow(/DEMO must be false/)
+    expect(() =>
+      loadConfig({ NODE_ENV: 'production', DEMO: 'true', DATA_DIR: t.config.dataDir }),
+    ).toThrow(/DEMO must be false/)
   })
 
   it('starts in production with a real provider, mail server and https address', () => {
@@ -65,7 +75,10 @@ describe('configuration', () => {
       OIDC_CLIENT_SECRET: 'from-the-environment',
       SMTP_URL: 'smtp://mail.example.org:587',
     })
-    expect(config).toMatchObject({ demo: false, oidc: { local: false, issuer: 'https://login.example.org/realms/lab' } })
+    expect(config).toMatchObject({
+      demo: false,
+      oidc: { local: false, issuer: 'https://login.example.org/realms/lab' },
+    })
   })
 
   it('explains a malformed environment', () => {

@@ -22,7 +22,10 @@ describe('personal access tokens', () => {
   })
 
   it('shows a new secret once and stores only its SHA-256', async () => {
-    const res = await request(t.app).post('/api/me/tokens').set(bearer(token)).send({ name: 'Acquisition PC 2', expiresInDays: 90 })
+    const res = await request(t.app)
+      .post('/api/me/tokens')
+      .set(bearer(token))
+      .send({ name: 'Acquisition PC 2', expiresInDays: 90 })
     expect(res.status).toBe(201)
     const secret: string = res.body.token
     expect(secret).toMatch(/^stp_[A-Za-z0-9_-]{43}$/)
@@ -36,7 +39,10 @@ describe('personal access tokens', () => {
   })
 
   it('stops accepting a revoked token', async () => {
-    const created = await request(t.app).post('/api/me/tokens').set(bearer(token)).send({ name: 'Short-lived', expiresInDays: 1 })
+    const created = await request(t.app)
+      .post('/api/me/tokens')
+      .set(bearer(token))
+      .send({ name: 'Short-lived', expiresInDays: 1 })
     await request(t.app).delete(`/api/me/tokens/${created.body.id}`).set(bearer(token)).expect(204)
     const res = await request(t.app).get('/api/me').set(bearer(created.body.token))
     expect(res.status).toBe(401)
@@ -44,9 +50,16 @@ describe('personal access tokens', () => {
   })
 
   it('stops accepting an expired token', async () => {
-    const created = await request(t.app).post('/api/me/tokens').set(bearer(token)).send({ name: 'Expiring', expiresInDays: 1 })
+    const created = await request(t.app)
+      .post('/api/me/tokens')
+      .set(bearer(token))
+      .send({ name: 'Expiring', expiresInDays: 1 })
     const em = t.em()
-    await em.nativeUpdate(ApiToken, { id: created.body.id }, { expiresAt: new Date(Date.now() - 1000) })
+    await em.nativeUpdate(
+      ApiToken,
+      { id: created.body.id },
+      { expiresAt: new Date(Date.now() - 1000) },
+    )
     expect((await request(t.app).get('/api/me').set(bearer(created.body.token))).status).toBe(401)
   })
 
@@ -59,14 +72,25 @@ describe('personal access tokens', () => {
   it("cannot revoke someone else's token", async () => {
     const em = t.em()
     const other = await buildMember(em)
-    const theirs = await request(t.app).post('/api/me/tokens').set(bearer(await tokenFor(em, other))).send({ name: 'Theirs', expiresInDays: 5 })
-    expect((await request(t.app).delete(`/api/me/tokens/${theirs.body.id}`).set(bearer(token))).status).toBe(404)
+    const theirs = await request(t.app)
+      .post('/api/me/tokens')
+      .set(bearer(await tokenFor(em, other)))
+      .send({ name: 'Theirs', expiresInDays: 5 })
+    expect(
+      (await request(t.app).delete(`/api/me/tokens/${theirs.body.id}`).set(bearer(token))).status,
+    ).toBe(404)
   })
 
   it('validates the token form', async () => {
-    const res = await request(t.app).post('/api/me/tokens').set(bearer(token)).send({ name: '', expiresInDays: 0 })
+    const res = await request(t.app)
+      .post('/api/me/tokens')
+      .set(bearer(token))
+      .send({ name: '', expiresInDays: 0 })
     expect(res.status).toBe(400)
-    expect(res.body.errors.map((e: { pointer: string }) => e.pointer).sort()).toEqual(['#/expiresInDays', '#/name'])
+    expect(res.body.errors.map((e: { pointer: string }) => e.pointer).sort()).toEqual([
+      '#/expiresInDays',
+      '#/name',
+    ])
   })
 
   it('needs a signed-in user', async () => {

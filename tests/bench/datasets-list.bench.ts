@@ -33,15 +33,36 @@ interface LoadResult {
 }
 
 const run = promisify(execFile)
-const hasWrk = () => run('wrk', ['--version']).then(() => true, (err: { stdout?: string }) => Boolean(err.stdout?.includes('wrk')))
+const hasWrk = () =>
+  run('wrk', ['--version']).then(
+    () => true,
+    (err: { stdout?: string }) => Boolean(err.stdout?.includes('wrk')),
+  )
 
 /** wrk (C, Debian package `wrk`) loads the server without competing much for the two cores. */
 async function wrkLoad(url: string, authorization: string, seconds: number): Promise<LoadResult> {
   const script = new URL('./wrk-percentiles.lua', import.meta.url).pathname
-  const { stdout } = await run('wrk', ['-t1', `-c${CONNECTIONS}`, `-d${seconds}s`, '-H', `Authorization: ${authorization}`, '-s', script, url])
+  const { stdout } = await run('wrk', [
+    '-t1',
+    `-c${CONNECTIONS}`,
+    `-d${seconds}s`,
+    '-H',
+    `Authorization: ${authorization}`,
+    '-s',
+    script,
+    url,
+  ])
   const line = stdout.split('\n').find((l) => l.startsWith('WRK '))
   if (!line) throw new Error(`wrk printed no summary:\n${stdout}`)
-  const w = JSON.parse(line.slice(4)) as { requests: number; durationUs: number; errors: number; non2xx: number; p50: number; p95: number; p99: number }
+  const w = JSON.parse(line.slice(4)) as {
+    requests: number
+    durationUs: number
+    errors: number
+    non2xx: number
+    p50: number
+    p95: number
+    p99: number
+  }
   return {
     loadGenerator: 'wrk',
     requests: w.requests,
@@ -55,13 +76,20 @@ async function wrkLoad(url: string, authorization: string, seconds: number): Pro
 }
 
 /** Fallback when wrk is not installed: autocannon in this process (it takes a core of its own). */
-async function autocannonLoad(url: string, authorization: string, seconds: number): Promise<LoadResult> {
+async function autocannonLoad(
+  url: string,
+  authorization: string,
+  seconds: number,
+): Promise<LoadResult> {
   const latencies: number[] = []
   const result = await new Promise<autocannon.Result>((resolve, reject) => {
-    const instance = autocannon({ url, headers: { authorization }, connections: CONNECTIONS, duration: seconds }, (err, res) =>
-      err ? reject(err) : resolve(res),
+    const instance = autocannon(
+      { url, headers: { authorization }, connections: CONNECTIONS, duration: seconds },
+      (err, res) => (err ? reject(err) : resolve(res)),
     )
-    instance.on('response', (_client, _status, _bytes, responseTime) => latencies.push(responseTime))
+    instance.on('response', (_client, _status, _bytes, responseTime) =>
+      latencies.push(responseTime),
+    )
   })
   latencies.sort((a, b) => a - b)
   return {
@@ -77,10 +105,26 @@ async function autocannonLoad(url: string, authorization: string, seconds: numbe
 }
 
 async function startServer(dataDir: string): Promise<{ url: string; stop: () => void }> {
-  const child = spawn(process.execPath, [...(process.env.BENCH_NODE_FLAGS ?? '').split(' ').filter(Boolean), '--import', 'tsx', process.env.BENCH_MAIN ?? 'server/main.ts'], {
-    env: { ...process.env, DATA_DIR: dataDir, DEMO: 'false', LOG_LEVEL: 'error', NODE_ENV: 'development', PORT: process.env.BENCH_PORT ?? '0' },
-    stdio: ['ignore', 'pipe', process.env.BENCH_SERVER_STDERR ? 'inherit' : 'ignore'],
-  })
+  const child = spawn(
+    process.execPath,
+    [
+      ...(process.env.BENCH_NODE_FLAGS ?? '').split(' ').filter(Boolean),
+      '--import',
+      'tsx',
+      process.env.BENCH_MAIN ?? 'server/main.ts',
+    ],
+    {
+      env: {
+        ...process.env,
+        DATA_DIR: dataDir,
+        DEMO: 'false',
+        LOG_LEVEL: 'error',
+        NODE_ENV: 'development',
+        PORT: process.env.BENCH_PORT ?? '0',
+      },
+      stdio: ['ignore', 'pipe', process.env.BENCH_SERVER_STDERR ? 'inherit' : 'ignore'],
+    },
+  )
   const url = await new Promise<string>((resolve, reject) => {
     let out = ''
     child.stdout.on('data', (chunk: Buffer) => {
@@ -104,12 +148,20 @@ export async function benchDatasetList() {
     const headers = { authorization: `Bearer ${token}` }
     const probe = await fetch(server.url + path, { headers })
     const body = (await probe.json()) as { total: number; items: unknown[] }
-    if (probe.status !== 200 || body.items.length !== 50) throw new Error(`unexpected answer ${probe.status}`)
+    if (probe.status !== 200 || body.items.length !== 50)
+      throw new Error(`unexpected answer ${probe.status}`)
 
     const load = (await hasWrk()) ? wrkLoad : autocannonLoad
     await load(server.url + path, headers.authorization, 3) // warm-up
     const result = await load(server.url + path, headers.authorization, DURATION_S)
-    return { datasets: DATASETS, visibleToUser: body.total, connections: CONNECTIONS, durationS: DURATION_S, ...result, targetP95ms: 30 }
+    return {
+      datasets: DATASETS,
+      visibleToUser: body.total,
+      connections: CONNECTIONS,
+      durationS: DURATION_S,
+      ...result,
+      targetP95ms: 30,
+    }
   } finally {
     server.stop()
     rmSync(dataDir, { recursive: true, force: true })

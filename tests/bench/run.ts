@@ -20,7 +20,8 @@ for (const [name, run] of Object.entries(benches)) {
   if (only && only !== name) continue
   process.stdout.write(`\n== ${name} ==\n`)
   const figures = await run()
-  for (const [k, v] of Object.entries(figures)) process.stdout.write(`${k.padStart(18)}: ${String(v)}\n`)
+  for (const [k, v] of Object.entries(figures))
+    process.stdout.write(`${k.padStart(18)}: ${String(v)}\n`)
   results[name] = figures
 }
 process.stdout.write(`JSON ${JSON.stringify(results)}\n`)

@@ -6,7 +6,18 @@ import { Membership, Project } from '@server/modules/projects/project.entity'
 import { createToken } from '@server/modules/tokens/tokens.service'
 import { User } from '@server/modules/users/user.entity'
 
-const WORDS = ['Nup96', 'PSD-95', 'Bassoon', 'gephyrin', 'actin', 'tubulin', 'clathrin', 'Homer1', 'RIM1', 'spectrin']
+const WORDS = [
+  'Nup96',
+  'PSD-95',
+  'Bassoon',
+  'gephyrin',
+  'actin',
+  'tubulin',
+  'clathrin',
+  'Homer1',
+  'RIM1',
+  'spectrin',
+]
 const METHODS = ['dSTORM', 'PALM', 'DNA-PAINT', '3D STORM', 'Exchange-PAINT']
 
 /**
@@ -16,12 +27,20 @@ const METHODS = ['dSTORM', 'PALM', 'DNA-PAINT', '3D STORM', 'Exchange-PAINT']
  */
 export async function seedDatasets(em: EntityManager, count: number): Promise<string> {
   const org = em.create(Organization, { name: 'Bench lab', emailDomain: 'bench.test' })
-  const user = em.create(User, { email: 'depositor@bench.test', name: 'Bench depositor', subject: 'bench-1', organization: null })
+  const user = em.create(User, {
+    email: 'depositor@bench.test',
+    name: 'Bench depositor',
+    subject: 'bench-1',
+    organization: null,
+  })
   await em.flush()
   user.organization = org.id
-  const projects = Array.from({ length: 20 }, (_, i) => em.create(Project, { name: `Bench project ${i + 1}`, description: '' }))
+  const projects = Array.from({ length: 20 }, (_, i) =>
+    em.create(Project, { name: `Bench project ${i + 1}`, description: '' }),
+  )
   await em.flush()
-  for (const p of projects.slice(0, 4)) em.create(Membership, { project: p.id, user: user.id, role: 'member' })
+  for (const p of projects.slice(0, 4))
+    em.create(Membership, { project: p.id, user: user.id, role: 'member' })
   await em.flush()
 
   const base = Date.UTC(2024, 0, 1)

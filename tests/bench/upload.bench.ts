@@ -31,20 +31,34 @@ async function makeSource(path: string) {
 
 async function sha256(path: string) {
   const hash = createHash('sha256')
-  for await (const chunk of createReadStream(path, { highWaterMark: 8 << 20 }) as AsyncIterable<Buffer>) hash.update(chunk)
+  for await (const chunk of createReadStream(path, {
+    highWaterMark: 8 << 20,
+  }) as AsyncIterable<Buffer>)
+    hash.update(chunk)
   return hash.digest('hex')
 }
 
 async function ddSeconds(dir: string): Promise<number> {
   const started = performance.now()
-  await run('dd', ['if=/dev/zero', `of=${join(dir, 'dd.bin')}`, 'bs=16M', `count=${SIZE_MB / 16}`, 'conv=fdatasync'])
+  await run('dd', [
+    'if=/dev/zero',
+    `of=${join(dir, 'dd.bin')}`,
+    'bs=16M',
+    `count=${SIZE_MB / 16}`,
+    'conv=fdatasync',
+  ])
   const seconds = (performance.now() - started) / 1000
   rmSync(join(dir, 'dd.bin'))
   return seconds
 }
 
 /** tus-js-client in a child process, timing from the first request to the server's last answer. */
-async function uploadSeconds(url: string, token: string, source: string, round: number): Promise<number> {
+async function uploadSeconds(
+  url: string,
+  token: string,
+  source: string,
+  round: number,
+): Promise<number> {
   const script = `
     import { createReadStream } from 'node:fs'
     import { Upload } from 'tus-js-client'
@@ -55,7 +69,9 @@ async function uploadSeconds(url: string, token: string, source: string, round: 
       onSuccess: () => { console.log('SECONDS', (performance.now() - started) / 1000) },
       onError: (e) => { console.error(String(e)); process.exit(1) },
     }).start()`
-  const child = spawn(process.execPath, ['--input-type=module', '-e', script], { stdio: ['ignore', 'pipe', 'inherit'] })
+  const child = spawn(process.execPath, ['--input-type=module', '-e', script], {
+    stdio: ['ignore', 'pipe', 'inherit'],
+  })
   let out = ''
   child.stdout.on('data', (d: Buffer) => (out += d.toString()))
   await new Promise((r) => child.once('exit', r))
@@ -71,7 +87,18 @@ export async function benchUpload(): Promise<Record<string, unknown>> {
     const source = join(dir, 'source.bin')
     await makeSource(source)
     await server.start()
-    const { stdout } = await run(process.execPath, ['--import', 'tsx', 'server/cli/admin.ts', 'token', 'create', 'kasimir.feld@harrowgate.example'], { env: { ...process.env, DATA_DIR: join(dir, 'data') } })
+    const { stdout } = await run(
+      process.execPath,
+      [
+        '--import',
+        'tsx',
+        'server/cli/admin.ts',
+        'token',
+        'create',
+        'kasimir.feld@harrowgate.example',
+      ],
+      { env: { ...process.env, DATA_DIR: join(dir, 'data') } },
+    )
     const token = stdout.trim().split('\n').at(-1)!
     // The disk's speed drifts from one minute to the next on a shared machine, so dd and the
     // upload take turns, three rounds, and the medians are compared.
@@ -83,8 +110,12 @@ export async function benchUpload(): Promise<Record<string, unknown>> {
       await writeFile(source, Buffer.from([round]), { flag: 'r+' })
       uploads.push(await uploadSeconds(server.url, token, source, round))
     }
-    const res = await fetch(`${server.url}/api/datasets/STPL-000005/files`, { headers: { authorization: `Bearer ${token}` } })
-    const stored = ((await res.json()) as { items: { name: string; sha256: string }[] }).items.find((f) => f.name === `bench-${ROUNDS - 1}.bin`)
+    const res = await fetch(`${server.url}/api/datasets/STPL-000005/files`, {
+      headers: { authorization: `Bearer ${token}` },
+    })
+    const stored = ((await res.json()) as { items: { name: string; sha256: string }[] }).items.find(
+      (f) => f.name === `bench-${ROUNDS - 1}.bin`,
+    )
     const expected = await sha256(source)
     const ddMBps = BYTES / 1e6 / median(dds)
     const uploadMBps = BYTES / 1e6 / median(uploads)

@@ -8,9 +8,13 @@ import { chromium, type BrowserContext } from 'playwright-core'
 export function chromiumPath(): string {
   if (process.env.CHROMIUM_PATH) return process.env.CHROMIUM_PATH
   try {
-    return execFileSync('sh', ['-c', 'command -v chromium || command -v chromium-browser'], { encoding: 'utf8' }).trim()
+    return execFileSync('sh', ['-c', 'command -v chromium || command -v chromium-browser'], {
+      encoding: 'utf8',
+    }).trim()
   } catch {
-    throw new Error('No chromium found: install Debian\'s "chromium" package (.ci/run does) or set CHROMIUM_PATH.')
+    throw new Error(
+      'No chromium found: install Debian\'s "chromium" package (.ci/run does) or set CHROMIUM_PATH.',
+    )
   }
 }
 

@@ -30,7 +30,10 @@ describe('a depositor in the browser', () => {
 
     const title = `Clathrin lattice DNA-PAINT ${Date.now()}`
     await page.goto(`${stipple.url}/datasets/new`)
-    await page.locator('.v-select', { has: page.getByLabel('Project') }).locator('.v-field').click()
+    await page
+      .locator('.v-select', { has: page.getByLabel('Project') })
+      .locator('.v-field')
+      .click()
     await page.getByRole('option', { name: 'Nuclear pore scaffold census' }).click()
     await new DatasetCreatePage(page).create({ title, description: 'Made by the browser test.' })
     await page.waitForURL(/\/datasets\/STPL-\d{6}$/)
@@ -45,7 +48,9 @@ describe('a depositor in the browser', () => {
 
     await page.getByRole('button', { name: 'Sign out' }).click()
     await page.waitForURL(`${stipple.url}/`)
-    await expect.poll(() => page.getByRole('button', { name: 'Sign in' }).count()).toBeGreaterThan(0)
+    await expect
+      .poll(() => page.getByRole('button', { name: 'Sign in' }).count())
+      .toBeGreaterThan(0)
     const me = await page.evaluate(() => fetch('/api/me').then((r) => r.json()))
     expect(me.user).toBeNull()
     expect(consoleErrors).toEqual([])

@@ -19,7 +19,13 @@ export interface E2eSession {
 /** The real server with the demo data and the built client, and a headless chromium page on it. */
 export async function startE2eSession(): Promise<E2eSession> {
   const dataDir = mkdtempSync(join(tmpdir(), 'stipple-e2e-'))
-  const config = loadConfig({ NODE_ENV: 'test', DATA_DIR: dataDir, PORT: '0', HOST: '127.0.0.1', LOG_LEVEL: 'error' })
+  const config = loadConfig({
+    NODE_ENV: 'test',
+    DATA_DIR: dataDir,
+    PORT: '0',
+    HOST: '127.0.0.1',
+    LOG_LEVEL: 'error',
+  })
   const stipple = await startStipple(config, { clientDir: CLIENT_DIR })
   const browser = await launchBrowser()
   const page = await browser.newPage()

@@ -5,7 +5,14 @@
  */
 import { execFile, spawn } from 'node:child_process'
 import { createHash } from 'node:crypto'
-import { createReadStream, createWriteStream, mkdtempSync, readdirSync, rmSync, statSync } from 'node:fs'
+import {
+  createReadStream,
+  createWriteStream,
+  mkdtempSync,
+  readdirSync,
+  rmSync,
+  statSync,
+} from 'node:fs'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
 import { promisify } from 'node:util'
@@ -22,7 +29,10 @@ let token: string
 
 async function sha256File(path: string) {
   const hash = createHash('sha256')
-  for await (const chunk of createReadStream(path, { highWaterMark: 4 << 20 }) as AsyncIterable<Buffer>) hash.update(chunk)
+  for await (const chunk of createReadStream(path, {
+    highWaterMark: 4 << 20,
+  }) as AsyncIterable<Buffer>)
+    hash.update(chunk)
   return hash.digest('hex')
 }
 
@@ -49,9 +59,20 @@ beforeAll(async () => {
   await writeSource(source, SIZE)
   server = new ServerProcess(await freePort(), { DATA_DIR: join(dir, 'data'), DEMO: 'true' })
   await server.start()
-  const created = await run(process.execPath, ['--import', 'tsx', 'server/cli/admin.ts', 'token', 'create', 'kasimir.feld@harrowgate.example'], {
-    env: { ...process.env, DATA_DIR: join(dir, 'data') },
-  })
+  const created = await run(
+    process.execPath,
+    [
+      '--import',
+      'tsx',
+      'server/cli/admin.ts',
+      'token',
+      'create',
+      'kasimir.feld@harrowgate.example',
+    ],
+    {
+      env: { ...process.env, DATA_DIR: join(dir, 'data') },
+    },
+  )
   token = created.stdout.trim().split('\n').at(-1)!
 }, 120_000)
 
@@ -70,11 +91,30 @@ function uploadedBytes(): number | null {
 describe('an upload from the CLI through repeated server crashes', () => {
   it(`survives ${KILLS} SIGKILLs at random points and stores exactly the source's bytes`, async () => {
     // Each kill lands a random 2–12 MB after the bytes already on disk, so all of them fall mid-upload.
-    const nextTarget = () => (uploadedBytes() ?? 0) + Math.floor((2 + 10 * Math.random()) * 1024 * 1024)
-    const cli = spawn(process.execPath, ['server/cli/stipple-upload.mjs', '--server', server.url, '--dataset', 'STPL-000005', '--chunk-mib', '4', '--retries', '40', '--state', join(dir, 'cli-state.json'), '--quiet', source], {
-      env: { ...process.env, STIPPLE_TOKEN: token },
-      stdio: ['ignore', 'pipe', 'pipe'],
-    })
+    const nextTarget = () =>
+      (uploadedBytes() ?? 0) + Math.floor((2 + 10 * Math.random()) * 1024 * 1024)
+    const cli = spawn(
+      process.execPath,
+      [
+        'server/cli/stipple-upload.mjs',
+        '--server',
+        server.url,
+        '--dataset',
+        'STPL-000005',
+        '--chunk-mib',
+        '4',
+        '--retries',
+        '40',
+        '--state',
+        join(dir, 'cli-state.json'),
+        '--quiet',
+        source,
+      ],
+      {
+        env: { ...process.env, STIPPLE_TOKEN: token },
+        stdio: ['ignore', 'pipe', 'pipe'],
+      },
+    )
     let output = ''
     cli.stdout.on('data', (d: Buffer) => (output += d.toString()))
     cli.stderr.on('data', (d: Buffer) => (output += d.toString()))
@@ -97,10 +137,16 @@ describe('an upload from the CLI through repeated server crashes', () => {
     expect(killedAt.length).toBeGreaterThanOrEqual(KILLS)
 
     const expected = await sha256File(source)
-    const res = await fetch(`${server.url}/api/datasets/STPL-000005/files`, { headers: { authorization: `Bearer ${token}` } })
-    const { items } = (await res.json()) as { items: { name: string; size: number; sha256: string }[] }
+    const res = await fetch(`${server.url}/api/datasets/STPL-000005/files`, {
+      headers: { authorization: `Bearer ${token}` },
+    })
+    const { items } = (await res.json()) as {
+      items: { name: string; size: number; sha256: string }[]
+    }
     const stored = items.filter((f) => f.name.startsWith('stack-0001'))
-    expect(stored).toEqual([expect.objectContaining({ name: 'stack-0001.bin', size: SIZE, sha256: expected })])
+    expect(stored).toEqual([
+      expect.objectContaining({ name: 'stack-0001.bin', size: SIZE, sha256: expected }),
+    ])
     expect(output).toContain(`sha256 ${expected} (verified)`)
   }, 240_000)
 
@@ -119,14 +165,39 @@ describe('an upload from the CLI through repeated server crashes', () => {
       if (!out.write(block)) await new Promise<void>((r) => out.once('drain', () => r()))
     }
     await new Promise<void>((r) => out.end(() => r()))
-    await run(process.execPath, ['server/cli/stipple-upload.mjs', '--server', server.url, '--dataset', 'STPL-000005', '--state', join(dir, 'cli-state-2.json'), '--quiet', table], { env: { ...process.env, STIPPLE_TOKEN: token } })
+    await run(
+      process.execPath,
+      [
+        'server/cli/stipple-upload.mjs',
+        '--server',
+        server.url,
+        '--dataset',
+        'STPL-000005',
+        '--state',
+        join(dir, 'cli-state-2.json'),
+        '--quiet',
+        table,
+      ],
+      { env: { ...process.env, STIPPLE_TOKEN: token } },
+    )
 
     const files = async () => {
-      const res = await fetch(`${server.url}/api/datasets/STPL-000005/files`, { headers: { authorization: `Bearer ${token}` } })
-      return ((await res.json()) as { items: { id: number; name: string; status: string; job: { state: string; progress: number } | null }[] }).items.find((f) => f.name === 'locs-big.csv')
+      const res = await fetch(`${server.url}/api/datasets/STPL-000005/files`, {
+        headers: { authorization: `Bearer ${token}` },
+      })
+      return (
+        (await res.json()) as {
+          items: {
+            id: number
+            name: string
+            status: string
+            job: { state: string; progress: number } | null
+          }[]
+        }
+      ).items.find((f) => f.name === 'locs-big.csv')
     }
     let killed = false
-    for (const end = Date.now() + 60_000; Date.now() < end; ) {
+    for (const end = Date.now() + 60_000; Date.now() < end;) {
       const f = await files()
       if (f?.job?.state === 'running' && f.job.progress > 0.05 && f.job.progress < 0.9) {
         await server.kill()
@@ -139,13 +210,18 @@ describe('an upload from the CLI through repeated server crashes', () => {
     expect(killed, 'the ingest finished before it could be interrupted').toBe(true)
     await server.start()
     let settled: Awaited<ReturnType<typeof files>>
-    for (const end = Date.now() + 120_000; Date.now() < end; ) {
+    for (const end = Date.now() + 120_000; Date.now() < end;) {
       settled = await files()
       if (settled && settled.status !== 'processing') break
       await new Promise((r) => setTimeout(r, 200))
     }
     expect(settled!.status).toBe('ready')
-    const report = await fetch(`${server.url}/api/datasets/STPL-000005/files/${settled!.id}/validation`, { headers: { authorization: `Bearer ${token}` } })
-    expect(((await report.json()) as { report: { rowsAccepted: number } }).report.rowsAccepted).toBe(rows)
+    const report = await fetch(
+      `${server.url}/api/datasets/STPL-000005/files/${settled!.id}/validation`,
+      { headers: { authorization: `Bearer ${token}` } },
+    )
+    expect(
+      ((await report.json()) as { report: { rowsAccepted: number } }).report.rowsAccepted,
+    ).toBe(rows)
   }, 240_000)
 })

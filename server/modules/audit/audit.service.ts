@@ -9,7 +9,11 @@ export interface AuditEntry {
 }
 
 /** Adds an audit event to the unit of work; it is written with the change it describes. */
-export function audit(em: EntityManager, req: { user?: { id: number } | null; ip?: string } | null, entry: AuditEntry) {
+export function audit(
+  em: EntityManager,
+  req: { user?: { id: number } | null; ip?: string } | null,
+  entry: AuditEntry,
+) {
   em.create(AuditEvent, {
     actor: req?.user?.id ?? null,
     action: entry.action,

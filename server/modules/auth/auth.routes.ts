@@ -26,13 +26,20 @@ function signInError(res: Response, status: number, message: string) {
     )
 }
 
-const regenerate = (req: Request) => new Promise<void>((ok, fail) => req.session.regenerate((e) => (e ? fail(e) : ok())))
-const save = (req: Request) => new Promise<void>((ok, fail) => req.session.save((e) => (e ? fail(e) : ok())))
+const regenerate = (req: Request) =>
+  new Promise<void>((ok, fail) => req.session.regenerate((e) => (e ? fail(e) : ok())))
+const save = (req: Request) =>
+  new Promise<void>((ok, fail) => req.session.save((e) => (e ? fail(e) : ok())))
 const destroy = (req: Request) => new Promise<void>((ok) => req.session.destroy(() => ok()))
 
 export function authRouter(deps: AppDeps, rp: RelyingParty): Router {
   const router = Router()
-  const limiter = rateLimit({ windowMs: 60_000, limit: deps.config.rateLimitSignIn, standardHeaders: 'draft-8', legacyHeaders: false })
+  const limiter = rateLimit({
+    windowMs: 60_000,
+    limit: deps.config.rateLimitSignIn,
+    standardHeaders: 'draft-8',
+    legacyHeaders: false,
+  })
 
   router.get('/login', limiter, async (req, res) => {
     const config = await rp.configuration()
@@ -59,7 +66,11 @@ export function authRouter(deps: AppDeps, rp: RelyingParty): Router {
   router.get('/callback', limiter, async (req, res) => {
     const pending = req.session?.pendingSignIn
     if (!pending) {
-      return signInError(res, 400, 'This sign-in response was already used, or it does not belong to this browser. Start the sign-in again.')
+      return signInError(
+        res,
+        400,
+        'This sign-in response was already used, or it does not belong to this browser. Start the sign-in again.',
+      )
     }
     // One use only: a replayed callback finds nothing pending.
     delete req.session.pendingSignIn
@@ -67,12 +78,16 @@ export function authRouter(deps: AppDeps, rp: RelyingParty): Router {
     const config = await rp.configuration()
     let tokens: Awaited<ReturnType<typeof oidc.authorizationCodeGrant>>
     try {
-      tokens = await oidc.authorizationCodeGrant(config, new URL(req.originalUrl, deps.config.publicUrl), {
-        pkceCodeVerifier: pending.verifier,
-        expectedState: pending.state,
-        expectedNonce: pending.nonce,
-        idTokenExpected: true,
-      })
+      tokens = await oidc.authorizationCodeGrant(
+        config,
+        new URL(req.originalUrl, deps.config.publicUrl),
+        {
+          pkceCodeVerifier: pending.verifier,
+          expectedState: pending.state,
+          expectedNonce: pending.nonce,
+          idTokenExpected: true,
+        },
+      )
     } catch (err) {
       const detail = err instanceof Error ? err.message : String(err)
       deps.logger.info({ detail }, 'sign-in rejected')
@@ -91,7 +106,11 @@ export function authRouter(deps: AppDeps, rp: RelyingParty): Router {
     req.session.userId = user.id
     req.session.idToken = tokens.id_token
     await save(req)
-    audit(em(), { user, ip: req.ip }, { action: 'user.sign_in', targetType: 'User', targetId: user.id })
+    audit(
+      em(),
+      { user, ip: req.ip },
+      { action: 'user.sign_in', targetType: 'User', targetId: user.id },
+    )
     await em().flush()
     res.redirect(302, pending.returnTo)
   })

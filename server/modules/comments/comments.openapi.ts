@@ -18,7 +18,8 @@ export function registerCommentPaths(registry: OpenAPIRegistry) {
   registerJsonRoute(registry, {
     method: 'post',
     path: '/api/datasets/{idOrAccession}/comments',
-    summary: 'Comment, optionally on a region of interest given in sample nanometres (needs the annotate right)',
+    summary:
+      'Comment, optionally on a region of interest given in sample nanometres (needs the annotate right)',
     tags,
     params,
     body: createCommentSchema,

@@ -5,7 +5,9 @@ const SQL = "select `value` from `sequence` where `name` = 'access-version'"
 
 /** Reads the counter the database raises on every access-relevant change (see its migration). */
 export async function readAccessVersion(em: EntityManager): Promise<number> {
-  const row = await em.getConnection().execute<{ value?: number }>(SQL, [], 'get', em.getTransactionContext())
+  const row = await em
+    .getConnection()
+    .execute<{ value?: number }>(SQL, [], 'get', em.getTransactionContext())
   return row?.value ?? 0
 }
 
@@ -22,7 +24,10 @@ export class AccessVersionReader {
     dbPath: string,
     private readonly em: () => EntityManager,
   ) {
-    this.statement = dbPath === ':memory:' ? null : new Database(dbPath, { readonly: true, fileMustExist: true }).prepare(SQL)
+    this.statement =
+      dbPath === ':memory:'
+        ? null
+        : new Database(dbPath, { readonly: true, fileMustExist: true }).prepare(SQL)
   }
 
   async read(): Promise<number> {

@@ -10,7 +10,10 @@ import { Dataset, type IDataset } from './dataset.entity'
 export const datasetParams = z.object({ id: z.string().min(1).max(40) })
 
 /** Finds a dataset by numeric id or by accession (STPL-000123, any case). */
-export async function findDataset(em: EntityManager, idOrAccession: string): Promise<IDataset | null> {
+export async function findDataset(
+  em: EntityManager,
+  idOrAccession: string,
+): Promise<IDataset | null> {
   if (/^\d+$/.test(idOrAccession)) return em.findOne(Dataset, { id: Number(idOrAccession) })
   return em.findOne(Dataset, { accession: idOrAccession.toUpperCase() })
 }

@@ -2,7 +2,11 @@ import type { EntityManager, FilterQuery, ObjectQuery } from '@mikro-orm/better-
 import { raw } from '@mikro-orm/better-sqlite'
 import type { DatasetState } from '@shared/domain/dataset-state'
 import type { Page } from '@shared/schemas/common.schema'
-import type { DatasetDto, DatasetSortField, ListDatasetsParams } from '@shared/schemas/dataset.schema'
+import type {
+  DatasetDto,
+  DatasetSortField,
+  ListDatasetsParams,
+} from '@shared/schemas/dataset.schema'
 import { accessibleWhere } from '../../http/access'
 import { VersionedCache } from '../../http/versioned-cache'
 import type { Actor } from '../../services'
@@ -53,7 +57,8 @@ function toDto(r: CatalogueRow): DatasetDto {
     proposedEmbargoUntil: day(r.proposed_embargo_until),
     licence: r.licence,
     version: r.version,
-    createdBy: r.created_by_id === null ? null : { id: r.created_by_id, name: r.creator_name ?? '' },
+    createdBy:
+      r.created_by_id === null ? null : { id: r.created_by_id, name: r.creator_name ?? '' },
     createdAt: iso(r.created_at)!,
     updatedAt: iso(r.updated_at)!,
     submittedAt: iso(r.submitted_at),
@@ -67,7 +72,13 @@ function filtersFor(allowed: FilterQuery<IDataset>, q: ListDatasetsParams): Obje
   if (q.state) filters.push({ state: q.state })
   if (q.q) {
     const like = `%${q.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`
-    filters.push({ $or: [{ title: { $like: like } }, { description: { $like: like } }, { accession: { $like: like } }] })
+    filters.push({
+      $or: [
+        { title: { $like: like } },
+        { description: { $like: like } },
+        { accession: { $like: like } },
+      ],
+    })
   }
   return { $and: filters }
 }
@@ -84,7 +95,10 @@ export class DatasetCatalogue {
   private readonly totals = new VersionedCache<number>(2000)
   private readonly pages = new VersionedCache<Page<DatasetDto>>(500)
   /** The filter (and its cache key) per abilities object and query; abilities are reused for a second. */
-  private readonly filters = new WeakMap<object, Map<string, { where: ObjectQuery<IDataset>; key: string } | null>>()
+  private readonly filters = new WeakMap<
+    object,
+    Map<string, { where: ObjectQuery<IDataset>; key: string } | null>
+  >()
 
   async list(em: EntityManager, actor: Actor, q: ListDatasetsParams): Promise<Page<DatasetDto>> {
     const filter = this.filterFor(actor, q)
@@ -114,7 +128,13 @@ export class DatasetCatalogue {
     return filter
   }
 
-  private async read(em: EntityManager, where: ObjectQuery<IDataset>, key: string, version: number, q: ListDatasetsParams) {
+  private async read(
+    em: EntityManager,
+    where: ObjectQuery<IDataset>,
+    key: string,
+    version: number,
+    q: ListDatasetsParams,
+  ) {
     let total = this.totals.get(key, version)
     if (total === undefined) {
       total = await em.count(Dataset, structuredClone(where))

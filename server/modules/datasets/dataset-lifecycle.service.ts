@@ -19,7 +19,13 @@ function futureDay(value: string | null | undefined, pointer: string, now: Date)
   return day
 }
 
-async function mailCreator(em: EntityManager, deps: Notify, dataset: IDataset, subject: string, text: string) {
+async function mailCreator(
+  em: EntityManager,
+  deps: Notify,
+  dataset: IDataset,
+  subject: string,
+  text: string,
+) {
   if (dataset.createdBy == null) return
   const creator = await em.findOne(User, { id: dataset.createdBy })
   if (!creator) return
@@ -28,7 +34,12 @@ async function mailCreator(em: EntityManager, deps: Notify, dataset: IDataset, s
 }
 
 /** Depositor → steward: draft or changes requested → submitted. The ability has checked the state. */
-export async function submitDataset(em: EntityManager, actor: Actor, deps: Notify, dataset: IDataset) {
+export async function submitDataset(
+  em: EntityManager,
+  actor: Actor,
+  deps: Notify,
+  dataset: IDataset,
+) {
   await assertReadyToSubmit(em, dataset)
   dataset.state = 'submitted'
   dataset.submittedAt = new Date()
@@ -60,13 +71,20 @@ export async function reviewDataset(
   const { decision, comment, embargoUntil } = input
   const phase = accessPhase(dataset, now)
   if ((decision === 'approve' || decision === 'request_changes') && phase !== 'submitted') {
-    throw new ConflictError(`Only submitted datasets can be approved or sent back; ${dataset.accession} is ${phase}.`)
+    throw new ConflictError(
+      `Only submitted datasets can be approved or sent back; ${dataset.accession} is ${phase}.`,
+    )
   }
   if (decision === 'withdraw' && dataset.state !== 'approved') {
-    throw new ConflictError(`Only approved datasets can be withdrawn; ${dataset.accession} is ${phase}.`)
+    throw new ConflictError(
+      `Only approved datasets can be withdrawn; ${dataset.accession} is ${phase}.`,
+    )
   }
   if (decision === 'approve') {
-    const requested = embargoUntil === undefined ? (dataset.embargoUntil ?? dataset.proposedEmbargoUntil) : futureDay(embargoUntil, '#/embargoUntil', now)
+    const requested =
+      embargoUntil === undefined
+        ? (dataset.embargoUntil ?? dataset.proposedEmbargoUntil)
+        : futureDay(embargoUntil, '#/embargoUntil', now)
     dataset.embargoUntil = requested && requested.getTime() > now.getTime() ? requested : null
     dataset.state = 'approved'
     dataset.approvedAt = now
@@ -80,8 +98,14 @@ export async function reviewDataset(
     details: { comment, embargoUntil: dataset.embargoUntil?.toISOString() ?? null },
   })
   await em.flush()
-  const verdict = { approve: 'was approved', request_changes: 'needs changes', withdraw: 'was withdrawn' }[decision]
-  const embargoNote = dataset.embargoUntil ? `\nIt stays under embargo until ${dataset.embargoUntil.toISOString().slice(0, 10)}.` : ''
+  const verdict = {
+    approve: 'was approved',
+    request_changes: 'needs changes',
+    withdraw: 'was withdrawn',
+  }[decision]
+  const embargoNote = dataset.embargoUntil
+    ? `\nIt stays under embargo until ${dataset.embargoUntil.toISOString().slice(0, 10)}.`
+    : ''
   await mailCreator(
     em,
     deps,
@@ -93,7 +117,13 @@ export async function reviewDataset(
 }
 
 /** Set, extend or lift (until = null) the embargo; always with a reason, always audited. */
-export async function setEmbargo(em: EntityManager, actor: Actor, dataset: IDataset, input: SetEmbargoBody, now = new Date()) {
+export async function setEmbargo(
+  em: EntityManager,
+  actor: Actor,
+  dataset: IDataset,
+  input: SetEmbargoBody,
+  now = new Date(),
+) {
   const { until, reason } = input
   const previous = dataset.embargoUntil
   dataset.embargoUntil = futureDay(until, '#/until', now)
@@ -101,7 +131,11 @@ export async function setEmbargo(em: EntityManager, actor: Actor, dataset: IData
     action: 'dataset.embargo',
     targetType: 'Dataset',
     targetId: dataset.accession,
-    details: { reason, from: previous?.toISOString() ?? null, to: dataset.embargoUntil?.toISOString() ?? null },
+    details: {
+      reason,
+      from: previous?.toISOString() ?? null,
+      to: dataset.embargoUntil?.toISOString() ?? null,
+    },
   })
   await em.flush()
   return toDatasetDto(em, dataset)

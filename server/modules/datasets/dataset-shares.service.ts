@@ -20,7 +20,11 @@ function toShareDto(share: IDatasetShare, user: IUser): DatasetShareDto {
 }
 
 export async function listShares(em: EntityManager, dataset: IDataset): Promise<DatasetShareDto[]> {
-  const shares = await em.find(DatasetShare, { dataset: dataset.id }, { orderBy: { createdAt: 'asc' } })
+  const shares = await em.find(
+    DatasetShare,
+    { dataset: dataset.id },
+    { orderBy: { createdAt: 'asc' } },
+  )
   const users = await em.find(User, { id: { $in: shares.map((s) => s.user) } })
   const byId = new Map(users.map((u) => [u.id, u]))
   return shares.map((s) => toShareDto(s, byId.get(s.user)!))
@@ -41,14 +45,23 @@ export async function shareDataset(
   const { user } = await findOrInviteUser(em, email)
   const membership = await em.findOne(Membership, { project: dataset.project, user: user.id })
   if (membership && membership.role !== 'collaborator') {
-    throw new ConflictError(`${email} is already a ${membership.role} of this project and sees all its datasets.`)
+    throw new ConflictError(
+      `${email} is already a ${membership.role} of this project and sees all its datasets.`,
+    )
   }
-  if (!membership) em.create(Membership, { project: dataset.project, user: user.id, role: 'collaborator' })
+  if (!membership)
+    em.create(Membership, { project: dataset.project, user: user.id, role: 'collaborator' })
 
   let share = await em.findOne(DatasetShare, { dataset: dataset.id, user: user.id })
   const created = !share
   if (share) share.capabilities = capabilities
-  else share = em.create(DatasetShare, { dataset: dataset.id, user: user.id, capabilities, createdBy: actor.user?.id ?? null })
+  else
+    share = em.create(DatasetShare, {
+      dataset: dataset.id,
+      user: user.id,
+      capabilities,
+      createdBy: actor.user?.id ?? null,
+    })
   audit(em, actor, {
     action: created ? 'dataset.share' : 'dataset.share.update',
     targetType: 'Dataset',
@@ -57,7 +70,9 @@ export async function shareDataset(
   })
   await em.flush()
 
-  const can = capabilities.length ? `read its description and ${capabilities.join(', ')}` : 'read its description'
+  const can = capabilities.length
+    ? `read its description and ${capabilities.join(', ')}`
+    : 'read its description'
   await deps.mailer.send({
     to: email,
     subject: `${actor.user?.name ?? 'Someone'} shared ${dataset.accession} with you on Stipple`,
@@ -72,10 +87,20 @@ export async function shareDataset(
   return { share: toShareDto(share, user), created }
 }
 
-export async function revokeShare(em: EntityManager, actor: Actor, dataset: IDataset, shareId: number) {
+export async function revokeShare(
+  em: EntityManager,
+  actor: Actor,
+  dataset: IDataset,
+  shareId: number,
+) {
   const share = await em.findOne(DatasetShare, { id: shareId, dataset: dataset.id })
   if (!share) throw new NotFoundError('share', shareId)
-  audit(em, actor, { action: 'dataset.unshare', targetType: 'Dataset', targetId: dataset.accession, details: { user: share.user } })
+  audit(em, actor, {
+    action: 'dataset.unshare',
+    targetType: 'Dataset',
+    targetId: dataset.accession,
+    details: { user: share.user },
+  })
   em.remove(share)
   await em.flush()
 }

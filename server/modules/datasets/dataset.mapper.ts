@@ -8,10 +8,15 @@ const iso = (d: Date | null | undefined) => (d ? d.toISOString() : null)
 const day = (d: Date | null | undefined) => (d ? d.toISOString().slice(0, 10) : null)
 
 /** Maps datasets to DTOs, loading their projects' and creators' names in one query each. */
-export async function toDatasetDtos(em: EntityManager, datasets: IDataset[]): Promise<DatasetDto[]> {
+export async function toDatasetDtos(
+  em: EntityManager,
+  datasets: IDataset[],
+): Promise<DatasetDto[]> {
   if (!datasets.length) return []
   const projectIds = [...new Set(datasets.map((d) => d.project))]
-  const userIds = [...new Set(datasets.map((d) => d.createdBy).filter((id): id is number => id != null))]
+  const userIds = [
+    ...new Set(datasets.map((d) => d.createdBy).filter((id): id is number => id != null)),
+  ]
   const [projects, users] = await Promise.all([
     em.find(Project, { id: { $in: projectIds } }, { fields: ['name'], disableIdentityMap: true }),
     userIds.length
@@ -31,7 +36,8 @@ export async function toDatasetDtos(em: EntityManager, datasets: IDataset[]): Pr
     proposedEmbargoUntil: day(d.proposedEmbargoUntil),
     licence: d.licence,
     version: d.version,
-    createdBy: d.createdBy != null ? { id: d.createdBy, name: userName.get(d.createdBy) ?? '' } : null,
+    createdBy:
+      d.createdBy != null ? { id: d.createdBy, name: userName.get(d.createdBy) ?? '' } : null,
     createdAt: d.createdAt.toISOString(),
     updatedAt: d.updatedAt.toISOString(),
     submittedAt: iso(d.submittedAt),

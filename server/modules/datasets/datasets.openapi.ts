@@ -14,7 +14,9 @@ import { listOf, pageOf, registerJsonRoute } from '../../openapi/registry'
 
 export function registerDatasetPaths(registry: OpenAPIRegistry) {
   const tags = ['Datasets']
-  const params = z.object({ idOrAccession: z.string().describe('Numeric id or accession, e.g. STPL-000042') })
+  const params = z.object({
+    idOrAccession: z.string().describe('Numeric id or accession, e.g. STPL-000042'),
+  })
   const path = (suffix = '') => `/api/datasets/{idOrAccession}${suffix}`
   registerJsonRoute(registry, {
     method: 'get',
@@ -35,7 +37,15 @@ export function registerDatasetPaths(registry: OpenAPIRegistry) {
     status: 201,
     errors: [400, 401, 403],
   })
-  registerJsonRoute(registry, { method: 'get', path: path(), summary: 'One dataset', tags, params, response: datasetSchema, errors: [404] })
+  registerJsonRoute(registry, {
+    method: 'get',
+    path: path(),
+    summary: 'One dataset',
+    tags,
+    params,
+    response: datasetSchema,
+    errors: [404],
+  })
   registerJsonRoute(registry, {
     method: 'patch',
     path: path(),
@@ -46,8 +56,24 @@ export function registerDatasetPaths(registry: OpenAPIRegistry) {
     response: datasetSchema,
     errors: [400, 401, 403, 404],
   })
-  registerJsonRoute(registry, { method: 'delete', path: path(), summary: 'Delete a draft', tags, params, status: 204, errors: [401, 403, 404] })
-  registerJsonRoute(registry, { method: 'post', path: path('/submit'), summary: 'Submit for curation', tags, params, response: datasetSchema, errors: [401, 403, 404] })
+  registerJsonRoute(registry, {
+    method: 'delete',
+    path: path(),
+    summary: 'Delete a draft',
+    tags,
+    params,
+    status: 204,
+    errors: [401, 403, 404],
+  })
+  registerJsonRoute(registry, {
+    method: 'post',
+    path: path('/submit'),
+    summary: 'Submit for curation',
+    tags,
+    params,
+    response: datasetSchema,
+    errors: [401, 403, 404],
+  })
   registerJsonRoute(registry, {
     method: 'post',
     path: path('/review'),
@@ -68,7 +94,15 @@ export function registerDatasetPaths(registry: OpenAPIRegistry) {
     response: datasetSchema,
     errors: [400, 401, 403, 404],
   })
-  registerJsonRoute(registry, { method: 'get', path: path('/shares'), summary: 'Who the dataset is shared with', tags, params, response: listOf(datasetShareSchema), errors: [401, 403, 404] })
+  registerJsonRoute(registry, {
+    method: 'get',
+    path: path('/shares'),
+    summary: 'Who the dataset is shared with',
+    tags,
+    params,
+    response: listOf(datasetShareSchema),
+    errors: [401, 403, 404],
+  })
   registerJsonRoute(registry, {
     method: 'post',
     path: path('/shares'),

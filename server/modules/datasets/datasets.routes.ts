@@ -27,8 +27,10 @@ const shareParams = datasetParams.extend({ shareId: idSchema })
 export function datasetsRouter(deps: AppDeps): Router {
   const router = Router()
   const catalogue = new DatasetCatalogue()
-  const target = (req: Parameters<typeof datasetFor>[0], action: Parameters<typeof datasetFor>[3]) =>
-    datasetFor(req, em(), parseParams(datasetParams, req).id, action)
+  const target = (
+    req: Parameters<typeof datasetFor>[0],
+    action: Parameters<typeof datasetFor>[3],
+  ) => datasetFor(req, em(), parseParams(datasetParams, req).id, action)
 
   // Pages come back from the catalogue's cache as the same objects; encode each one once.
   const encoded = new WeakMap<object, Buffer>()
@@ -78,7 +80,13 @@ export function datasetsRouter(deps: AppDeps): Router {
 
   router.post('/:id/shares', requireUser, async (req, res) => {
     const dataset = await target(req, 'share')
-    const { share, created } = await shareDataset(em(), req, deps, dataset, parseBody(shareDatasetSchema, req))
+    const { share, created } = await shareDataset(
+      em(),
+      req,
+      deps,
+      dataset,
+      parseBody(shareDatasetSchema, req),
+    )
     res.status(created ? 201 : 200).json(share)
   })
 

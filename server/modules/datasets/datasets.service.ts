@@ -15,15 +15,23 @@ import { Project } from '../projects/project.entity'
 import { Dataset, type IDataset } from './dataset.entity'
 import { parseDay, toDatasetDto } from './dataset.mapper'
 
-export async function createDataset(em: EntityManager, actor: Actor, input: CreateDatasetBody): Promise<DatasetDto> {
+export async function createDataset(
+  em: EntityManager,
+  actor: Actor,
+  input: CreateDatasetBody,
+): Promise<DatasetDto> {
   const { projectId, title, description, licence } = input
   const project = await em.findOne(Project, { id: projectId })
   if (!project || !actor.ability.can('read', { __type: 'Project', id: projectId })) {
-    throw new ValidationError([{ pointer: '#/projectId', detail: `No project ${projectId} that you can see.` }])
+    throw new ValidationError([
+      { pointer: '#/projectId', detail: `No project ${projectId} that you can see.` },
+    ])
   }
   const draft = datasetSubject({ id: 0, project: projectId, state: 'draft', embargoUntil: null })
   if (!actor.ability.can('create', draft)) {
-    throw new ForbiddenError(`Only owners and members of "${project.name}" can create datasets in it.`)
+    throw new ForbiddenError(
+      `Only owners and members of "${project.name}" can create datasets in it.`,
+    )
   }
   const dataset = await em.transactional(async (tem) => {
     const accession = formatAccession(await nextSequenceValue(tem, 'accession'))
@@ -36,19 +44,31 @@ export async function createDataset(em: EntityManager, actor: Actor, input: Crea
       createdBy: actor.user?.id ?? null,
     })
     await tem.flush()
-    audit(tem, actor, { action: 'dataset.create', targetType: 'Dataset', targetId: accession, details: { title } })
+    audit(tem, actor, {
+      action: 'dataset.create',
+      targetType: 'Dataset',
+      targetId: accession,
+      details: { title },
+    })
     return created
   })
   return toDatasetDto(em, dataset)
 }
 
-export async function updateDataset(em: EntityManager, actor: Actor, dataset: IDataset, changes: UpdateDatasetBody) {
+export async function updateDataset(
+  em: EntityManager,
+  actor: Actor,
+  dataset: IDataset,
+  changes: UpdateDatasetBody,
+) {
   const { proposedEmbargoUntil, ...rest } = changes
   em.assign(dataset, rest)
   if (proposedEmbargoUntil !== undefined) {
     const day = parseDay(proposedEmbargoUntil)
     if (day && day.getTime() <= Date.now()) {
-      throw new ValidationError([{ pointer: '#/proposedEmbargoUntil', detail: 'An embargo must end in the future.' }])
+      throw new ValidationError([
+        { pointer: '#/proposedEmbargoUntil', detail: 'An embargo must end in the future.' },
+      ])
     }
     dataset.proposedEmbargoUntil = day
   }

@@ -11,7 +11,8 @@ import { DatasetFile } from './dataset-file.entity'
 import { derivedPaths } from './file-processing'
 
 const fileParams = datasetParams.extend({ fileId: idSchema })
-const attachment = (name: string) => `attachment; filename="${name.replace(/[^\x20-\x7e]|["\\]/g, '_')}"; filename*=UTF-8''${encodeURIComponent(name)}`
+const attachment = (name: string) =>
+  `attachment; filename="${name.replace(/[^\x20-\x7e]|["\\]/g, '_')}"; filename*=UTF-8''${encodeURIComponent(name)}`
 
 /**
  * Downloads: one file with Range requests, a strong ETag and RFC 9530 digests (Repr-Digest on
@@ -28,21 +29,45 @@ export function fileDownloadsRouter(storage: LocalStorage): Router {
     if (!file || !file.sha256) throw new NotFoundError('file', fileId)
     const digest = `sha-256=:${Buffer.from(file.sha256, 'hex').toString('base64')}:`
     const range = req.get('range')
-    res.set({ ETag: `"${file.sha256}"`, 'Repr-Digest': digest, 'Content-Disposition': attachment(file.name), 'Cache-Control': 'private, no-cache' })
+    res.set({
+      ETag: `"${file.sha256}"`,
+      'Repr-Digest': digest,
+      'Content-Disposition': attachment(file.name),
+      'Cache-Control': 'private, no-cache',
+    })
     if (!range) res.set('Content-Digest', digest)
     const startsDownload = !range || /^bytes=0-/.test(range.trim())
     if (startsDownload && req.get('if-none-match') !== `"${file.sha256}"`) {
-      audit(em(), req, { action: 'file.download', targetType: 'Dataset', targetId: dataset.accession, details: { file: file.name, range: range ?? null } })
+      audit(em(), req, {
+        action: 'file.download',
+        targetType: 'Dataset',
+        targetId: dataset.accession,
+        details: { file: file.name, range: range ?? null },
+      })
       await em().flush()
     }
     res.type(file.mediaType ?? 'application/octet-stream')
-    res.sendFile(storage.originalPath(file.storageKey), { etag: false, lastModified: false, cacheControl: false, acceptRanges: true, dotfiles: 'allow' }, (err) => {
-      if (!err || res.headersSent) return
-      const failure = err as Error & { status?: number; headers?: Record<string, string> }
-      // An unsatisfiable range is the client's mistake: 416 with the size, as RFC 9110 15.5.17 asks.
-      if (failure.status === 416) return void res.status(416).set(failure.headers ?? {}).end()
-      next(err)
-    })
+    res.sendFile(
+      storage.originalPath(file.storageKey),
+      {
+        etag: false,
+        lastModified: false,
+        cacheControl: false,
+        acceptRanges: true,
+        dotfiles: 'allow',
+      },
+      (err) => {
+        if (!err || res.headersSent) return
+        const failure = err as Error & { status?: number; headers?: Record<string, string> }
+        // An unsatisfiable range is the client's mistake: 416 with the size, as RFC 9110 15.5.17 asks.
+        if (failure.status === 416)
+          return void res
+            .status(416)
+            .set(failure.headers ?? {})
+            .end()
+        next(err)
+      },
+    )
   })
 
   /** What the raw-stack scan drew: the projection thumbnail and the per-frame mean trace (preview right). */
@@ -53,25 +78,47 @@ export function fileDownloadsRouter(storage: LocalStorage): Router {
     router.get(`/files/:fileId/${route}`, async (req, res) => {
       const { id, fileId } = parseParams(fileParams, req)
       const dataset = await datasetFor(req, em(), id, 'preview')
-      const file = await em().findOne(DatasetFile, { id: fileId, dataset: dataset.id, kind: 'raw_stack', status: 'ready' })
+      const file = await em().findOne(DatasetFile, {
+        id: fileId,
+        dataset: dataset.id,
+        kind: 'raw_stack',
+        status: 'ready',
+      })
       if (!file) throw new NotFoundError('scanned raw stack', fileId)
-      res.set('Cache-Control', 'private, max-age=300').sendFile(derivedPaths(storage, file.id)[pick])
+      res
+        .set('Cache-Control', 'private, max-age=300')
+        .sendFile(derivedPaths(storage, file.id)[pick])
     })
   }
 
   router.get('/archive.zip', async (req, res) => {
     const dataset = await datasetFor(req, em(), parseParams(datasetParams, req).id, 'download')
-    const files = await em().find(DatasetFile, { dataset: dataset.id, status: { $ne: 'rejected' }, sha256: { $ne: null } }, { orderBy: { name: 'asc' } })
-    audit(em(), req, { action: 'dataset.download', targetType: 'Dataset', targetId: dataset.accession, details: { files: files.length } })
+    const files = await em().find(
+      DatasetFile,
+      { dataset: dataset.id, status: { $ne: 'rejected' }, sha256: { $ne: null } },
+      { orderBy: { name: 'asc' } },
+    )
+    audit(em(), req, {
+      action: 'dataset.download',
+      targetType: 'Dataset',
+      targetId: dataset.accession,
+      details: { files: files.length },
+    })
     await em().flush()
-    res.set({ 'Content-Type': 'application/zip', 'Content-Disposition': attachment(`${dataset.accession}.zip`) })
+    res.set({
+      'Content-Type': 'application/zip',
+      'Content-Disposition': attachment(`${dataset.accession}.zip`),
+    })
     // Stored, not deflated: raw stacks and compressed tables gain little, and CPU is better spent elsewhere.
     const zip = new ZipArchive({ store: true, forceZip64: files.some((f) => f.size >= 0xffffffff) })
     zip.on('error', (err: Error) => res.destroy(err))
     zip.pipe(res)
     const prefix = `${dataset.accession}/`
-    zip.append(files.map((f) => `${f.sha256}  ${f.name}\n`).join(''), { name: `${prefix}manifest-sha256.txt` })
-    for (const f of files) zip.file(storage.originalPath(f.storageKey), { name: `${prefix}${f.name}` })
+    zip.append(files.map((f) => `${f.sha256}  ${f.name}\n`).join(''), {
+      name: `${prefix}manifest-sha256.txt`,
+    })
+    for (const f of files)
+      zip.file(storage.originalPath(f.storageKey), { name: `${prefix}${f.name}` })
     await zip.finalize()
   })
 

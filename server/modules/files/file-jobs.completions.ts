@@ -18,14 +18,28 @@ async function fileOf(em: EntityManager, job: IJob) {
  * A multi-file OME-TIFF names its parts in its OME-XML. Until all have arrived the file says which
  * are missing; when they have, the whole stack is scanned once more, over all parts in plane order.
  */
-async function multiFilePart(em: EntityManager, storage: LocalStorage, file: IDatasetFile, report: RawStackReport, job: IJob): Promise<string | null> {
+async function multiFilePart(
+  em: EntityManager,
+  storage: LocalStorage,
+  file: IDatasetFile,
+  report: RawStackReport,
+  job: IJob,
+): Promise<string | null> {
   if (report.fileSet.length < 2 || Array.isArray(job.payload.parts)) return null
-  const siblings = await em.find(DatasetFile, { dataset: file.dataset, name: { $in: report.fileSet } })
+  const siblings = await em.find(DatasetFile, {
+    dataset: file.dataset,
+    name: { $in: report.fileSet },
+  })
   const byName = new Map(siblings.map((f) => [f.name, f]))
   const missing = report.fileSet.filter((n) => !byName.has(n))
-  if (missing.length) return `Part of a multi-file OME-TIFF; still to upload: ${missing.join(', ')}.`
+  if (missing.length)
+    return `Part of a multi-file OME-TIFF; still to upload: ${missing.join(', ')}.`
   const parts = report.fileSet.map((n) => storage.originalPath(byName.get(n)!.storageKey))
-  enqueueJob(em, { kind: FILE_JOBS.scanRawStack, payload: { ...job.payload, parts }, fileId: file.id })
+  enqueueJob(em, {
+    kind: FILE_JOBS.scanRawStack,
+    payload: { ...job.payload, parts },
+    fileId: file.id,
+  })
   file.status = 'processing'
   return null
 }

@@ -32,9 +32,14 @@ const isTiff = (b: Buffer) =>
 
 /** Printable text with line breaks and delimited numbers: what a localization table looks like. */
 function looksLikeTable(text: string): boolean {
-  const lines = text.split(/\r?\n/).filter((l) => l.trim()).slice(0, 20)
+  const lines = text
+    .split(/\r?\n/)
+    .filter((l) => l.trim())
+    .slice(0, 20)
   if (lines.length < 2) return false
-  const numeric = lines.slice(1).filter((l) => /^[\s"']*[-+]?[\d.]/.test(l) && /[,\t; |]/.test(l)).length
+  const numeric = lines
+    .slice(1)
+    .filter((l) => /^[\s"']*[-+]?[\d.]/.test(l) && /[,\t; |]/.test(l)).length
   return numeric >= Math.min(lines.length - 1, 3)
 }
 
@@ -42,13 +47,26 @@ function looksLikeTable(text: string): boolean {
  * What a file is, from its content rather than its name: TIFF/BigTIFF raw stacks, delimited text
  * tables (plain or gzip), XML metadata. The extension is only a tie-breaker for text.
  */
-export async function detectFileKind(path: string, name = ''): Promise<{ kind: FileKind; mediaType: string }> {
+export async function detectFileKind(
+  path: string,
+  name = '',
+): Promise<{ kind: FileKind; mediaType: string }> {
   const { bytes, gzip } = await head(path)
   if (!gzip && isTiff(bytes)) return { kind: 'raw_stack', mediaType: 'image/tiff' }
-  if (bytes.includes(0)) return { kind: 'other', mediaType: gzip ? 'application/gzip' : 'application/octet-stream' }
+  if (bytes.includes(0))
+    return { kind: 'other', mediaType: gzip ? 'application/gzip' : 'application/octet-stream' }
   const text = bytes.toString('utf8').replace(/^\uFEFF/, '')
   if (/^\s*<(\?xml|OME[\s>])/.test(text)) return { kind: 'metadata', mediaType: 'application/xml' }
-  const tableName = /\.(csv|tsv|txt|dat)(\.gz)?$/i.test(name) && /[,\t;|]/.test(text.split(/\r?\n/)[0] ?? '')
-  if (looksLikeTable(text) || tableName) return { kind: 'localization_table', mediaType: gzip ? 'application/gzip' : text.includes('\t') ? 'text/tab-separated-values' : 'text/csv' }
+  const tableName =
+    /\.(csv|tsv|txt|dat)(\.gz)?$/i.test(name) && /[,\t;|]/.test(text.split(/\r?\n/)[0] ?? '')
+  if (looksLikeTable(text) || tableName)
+    return {
+      kind: 'localization_table',
+      mediaType: gzip
+        ? 'application/gzip'
+        : text.includes('\t')
+          ? 'text/tab-separated-values'
+          : 'text/csv',
+    }
   return { kind: 'other', mediaType: gzip ? 'application/gzip' : 'text/plain' }
 }

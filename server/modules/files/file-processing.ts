@@ -18,14 +18,23 @@ export function derivedPaths(storage: LocalStorage, fileId: number) {
 }
 
 /** The first job a newly registered file needs, if any. */
-export function firstJobFor(file: IDatasetFile, storage: LocalStorage): { kind: string; payload: Record<string, unknown> } | null {
+export function firstJobFor(
+  file: IDatasetFile,
+  storage: LocalStorage,
+): { kind: string; payload: Record<string, unknown> } | null {
   const source = storage.originalPath(file.storageKey)
   if (file.kind === 'localization_table') {
-    return { kind: FILE_JOBS.inspectTable, payload: { fileId: file.id, source, output: derivedPaths(storage, file.id).columnar } }
+    return {
+      kind: FILE_JOBS.inspectTable,
+      payload: { fileId: file.id, source, output: derivedPaths(storage, file.id).columnar },
+    }
   }
   if (file.kind === 'raw_stack') {
     const out = derivedPaths(storage, file.id)
-    return { kind: FILE_JOBS.scanRawStack, payload: { fileId: file.id, source, thumbnail: out.thumbnail, trace: out.trace } }
+    return {
+      kind: FILE_JOBS.scanRawStack,
+      payload: { fileId: file.id, source, thumbnail: out.thumbnail, trace: out.trace },
+    }
   }
   return null
 }

@@ -25,7 +25,9 @@ export interface FinishedUpload {
 
 /** The name a file gets in its dataset: the depositor's, with " (2)" etc. if it is already taken. */
 async function uniqueName(em: EntityManager, datasetId: number, name: string): Promise<string> {
-  const taken = new Set((await em.find(DatasetFile, { dataset: datasetId }, { fields: ['name'] })).map((f) => f.name))
+  const taken = new Set(
+    (await em.find(DatasetFile, { dataset: datasetId }, { fields: ['name'] })).map((f) => f.name),
+  )
   if (!taken.has(name)) return name
   const dot = name.lastIndexOf('.')
   const [stem, ext] = dot > 0 ? [name.slice(0, dot), name.slice(dot)] : [name, '']
@@ -41,7 +43,11 @@ export const storageKeyFor = (datasetId: number, uploadId: string) => `${dataset
  * step a crash interrupted. An empty file or an exact duplicate in the same dataset is refused
  * and its bytes are removed.
  */
-export async function registerUpload(em: EntityManager, storage: LocalStorage, f: FinishedUpload): Promise<IDatasetFile> {
+export async function registerUpload(
+  em: EntityManager,
+  storage: LocalStorage,
+  f: FinishedUpload,
+): Promise<IDatasetFile> {
   const datasetId = Number(f.upload.metadata?.datasetId)
   const tusPath = `${storage.uploadsDir}/${f.upload.id}`
   const key = storageKeyFor(datasetId, f.upload.id)
@@ -53,14 +59,20 @@ export async function registerUpload(em: EntityManager, storage: LocalStorage, f
     await em.nativeDelete(UploadReservation, { uploadId: f.upload.id })
     return refuse(status, title, detail, extra)
   }
-  if (f.size === 0) throw await fail(400, 'Empty file', 'The file is empty (0 bytes); nothing was stored.')
+  if (f.size === 0)
+    throw await fail(400, 'Empty file', 'The file is empty (0 bytes); nothing was stored.')
   const twin = await em.findOne(DatasetFile, { dataset: datasetId, sha256: f.sha256 })
   if (twin) {
-    throw await fail(400, 'Duplicate file', `This file is identical (same SHA-256) to "${twin.name}", already in the dataset; it was not stored twice.`, {
-      type: DUPLICATE_FILE_PROBLEM,
-      existingFileId: twin.id,
-      sha256: twin.sha256,
-    })
+    throw await fail(
+      400,
+      'Duplicate file',
+      `This file is identical (same SHA-256) to "${twin.name}", already in the dataset; it was not stored twice.`,
+      {
+        type: DUPLICATE_FILE_PROBLEM,
+        existingFileId: twin.id,
+        sha256: twin.sha256,
+      },
+    )
   }
 
   const original = storage.originalPath(key)
@@ -68,7 +80,10 @@ export async function registerUpload(em: EntityManager, storage: LocalStorage, f
     mkdirSync(dirname(original), { recursive: true })
     await rename(tusPath, original)
   }
-  const { kind, mediaType } = await detectFileKind(original, String(f.upload.metadata?.filename ?? ''))
+  const { kind, mediaType } = await detectFileKind(
+    original,
+    String(f.upload.metadata?.filename ?? ''),
+  )
   const dataset = await em.findOneOrFail(Dataset, { id: datasetId })
   const file = em.create(DatasetFile, {
     dataset: datasetId,
@@ -85,14 +100,17 @@ export async function registerUpload(em: EntityManager, storage: LocalStorage, f
   const job = firstJobFor(file, storage)
   if (job) enqueueJob(em, { ...job, fileId: file.id })
   dataset.updatedAt = new Date()
-  audit(em, { user: { id: f.userId }, ip: f.ip ?? undefined }, {
-    action: 'file.upload',
-    targetType: 'Dataset',
-    targetId: dataset.accession,
-    details: { file: file.name, size: f.size, sha256: f.sha256, kind },
-  })
+  audit(
+    em,
+    { user: { id: f.userId }, ip: f.ip ?? undefined },
+    {
+      action: 'file.upload',
+      targetType: 'Dataset',
+      targetId: dataset.accession,
+      details: { file: file.name, size: f.size, sha256: f.sha256, kind },
+    },
+  )
   await em.nativeDelete(UploadReservation, { uploadId: f.upload.id })
   await em.flush()
   return file
 }
-

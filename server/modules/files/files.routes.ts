@@ -19,7 +19,10 @@ import { queueIngest } from './table-jobs.completions'
 
 const fileParams = datasetParams.extend({ fileId: idSchema })
 
-function toFileDto(f: IDatasetFile, job: { state: string; progress: number; message: string | null } | undefined) {
+function toFileDto(
+  f: IDatasetFile,
+  job: { state: string; progress: number; message: string | null } | undefined,
+) {
   return {
     id: f.id,
     name: f.name,
@@ -39,7 +42,14 @@ function toFileDto(f: IDatasetFile, job: { state: string; progress: number; mess
 function summaryOf(f: IDatasetFile): Record<string, unknown> | null {
   const r = f.report
   if (!r) return null
-  if (f.kind === 'raw_stack') return { width: r.width, height: r.height, frames: r.frames, bitsPerSample: r.bitsPerSample, hasOmeXml: r.hasOmeXml }
+  if (f.kind === 'raw_stack')
+    return {
+      width: r.width,
+      height: r.height,
+      frames: r.frames,
+      bitsPerSample: r.bitsPerSample,
+      hasOmeXml: r.hasOmeXml,
+    }
   return { rowsRead: r.rowsRead, rowsAccepted: r.rowsAccepted, rejected: r.rowsRejected }
 }
 
@@ -52,15 +62,34 @@ export function filesRouter(storage: LocalStorage, jobs?: { notify(): void }): R
 
   router.get('/files', async (req, res) => {
     const dataset = await datasetFor(req, em(), parseParams(datasetParams, req).id, 'read')
-    const files = await em().find(DatasetFile, { dataset: dataset.id }, { orderBy: { name: 'asc' } })
-    const jobs = files.length ? await em().find(Job, { file: { $in: files.map((f) => f.id) }, state: { $in: ['queued', 'running'] } }) : []
-    const byFile = new Map(jobs.map((j) => [j.file!, { state: j.state, progress: j.progress, message: j.message ?? null }]))
+    const files = await em().find(
+      DatasetFile,
+      { dataset: dataset.id },
+      { orderBy: { name: 'asc' } },
+    )
+    const jobs = files.length
+      ? await em().find(Job, {
+          file: { $in: files.map((f) => f.id) },
+          state: { $in: ['queued', 'running'] },
+        })
+      : []
+    const byFile = new Map(
+      jobs.map((j) => [
+        j.file!,
+        { state: j.state, progress: j.progress, message: j.message ?? null },
+      ]),
+    )
     const uploads = req.ability.can('edit', datasetSubject(dataset))
       ? await em().find(UploadReservation, { dataset: dataset.id, user: req.user?.id ?? -1 })
       : []
     res.json({
       items: files.map((f) => toFileDto(f, byFile.get(f.id))),
-      uploadsInProgress: uploads.map((u) => ({ uploadId: u.uploadId, name: u.fileName, size: u.size, startedAt: u.createdAt.toISOString() })),
+      uploadsInProgress: uploads.map((u) => ({
+        uploadId: u.uploadId,
+        name: u.fileName,
+        size: u.size,
+        startedAt: u.createdAt.toISOString(),
+      })),
     })
   })
 
@@ -69,7 +98,15 @@ export function filesRouter(storage: LocalStorage, jobs?: { notify(): void }): R
     const dataset = await datasetFor(req, em(), id, 'read')
     const file = await em().findOne(DatasetFile, { id: fileId, dataset: dataset.id })
     if (!file) throw new NotFoundError('file', fileId)
-    res.json({ id: file.id, name: file.name, kind: file.kind, status: file.status, problem: file.problem ?? null, mapping: file.mapping ?? null, report: file.report ?? null })
+    res.json({
+      id: file.id,
+      name: file.name,
+      kind: file.kind,
+      status: file.status,
+      problem: file.problem ?? null,
+      mapping: file.mapping ?? null,
+      report: file.report ?? null,
+    })
   })
 
   /** The depositor confirms or corrects the column mapping; the table is (re-)ingested with it. */
@@ -78,10 +115,19 @@ export function filesRouter(storage: LocalStorage, jobs?: { notify(): void }): R
     const dataset = await datasetFor(req, em(), id, 'edit')
     const file = await em().findOne(DatasetFile, { id: fileId, dataset: dataset.id })
     if (!file) throw new NotFoundError('file', fileId)
-    if (file.kind !== 'localization_table') throw new ConflictError(`"${file.name}" is not a localization table.`)
+    if (file.kind !== 'localization_table')
+      throw new ConflictError(`"${file.name}" is not a localization table.`)
     const mapping = parseBody(columnMappingSchema, req)
-    queueIngest(em(), file, mapping, { source: storage.originalPath(file.storageKey), output: derivedPaths(storage, file.id).columnar })
-    audit(em(), req, { action: 'file.mapping', targetType: 'Dataset', targetId: dataset.accession, details: { file: file.name } })
+    queueIngest(em(), file, mapping, {
+      source: storage.originalPath(file.storageKey),
+      output: derivedPaths(storage, file.id).columnar,
+    })
+    audit(em(), req, {
+      action: 'file.mapping',
+      targetType: 'Dataset',
+      targetId: dataset.accession,
+      details: { file: file.name },
+    })
     await em().flush()
     jobs?.notify()
     res.status(202).json(toFileDto(file, { state: 'queued', progress: 0, message: null }))
@@ -92,7 +138,12 @@ export function filesRouter(storage: LocalStorage, jobs?: { notify(): void }): R
     const dataset = await datasetFor(req, em(), id, 'edit')
     const file = await em().findOne(DatasetFile, { id: fileId, dataset: dataset.id })
     if (!file) throw new NotFoundError('file', fileId)
-    audit(em(), req, { action: 'file.delete', targetType: 'Dataset', targetId: dataset.accession, details: { file: file.name, sha256: file.sha256 } })
+    audit(em(), req, {
+      action: 'file.delete',
+      targetType: 'Dataset',
+      targetId: dataset.accession,
+      details: { file: file.name, sha256: file.sha256 },
+    })
     em().remove(file)
     await em().flush()
     await rm(storage.originalPath(file.storageKey), { force: true })
@@ -103,7 +154,11 @@ export function filesRouter(storage: LocalStorage, jobs?: { notify(): void }): R
   /** One line per stored file, `<sha256>  <name>`, as `sha256sum -c` reads it. */
   router.get('/manifest.txt', async (req, res) => {
     const dataset = await datasetFor(req, em(), parseParams(datasetParams, req).id, 'download')
-    const files = await em().find(DatasetFile, { dataset: dataset.id, status: { $ne: 'rejected' }, sha256: { $ne: null } }, { orderBy: { name: 'asc' } })
+    const files = await em().find(
+      DatasetFile,
+      { dataset: dataset.id, status: { $ne: 'rejected' }, sha256: { $ne: null } },
+      { orderBy: { name: 'asc' } },
+    )
     res
       .type('text/plain; charset=utf-8')
       .set('content-disposition', `inline; filename="${dataset.accession}-manifest.txt"`)

@@ -25,13 +25,20 @@ export interface RawStackReport {
 export const scanRawStackWork: JobWork = async (payload, progress) => {
   const source = String(payload.source)
   // A multi-file OME-TIFF is scanned over all its parts, in plane order, once they have all arrived.
-  const paths = Array.isArray(payload.parts) && payload.parts.length ? payload.parts.map(String) : [source]
+  const paths =
+    Array.isArray(payload.parts) && payload.parts.length ? payload.parts.map(String) : [source]
   const header = await readStackHeader(source)
   progress(0.02, 'header read')
   const fileSet = header.omeXml ? fileNamesOf(header.omeXml) : []
-  const scan = await scanStack({ paths, onProgress: (f) => progress(0.02 + 0.96 * f, 'reading frames') })
+  const scan = await scanStack({
+    paths,
+    onProgress: (f) => progress(0.02 + 0.96 * f, 'reading frames'),
+  })
   await writeFile(String(payload.thumbnail), scan.thumbnail.png)
-  await writeFile(String(payload.trace), JSON.stringify(Array.from(scan.meanTrace, (v) => Math.round(v * 1000) / 1000)))
+  await writeFile(
+    String(payload.trace),
+    JSON.stringify(Array.from(scan.meanTrace, (v) => Math.round(v * 1000) / 1000)),
+  )
   let min = Infinity
   let max = -Infinity
   let sum = 0
@@ -60,7 +67,9 @@ export const scanRawStackWork: JobWork = async (payload, progress) => {
 /** The files a multi-file OME-TIFF's OME-XML names, in the order of their first planes. */
 function fileNamesOf(omeXml: string): string[] {
   try {
-    const files = [...resolveOmeFileSet(omeXml).files].sort((a, b) => (a.ranges[0]?.firstPlane ?? 0) - (b.ranges[0]?.firstPlane ?? 0))
+    const files = [...resolveOmeFileSet(omeXml).files].sort(
+      (a, b) => (a.ranges[0]?.firstPlane ?? 0) - (b.ranges[0]?.firstPlane ?? 0),
+    )
     return [...new Set(files.map((f) => f.fileName).filter((n): n is string => Boolean(n)))]
   } catch {
     return []

@@ -1,6 +1,9 @@
 import type { EntityManager } from '@mikro-orm/better-sqlite'
 import type { MappingSuggestion } from '@shared/domain/localization-columns'
-import { mappingFromSuggestion, type ColumnMapping } from '@shared/schemas/localization-mapping.schema'
+import {
+  mappingFromSuggestion,
+  type ColumnMapping,
+} from '@shared/schemas/localization-mapping.schema'
 import { enqueueJob } from '../../jobs/job-queue'
 import type { JobCompletion } from '../../jobs/job-runner'
 import type { IJob } from '../../jobs/job.entity'
@@ -17,11 +20,20 @@ async function pixelSizeOf(em: EntityManager, datasetId: number): Promise<number
 }
 
 /** Queues the ingest of a table with a confirmed mapping. */
-export function queueIngest(em: EntityManager, file: IDatasetFile, mapping: ColumnMapping, paths: { source: string; output: string }) {
+export function queueIngest(
+  em: EntityManager,
+  file: IDatasetFile,
+  mapping: ColumnMapping,
+  paths: { source: string; output: string },
+) {
   file.mapping = mapping
   file.status = 'processing'
   file.problem = null
-  enqueueJob(em, { kind: FILE_JOBS.ingestTable, payload: { fileId: file.id, ...paths, mapping }, fileId: file.id })
+  enqueueJob(em, {
+    kind: FILE_JOBS.ingestTable,
+    payload: { fileId: file.id, ...paths, mapping },
+    fileId: file.id,
+  })
 }
 
 const inspect: JobCompletion = {
@@ -37,11 +49,16 @@ const inspect: JobCompletion = {
       mapping = pixelSizeNm ? { ...mapping, pixelSizeNm } : null
     }
     if (mapping) {
-      queueIngest(em, file, mapping, { source: String(job.payload.source), output: String(job.payload.output) })
+      queueIngest(em, file, mapping, {
+        source: String(job.payload.source),
+        output: String(job.payload.output),
+      })
       return
     }
     file.status = 'needs_mapping'
-    file.problem = suggestion.problems.length ? suggestion.problems.join(' ') : 'Confirm which column is which before the table can be read.'
+    file.problem = suggestion.problems.length
+      ? suggestion.problems.join(' ')
+      : 'Confirm which column is which before the table can be read.'
   },
   failed: rejectOnFailure,
 }
@@ -57,7 +74,9 @@ const ingest: JobCompletion = {
       file.problem = 'No row of the table could be read; see the validation report.'
     } else {
       file.status = 'ready'
-      file.problem = report.rowsRejected ? `${report.rowsRejected} of ${report.rowsRead} rows were rejected; see the validation report.` : null
+      file.problem = report.rowsRejected
+        ? `${report.rowsRejected} of ${report.rowsRead} rows were rejected; see the validation report.`
+        : null
     }
   },
   failed: rejectOnFailure,

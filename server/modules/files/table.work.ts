@@ -9,7 +9,11 @@ export const inspectTableWork: JobWork = async (payload, progress) => {
     progress(1, 'format read')
     return { sniff, suggestion: suggestMapping(sniff.header, sniff.sampleRows) }
   } catch (err) {
-    throw new Error(err instanceof TableFormatError ? err.message : `The table could not be read: ${err instanceof Error ? err.message : String(err)}`)
+    throw new Error(
+      err instanceof TableFormatError
+        ? err.message
+        : `The table could not be read: ${err instanceof Error ? err.message : String(err)}`,
+    )
   }
 }
 

@@ -3,7 +3,14 @@ import { readFileSync } from 'node:fs'
 import { z } from 'zod'
 
 /** Roles of the demo accounts: a site role, or the part the person plays in the demo projects. */
-export const DEMO_ROLES = ['admin', 'steward', 'editor', 'owner', 'depositor', 'collaborator'] as const
+export const DEMO_ROLES = [
+  'admin',
+  'steward',
+  'editor',
+  'owner',
+  'depositor',
+  'collaborator',
+] as const
 
 export const accountFileSchema = z.array(
   z.object({
@@ -16,7 +23,8 @@ export const accountFileSchema = z.array(
 export type DemoAccount = z.infer<typeof accountFileSchema>[number] & { sub: string }
 
 /** A stable opaque subject per account, as a real provider would issue. */
-export const subjectFor = (email: string) => `acct-${createHash('sha256').update(email.toLowerCase()).digest('hex').slice(0, 16)}`
+export const subjectFor = (email: string) =>
+  `acct-${createHash('sha256').update(email.toLowerCase()).digest('hex').slice(0, 16)}`
 
 export function loadAccounts(file: string): DemoAccount[] {
   const parsed = accountFileSchema.parse(JSON.parse(readFileSync(file, 'utf8')))

@@ -5,7 +5,9 @@ import { escapeHtml, renderPage } from '../../http/html-page'
 import { checkPassword, type DemoAccount } from './accounts'
 
 function loginPage(uid: string, options: { login?: string; error?: string; demo: boolean }) {
-  const error = options.error ? `<p class="error" role="alert">${escapeHtml(options.error)}</p>` : ''
+  const error = options.error
+    ? `<p class="error" role="alert">${escapeHtml(options.error)}</p>`
+    : ''
   const hint = options.demo
     ? '<p class="hint">Demo identity provider: use one of the demo sign-ins that <code>npm start</code> printed.</p>'
     : ''
@@ -39,10 +41,19 @@ function expiredPage(res: Response) {
 const isStale = (err: unknown) => (err as { name?: string })?.name === 'SessionNotFound'
 
 /** The stand-in provider's own interaction pages: a login form, and cancel. */
-export function interactionRouter(provider: Provider, accounts: DemoAccount[], signInLimit: number): Router {
+export function interactionRouter(
+  provider: Provider,
+  accounts: DemoAccount[],
+  signInLimit: number,
+): Router {
   const router = Router()
   const byEmail = new Map(accounts.map((a) => [a.email, a]))
-  const limiter = rateLimit({ windowMs: 60_000, limit: signInLimit, standardHeaders: 'draft-8', legacyHeaders: false })
+  const limiter = rateLimit({
+    windowMs: 60_000,
+    limit: signInLimit,
+    standardHeaders: 'draft-8',
+    legacyHeaders: false,
+  })
   const noStore = (_req: Request, res: Response, next: () => void) => {
     res.set('cache-control', 'no-store')
     next()
@@ -57,19 +68,38 @@ export function interactionRouter(provider: Provider, accounts: DemoAccount[], s
     res.type('html').send(loginPage(details.uid, { demo: true }))
   })
 
-  router.post('/interaction/:uid/login', noStore, limiter, express.urlencoded({ extended: false, limit: '10kb' }), async (req, res) => {
-    const details = await provider.interactionDetails(req, res)
-    const login = String(req.body?.login ?? '').trim().toLowerCase()
-    const password = String(req.body?.password ?? '')
-    const account = byEmail.get(login)
-    if (!account || !checkPassword(account, password)) {
-      return res
-        .status(401)
-        .type('html')
-        .send(loginPage(details.uid, { login, error: 'That e-mail and password do not match an account.', demo: true }))
-    }
-    await provider.interactionFinished(req, res, { login: { accountId: account.sub } }, { mergeWithLastSubmission: false })
-  })
+  router.post(
+    '/interaction/:uid/login',
+    noStore,
+    limiter,
+    express.urlencoded({ extended: false, limit: '10kb' }),
+    async (req, res) => {
+      const details = await provider.interactionDetails(req, res)
+      const login = String(req.body?.login ?? '')
+        .trim()
+        .toLowerCase()
+      const password = String(req.body?.password ?? '')
+      const account = byEmail.get(login)
+      if (!account || !checkPassword(account, password)) {
+        return res
+          .status(401)
+          .type('html')
+          .send(
+            loginPage(details.uid, {
+              login,
+              error: 'That e-mail and password do not match an account.',
+              demo: true,
+            }),
+          )
+      }
+      await provider.interactionFinished(
+        req,
+        res,
+        { login: { accountId: account.sub } },
+        { mergeWithLastSubmission: false },
+      )
+    },
+  )
 
   router.get('/interaction/:uid/abort', noStore, async (req, res) => {
     await provider.interactionFinished(
@@ -80,7 +110,9 @@ export function interactionRouter(provider: Provider, accounts: DemoAccount[], s
     )
   })
 
-  router.use((err: unknown, _req: Request, res: Response, next: (e?: unknown) => void) => (isStale(err) ? expiredPage(res) : next(err)))
+  router.use((err: unknown, _req: Request, res: Response, next: (e?: unknown) => void) =>
+    isStale(err) ? expiredPage(res) : next(err),
+  )
 
   return router
 }

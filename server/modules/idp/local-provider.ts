@@ -20,7 +20,12 @@ async function signingKey(dataDir: string): Promise<JWK> {
   const file = join(dataDir, 'idp-signing-key.json')
   if (existsSync(file)) return JSON.parse(readFileSync(file, 'utf8')) as JWK
   const { privateKey } = await generateKeyPair('RS256', { extractable: true })
-  const jwk = { ...(await exportJWK(privateKey)), kid: `stipple-${Date.now()}`, alg: 'RS256', use: 'sig' }
+  const jwk = {
+    ...(await exportJWK(privateKey)),
+    kid: `stipple-${Date.now()}`,
+    alg: 'RS256',
+    use: 'sig',
+  }
   writeFileSync(file, JSON.stringify(jwk), { mode: 0o600 })
   return jwk
 }
@@ -65,7 +70,11 @@ export async function createLocalProvider(options: LocalProviderOptions): Promis
             ['/server-assets/auto-submit.js'],
           ),
         postLogoutSuccessSource: async (ctx) =>
-          setPage(ctx, 'Signed out', '<h1>You are signed out</h1><a class="button" href="/">Back to Stipple</a>'),
+          setPage(
+            ctx,
+            'Signed out',
+            '<h1>You are signed out</h1><a class="button" href="/">Back to Stipple</a>',
+          ),
       },
     },
     interactions: { url: (_ctx, interaction) => `/idp/interaction/${interaction.uid}` },
@@ -79,9 +88,13 @@ export async function createLocalProvider(options: LocalProviderOptions): Promis
     },
     // Stipple is this provider's only, first-party client: grant its scopes without a consent page.
     loadExistingGrant: async (ctx) => {
-      const grantId = ctx.oidc.result?.consent?.grantId || ctx.oidc.session!.grantIdFor(ctx.oidc.client!.clientId)
+      const grantId =
+        ctx.oidc.result?.consent?.grantId || ctx.oidc.session!.grantIdFor(ctx.oidc.client!.clientId)
       if (grantId) return ctx.oidc.provider.Grant.find(grantId)
-      const grant = new ctx.oidc.provider.Grant({ clientId: ctx.oidc.client!.clientId, accountId: ctx.oidc.session!.accountId })
+      const grant = new ctx.oidc.provider.Grant({
+        clientId: ctx.oidc.client!.clientId,
+        accountId: ctx.oidc.session!.accountId,
+      })
       grant.addOIDCScope('openid email profile')
       await grant.save()
       return grant
@@ -92,7 +105,14 @@ export async function createLocalProvider(options: LocalProviderOptions): Promis
         'Sign-in problem',
         `<h1>Something went wrong at the identity provider</h1><p class="error">${escapeHtml(String(out.error_description ?? out.error))}</p><a class="button" href="/">Back to Stipple</a>`,
       ),
-    ttl: { Session: 8 * 3600, Interaction: 3600, Grant: 8 * 3600, AccessToken: 600, AuthorizationCode: 60, IdToken: 3600 },
+    ttl: {
+      Session: 8 * 3600,
+      Interaction: 3600,
+      Grant: 8 * 3600,
+      AccessToken: 600,
+      AuthorizationCode: 60,
+      IdToken: 3600,
+    },
   }
   const provider = new Provider(options.issuer, configuration)
   return provider

@@ -7,7 +7,8 @@ import type { MailCatcher } from './mail-catcher'
 export function caughtMailRouter(catcher: MailCatcher): Router {
   const router = Router()
   router.get('/', requireUser, (req, res) => {
-    if (!req.ability.can('read', 'Mail')) throw new ForbiddenError('Only site admins can read caught mail.')
+    if (!req.ability.can('read', 'Mail'))
+      throw new ForbiddenError('Only site admins can read caught mail.')
     res.json({ items: catcher.messages })
   })
   return router

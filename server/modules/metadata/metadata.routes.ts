@@ -13,18 +13,27 @@ import { projectFor } from '../projects/projects.service'
 import { toDataCite } from './exports/datacite'
 import { toJsonLd } from './exports/json-ld'
 import { methodsSummary } from './exports/methods-text'
-import { completenessOf, exportSubject, metadataOf, projectSuggestions, saveMetadata } from './metadata.service'
+import {
+  completenessOf,
+  exportSubject,
+  metadataOf,
+  projectSuggestions,
+  saveMetadata,
+} from './metadata.service'
 import { exportOmeXml } from './ome/ome-export'
 import { importOmeXml } from './ome/ome-import'
 import { MAX_OME_XML_BYTES } from './ome/ome-parse'
 
 export const EXPORT_FORMATS = ['ome-xml', 'datacite', 'jsonld', 'methods'] as const
-const exportParams = datasetParams.extend({ format: z.enum(EXPORT_FORMATS, { error: `Export as one of ${EXPORT_FORMATS.join(', ')}` }) })
+const exportParams = datasetParams.extend({
+  format: z.enum(EXPORT_FORMATS, { error: `Export as one of ${EXPORT_FORMATS.join(', ')}` }),
+})
 
 /** Routes under /api/datasets/:id for a dataset's description. */
 export function datasetMetadataRouter(deps: AppDeps): Router {
   const router = Router({ mergeParams: true })
-  const target = (req: Parameters<typeof datasetFor>[0], action: 'read' | 'edit') => datasetFor(req, em(), parseParams(datasetParams, req).id, action)
+  const target = (req: Parameters<typeof datasetFor>[0], action: 'read' | 'edit') =>
+    datasetFor(req, em(), parseParams(datasetParams, req).id, action)
 
   router.get('/metadata', async (req, res) => {
     const dataset = await target(req, 'read')
@@ -48,10 +57,16 @@ export function datasetMetadataRouter(deps: AppDeps): Router {
     const name = `${dataset.accession}-v${dataset.version}`
     switch (format) {
       case 'ome-xml':
-        res.type('application/xml').attachment(`${name}.ome.xml`).send(exportOmeXml(subject.metadata, subject))
+        res
+          .type('application/xml')
+          .attachment(`${name}.ome.xml`)
+          .send(exportOmeXml(subject.metadata, subject))
         return
       case 'datacite':
-        res.type('application/vnd.datacite.datacite+json').attachment(`${name}.datacite.json`).send(JSON.stringify(toDataCite(subject), null, 2))
+        res
+          .type('application/vnd.datacite.datacite+json')
+          .attachment(`${name}.datacite.json`)
+          .send(JSON.stringify(toDataCite(subject), null, 2))
         return
       case 'jsonld':
         res.type('application/ld+json').send(JSON.stringify(toJsonLd(subject), null, 2))
@@ -75,7 +90,9 @@ export function metadataRouter(): Router {
     express.text({ type: ['application/xml', 'text/xml', 'text/plain'], limit: MAX_OME_XML_BYTES }),
     (req, res) => {
       if (typeof req.body !== 'string' || !req.body.trim()) {
-        throw new BadRequestError('Send the OME-XML document as the request body with Content-Type: application/xml.')
+        throw new BadRequestError(
+          'Send the OME-XML document as the request body with Content-Type: application/xml.',
+        )
       }
       res.json(importOmeXml(req.body))
     },

@@ -23,7 +23,12 @@ export async function completenessOf(em: EntityManager, dataset: IDataset): Prom
 }
 
 /** Stores the whole document (already validated by the shared schema); drafts may be partial. */
-export async function saveMetadata(em: EntityManager, actor: Actor, dataset: IDataset, document: MetadataDocument) {
+export async function saveMetadata(
+  em: EntityManager,
+  actor: Actor,
+  dataset: IDataset,
+  document: MetadataDocument,
+) {
   const row = await em.findOne(DatasetMetadata, { dataset: dataset.id })
   if (row) {
     row.document = document
@@ -32,7 +37,12 @@ export async function saveMetadata(em: EntityManager, actor: Actor, dataset: IDa
     em.create(DatasetMetadata, { dataset: dataset.id, document, updatedBy: actor.user?.id ?? null })
   }
   dataset.updatedAt = new Date()
-  audit(em, actor, { action: 'dataset.metadata', targetType: 'Dataset', targetId: dataset.accession, details: { fields: leaves(document).length } })
+  audit(em, actor, {
+    action: 'dataset.metadata',
+    targetType: 'Dataset',
+    targetId: dataset.accession,
+    details: { fields: leaves(document).length },
+  })
   await em.flush()
   return { metadata: document, completeness: computeCompleteness(document, dataset) }
 }
@@ -44,7 +54,10 @@ export async function assertReadyToSubmit(em: EntityManager, dataset: IDataset) 
   const missing = c.sections.flatMap((s) => s.missing.filter((f) => f.tier === 'required'))
   throw new ConflictError(
     `${dataset.accession} cannot be submitted yet: ${missing.length} required field${missing.length === 1 ? '' : 's'} missing.`,
-    missing.map((f) => ({ pointer: `#/${f.path.split('.').join('/')}`, detail: `${f.label} is required` })),
+    missing.map((f) => ({
+      pointer: `#/${f.path.split('.').join('/')}`,
+      detail: `${f.label} is required`,
+    })),
   )
 }
 
@@ -64,16 +77,27 @@ function suggestablePaths(): string[] {
 }
 
 /** Values already used in a project's datasets that this person may read, per suggestable field. */
-export async function projectSuggestions(em: EntityManager, actor: Actor, projectId: number): Promise<Record<string, string[]>> {
+export async function projectSuggestions(
+  em: EntityManager,
+  actor: Actor,
+  projectId: number,
+): Promise<Record<string, string[]>> {
   const allowed = accessibleWhere<IDataset>(actor.ability, 'read', 'Dataset')
   if (!allowed) return {}
-  const ids = (await em.find(Dataset, { $and: [allowed, { project: projectId }] }, { fields: ['id'], limit: 500, orderBy: { updatedAt: 'desc' } })).map((d) => d.id)
+  const ids = (
+    await em.find(
+      Dataset,
+      { $and: [allowed, { project: projectId }] },
+      { fields: ['id'], limit: 500, orderBy: { updatedAt: 'desc' } },
+    )
+  ).map((d) => d.id)
   const docs = ids.length ? await em.find(DatasetMetadata, { dataset: { $in: ids } }) : []
   const out: Record<string, string[]> = {}
   for (const pattern of suggestablePaths()) {
     const values = new Set<string>()
     for (const { document } of docs) {
-      for (const value of expand(document, pattern)) if (typeof value === 'string' && value.trim()) values.add(value.trim())
+      for (const value of expand(document, pattern))
+        if (typeof value === 'string' && value.trim()) values.add(value.trim())
     }
     if (values.size) out[pattern] = [...values].sort((a, b) => a.localeCompare(b)).slice(0, 50)
   }
@@ -89,7 +113,11 @@ function expand(doc: unknown, pattern: string): unknown[] {
 }
 
 /** Everything the exports need about one dataset. */
-export async function exportSubject(em: EntityManager, dataset: IDataset, publicUrl: string): Promise<DatasetExportSubject> {
+export async function exportSubject(
+  em: EntityManager,
+  dataset: IDataset,
+  publicUrl: string,
+): Promise<DatasetExportSubject> {
   const [metadata, project, creator, files] = await Promise.all([
     metadataOf(em, dataset.id),
     em.findOneOrFail(Project, { id: dataset.project }),
@@ -109,7 +137,13 @@ export async function exportSubject(em: EntityManager, dataset: IDataset, public
     submittedAt: dataset.submittedAt ?? null,
     approvedAt: dataset.approvedAt ?? null,
     embargoUntil: dataset.embargoUntil ?? null,
-    files: files.map((f) => ({ name: f.name, size: f.size, sha256: f.sha256 ?? null, mediaType: f.mediaType ?? null, url: `${publicUrl}/api/datasets/${dataset.accession}/files/${f.id}/content` })),
+    files: files.map((f) => ({
+      name: f.name,
+      size: f.size,
+      sha256: f.sha256 ?? null,
+      mediaType: f.mediaType ?? null,
+      url: `${publicUrl}/api/datasets/${dataset.accession}/files/${f.id}/content`,
+    })),
     metadata,
   }
 }

@@ -12,7 +12,13 @@ import { listOf, registerJsonRoute } from '../../openapi/registry'
 export function registerProjectPaths(registry: OpenAPIRegistry) {
   const tags = ['Projects']
   const params = z.object({ id: z.number().int() })
-  registerJsonRoute(registry, { method: 'get', path: '/api/projects', summary: 'Projects I can see', tags, response: listOf(projectSchema) })
+  registerJsonRoute(registry, {
+    method: 'get',
+    path: '/api/projects',
+    summary: 'Projects I can see',
+    tags,
+    response: listOf(projectSchema),
+  })
   registerJsonRoute(registry, {
     method: 'post',
     path: '/api/projects',
@@ -23,8 +29,24 @@ export function registerProjectPaths(registry: OpenAPIRegistry) {
     status: 201,
     errors: [400, 401, 403, 409],
   })
-  registerJsonRoute(registry, { method: 'get', path: '/api/projects/{id}', summary: 'A project with its members', tags, params, response: projectDetailSchema, errors: [404] })
-  registerJsonRoute(registry, { method: 'get', path: '/api/projects/{id}/members', summary: 'Members of a project', tags, params, response: listOf(memberSchema), errors: [404] })
+  registerJsonRoute(registry, {
+    method: 'get',
+    path: '/api/projects/{id}',
+    summary: 'A project with its members',
+    tags,
+    params,
+    response: projectDetailSchema,
+    errors: [404],
+  })
+  registerJsonRoute(registry, {
+    method: 'get',
+    path: '/api/projects/{id}/members',
+    summary: 'Members of a project',
+    tags,
+    params,
+    response: listOf(memberSchema),
+    errors: [404],
+  })
   registerJsonRoute(registry, {
     method: 'post',
     path: '/api/projects/{id}/members',

@@ -6,7 +6,14 @@ import { requireUser } from '../../http/authenticate'
 import { requestEm as em } from '../../http/request-context'
 import { parseBody, parseParams } from '../../http/validate'
 import type { AppDeps } from '../../services'
-import { addMember, createProject, getProject, listMembers, listProjects, projectFor } from './projects.service'
+import {
+  addMember,
+  createProject,
+  getProject,
+  listMembers,
+  listProjects,
+  projectFor,
+} from './projects.service'
 
 const projectParams = z.object({ id: idSchema })
 
@@ -32,8 +39,19 @@ export function projectsRouter(deps: AppDeps): Router {
   })
 
   router.post('/:id/members', requireUser, async (req, res) => {
-    const project = await projectFor(em(), req, parseParams(projectParams, req).id, 'manage_members')
-    const { member, created } = await addMember(em(), req, deps, project, parseBody(addMemberSchema, req))
+    const project = await projectFor(
+      em(),
+      req,
+      parseParams(projectParams, req).id,
+      'manage_members',
+    )
+    const { member, created } = await addMember(
+      em(),
+      req,
+      deps,
+      project,
+      parseBody(addMemberSchema, req),
+    )
     res.status(created ? 201 : 200).json(member)
   })
 

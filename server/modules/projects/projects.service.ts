@@ -17,9 +17,15 @@ import { User } from '../users/user.entity'
 import { findOrInviteUser } from '../users/users.service'
 import { Membership, Project, type IProject } from './project.entity'
 
-async function toProjectDtos(em: EntityManager, actor: Actor, projects: IProject[]): Promise<ProjectDto[]> {
+async function toProjectDtos(
+  em: EntityManager,
+  actor: Actor,
+  projects: IProject[],
+): Promise<ProjectDto[]> {
   const ids = projects.map((p) => p.id)
-  const orgIds = [...new Set(projects.map((p) => p.organization).filter((id): id is number => id != null))]
+  const orgIds = [
+    ...new Set(projects.map((p) => p.organization).filter((id): id is number => id != null)),
+  ]
   const [orgs, counts] = await Promise.all([
     orgIds.length ? em.find(Organization, { id: { $in: orgIds } }) : Promise.resolve([]),
     countReadableDatasets(em, actor, ids),
@@ -30,7 +36,10 @@ async function toProjectDtos(em: EntityManager, actor: Actor, projects: IProject
     id: p.id,
     name: p.name,
     description: p.description,
-    organization: p.organization != null ? { id: p.organization, name: orgName.get(p.organization) ?? '' } : null,
+    organization:
+      p.organization != null
+        ? { id: p.organization, name: orgName.get(p.organization) ?? '' }
+        : null,
     myRole: roles.get(p.id) ?? null,
     datasetCount: counts.get(p.id) ?? 0,
     createdAt: p.createdAt.toISOString(),
@@ -58,9 +67,15 @@ export async function listProjects(em: EntityManager, actor: Actor): Promise<Pro
   return toProjectDtos(em, actor, await em.find(Project, where, { orderBy: { name: 'asc' } }))
 }
 
-export async function projectFor(em: EntityManager, actor: Actor, id: number, action: 'read' | 'manage_members') {
+export async function projectFor(
+  em: EntityManager,
+  actor: Actor,
+  id: number,
+  action: 'read' | 'manage_members',
+) {
   const project = await em.findOne(Project, { id })
-  if (!project || !actor.ability.can('read', projectSubject(id))) throw new NotFoundError('project', id)
+  if (!project || !actor.ability.can('read', projectSubject(id)))
+    throw new NotFoundError('project', id)
   if (action !== 'read' && !actor.ability.can(action, projectSubject(id))) {
     throw new ForbiddenError(`Only the owners of "${project.name}" can manage its members.`)
   }
@@ -68,34 +83,67 @@ export async function projectFor(em: EntityManager, actor: Actor, id: number, ac
 }
 
 export async function listMembers(em: EntityManager, projectId: number): Promise<MemberDto[]> {
-  const memberships = await em.find(Membership, { project: projectId }, { orderBy: { createdAt: 'asc' } })
+  const memberships = await em.find(
+    Membership,
+    { project: projectId },
+    { orderBy: { createdAt: 'asc' } },
+  )
   const users = await em.find(User, { id: { $in: memberships.map((m) => m.user) } })
   const byId = new Map(users.map((u) => [u.id, u]))
   return memberships.map((m) => {
     const u = byId.get(m.user)!
-    return { userId: u.id, email: u.email, name: u.name, role: m.role, joinedAt: m.createdAt.toISOString() }
+    return {
+      userId: u.id,
+      email: u.email,
+      name: u.name,
+      role: m.role,
+      joinedAt: m.createdAt.toISOString(),
+    }
   })
 }
 
-export async function getProject(em: EntityManager, actor: Actor, id: number): Promise<ProjectDetailDto> {
+export async function getProject(
+  em: EntityManager,
+  actor: Actor,
+  id: number,
+): Promise<ProjectDetailDto> {
   const project = await projectFor(em, actor, id, 'read')
   const [dto] = await toProjectDtos(em, actor, [project])
   return { ...dto!, members: await listMembers(em, id) }
 }
 
-export async function createProject(em: EntityManager, actor: Actor, input: CreateProjectBody): Promise<ProjectDto> {
+export async function createProject(
+  em: EntityManager,
+  actor: Actor,
+  input: CreateProjectBody,
+): Promise<ProjectDto> {
   if (!actor.user || !actor.ability.can('create', 'Project')) {
     throw new ForbiddenError('Only members of a consortium organization can create projects.')
   }
   const { name, description } = input
-  if (await em.count(Project, { name })) throw new ConflictError(`A project called "${name}" already exists.`)
-  const project = em.create(Project, { name, description, organization: actor.user.organization ?? null, createdBy: actor.user.id })
+  if (await em.count(Project, { name }))
+    throw new ConflictError(`A project called "${name}" already exists.`)
+  const project = em.create(Project, {
+    name,
+    description,
+    organization: actor.user.organization ?? null,
+    createdBy: actor.user.id,
+  })
   await em.flush()
   em.create(Membership, { project: project.id, user: actor.user.id, role: 'owner' })
-  audit(em, actor, { action: 'project.create', targetType: 'Project', targetId: project.id, details: { name } })
+  audit(em, actor, {
+    action: 'project.create',
+    targetType: 'Project',
+    targetId: project.id,
+    details: { name },
+  })
   await em.flush()
   // The cached viewer is frozen; this request sees its new project through a copy.
-  if (actor.viewer) actor.viewer = { ...actor.viewer, memberships: [...actor.viewer.memberships, { projectId: project.id, role: 'owner' }] }
+  if (actor.viewer)
+    actor.viewer = {
+      ...actor.viewer,
+      memberships: [...actor.viewer.memberships, { projectId: project.id, role: 'owner' }],
+    }
   const [dto] = await toProjectDtos(em, actor, [project])
   return dto!
 }
@@ -113,11 +161,17 @@ export async function addMember(
   const created = !membership
   if (membership?.role === 'owner' && role !== 'owner') {
     const owners = await em.count(Membership, { project: project.id, role: 'owner' })
-    if (owners <= 1) throw new ConflictError('A project needs at least one owner; add another owner first.')
+    if (owners <= 1)
+      throw new ConflictError('A project needs at least one owner; add another owner first.')
   }
   if (membership) membership.role = role
   else membership = em.create(Membership, { project: project.id, user: user.id, role })
-  audit(em, actor, { action: 'project.member', targetType: 'Project', targetId: project.id, details: { email, role } })
+  audit(em, actor, {
+    action: 'project.member',
+    targetType: 'Project',
+    targetId: project.id,
+    details: { email, role },
+  })
   await em.flush()
   if (created) {
     await deps.mailer.send({
@@ -127,7 +181,13 @@ export async function addMember(
     })
   }
   return {
-    member: { userId: user.id, email: user.email, name: user.name, role, joinedAt: membership.createdAt.toISOString() },
+    member: {
+      userId: user.id,
+      email: user.email,
+      name: user.name,
+      role,
+      joinedAt: membership.createdAt.toISOString(),
+    },
     created,
   }
 }

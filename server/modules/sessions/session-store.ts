@@ -24,22 +24,34 @@ export class OrmSessionStore extends Store {
 
   override set(sid: string, data: SessionData, cb?: (err?: unknown) => void): void {
     const em = this.orm.em.fork()
-    em.upsert(Session, { sid, data: JSON.parse(JSON.stringify(data)), expiresAt: this.expiry(data) })
-      .then(() => cb?.(), (err) => cb?.(err))
+    em.upsert(Session, {
+      sid,
+      data: JSON.parse(JSON.stringify(data)),
+      expiresAt: this.expiry(data),
+    }).then(
+      () => cb?.(),
+      (err) => cb?.(err),
+    )
   }
 
   override destroy(sid: string, cb?: (err?: unknown) => void): void {
     this.orm.em
       .fork()
       .nativeDelete(Session, { sid })
-      .then(() => cb?.(), (err) => cb?.(err))
+      .then(
+        () => cb?.(),
+        (err) => cb?.(err),
+      )
   }
 
   override touch(sid: string, data: SessionData, cb?: () => void): void {
     this.orm.em
       .fork()
       .nativeUpdate(Session, { sid }, { expiresAt: this.expiry(data) })
-      .then(() => cb?.(), () => cb?.())
+      .then(
+        () => cb?.(),
+        () => cb?.(),
+      )
   }
 
   /** Deletes expired sessions; the scheduler calls it. */

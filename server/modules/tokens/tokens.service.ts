@@ -36,12 +36,24 @@ export async function createToken(
   return { ...toTokenDto(token), token: secret }
 }
 
-export async function listTokens(em: EntityManager, userId: number, allowed: FilterQuery<IApiToken>): Promise<TokenDto[]> {
-  const rows = await em.find(ApiToken, { $and: [allowed, { user: userId, revokedAt: null }] }, { orderBy: { createdAt: 'desc' } })
+export async function listTokens(
+  em: EntityManager,
+  userId: number,
+  allowed: FilterQuery<IApiToken>,
+): Promise<TokenDto[]> {
+  const rows = await em.find(
+    ApiToken,
+    { $and: [allowed, { user: userId, revokedAt: null }] },
+    { orderBy: { createdAt: 'desc' } },
+  )
   return rows.map(toTokenDto)
 }
 
-export async function revokeToken(em: EntityManager, userId: number, tokenId: number): Promise<IApiToken> {
+export async function revokeToken(
+  em: EntityManager,
+  userId: number,
+  tokenId: number,
+): Promise<IApiToken> {
   const token = await em.findOne(ApiToken, { id: tokenId, user: userId, revokedAt: null })
   if (!token) throw new NotFoundError('token', tokenId)
   token.revokedAt = new Date()

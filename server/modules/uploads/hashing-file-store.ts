@@ -27,7 +27,11 @@ export class HashingFileStore extends FileStore {
     this.hashedTo.set(id, offset)
   }
 
-  override async write(readable: http.IncomingMessage | Readable, id: string, offset: number): Promise<number> {
+  override async write(
+    readable: http.IncomingMessage | Readable,
+    id: string,
+    offset: number,
+  ): Promise<number> {
     await this.hashFrom(id, offset)
     const writer = this.hashes.writer(id, this.resolvePath(id), offset)
     try {

@@ -5,7 +5,10 @@ export function refuse(
   detail: string,
   extra: { type?: string } & Record<string, unknown> = {},
 ): { status_code: number; body: string } {
-  return { status_code: status, body: JSON.stringify({ type: '/problems/upload', title, status, detail, ...extra }) }
+  return {
+    status_code: status,
+    body: JSON.stringify({ type: '/problems/upload', title, status, detail, ...extra }),
+  }
 }
 
 /** The problem type of an upload identical to a file already in the dataset; clients may treat it as done. */

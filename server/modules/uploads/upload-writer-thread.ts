@@ -60,7 +60,8 @@ export class UploadWriterThread {
   private reply(r: Reply) {
     const waiter = this.waiting.get(r.seq)
     this.waiting.delete(r.seq)
-    if (r.data?.byteLength === BLOCK_BYTES && this.spare.length < MAX_OUTSTANDING / BLOCK_BYTES) this.spare.push(r.data)
+    if (r.data?.byteLength === BLOCK_BYTES && this.spare.length < MAX_OUTSTANDING / BLOCK_BYTES)
+      this.spare.push(r.data)
     if (r.bytes) {
       this.outstanding -= r.bytes
       if (this.outstanding < MAX_OUTSTANDING) this.drained.splice(0).forEach((go) => go())
@@ -117,7 +118,7 @@ export class UploadWriterThread {
       highWaterMark: BLOCK_BYTES,
       write: (chunk: Buffer, _encoding, callback) => {
         if (failure) return callback(failure)
-        for (let at = 0; at < chunk.length; ) {
+        for (let at = 0; at < chunk.length;) {
           const n = Math.min(chunk.length - at, BLOCK_BYTES - used)
           block.set(chunk.subarray(at, at + n), used)
           used += n

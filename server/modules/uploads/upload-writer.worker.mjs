@@ -13,7 +13,12 @@ const uploads = new Map()
 async function rehash(id, path, length) {
   const hash = createHash('sha256')
   if (length > 0) {
-    for await (const chunk of createReadStream(path, { start: 0, end: length - 1, highWaterMark: 4 << 20 })) hash.update(chunk)
+    for await (const chunk of createReadStream(path, {
+      start: 0,
+      end: length - 1,
+      highWaterMark: 4 << 20,
+    }))
+      hash.update(chunk)
   }
   closeFile(id)
   uploads.set(id, { hash, fd: null })
@@ -28,7 +33,8 @@ function closeFile(id) {
 const pwrite = promisify(writeAsync)
 
 async function writeAll(fd, bytes, position) {
-  for (let done = 0; done < bytes.length; ) done += await pwrite(fd, bytes, done, bytes.length - done, position + done)
+  for (let done = 0; done < bytes.length;)
+    done += await pwrite(fd, bytes, done, bytes.length - done, position + done)
 }
 
 /** The block goes to disk (on libuv's I/O thread) while this thread hashes it. */

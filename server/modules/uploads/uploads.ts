@@ -20,7 +20,8 @@ export const UPLOADS_PATH = '/api/uploads'
 
 /** tus hooks get a web Request; ours (with user and abilities) rides along as the Node request. */
 function expressRequest(req: globalThis.Request): Request {
-  const node = (req as unknown as { runtime?: { node?: { req?: IncomingMessage } } }).runtime?.node?.req
+  const node = (req as unknown as { runtime?: { node?: { req?: IncomingMessage } } }).runtime?.node
+    ?.req
   if (!node) throw refuse(500, 'Upload failed', 'The upload request lost its context.')
   return node as Request
 }
@@ -40,14 +41,24 @@ export interface Uploads {
  * request is authorised against the target dataset's abilities; a finished upload becomes a
  * dataset file in the same request (registerUpload), and its heavy processing is queued.
  */
-export function createUploads(deps: { orm: Orm; config: AppConfig; logger: Logger; storage: LocalStorage; onRegistered?: () => void }): Uploads {
+export function createUploads(deps: {
+  orm: Orm
+  config: AppConfig
+  logger: Logger
+  storage: LocalStorage
+  onRegistered?: () => void
+}): Uploads {
   const { orm, config, storage } = deps
-  const store = new HashingFileStore({ directory: storage.uploadsDir, expirationPeriodInMilliseconds: config.uploads.expiryMs })
+  const store = new HashingFileStore({
+    directory: storage.uploadsDir,
+    expirationPeriodInMilliseconds: config.uploads.expiryMs,
+  })
   const em = () => orm.em.fork() as EntityManager
 
   async function ownUpload(req: Request, id: string): Promise<Upload> {
     const upload = await store.getUpload(id).catch(() => null)
-    if (!upload || Number(upload.metadata?.userId) !== req.user?.id) throw refuse(404, 'Not found', 'No such upload of yours.')
+    if (!upload || Number(upload.metadata?.userId) !== req.user?.id)
+      throw refuse(404, 'Not found', 'No such upload of yours.')
     return upload
   }
 
@@ -66,21 +77,48 @@ export function createUploads(deps: { orm: Orm; config: AppConfig; logger: Logge
       const m = em()
       const dataset = await uploadTarget(m, r, upload.metadata?.dataset)
       const filename = uploadName(upload.metadata?.filename)
-      if (upload.size === undefined) throw refuse(400, 'Unknown size', 'Declare the file size when the upload starts (Upload-Length).')
+      if (upload.size === undefined)
+        throw refuse(
+          400,
+          'Unknown size',
+          'Declare the file size when the upload starts (Upload-Length).',
+        )
       await checkQuota(m, config, dataset, upload.size)
-      m.create(UploadReservation, { uploadId: upload.id, project: dataset.project, dataset: dataset.id, user: r.user!.id, fileName: filename, size: upload.size })
+      m.create(UploadReservation, {
+        uploadId: upload.id,
+        project: dataset.project,
+        dataset: dataset.id,
+        user: r.user!.id,
+        fileName: filename,
+        size: upload.size,
+      })
       await m.flush()
-      return { metadata: { ...upload.metadata, filename, datasetId: String(dataset.id), userId: String(r.user!.id) } }
+      return {
+        metadata: {
+          ...upload.metadata,
+          filename,
+          datasetId: String(dataset.id),
+          userId: String(r.user!.id),
+        },
+      }
     },
     onUploadFinish: async (req, upload) => {
       const r = expressRequest(req)
       const { sha256, size } = await store.finish(upload.id)
-      const file = await registerUpload(em(), storage, { upload, sha256, size, userId: r.user!.id, ip: r.ip ?? null }).finally(() =>
+      const file = await registerUpload(em(), storage, {
+        upload,
+        sha256,
+        size,
+        userId: r.user!.id,
+        ip: r.ip ?? null,
+      }).finally(() =>
         // Registered or refused, the upload is over: its tus record goes either way.
         store.configstore.delete(upload.id),
       )
       deps.onRegistered?.()
-      return { headers: { 'Stipple-File-Id': file.id, 'Stipple-File-Name': encodeURIComponent(file.name) } }
+      return {
+        headers: { 'Stipple-File-Id': file.id, 'Stipple-File-Name': encodeURIComponent(file.name) },
+      }
     },
   })
 
@@ -109,7 +147,13 @@ export function createUploads(deps: { orm: Orm; config: AppConfig; logger: Logge
       const cutoff = new Date(Date.now() - config.uploads.expiryMs)
       const m = em()
       const stale = await m.find(UploadReservation, { createdAt: { $lt: cutoff } })
-      for (const s of stale) audit(m, null, { action: 'upload.expire', targetType: 'Dataset', targetId: s.dataset, details: { file: s.fileName } })
+      for (const s of stale)
+        audit(m, null, {
+          action: 'upload.expire',
+          targetType: 'Dataset',
+          targetId: s.dataset,
+          details: { file: s.fileName },
+        })
       await m.nativeDelete(UploadReservation, { createdAt: { $lt: cutoff } })
       await m.flush()
       return removed
@@ -127,8 +171,17 @@ export function createUploads(deps: { orm: Orm; config: AppConfig; logger: Logge
         const moved = existsSync(storage.originalPath(storageKeyFor(datasetId, id)))
         if (!moved && upload.offset !== upload.size) continue
         try {
-          const { sha256, size } = moved ? await hashFile(storage.originalPath(storageKeyFor(datasetId, id))) : await store.finish(id)
-          await registerUpload(em(), storage, { upload: { ...upload, size } as Upload, sha256, size, userId, ip: null, alreadyMoved: moved })
+          const { sha256, size } = moved
+            ? await hashFile(storage.originalPath(storageKeyFor(datasetId, id)))
+            : await store.finish(id)
+          await registerUpload(em(), storage, {
+            upload: { ...upload, size } as Upload,
+            sha256,
+            size,
+            userId,
+            ip: null,
+            alreadyMoved: moved,
+          })
           done++
         } catch (err) {
           deps.logger.error({ err, upload: id }, 'could not complete an interrupted upload')
@@ -144,7 +197,9 @@ export function createUploads(deps: { orm: Orm; config: AppConfig; logger: Logge
 async function hashFile(path: string): Promise<{ sha256: string; size: number }> {
   const hash = createHash('sha256')
   let size = 0
-  for await (const chunk of createReadStream(path, { highWaterMark: 4 * 1024 * 1024 }) as AsyncIterable<Buffer>) {
+  for await (const chunk of createReadStream(path, {
+    highWaterMark: 4 * 1024 * 1024,
+  }) as AsyncIterable<Buffer>) {
     hash.update(chunk)
     size += chunk.length
   }

@@ -6,8 +6,21 @@ import { listOf, registerJsonRoute } from '../../openapi/registry'
 
 export function registerMePaths(registry: OpenAPIRegistry) {
   const tags = ['Me']
-  registerJsonRoute(registry, { method: 'get', path: '/api/me', summary: 'Who is signed in, and what the abilities are built from', tags, response: meSchema })
-  registerJsonRoute(registry, { method: 'get', path: '/api/me/tokens', summary: 'My personal access tokens', tags, response: listOf(tokenSchema), errors: [401] })
+  registerJsonRoute(registry, {
+    method: 'get',
+    path: '/api/me',
+    summary: 'Who is signed in, and what the abilities are built from',
+    tags,
+    response: meSchema,
+  })
+  registerJsonRoute(registry, {
+    method: 'get',
+    path: '/api/me/tokens',
+    summary: 'My personal access tokens',
+    tags,
+    response: listOf(tokenSchema),
+    errors: [401],
+  })
   registerJsonRoute(registry, {
     method: 'post',
     path: '/api/me/tokens',

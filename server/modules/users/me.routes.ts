@@ -17,14 +17,28 @@ import { createToken, listTokens, revokeToken } from '../tokens/tokens.service'
 
 export function meRouter(deps: AppDeps): Router {
   const router = Router()
-  const tokenLimit = rateLimit({ windowMs: 60_000, limit: deps.config.rateLimitSignIn, standardHeaders: 'draft-8', legacyHeaders: false })
+  const tokenLimit = rateLimit({
+    windowMs: 60_000,
+    limit: deps.config.rateLimitSignIn,
+    standardHeaders: 'draft-8',
+    legacyHeaders: false,
+  })
 
   router.get('/', async (req, res) => {
     const user = req.user
-    const org = user?.organization != null ? await em().findOne(Organization, { id: user.organization }) : null
+    const org =
+      user?.organization != null
+        ? await em().findOne(Organization, { id: user.organization })
+        : null
     const body: MeDto = {
       user: user
-        ? { id: user.id, email: user.email, name: user.name, siteRole: user.siteRole ?? null, organization: org ? { id: org.id, name: org.name } : null }
+        ? {
+            id: user.id,
+            email: user.email,
+            name: user.name,
+            siteRole: user.siteRole ?? null,
+            organization: org ? { id: org.id, name: org.name } : null,
+          }
         : null,
       viewer: req.viewer && {
         ...req.viewer,
@@ -43,16 +57,23 @@ export function meRouter(deps: AppDeps): Router {
 
   router.post('/tokens', requireUser, tokenLimit, async (req, res) => {
     const user = signedInUser(req)
-    if (!req.ability.can('create', { __type: 'ApiToken', user: user.id })) throw new ForbiddenError()
+    if (!req.ability.can('create', { __type: 'ApiToken', user: user.id }))
+      throw new ForbiddenError()
     const created = await createToken(em(), user.id, parseBody(createTokenSchema, req))
-    audit(em(), req, { action: 'token.create', targetType: 'ApiToken', targetId: created.id, details: { name: created.name } })
+    audit(em(), req, {
+      action: 'token.create',
+      targetType: 'ApiToken',
+      targetId: created.id,
+      details: { name: created.name },
+    })
     await em().flush()
     res.status(201).json(created)
   })
 
   router.delete('/tokens/:id', requireUser, async (req, res) => {
     const user = signedInUser(req)
-    if (!req.ability.can('manage', { __type: 'ApiToken', user: user.id })) throw new ForbiddenError()
+    if (!req.ability.can('manage', { __type: 'ApiToken', user: user.id }))
+      throw new ForbiddenError()
     const token = await revokeToken(em(), user.id, parseParams(z.object({ id: idSchema }), req).id)
     audit(em(), req, { action: 'token.revoke', targetType: 'ApiToken', targetId: token.id })
     await em().flush()

@@ -22,7 +22,11 @@ async function organizationFor(em: EntityManager, email: string): Promise<number
  * The user behind a set of ID-token/userinfo claims, created at first sign-in. A person invited by
  * e-mail before they ever signed in is matched by their verified address and linked to `sub`.
  */
-export async function userFromClaims(em: EntityManager, claims: IdentityClaims, now = new Date()): Promise<IUser> {
+export async function userFromClaims(
+  em: EntityManager,
+  claims: IdentityClaims,
+  now = new Date(),
+): Promise<IUser> {
   let user = await em.findOne(User, { subject: claims.sub })
   const email = claims.email?.trim().toLowerCase()
   if (!user && email && claims.email_verified !== false) {

@@ -7,8 +7,16 @@ import type { IUser } from './user.entity'
 /** Loads what the abilities need about a user: two small indexed queries. */
 export async function loadViewer(em: EntityManager, user: IUser): Promise<Viewer> {
   const [memberships, shares] = await Promise.all([
-    em.find(Membership, { user: user.id }, { fields: ['project', 'role'], disableIdentityMap: true }),
-    em.find(DatasetShare, { user: user.id }, { fields: ['dataset', 'capabilities'], disableIdentityMap: true }),
+    em.find(
+      Membership,
+      { user: user.id },
+      { fields: ['project', 'role'], disableIdentityMap: true },
+    ),
+    em.find(
+      DatasetShare,
+      { user: user.id },
+      { fields: ['dataset', 'capabilities'], disableIdentityMap: true },
+    ),
   ])
   return {
     id: user.id,

@@ -21,18 +21,25 @@ describe('metadata validation', () => {
   })
 
   it('rejects a malformed DOI', () => {
-    expect(issuesOf({ study: { relatedPublicationDoi: '11.1234/abc' } })[0]).toMatch(/^study\.relatedPublicationDoi/)
+    expect(issuesOf({ study: { relatedPublicationDoi: '11.1234/abc' } })[0]).toMatch(
+      /^study\.relatedPublicationDoi/,
+    )
   })
 
   it('rejects an NA above the refractive index of the immersion medium', () => {
     // Water n = 1.333 (handbook value): NA 1.49 is only reachable with oil.
     const doc = { instrument: { objective: { lensNA: 1.49, immersion: 'Water' } } }
-    expect(issuesOf(doc)).toEqual([expect.stringMatching(/^instrument\.objective\.lensNA: .*not possible with water immersion/)])
+    expect(issuesOf(doc)).toEqual([
+      expect.stringMatching(/^instrument\.objective\.lensNA: .*not possible with water immersion/),
+    ])
     expect(issuesOf({ instrument: { objective: { lensNA: 1.49, immersion: 'Oil' } } })).toEqual([])
   })
 
   it.each([
-    [{ acquisition: { emissionWavelengthNm: 150 } }, /acquisition\.emissionWavelengthNm: .*less than 200 nm/],
+    [
+      { acquisition: { emissionWavelengthNm: 150 } },
+      /acquisition\.emissionWavelengthNm: .*less than 200 nm/,
+    ],
     [{ acquisition: { emissionWavelengthNm: 2500 } }, /above 2000 nm/],
     [{ instrument: { detector: { pixelSizeNm: 0 } } }, /pixelSizeNm: .*more than 0 nm/],
     [{ acquisition: { frames: -3 } }, /frames/],
@@ -45,7 +52,11 @@ describe('metadata validation', () => {
 
 describe('completeness', () => {
   it('is 100 % and ready for the complete fixture with title, description and licence', () => {
-    const c = computeCompleteness(metadataSchema.parse(completeMetadata()), { title: 'T', description: 'D', licence: 'CC-BY-4.0' })
+    const c = computeCompleteness(metadataSchema.parse(completeMetadata()), {
+      title: 'T',
+      description: 'D',
+      licence: 'CC-BY-4.0',
+    })
     expect(c.readyToSubmit).toBe(true)
     expect(c.score).toBe(100)
     expect(c.sections.flatMap((s) => s.missing)).toEqual([])
@@ -63,7 +74,10 @@ describe('completeness', () => {
       'instrument.detector.type',
       'instrument.detector.pixelSizeNm',
     ])
-    const some = computeCompleteness({ instrument: { objective: { lensNA: 1.49, nominalMagnification: 100, immersion: 'Oil' } } }, {})
+    const some = computeCompleteness(
+      { instrument: { objective: { lensNA: 1.49, nominalMagnification: 100, immersion: 'Oil' } } },
+      {},
+    )
     expect(some.score).toBeGreaterThan(empty.score)
     expect(some.required.filled).toBe(empty.required.filled + 3)
   })
@@ -74,14 +88,21 @@ describe('completeness', () => {
     const c = computeCompleteness(doc, { title: 'T', description: 'D', licence: 'CC0-1.0' })
     expect(c.readyToSubmit).toBe(false)
     expect(c.sections.find((s) => s.section === 'biosample')!.missing).toEqual([
-      { path: 'biosample.ethicsReference', label: 'Ethics approval or consent reference', tier: 'required' },
+      {
+        path: 'biosample.ethicsReference',
+        label: 'Ethics approval or consent reference',
+        tier: 'required',
+      },
     ])
   })
 
   it('recommends the EM gain for an EMCCD camera only', () => {
     const doc = metadataSchema.parse(completeMetadata())
     delete doc.instrument!.detector!.emGain
-    const missing = (d: typeof doc) => computeCompleteness(d, {}).sections.find((s) => s.section === 'instrument')!.missing.map((m) => m.path)
+    const missing = (d: typeof doc) =>
+      computeCompleteness(d, {})
+        .sections.find((s) => s.section === 'instrument')!
+        .missing.map((m) => m.path)
     expect(missing(doc)).toContain('instrument.detector.emGain')
     doc.instrument!.detector!.type = 'CMOS'
     expect(missing(doc)).not.toContain('instrument.detector.emGain')
@@ -90,12 +111,23 @@ describe('completeness', () => {
 
 describe('the vocabulary', () => {
   it('is JSON Schema 2020-12 with tiers, units and OME terms on the fields', () => {
-    const js = metadataJsonSchema() as { $schema: string; properties: Record<string, { properties: Record<string, Record<string, unknown>> }> }
+    const js = metadataJsonSchema() as {
+      $schema: string
+      properties: Record<string, { properties: Record<string, Record<string, unknown>> }>
+    }
     expect(js.$schema).toBe('https://json-schema.org/draft/2020-12/schema')
-    const objective = js.properties.instrument!.properties.objective as { properties: Record<string, Record<string, unknown>> }
-    expect(objective.properties.lensNA).toMatchObject({ 'x-tier': 'required', 'x-term': 'OME Objective@LensNA', title: 'Numerical aperture (NA)' })
+    const objective = js.properties.instrument!.properties.objective as {
+      properties: Record<string, Record<string, unknown>>
+    }
+    expect(objective.properties.lensNA).toMatchObject({
+      'x-tier': 'required',
+      'x-term': 'OME Objective@LensNA',
+      title: 'Numerical aperture (NA)',
+    })
     expect(js.properties.instrument!.properties.detector).toBeDefined()
-    const detector = js.properties.instrument!.properties.detector as { properties: Record<string, Record<string, unknown>> }
+    const detector = js.properties.instrument!.properties.detector as {
+      properties: Record<string, Record<string, unknown>>
+    }
     expect(detector.properties.pixelSizeNm).toMatchObject({ 'x-unit': 'nm' })
   })
 })

@@ -11,14 +11,22 @@ import { completeMetadata } from '../../fixtures/metadata'
 /** The OME data model specification's own files, release 2016-06 (schema and sample documents). */
 const STANDARD = join(process.cwd(), '../shared/standards/ome-2016-06')
 const sample = (name: string) => readFileSync(join(STANDARD, name), 'utf8')
-const subject = { accession: 'STPL-000042', title: 'Nup96 <dSTORM> & "friends"', description: 'Rings & spokes' }
+const subject = {
+  accession: 'STPL-000042',
+  title: 'Nup96 <dSTORM> & "friends"',
+  description: 'Rings & spokes',
+}
 
 /** Validates a document against the official XSD with xmllint (Debian package libxml2-utils). */
 function validate(xml: string): string {
   const file = join(mkdtempSync(join(tmpdir(), 'ome-')), 'doc.ome.xml')
   writeFileSync(file, xml)
   try {
-    return execFileSync('xmllint', ['--noout', '--nonet', '--schema', join(STANDARD, 'ome.xsd'), file], { encoding: 'utf8', stdio: ['ignore', 'pipe', 'pipe'] })
+    return execFileSync(
+      'xmllint',
+      ['--noout', '--nonet', '--schema', join(STANDARD, 'ome.xsd'), file],
+      { encoding: 'utf8', stdio: ['ignore', 'pipe', 'pipe'] },
+    )
   } catch (err) {
     throw new Error(`xmllint rejected the export:\n${(err as { stderr?: string }).stderr ?? err}`)
   }
@@ -30,16 +38,37 @@ describe('importing the specification’s sample documents', () => {
     expect(r.metadata.instrument).toMatchObject({
       microscopeType: 'Inverted',
       microscopeModel: 'Lab Mk3',
-      objective: { nominalMagnification: 60, immersion: 'Air', correction: 'UV', model: '60xUV-Air' },
-      lightSources: [{ kind: 'Laser', laserType: 'SolidState', powerMw: 200 }, { kind: 'Arc', powerMw: 300 }],
+      objective: {
+        nominalMagnification: 60,
+        immersion: 'Air',
+        correction: 'UV',
+        model: '60xUV-Air',
+      },
+      lightSources: [
+        { kind: 'Laser', laserType: 'SolidState', powerMw: 200 },
+        { kind: 'Arc', powerMw: 300 },
+      ],
       detector: { type: 'CCD', model: 'Standard CCD Mk2' },
     })
     // The sample pairs NA 1.2 with air (n = 1): physically impossible, so it is reported, not stored.
-    expect(r.ignored).toContainEqual({ from: 'Instrument/Objective@LensNA', reason: expect.stringMatching(/not possible with air immersion/) })
+    expect(r.ignored).toContainEqual({
+      from: 'Instrument/Objective@LensNA',
+      reason: expect.stringMatching(/not possible with air immersion/),
+    })
     // PhysicalSizeX="10000.0" in the default unit µm is 1 cm: not a pixel size at an SMLM sample.
-    expect(r.ignored).toContainEqual({ from: 'Image/Pixels@PhysicalSizeX', reason: expect.stringMatching(/not plausible/) })
-    expect(r.ignored.map((i) => i.from)).toEqual(expect.arrayContaining(['Instrument/Microscope@Manufacturer', 'Instrument/Filter@Model (4×)']))
-    expect(r.mapped.find((m) => m.path === 'instrument.objective.nominalMagnification')).toMatchObject({ from: 'Instrument/Objective@NominalMagnification', value: 60 })
+    expect(r.ignored).toContainEqual({
+      from: 'Image/Pixels@PhysicalSizeX',
+      reason: expect.stringMatching(/not plausible/),
+    })
+    expect(r.ignored.map((i) => i.from)).toEqual(
+      expect.arrayContaining([
+        'Instrument/Microscope@Manufacturer',
+        'Instrument/Filter@Model (4×)',
+      ]),
+    )
+    expect(
+      r.mapped.find((m) => m.path === 'instrument.objective.nominalMagnification'),
+    ).toMatchObject({ from: 'Instrument/Objective@NominalMagnification', value: 60 })
   })
 
   it('instrument-units-alternate.ome.xml: converts non-default units', () => {
@@ -51,7 +80,9 @@ describe('importing the specification’s sample documents', () => {
   })
 
   it('minimum-specification.ome.xml and ROI.ome.xml: import what little they hold, report the rest', () => {
-    expect(importOmeXml(sample('minimum-specification.ome.xml')).metadata).toEqual({ acquisition: { frames: 2 } })
+    expect(importOmeXml(sample('minimum-specification.ome.xml')).metadata).toEqual({
+      acquisition: { frames: 2 },
+    })
     const roi = importOmeXml(sample('ROI.ome.xml'))
     expect(roi.ignored.some((i) => i.from.startsWith('ROI/'))).toBe(true)
   })
@@ -84,11 +115,30 @@ describe('importing a hand-written SMLM document', () => {
     const { metadata } = importOmeXml(xml)
     expect(metadata).toEqual({
       instrument: {
-        objective: { nominalMagnification: 100, lensNA: 1.49, immersion: 'Oil', correction: 'PlanApo' },
-        lightSources: [{ kind: 'Laser', wavelengthNm: 647, powerMw: 1500, laserType: 'SolidState', pulse: 'CW' }],
-        detector: { type: 'EMCCD', model: 'Cooled EM camera', offsetAdu: 100, emGain: 150, pixelSizeNm: 160 },
+        objective: {
+          nominalMagnification: 100,
+          lensNA: 1.49,
+          immersion: 'Oil',
+          correction: 'PlanApo',
+        },
+        lightSources: [
+          { kind: 'Laser', wavelengthNm: 647, powerMw: 1500, laserType: 'SolidState', pulse: 'CW' },
+        ],
+        detector: {
+          type: 'EMCCD',
+          model: 'Cooled EM camera',
+          offsetAdu: 100,
+          emGain: 150,
+          pixelSizeNm: 160,
+        },
       },
-      acquisition: { frames: 20000, frameIntervalMs: 30, exposureTimeMs: 30, emissionWavelengthNm: 690, illumination: 'TIRF' },
+      acquisition: {
+        frames: 20000,
+        frameIntervalMs: 30,
+        exposureTimeMs: 30,
+        emissionWavelengthNm: 690,
+        illumination: 'TIRF',
+      },
       labelling: [{ label: 'far-red dye' }],
     })
   })
@@ -96,8 +146,16 @@ describe('importing a hand-written SMLM document', () => {
 
 describe('hostile or broken XML', () => {
   it.each([
-    ['entity expansion', '<?xml version="1.0"?><!DOCTYPE lolz [<!ENTITY lol "lol"><!ENTITY lol2 "&lol;&lol;&lol;">]><OME>&lol2;</OME>', /document type declaration/],
-    ['an external entity', '<?xml version="1.0"?><!DOCTYPE x [<!ENTITY xxe SYSTEM "file:///etc/passwd">]><OME>&xxe;</OME>', /document type declaration/],
+    [
+      'entity expansion',
+      '<?xml version="1.0"?><!DOCTYPE lolz [<!ENTITY lol "lol"><!ENTITY lol2 "&lol;&lol;&lol;">]><OME>&lol2;</OME>',
+      /document type declaration/,
+    ],
+    [
+      'an external entity',
+      '<?xml version="1.0"?><!DOCTYPE x [<!ENTITY xxe SYSTEM "file:///etc/passwd">]><OME>&xxe;</OME>',
+      /document type declaration/,
+    ],
     ['malformed XML', '<OME><Instrument></OME>', /Not well-formed XML: .*line 1/],
     ['no OME root', '<Image/>', /no <OME> root/],
     ['a huge document', `<OME>${'<Image/>'.repeat(400_000)}</OME>`, /larger than 2 MB/],
@@ -110,14 +168,21 @@ describe('exporting OME-XML', () => {
   it('validates against the official 2016-06 XSD, complete or nearly empty', () => {
     validate(exportOmeXml(metadataSchema.parse(completeMetadata()), subject))
     validate(exportOmeXml({}, subject))
-    validate(exportOmeXml({ instrument: { lightSources: [{ kind: 'LightEmittingDiode', powerMw: 3 }] } }, subject))
+    validate(
+      exportOmeXml(
+        { instrument: { lightSources: [{ kind: 'LightEmittingDiode', powerMw: 3 }] } },
+        subject,
+      ),
+    )
   })
 
   it('round-trips import → export → import with nothing lost', () => {
     const start = metadataSchema.parse(completeMetadata())
     const once = importOmeXml(exportOmeXml(start, subject)).metadata
     expect(once).toEqual(start)
-    const fromSample: DatasetMetadata = importOmeXml(sample('instrument-units-alternate.ome.xml')).metadata
+    const fromSample: DatasetMetadata = importOmeXml(
+      sample('instrument-units-alternate.ome.xml'),
+    ).metadata
     expect(importOmeXml(exportOmeXml(fromSample, subject)).metadata).toEqual(fromSample)
   })
 })

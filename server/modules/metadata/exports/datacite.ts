@@ -17,7 +17,17 @@ export function toDataCite(s: DatasetExportSubject) {
         name: a.name!,
         nameType: 'Personal',
         ...(a.affiliation ? { affiliation: [{ name: a.affiliation }] } : {}),
-        ...(a.orcid ? { nameIdentifiers: [{ nameIdentifier: orcidUrl(a.orcid), nameIdentifierScheme: 'ORCID', schemeUri: 'https://orcid.org' }] } : {}),
+        ...(a.orcid
+          ? {
+              nameIdentifiers: [
+                {
+                  nameIdentifier: orcidUrl(a.orcid),
+                  nameIdentifierScheme: 'ORCID',
+                  schemeUri: 'https://orcid.org',
+                },
+              ],
+            }
+          : {}),
       }))
     : [{ name: s.projectName, nameType: 'Organizational' }]
   const available = availableFrom(s)
@@ -25,35 +35,65 @@ export function toDataCite(s: DatasetExportSubject) {
     ...(s.submittedAt ? [{ date: day(s.submittedAt), dateType: 'Submitted' }] : []),
     ...(available ? [{ date: day(available), dateType: 'Available' }] : []),
   ]
-  const subjects = [...(m.study?.keywords ?? []), m.acquisition?.technique, m.biosample?.structure].filter((x): x is string => Boolean(x))
+  const subjects = [
+    ...(m.study?.keywords ?? []),
+    m.acquisition?.technique,
+    m.biosample?.structure,
+  ].filter((x): x is string => Boolean(x))
   return {
     data: {
       type: 'dois',
       attributes: {
         doi: null,
         identifiers: [{ identifier: s.landingUrl, identifierType: 'URL' }],
-        alternateIdentifiers: [{ alternateIdentifier: s.accession, alternateIdentifierType: 'Accession' }],
+        alternateIdentifiers: [
+          { alternateIdentifier: s.accession, alternateIdentifierType: 'Accession' },
+        ],
         url: s.landingUrl,
         creators,
         titles: [{ title: s.title }],
         publisher: { name: 'Stipple' },
         publicationYear: (available ?? new Date()).getUTCFullYear(),
-        types: { resourceTypeGeneral: 'Dataset', resourceType: 'Single-molecule localization microscopy data' },
+        types: {
+          resourceTypeGeneral: 'Dataset',
+          resourceType: 'Single-molecule localization microscopy data',
+        },
         subjects: subjects.map((subject) => ({ subject })),
         dates,
         language: 'en',
         version: String(s.version),
-        rightsList: [{ rights: s.licence, rightsUri: spdxUrl(s.licence), rightsIdentifier: s.licence, rightsIdentifierScheme: 'SPDX', schemeUri: 'https://spdx.org/licenses/' }],
+        rightsList: [
+          {
+            rights: s.licence,
+            rightsUri: spdxUrl(s.licence),
+            rightsIdentifier: s.licence,
+            rightsIdentifierScheme: 'SPDX',
+            schemeUri: 'https://spdx.org/licenses/',
+          },
+        ],
         descriptions: [
           ...(s.description ? [{ description: s.description, descriptionType: 'Abstract' }] : []),
           { description: methodsSummary(s), descriptionType: 'Methods' },
         ],
-        fundingReferences: (m.study?.funding ?? []).filter((f) => f.funder).map((f) => ({ funderName: f.funder!, ...(f.grantId ? { awardNumber: f.grantId } : {}) })),
+        fundingReferences: (m.study?.funding ?? [])
+          .filter((f) => f.funder)
+          .map((f) => ({
+            funderName: f.funder!,
+            ...(f.grantId ? { awardNumber: f.grantId } : {}),
+          })),
         relatedIdentifiers: m.study?.relatedPublicationDoi
-          ? [{ relatedIdentifier: m.study.relatedPublicationDoi, relatedIdentifierType: 'DOI', relationType: 'IsSupplementTo' }]
+          ? [
+              {
+                relatedIdentifier: m.study.relatedPublicationDoi,
+                relatedIdentifierType: 'DOI',
+                relationType: 'IsSupplementTo',
+              },
+            ]
           : [],
         sizes: s.files.map((f) => `${f.size} bytes`),
-        formats: [...new Set(s.files.map((f) => f.mediaType).filter((x): x is string => Boolean(x)))],
+        formats: [
+          ...new Set(s.files.map((f) => f.mediaType).filter((x): x is string => Boolean(x))),
+        ],
       },
     },
   }

@@ -14,7 +14,13 @@ export interface DatasetExportSubject {
   submittedAt: Date | null
   approvedAt: Date | null
   embargoUntil: Date | null
-  files: { name: string; size: number; sha256: string | null; mediaType: string | null; url: string }[]
+  files: {
+    name: string
+    size: number
+    sha256: string | null
+    mediaType: string | null
+    url: string
+  }[]
   metadata: DatasetMetadata
 }
 

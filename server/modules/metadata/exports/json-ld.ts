@@ -27,13 +27,23 @@ export function toJsonLd(s: DatasetExportSubject) {
         ...(a.orcid ? { identifier: orcidUrl(a.orcid), sameAs: orcidUrl(a.orcid) } : {}),
         ...(a.affiliation ? { affiliation: { '@type': 'Organization', name: a.affiliation } } : {}),
       })),
-    measurementTechnique: [m.acquisition?.technique, m.acquisition?.illumination && `${m.acquisition.illumination} illumination`, 'single-molecule localization microscopy'].filter(Boolean),
+    measurementTechnique: [
+      m.acquisition?.technique,
+      m.acquisition?.illumination && `${m.acquisition.illumination} illumination`,
+      'single-molecule localization microscopy',
+    ].filter(Boolean),
     variableMeasured: ['localization x (nm)', 'localization y (nm)', 'frame'],
     ...(m.study?.relatedPublicationDoi ? { citation: doiUrl(m.study.relatedPublicationDoi) } : {}),
     includedInDataCatalog: { '@type': 'DataCatalog', name: 'Stipple' },
     // Files are listed only once they may be downloaded (no embargo left).
     distribution: open
-      ? s.files.map((f) => ({ '@type': 'DataDownload', name: f.name, contentUrl: f.url, contentSize: `${f.size} B`, ...(f.mediaType ? { encodingFormat: f.mediaType } : {}) }))
+      ? s.files.map((f) => ({
+          '@type': 'DataDownload',
+          name: f.name,
+          contentUrl: f.url,
+          contentSize: `${f.size} B`,
+          ...(f.mediaType ? { encodingFormat: f.mediaType } : {}),
+        }))
       : [],
   }
 }

@@ -34,7 +34,9 @@ export function leaves(doc: unknown, prefix = ''): [string, unknown][] {
     return doc.flatMap((v, i) => leaves(v, prefix ? `${prefix}.${i}` : String(i)))
   }
   if (typeof doc === 'object') {
-    return Object.entries(doc as Record<string, unknown>).flatMap(([k, v]) => leaves(v, prefix ? `${prefix}.${k}` : k))
+    return Object.entries(doc as Record<string, unknown>).flatMap(([k, v]) =>
+      leaves(v, prefix ? `${prefix}.${k}` : k),
+    )
   }
   return prefix ? [[prefix, doc]] : []
 }

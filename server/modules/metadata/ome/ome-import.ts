@@ -34,15 +34,27 @@ class Mapper {
   }
 
   /** A numeric attribute with an optional unit attribute (`…Unit`), converted to our unit. */
-  number(path: string, node: XmlNode | undefined, name: string, from: string, quantity?: Quantity, defaultUnit?: string) {
+  number(
+    path: string,
+    node: XmlNode | undefined,
+    name: string,
+    from: string,
+    quantity?: Quantity,
+    defaultUnit?: string,
+  ) {
     const raw = attr(node, name)
     if (raw === undefined) return
     const value = Number(raw)
-    if (!Number.isFinite(value)) return void this.ignored.push({ from: `${from}@${name}`, reason: `"${raw}" is not a number` })
+    if (!Number.isFinite(value))
+      return void this.ignored.push({ from: `${from}@${name}`, reason: `"${raw}" is not a number` })
     if (!quantity) return this.put(path, value, `${from}@${name}`)
     const unit = attr(node, `${name}Unit`) ?? defaultUnit ?? ''
     const converted = toStippleUnit(value, unit, quantity)
-    if (converted === null) return void this.ignored.push({ from: `${from}@${name}`, reason: `the unit "${unit}" cannot be converted` })
+    if (converted === null)
+      return void this.ignored.push({
+        from: `${from}@${name}`,
+        reason: `the unit "${unit}" cannot be converted`,
+      })
     this.used.add(`${from}@${name}Unit`)
     this.put(path, converted, `${from}@${name}`)
   }
@@ -53,14 +65,20 @@ function findById(nodes: XmlNode[], id: string | undefined): XmlNode | undefined
 }
 
 function mapInstrument(m: Mapper, ome: XmlNode, image: XmlNode | undefined) {
-  const instrument = findById(children(ome, 'Instrument'), attr(child(image, 'InstrumentRef'), 'ID'))
+  const instrument = findById(
+    children(ome, 'Instrument'),
+    attr(child(image, 'InstrumentRef'), 'ID'),
+  )
   if (!instrument) return
   if (image && child(image, 'InstrumentRef')) m.used.add('Image/InstrumentRef')
   const microscope = child(instrument, 'Microscope')
   m.text('instrument.microscopeType', microscope, 'Type', 'Instrument/Microscope')
   m.text('instrument.microscopeModel', microscope, 'Model', 'Instrument/Microscope')
 
-  const objective = findById(children(instrument, 'Objective'), attr(child(image, 'ObjectiveSettings'), 'ID'))
+  const objective = findById(
+    children(instrument, 'Objective'),
+    attr(child(image, 'ObjectiveSettings'), 'ID'),
+  )
   const o = 'Instrument/Objective'
   m.number('instrument.objective.nominalMagnification', objective, 'NominalMagnification', o)
   m.number('instrument.objective.lensNA', objective, 'LensNA', o)
@@ -74,7 +92,14 @@ function mapInstrument(m: Mapper, ome: XmlNode, image: XmlNode | undefined) {
       const at = `instrument.lightSources.${index++}`
       const from = `Instrument/${kind}`
       m.put(`${at}.kind`, kind, from)
-      m.number(`${at}.wavelengthNm`, source, 'Wavelength', from, 'length', OME_DEFAULT_UNITS.wavelength)
+      m.number(
+        `${at}.wavelengthNm`,
+        source,
+        'Wavelength',
+        from,
+        'length',
+        OME_DEFAULT_UNITS.wavelength,
+      )
       m.number(`${at}.powerMw`, source, 'Power', from, 'power', OME_DEFAULT_UNITS.power)
       if (kind === 'Laser') {
         m.text(`${at}.laserType`, source, 'Type', from)
@@ -84,7 +109,10 @@ function mapInstrument(m: Mapper, ome: XmlNode, image: XmlNode | undefined) {
   }
 
   const firstChannel = children(child(image, 'Pixels'), 'Channel')[0]
-  const detector = findById(children(instrument, 'Detector'), attr(child(firstChannel, 'DetectorSettings'), 'ID'))
+  const detector = findById(
+    children(instrument, 'Detector'),
+    attr(child(firstChannel, 'DetectorSettings'), 'ID'),
+  )
   const d = 'Instrument/Detector'
   m.text('instrument.detector.type', detector, 'Type', d)
   m.text('instrument.detector.model', detector, 'Model', d)
@@ -96,18 +124,52 @@ function mapImage(m: Mapper, image: XmlNode | undefined) {
   const pixels = child(image, 'Pixels')
   if (!pixels) return
   const p = 'Image/Pixels'
-  m.number('instrument.detector.pixelSizeNm', pixels, 'PhysicalSizeX', p, 'length', OME_DEFAULT_UNITS.physicalSize)
+  m.number(
+    'instrument.detector.pixelSizeNm',
+    pixels,
+    'PhysicalSizeX',
+    p,
+    'length',
+    OME_DEFAULT_UNITS.physicalSize,
+  )
   m.number('acquisition.frames', pixels, 'SizeT', p)
-  m.number('acquisition.frameIntervalMs', pixels, 'TimeIncrement', p, 'time', OME_DEFAULT_UNITS.time)
+  m.number(
+    'acquisition.frameIntervalMs',
+    pixels,
+    'TimeIncrement',
+    p,
+    'time',
+    OME_DEFAULT_UNITS.time,
+  )
   const plane = children(pixels, 'Plane')[0]
-  m.number('acquisition.exposureTimeMs', plane, 'ExposureTime', `${p}/Plane`, 'time', OME_DEFAULT_UNITS.time)
+  m.number(
+    'acquisition.exposureTimeMs',
+    plane,
+    'ExposureTime',
+    `${p}/Plane`,
+    'time',
+    OME_DEFAULT_UNITS.time,
+  )
   const channel = children(pixels, 'Channel')[0]
   const c = `${p}/Channel`
-  m.number('acquisition.emissionWavelengthNm', channel, 'EmissionWavelength', c, 'length', OME_DEFAULT_UNITS.wavelength)
+  m.number(
+    'acquisition.emissionWavelengthNm',
+    channel,
+    'EmissionWavelength',
+    c,
+    'length',
+    OME_DEFAULT_UNITS.wavelength,
+  )
   const mode = attr(channel, 'AcquisitionMode')
   const type = attr(channel, 'IlluminationType')
   m.put('acquisition.technique', techniqueFromOme(mode), `${c}@AcquisitionMode`)
-  m.put('acquisition.illumination', illuminationFromOme(mode, type), mode === 'TIRF' || mode === 'TotalInternalReflection' ? `${c}@AcquisitionMode` : `${c}@IlluminationType`)
+  m.put(
+    'acquisition.illumination',
+    illuminationFromOme(mode, type),
+    mode === 'TIRF' || mode === 'TotalInternalReflection'
+      ? `${c}@AcquisitionMode`
+      : `${c}@IlluminationType`,
+  )
   m.text('labelling.0.label', channel, 'Fluor', c)
 }
 
@@ -141,7 +203,10 @@ function keepValid(m: Mapper) {
       const hit = [...m.mapped.keys()].find((p) => p === path || p.startsWith(`${path}.`)) ?? path
       const value = getPath(m.doc, hit)
       setPath(m.doc, hit, undefined)
-      m.ignored.push({ from: m.mapped.get(hit)?.from ?? hit, reason: `${JSON.stringify(value)} not accepted: ${issue.message}` })
+      m.ignored.push({
+        from: m.mapped.get(hit)?.from ?? hit,
+        reason: `${JSON.stringify(value)} not accepted: ${issue.message}`,
+      })
       m.mapped.delete(hit)
     }
   }
@@ -171,7 +236,14 @@ export function importOmeXml(xml: string): ImportReport {
   const reported = new Set(m.ignored.map((i) => i.from))
   for (const [path, n] of present) {
     if (m.used.has(path) || reported.has(path) || STRUCTURAL.test(path)) continue
-    m.ignored.push({ from: n > 1 ? `${path} (${n}×)` : path, reason: 'no place in Stipple’s metadata' })
+    m.ignored.push({
+      from: n > 1 ? `${path} (${n}×)` : path,
+      reason: 'no place in Stipple’s metadata',
+    })
   }
-  return { metadata: parsed, mapped: [...m.mapped].map(([path, v]) => ({ path, ...v })), ignored: m.ignored }
+  return {
+    metadata: parsed,
+    mapped: [...m.mapped].map(([path, v]) => ({ path, ...v })),
+    ignored: m.ignored,
+  }
 }

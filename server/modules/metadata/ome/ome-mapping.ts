@@ -8,7 +8,10 @@ type Illumination = (typeof ILLUMINATIONS)[number]
 export const STIPPLE_MAP_NAMESPACE = 'urn:stipple:metadata:1'
 
 /** OME's AcquisitionMode holds one value: the SMLM technique goes there (DNA-PAINT has none). */
-export function acquisitionModeFor(technique: Technique | undefined, illumination: Illumination | undefined): OmeAcquisitionMode {
+export function acquisitionModeFor(
+  technique: Technique | undefined,
+  illumination: Illumination | undefined,
+): OmeAcquisitionMode {
   if (technique === 'STORM' || technique === 'dSTORM') return 'STORM'
   if (technique === 'PALM') return 'PALM'
   if (technique) return 'SingleMoleculeImaging'
@@ -16,7 +19,9 @@ export function acquisitionModeFor(technique: Technique | undefined, illuminatio
 }
 
 /** Excitation through the objective is epifluorescence in OME's terms; HILO is oblique (common practice). */
-export function illuminationTypeFor(illumination: Illumination | undefined): OmeIlluminationType | undefined {
+export function illuminationTypeFor(
+  illumination: Illumination | undefined,
+): OmeIlluminationType | undefined {
   switch (illumination) {
     case 'TIRF':
     case 'epifluorescence':
@@ -37,7 +42,10 @@ export function techniqueFromOme(mode: string | undefined): Technique | undefine
   return undefined
 }
 
-export function illuminationFromOme(mode: string | undefined, type: string | undefined): Illumination | undefined {
+export function illuminationFromOme(
+  mode: string | undefined,
+  type: string | undefined,
+): Illumination | undefined {
   if (mode === 'TIRF' || mode === 'TotalInternalReflection') return 'TIRF'
   if (type === 'Oblique') return 'HILO'
   if (type === 'Epifluorescence') return 'epifluorescence'

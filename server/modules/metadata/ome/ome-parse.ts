@@ -5,9 +5,29 @@ export type XmlNode = Record<string, unknown>
 
 /** Elements that may repeat, always read as arrays. */
 const REPEATED = new Set([
-  'Image', 'Instrument', 'Laser', 'Arc', 'Filament', 'LightEmittingDiode', 'GenericExcitationSource',
-  'Detector', 'Objective', 'Channel', 'Plane', 'MapAnnotation', 'M', 'Filter', 'Dichroic', 'FilterSet',
-  'TiffData', 'BinData', 'ROI', 'AnnotationRef', 'Experimenter', 'Dataset', 'Project',
+  'Image',
+  'Instrument',
+  'Laser',
+  'Arc',
+  'Filament',
+  'LightEmittingDiode',
+  'GenericExcitationSource',
+  'Detector',
+  'Objective',
+  'Channel',
+  'Plane',
+  'MapAnnotation',
+  'M',
+  'Filter',
+  'Dichroic',
+  'FilterSet',
+  'TiffData',
+  'BinData',
+  'ROI',
+  'AnnotationRef',
+  'Experimenter',
+  'Dataset',
+  'Project',
 ])
 
 export const MAX_OME_XML_BYTES = 2 * 1024 * 1024
@@ -19,14 +39,20 @@ export const MAX_OME_XML_BYTES = 2 * 1024 * 1024
  */
 export function parseOmeXml(xml: string): XmlNode {
   if (Buffer.byteLength(xml, 'utf8') > MAX_OME_XML_BYTES) {
-    throw new BadRequestError(`The OME-XML document is larger than ${MAX_OME_XML_BYTES / 1024 / 1024} MB.`)
+    throw new BadRequestError(
+      `The OME-XML document is larger than ${MAX_OME_XML_BYTES / 1024 / 1024} MB.`,
+    )
   }
   if (/<!DOCTYPE|<!ENTITY/i.test(xml)) {
-    throw new BadRequestError('XML with a document type declaration or entities is refused (it could expand entities or read external files). OME-XML never needs one.')
+    throw new BadRequestError(
+      'XML with a document type declaration or entities is refused (it could expand entities or read external files). OME-XML never needs one.',
+    )
   }
   const valid = XMLValidator.validate(xml, { allowBooleanAttributes: true })
   if (valid !== true) {
-    throw new BadRequestError(`Not well-formed XML: ${valid.err.msg} (line ${valid.err.line}, column ${valid.err.col}).`)
+    throw new BadRequestError(
+      `Not well-formed XML: ${valid.err.msg} (line ${valid.err.line}, column ${valid.err.col}).`,
+    )
   }
   const parser = new XMLParser({
     ignoreAttributes: false,
@@ -42,7 +68,8 @@ export function parseOmeXml(xml: string): XmlNode {
   })
   const doc = parser.parse(xml) as XmlNode
   const ome = doc.OME
-  if (!ome || typeof ome !== 'object') throw new BadRequestError('This XML document has no <OME> root element.')
+  if (!ome || typeof ome !== 'object')
+    throw new BadRequestError('This XML document has no <OME> root element.')
   return ome as XmlNode
 }
 
@@ -50,7 +77,8 @@ export const children = (node: XmlNode | undefined, name: string): XmlNode[] => 
   const v = node?.[name]
   return Array.isArray(v) ? (v as XmlNode[]) : v && typeof v === 'object' ? [v as XmlNode] : []
 }
-export const child = (node: XmlNode | undefined, name: string): XmlNode | undefined => children(node, name)[0]
+export const child = (node: XmlNode | undefined, name: string): XmlNode | undefined =>
+  children(node, name)[0]
 export const attr = (node: XmlNode | undefined, name: string): string | undefined => {
   const v = node?.[`@${name}`]
   return typeof v === 'string' ? v : undefined
