@@ -37,7 +37,10 @@ export function useFilesTab(
     dataset: accession,
     resumeIdFor: (file) => unfinished?.matchFor(file),
     // The file joins the list below; its upload row has said all it had to.
-    onFinished: (item) => void files.reload().then(() => queue.dismiss(item.key)),
+    onFinished: (item) => {
+      if (item.uploadId) unfinished?.finished(item.uploadId)
+      void files.reload().then(() => queue.dismiss(item.key))
+    },
   })
   unfinished = useUnfinishedUploads(accession, queue.activeIds)
   const waiting = unfinished

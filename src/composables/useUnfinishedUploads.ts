@@ -84,12 +84,12 @@ export function useUnfinishedUploads(
     }
   }
 
-  /** An upload that just started or finished: ask the server again next time. */
-  function forgetOffset(uploadId: string) {
-    delete offsets.value[uploadId]
+  /** An upload that finished here: the server holds no unfinished part of it any more. */
+  function finished(uploadId: string) {
+    offsets.value[uploadId] = 'gone'
   }
 
-  return { list, error, refresh, matchFor, discard, forgetOffset }
+  return { list, error, refresh, matchFor, discard, finished }
 }
 
 export type UnfinishedUploads = ReturnType<typeof useUnfinishedUploads>

@@ -135,6 +135,9 @@ export function useUploadQueue(options: UploadQueueOptions) {
         settle(item, 'done', null)
         item.sent = item.size
         item.fileId = fileId
+        // tus-js-client removes the resume point only of uploads it found itself; one continued
+        // from the unfinished list must be forgotten here.
+        void slot.transfer?.forget()
         options.onFinished?.(item)
         pump()
       },

@@ -16,6 +16,14 @@ export class FilesPage {
     })
   }
 
+  async uploadBytes(name: string, buffer: Buffer) {
+    await this.page.getByTestId('file-input').setInputFiles({
+      name,
+      mimeType: 'application/octet-stream',
+      buffer,
+    })
+  }
+
   row(name: string) {
     return this.page.locator(`[data-testid="files-table"] tr[data-file="${name}"]`)
   }
