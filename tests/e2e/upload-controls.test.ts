@@ -2,7 +2,8 @@
  * In a real browser, on a network slowed down by chromium's own throttling (DevTools protocol
  * Network.emulateNetworkConditions): a depositor pauses an upload and resumes it, reloads the page
  * in the middle of it, chooses the same file again and sees it continue where it stopped, with the
- * stored checksum equal to the file's; and cancels another upload, of which nothing is kept.
+ * stored checksum equal to the file's; drops several files at once; and cancels an upload, of
+ * which nothing is kept.
  */
 import { createHash, randomBytes } from 'node:crypto'
 import type { CDPSession, Locator, Page } from 'playwright-core'
@@ -104,6 +105,40 @@ describe('upload controls in the browser', () => {
       })
       .toBe(createHash('sha256').update(bytes).digest('hex'))
     await expect.poll(() => waiting.count()).toBe(0)
+    expect(consoleErrors).toEqual([])
+  })
+
+  it('takes several files dropped at once and stores them all', async () => {
+    await throttle(false)
+    await openFiles()
+    const names = ['drop-a.bin', 'drop-b.bin', 'drop-c.bin']
+    const sizes = [3 * MIB, 1 * MIB + 7, 2 * MIB]
+    // A drop as the browser delivers it: one DataTransfer holding all the files.
+    const zone = page.getByLabel('Files of this dataset; drop files here to upload them')
+    const dataTransfer = await page.evaluateHandle(
+      ({ names, sizes }) => {
+        const dt = new DataTransfer()
+        names.forEach((name, i) => {
+          const bytes = new Uint8Array(sizes[i]!)
+          for (let j = 0; j < bytes.length; j++) bytes[j] = (j * 31 + i) & 0xff
+          dt.items.add(new File([bytes], name))
+        })
+        return dt
+      },
+      { names, sizes },
+    )
+    await zone.dispatchEvent('dragenter', { dataTransfer })
+    await zone.dispatchEvent('dragover', { dataTransfer })
+    await zone.dispatchEvent('drop', { dataTransfer })
+    await expect
+      .poll(
+        async () => {
+          const stored = await storedFiles()
+          return names.map((n) => stored.find((f) => f.name === n)?.size ?? null)
+        },
+        { timeout: 30_000 },
+      )
+      .toEqual(sizes)
     expect(consoleErrors).toEqual([])
   })
 
