@@ -5,6 +5,7 @@ import { Sequence } from './modules/common/sequence.entity'
 import { Dataset, DatasetShare } from './modules/datasets/dataset.entity'
 import { DatasetFile } from './modules/files/dataset-file.entity'
 import { DatasetMetadata, InstrumentProfile } from './modules/metadata/dataset-metadata.entity'
+import { OidcPayload } from './modules/idp/oidc-payload.entity'
 import { Organization } from './modules/organizations/organization.entity'
 import { Membership, Project } from './modules/projects/project.entity'
 import { Session } from './modules/sessions/session.entity'
@@ -29,6 +30,7 @@ export const entities = [
   ApiToken,
   AuditEvent,
   Session,
+  OidcPayload,
   Sequence,
 ]
 

@@ -9,6 +9,7 @@ import { createLogger, type Logger } from './logger'
 import { createRelyingParty } from './modules/auth/relying-party'
 import { loadAccounts, type DemoAccount } from './modules/idp/accounts'
 import { createLocalProvider } from './modules/idp/local-provider'
+import { pruneOidcPayloads } from './modules/idp/oidc-adapter'
 import { startMailCatcher, type MailCatcher } from './modules/mail/mail-catcher'
 import { createMailer } from './modules/mail/mailer'
 import { OrmSessionStore } from './modules/sessions/session-store'
@@ -84,6 +85,7 @@ export async function startStipple(
           accounts,
           dataDir: cfg.dataDir,
           cookieKeys: [loadLocalSecrets(cfg.dataDir).idpCookieKey],
+          orm,
         }),
       }
     : undefined
@@ -121,9 +123,12 @@ export async function startStipple(
 
   const sessions = new OrmSessionStore(orm)
   const hourly = () =>
-    Promise.all([sessions.prune(), refreshPlannerStatistics(orm), uploads.expire()]).catch(
-      (err: unknown) => logger.error({ err }, 'hourly upkeep failed'),
-    )
+    Promise.all([
+      sessions.prune(),
+      pruneOidcPayloads(orm),
+      refreshPlannerStatistics(orm),
+      uploads.expire(),
+    ]).catch((err: unknown) => logger.error({ err }, 'hourly upkeep failed'))
   const pruning = setInterval(() => void hourly(), 3600_000)
   pruning.unref()
 

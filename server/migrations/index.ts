@@ -3,6 +3,7 @@ import { Migration20261201230000 } from './Migration20261201230000'
 import { Migration20261201231929 } from './Migration20261201231929'
 import { Migration20261201233454 } from './Migration20261201233454'
 import { Migration20261201233748 } from './Migration20261201233748'
+import { Migration20261202022156 } from './Migration20261202022156'
 
 /**
  * Migrations in the order they run. `npm run db -- migration:create` writes new files here;
@@ -14,4 +15,5 @@ export const migrationsList = [
   { name: 'Migration20261201231929', class: Migration20261201231929 },
   { name: 'Migration20261201233454', class: Migration20261201233454 },
   { name: 'Migration20261201233748', class: Migration20261201233748 },
+  { name: 'Migration20261202022156', class: Migration20261202022156 },
 ]

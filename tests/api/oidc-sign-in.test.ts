@@ -10,6 +10,7 @@ import { loadConfig } from '@server/config'
 import { startStipple, type RunningStipple } from '@server/start'
 import { User } from '@server/modules/users/user.entity'
 import { BrowserSession, parseForm } from '../fixtures/browser-fetch'
+import { freePort } from '../fixtures/server-process'
 
 const DEPOSITOR = { login: 'kasimir.feld@harrowgate.example', password: 'demo-depositor-pass' }
 
@@ -86,6 +87,30 @@ describe('signing in through the local OpenID provider', () => {
     expect(jar.cookie('stipple.sid')).not.toBe(before)
     const body = await me(s, jar)
     expect(body.user?.email).toBe(DEPOSITOR.login)
+  })
+
+  it('finishes a sign-in that a server restart interrupted at the login form', async () => {
+    // The provider keeps its interactions in SQLite; with the library's in-memory store the
+    // login form would be dead after the restart.
+    const port = await freePort()
+    const first = await boot({ PORT: String(port), PUBLIC_URL: `http://127.0.0.1:${port}` })
+    const jar = new BrowserSession()
+    const { res: formPage, url } = await jar.follow(`${first.stipple.url}/auth/login`)
+    const form = parseForm(await formPage.text(), url)
+    await first.stipple.stop()
+    const again = await startStipple(first.stipple.config)
+    try {
+      const { url: landed } = await jar.follow(form.action, {
+        method: 'POST',
+        headers: { 'content-type': 'application/x-www-form-urlencoded' },
+        body: new URLSearchParams({ login: DEPOSITOR.login, password: DEPOSITOR.password }),
+      })
+      expect(landed.pathname).not.toMatch(/^\/(idp|oidc|auth)\//)
+      expect((await me(again, jar)).user?.email).toBe(DEPOSITOR.login)
+    } finally {
+      await again.stop()
+      rmSync(first.dataDir, { recursive: true, force: true })
+    }
   })
 
   it('sets the session cookie httpOnly and SameSite=Lax', async () => {

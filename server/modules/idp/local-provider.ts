@@ -3,7 +3,9 @@ import { join } from 'node:path'
 import { exportJWK, generateKeyPair, type JWK } from 'jose'
 import Provider, { type Configuration, type KoaContextWithOIDC } from 'oidc-provider'
 import { escapeHtml, renderPage } from '../../http/html-page'
+import type { Orm } from '../../db'
 import type { DemoAccount } from './accounts'
+import { sqliteAdapter } from './oidc-adapter'
 
 export interface LocalProviderOptions {
   issuer: string
@@ -13,6 +15,8 @@ export interface LocalProviderOptions {
   accounts: DemoAccount[]
   dataDir: string
   cookieKeys: string[]
+  /** Where the provider keeps its sessions, interactions, grants and codes. */
+  orm: Orm
 }
 
 /** The provider's signing key, made once and kept in the data directory. */
@@ -42,6 +46,7 @@ function setPage(ctx: KoaContextWithOIDC, title: string, body: string, scripts: 
 export async function createLocalProvider(options: LocalProviderOptions): Promise<Provider> {
   const bySub = new Map(options.accounts.map((a) => [a.sub, a]))
   const configuration: Configuration = {
+    adapter: sqliteAdapter(options.orm),
     clients: [
       {
         client_id: options.clientId,
