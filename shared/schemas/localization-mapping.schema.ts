@@ -8,6 +8,19 @@ import {
   type MappingSuggestion,
 } from '../domain/localization-columns'
 
+/** How the fields of a localization table can be separated; `whitespace`: runs of spaces or tabs. */
+export const TABLE_DELIMITERS = [',', '\t', ';', '|', 'whitespace'] as const
+export type TableDelimiter = (typeof TABLE_DELIMITERS)[number]
+
+/**
+ * Body of `PUT /api/datasets/:id/files/:fileId/format`: the depositor says how the fields are
+ * separated when the sniffed guess is wrong; the table's header and columns are read again.
+ */
+export const tableFormatChoiceSchema = z
+  .object({ delimiter: z.enum(TABLE_DELIMITERS) })
+  .meta({ id: 'TableFormatChoice' })
+export type TableFormatChoice = z.output<typeof tableFormatChoiceSchema>
+
 export const mappedColumnSchema = z.object({
   /** 0-based position of the column in the table. */
   index: z.int().min(0).max(9_999),

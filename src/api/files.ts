@@ -1,6 +1,10 @@
 import type { FileKind, FileStatus } from '@shared/domain/files'
 import type { ColumnRole, ColumnUnit, MappingSuggestion } from '@shared/domain/localization-columns'
-import type { ColumnMapping, ColumnMappingInput } from '@shared/schemas/localization-mapping.schema'
+import type {
+  ColumnMapping,
+  ColumnMappingInput,
+  TableFormatChoice,
+} from '@shared/schemas/localization-mapping.schema'
 import { api } from './client'
 import type { OmeImportReport } from './metadata'
 
@@ -80,6 +84,8 @@ export interface IngestedColumn {
 /** A table's report: the inspection always, the ingest's findings once it ran. */
 export interface TableReport {
   sniff?: TableSniff
+  /** The separator the depositor declared (PUT …/format), when they did. */
+  declaredFormat?: TableFormatChoice | null
   suggestion?: MappingSuggestion
   rowsRead?: number
   rowsAccepted?: number
@@ -139,6 +145,9 @@ export const getValidation = (datasetId: number, fileId: number) =>
   api.get<FileValidation>(`${one(datasetId, fileId)}/validation`)
 export const putMapping = (datasetId: number, fileId: number, mapping: ColumnMappingInput) =>
   api.put<DatasetFileDto>(`${one(datasetId, fileId)}/mapping`, mapping)
+
+export const putFormat = (datasetId: number, fileId: number, format: TableFormatChoice) =>
+  api.put<DatasetFileDto>(`${one(datasetId, fileId)}/format`, format)
 export const deleteFile = (datasetId: number, fileId: number) => api.delete(one(datasetId, fileId))
 export const getFrameMeans = (datasetId: number, fileId: number) =>
   api.get<number[]>(`${one(datasetId, fileId)}/frame-means.json`)

@@ -9,7 +9,10 @@ import {
 } from 'vue'
 import { errorMessage } from '@/api/client'
 import * as api from '@/api/files'
-import type { ColumnMappingInput } from '@shared/schemas/localization-mapping.schema'
+import type {
+  ColumnMappingInput,
+  TableFormatChoice,
+} from '@shared/schemas/localization-mapping.schema'
 
 export const POLL_MS = 1_500
 
@@ -82,6 +85,11 @@ export function useDatasetFiles(
     await reload()
   }
 
+  async function declareFormat(fileId: number, format: TableFormatChoice) {
+    await api.putFormat(need(), fileId, format)
+    await reload()
+  }
+
   return {
     files,
     uploadsInProgress,
@@ -91,6 +99,7 @@ export function useDatasetFiles(
     reload,
     remove,
     saveMapping,
+    declareFormat,
     validation: (fileId: number) => api.getValidation(need(), fileId),
     frameMeans: (fileId: number) => api.getFrameMeans(need(), fileId),
   }

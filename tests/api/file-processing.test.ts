@@ -122,6 +122,29 @@ describe('localization tables', () => {
     expect((await settled(id)).status).toBe('ready')
   })
 
+  it('reads the header again with the separator the depositor declares, and ingests with it', async () => {
+    const id = await uploadText('bars.txt', 'frame|x_nm|y_nm\n1|10|20\n2|11|21\n')
+    expect(await settled(id)).toMatchObject({ status: 'ready' })
+    const put = (body: unknown) =>
+      request(t.app)
+        .put(`/api/datasets/${accession}/files/${id}/format`)
+        .set(bearer(token))
+        .send(body as object)
+    expect((await put({ delimiter: 'colon' })).status).toBe(400)
+
+    // Declared wrongly: the lines no longer split into columns, and the depositor is told so.
+    expect((await put({ delimiter: ',' })).status).toBe(202)
+    const wrong = await settled(id)
+    expect(wrong.status).not.toBe('ready')
+    expect(wrong.problem).toBeTruthy()
+    // Declared rightly: read and ingested with it; the report says what was declared.
+    expect((await put({ delimiter: '|' })).status).toBe(202)
+    expect(await settled(id)).toMatchObject({ status: 'ready' })
+    const v = await validation(id)
+    expect(v.report).toMatchObject({ rowsAccepted: 2, declaredFormat: { delimiter: '|' } })
+    expect(v.report.sniff.delimiter).toBe('|')
+  })
+
   it('converts pixel units with the pixel size: 12.5 px at 107 nm/px is 1337.5 nm', async () => {
     const id = await uploadText('pixels.csv', 'x (px),y (px),frame\n12.5,3,1\n')
     expect((await settled(id)).status).toBe('needs_mapping')

@@ -1,7 +1,10 @@
 import type { OpenAPIRegistry } from '@asteasolutions/zod-to-openapi'
 import { z } from 'zod'
 import { FILE_KINDS, FILE_STATUSES } from '@shared/domain/files'
-import { columnMappingSchema } from '@shared/schemas/localization-mapping.schema'
+import {
+  columnMappingSchema,
+  tableFormatChoiceSchema,
+} from '@shared/schemas/localization-mapping.schema'
 import { listOf, registerJsonRoute } from '../../openapi/registry'
 
 const fileSchema = z
@@ -55,6 +58,18 @@ export function registerFilePaths(registry: OpenAPIRegistry) {
     tags,
     params: fileParams,
     body: columnMappingSchema,
+    response: fileSchema,
+    status: 202,
+    errors: [400, 401, 403, 404, 409],
+  })
+  registerJsonRoute(registry, {
+    method: 'put',
+    path: '/api/datasets/{idOrAccession}/files/{fileId}/format',
+    summary:
+      'Say how the fields of a localization table are separated; its header and columns are read again',
+    tags,
+    params: fileParams,
+    body: tableFormatChoiceSchema,
     response: fileSchema,
     status: 202,
     errors: [400, 401, 403, 404, 409],

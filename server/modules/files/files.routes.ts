@@ -6,7 +6,10 @@ import { ConflictError, NotFoundError } from '../../errors/http-error'
 import { requireUser } from '../../http/authenticate'
 import { requestEm as em } from '../../http/request-context'
 import { parseBody, parseParams } from '../../http/validate'
-import { columnMappingSchema } from '@shared/schemas/localization-mapping.schema'
+import {
+  columnMappingSchema,
+  tableFormatChoiceSchema,
+} from '@shared/schemas/localization-mapping.schema'
 import { Job } from '../../jobs/job.entity'
 import type { LocalStorage } from '../../storage/local-storage'
 import { audit } from '../audit/audit.service'
@@ -15,7 +18,7 @@ import { UploadReservation } from '../uploads/upload-reservation.entity'
 import { DatasetFile, type IDatasetFile } from './dataset-file.entity'
 import { fileDownloadsRouter } from './file-downloads.routes'
 import { derivedPaths } from './file-processing'
-import { queueIngest } from './table-jobs.completions'
+import { queueIngest, queueInspect } from './table-jobs.completions'
 
 const fileParams = datasetParams.extend({ fileId: idSchema })
 
@@ -127,6 +130,30 @@ export function filesRouter(storage: LocalStorage, jobs?: { notify(): void }): R
       targetType: 'Dataset',
       targetId: dataset.accession,
       details: { file: file.name },
+    })
+    await em().flush()
+    jobs?.notify()
+    res.status(202).json(toFileDto(file, { state: 'queued', progress: 0, message: null }))
+  })
+
+  /** The depositor says how the fields are separated; the header is read again with that. */
+  router.put('/files/:fileId/format', requireUser, async (req, res) => {
+    const { id, fileId } = parseParams(fileParams, req)
+    const dataset = await datasetFor(req, em(), id, 'edit')
+    const file = await em().findOne(DatasetFile, { id: fileId, dataset: dataset.id })
+    if (!file) throw new NotFoundError('file', fileId)
+    if (file.kind !== 'localization_table')
+      throw new ConflictError(`"${file.name}" is not a localization table.`)
+    const format = parseBody(tableFormatChoiceSchema, req)
+    queueInspect(em(), file, format, {
+      source: storage.originalPath(file.storageKey),
+      output: derivedPaths(storage, file.id).columnar,
+    })
+    audit(em(), req, {
+      action: 'file.format',
+      targetType: 'Dataset',
+      targetId: dataset.accession,
+      details: { file: file.name, delimiter: format.delimiter },
     })
     await em().flush()
     jobs?.notify()

@@ -3,6 +3,7 @@ import type { MappingSuggestion } from '@shared/domain/localization-columns'
 import {
   mappingFromSuggestion,
   type ColumnMapping,
+  type TableFormatChoice,
 } from '@shared/schemas/localization-mapping.schema'
 import { enqueueJob } from '../../jobs/job-queue'
 import type { JobCompletion } from '../../jobs/job-runner'
@@ -31,7 +32,28 @@ export function queueIngest(
   file.problem = null
   enqueueJob(em, {
     kind: FILE_JOBS.ingestTable,
-    payload: { fileId: file.id, ...paths, mapping },
+    payload: { fileId: file.id, ...paths, mapping, format: declaredFormatOf(file) },
+    fileId: file.id,
+  })
+}
+
+/** The format the depositor declared for the table, kept in its report by the last inspection. */
+function declaredFormatOf(file: IDatasetFile): TableFormatChoice | null {
+  return (file.report as { declaredFormat?: TableFormatChoice } | null)?.declaredFormat ?? null
+}
+
+/** Reads the table's header again, with the depositor's declared format over the sniffed one. */
+export function queueInspect(
+  em: EntityManager,
+  file: IDatasetFile,
+  format: TableFormatChoice,
+  paths: { source: string; output: string },
+) {
+  file.status = 'processing'
+  file.problem = null
+  enqueueJob(em, {
+    kind: FILE_JOBS.inspectTable,
+    payload: { fileId: file.id, ...paths, format },
     fileId: file.id,
   })
 }
@@ -41,7 +63,11 @@ const inspect: JobCompletion = {
     const file = job.file == null ? null : await em.findOne(DatasetFile, { id: job.file })
     if (!file) return
     const { sniff, suggestion } = result as { sniff: TableSniff; suggestion: MappingSuggestion }
-    file.report = { sniff: { ...sniff, sampleRows: sniff.sampleRows.slice(0, 10) }, suggestion }
+    file.report = {
+      sniff: { ...sniff, sampleRows: sniff.sampleRows.slice(0, 10) },
+      suggestion,
+      declaredFormat: (job.payload.format as TableFormatChoice | undefined) ?? null,
+    }
     let mapping = mappingFromSuggestion(suggestion)
     // A header in pixels leaves no doubt once the description gives the pixel size.
     if (mapping && mapping.columns.some((c) => c.unit === 'px')) {

@@ -4,6 +4,7 @@ import { createVuetify } from 'vuetify'
 import { suggestMapping } from '@shared/domain/localization-columns'
 import type { DatasetFileDto, FileValidation } from '@/api/files'
 import FileMappingDialog from '@/components/files/FileMappingDialog.vue'
+import FileSeparatorChoice from '@/components/files/FileSeparatorChoice.vue'
 import { draftFrom, judgeMapping, withRole } from '@/utils/columnMapping'
 
 const fileDto: DatasetFileDto = {
@@ -64,19 +65,21 @@ afterEach(() => vi.unstubAllGlobals())
 
 async function openDialog(validation: FileValidation, describedPixelNm: number | null) {
   const save = vi.fn(async () => {})
+  const reread = vi.fn(async () => {})
   const wrapper = mount(FileMappingDialog, {
     props: {
       modelValue: true,
       file: fileDto,
       load: async () => validation,
       save,
+      reread,
       describedPixelNm,
     },
     global: { plugins: [createVuetify()] },
     attachTo: document.body,
   })
   await flushPromises()
-  return { wrapper, save }
+  return { wrapper, save, reread }
 }
 const selections = () =>
   [...document.body.querySelectorAll('.v-select__selection-text')].map((e) => e.textContent)
@@ -89,8 +92,10 @@ const pixelInput = () => document.body.querySelector<HTMLInputElement>('input[in
 describe('the column mapping dialog', () => {
   it('starts from the suggestion and shows the sample rows under their columns', async () => {
     const { wrapper } = await openDialog(inPixels, null)
-    // Roles, then units where the role takes one: from the shared suggestion for this header.
+    // The separator read from the file, then roles, and units where the role takes one: from the
+    // shared suggestion for this header.
     expect(selections()).toEqual([
+      'comma',
       'frame',
       'x',
       'px (camera pixels)',
@@ -128,6 +133,15 @@ describe('the column mapping dialog', () => {
       frameBase: 1,
       pixelSizeNm: 108.3,
     })
+    wrapper.unmount()
+  })
+
+  it('reads the columns again with another separator when the depositor chooses one', async () => {
+    const { wrapper, reread } = await openDialog(inPixels, null)
+    expect(document.body.textContent).toContain('Read from the file: comma')
+    wrapper.findComponent(FileSeparatorChoice).vm.$emit('reread', ';')
+    await flushPromises()
+    expect(reread).toHaveBeenCalledWith(3, { delimiter: ';' })
     wrapper.unmount()
   })
 

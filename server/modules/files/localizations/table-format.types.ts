@@ -1,8 +1,10 @@
 /** How a localization table is written: what `sniffTable` finds and the ingest reads by. */
 
-export const DELIMITERS = [',', '\t', ';', '|', 'whitespace'] as const
+import { TABLE_DELIMITERS, type TableDelimiter } from '@shared/schemas/localization-mapping.schema'
+
+export const DELIMITERS = TABLE_DELIMITERS
 /** `whitespace`: one or more spaces or tabs between fields. */
-export type Delimiter = (typeof DELIMITERS)[number]
+export type Delimiter = TableDelimiter
 
 export interface TableFormat {
   compression: 'none' | 'gzip'
