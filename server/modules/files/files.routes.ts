@@ -1,5 +1,5 @@
 import { rm } from 'node:fs/promises'
-import { Router } from 'express'
+import { Router, type Request, type RequestHandler } from 'express'
 import { datasetSubject } from '@shared/permissions/abilities'
 import { idSchema } from '@shared/schemas/common.schema'
 import { ConflictError, NotFoundError } from '../../errors/http-error'
@@ -112,53 +112,61 @@ export function filesRouter(storage: LocalStorage, jobs?: { notify(): void }): R
     })
   })
 
+  /**
+   * A depositor's correction to a localization table (its mapping or its format): the table must
+   * be theirs to edit; the correction queues the table's work again and answers 202.
+   */
+  const tableCorrection =
+    (
+      action: string,
+      queue: (
+        req: Request,
+        file: IDatasetFile,
+        paths: { source: string; output: string },
+      ) => object,
+    ): RequestHandler =>
+    async (req, res) => {
+      const { id, fileId } = parseParams(fileParams, req)
+      const dataset = await datasetFor(req, em(), id, 'edit')
+      const file = await em().findOne(DatasetFile, { id: fileId, dataset: dataset.id })
+      if (!file) throw new NotFoundError('file', fileId)
+      if (file.kind !== 'localization_table')
+        throw new ConflictError(`"${file.name}" is not a localization table.`)
+      const details = queue(req, file, {
+        source: storage.originalPath(file.storageKey),
+        output: derivedPaths(storage, file.id).columnar,
+      })
+      audit(em(), req, {
+        action,
+        targetType: 'Dataset',
+        targetId: dataset.accession,
+        details: { file: file.name, ...details },
+      })
+      await em().flush()
+      jobs?.notify()
+      res.status(202).json(toFileDto(file, { state: 'queued', progress: 0, message: null }))
+    }
+
   /** The depositor confirms or corrects the column mapping; the table is (re-)ingested with it. */
-  router.put('/files/:fileId/mapping', requireUser, async (req, res) => {
-    const { id, fileId } = parseParams(fileParams, req)
-    const dataset = await datasetFor(req, em(), id, 'edit')
-    const file = await em().findOne(DatasetFile, { id: fileId, dataset: dataset.id })
-    if (!file) throw new NotFoundError('file', fileId)
-    if (file.kind !== 'localization_table')
-      throw new ConflictError(`"${file.name}" is not a localization table.`)
-    const mapping = parseBody(columnMappingSchema, req)
-    queueIngest(em(), file, mapping, {
-      source: storage.originalPath(file.storageKey),
-      output: derivedPaths(storage, file.id).columnar,
-    })
-    audit(em(), req, {
-      action: 'file.mapping',
-      targetType: 'Dataset',
-      targetId: dataset.accession,
-      details: { file: file.name },
-    })
-    await em().flush()
-    jobs?.notify()
-    res.status(202).json(toFileDto(file, { state: 'queued', progress: 0, message: null }))
-  })
+  router.put(
+    '/files/:fileId/mapping',
+    requireUser,
+    tableCorrection('file.mapping', (req, file, paths) => {
+      queueIngest(em(), file, parseBody(columnMappingSchema, req), paths)
+      return {}
+    }),
+  )
 
   /** The depositor says how the fields are separated; the header is read again with that. */
-  router.put('/files/:fileId/format', requireUser, async (req, res) => {
-    const { id, fileId } = parseParams(fileParams, req)
-    const dataset = await datasetFor(req, em(), id, 'edit')
-    const file = await em().findOne(DatasetFile, { id: fileId, dataset: dataset.id })
-    if (!file) throw new NotFoundError('file', fileId)
-    if (file.kind !== 'localization_table')
-      throw new ConflictError(`"${file.name}" is not a localization table.`)
-    const format = parseBody(tableFormatChoiceSchema, req)
-    queueInspect(em(), file, format, {
-      source: storage.originalPath(file.storageKey),
-      output: derivedPaths(storage, file.id).columnar,
-    })
-    audit(em(), req, {
-      action: 'file.format',
-      targetType: 'Dataset',
-      targetId: dataset.accession,
-      details: { file: file.name, delimiter: format.delimiter },
-    })
-    await em().flush()
-    jobs?.notify()
-    res.status(202).json(toFileDto(file, { state: 'queued', progress: 0, message: null }))
-  })
+  router.put(
+    '/files/:fileId/format',
+    requireUser,
+    tableCorrection('file.format', (req, file, paths) => {
+      const format = parseBody(tableFormatChoiceSchema, req)
+      queueInspect(em(), file, format, paths)
+      return { delimiter: format.delimiter }
+    }),
+  )
 
   router.delete('/files/:fileId', requireUser, async (req, res) => {
     const { id, fileId } = parseParams(fileParams, req)
