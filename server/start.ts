@@ -49,10 +49,38 @@ export async function startStipple(
   options: { clientDir?: string } = {},
 ): Promise<RunningStipple> {
   const logger = createLogger(config.logLevel)
-  const server = createServer((_req, res) => {
-    res.writeHead(503, { 'retry-after': '1' }).end('Stipple is starting')
+  // Requests that arrive while Stipple starts wait for it rather than get an error: a resumable
+  // upload client takes any error answer to its offset query as "start the upload over".
+  let handOver!: (app: Express) => void
+  let giveUp!: (err: unknown) => void
+  const ready = new Promise<Express>((resolve, reject) => ((handOver = resolve), (giveUp = reject)))
+  ready.catch(() => undefined)
+  const server = createServer((req, res) => {
+    ready.then(
+      (app) => app(req, res),
+      () => res.writeHead(503).end('Stipple could not start'),
+    )
   })
   await listen(server, config.port, config.host)
+  try {
+    const running = await startOn(server, config, options, logger)
+    handOver(running.app) // the requests that waited
+    server.removeAllListeners('request')
+    server.on('request', running.app)
+    return running
+  } catch (err) {
+    giveUp(err)
+    server.close()
+    throw err
+  }
+}
+
+async function startOn(
+  server: Server,
+  config: AppConfig,
+  options: { clientDir?: string },
+  logger: Logger,
+): Promise<RunningStipple> {
   const { port } = server.address() as AddressInfo
   // With port 0 the operating system picks the port, so the public URL is only known now.
   const publicUrl = config.port === 0 ? `http://${config.host}:${port}` : config.publicUrl
@@ -118,8 +146,6 @@ export async function startStipple(
   const completed = await uploads.reconcile()
   if (completed) logger.info({ completed }, 'interrupted uploads registered')
   jobs.start()
-  server.removeAllListeners('request')
-  server.on('request', app)
 
   const sessions = new OrmSessionStore(orm)
   const hourly = () =>

@@ -135,6 +135,8 @@ describe('an upload from the CLI through repeated server crashes', () => {
     const code = await exited
     expect(code, output).toBe(0)
     expect(killedAt.length).toBeGreaterThanOrEqual(KILLS)
+    // Every restart was a resumption of the one upload, never a new start: no abandoned part is left.
+    expect(readdirSync(join(dir, 'data', 'uploads'))).toEqual([])
 
     const expected = await sha256File(source)
     const res = await fetch(`${server.url}/api/datasets/STPL-000005/files`, {
