@@ -51,27 +51,34 @@ export class FilesPage {
   /**
    * Picks a column's role in the mapping dialog. The menu draws only the options in view and
    * opens at the current role, so Home moves it to the first option, then it scrolls down until
-   * the wanted one shows.
+   * the wanted one shows. On a busy machine the menu may still be moving when the click comes, so
+   * the pick is checked on the field and tried again.
    */
   async mapColumn(column: string, role: string) {
-    await this.page
-      .locator('.v-select', { has: this.page.getByLabel(`Role of ${column}`, { exact: true }) })
-      .locator('.v-field')
-      .click()
+    const select = this.page.locator('.v-select', {
+      has: this.page.getByLabel(`Role of ${column}`, { exact: true }),
+    })
     const option = this.page.getByRole('option', { name: role, exact: true })
-    await this.page.keyboard.press('Home')
-    for (let i = 0; i < 10; i++) {
-      if (
-        await option.waitFor({ timeout: 500 }).then(
-          () => true,
-          () => false,
+    for (let attempt = 0; attempt < 3; attempt++) {
+      await select.locator('.v-field').click()
+      await this.page.keyboard.press('Home')
+      for (let i = 0; i < 10; i++) {
+        if (
+          await option.waitFor({ timeout: 500 }).then(
+            () => true,
+            () => false,
+          )
         )
-      )
-        break
-      await this.page.locator('.v-list--navigable').hover()
-      await this.page.mouse.wheel(0, 150)
+          break
+        await this.page.locator('.v-list--navigable').hover()
+        await this.page.mouse.wheel(0, 150)
+      }
+      await option.click({ timeout: 5000 }).catch(() => undefined)
+      const shown = await select.locator('.v-select__selection-text').first().textContent()
+      if (shown?.trim() === role) return
+      await this.page.keyboard.press('Escape')
     }
-    await option.click()
+    throw new Error(`Column ${column} could not be mapped to ${role}`)
   }
 
   async saveMapping() {
