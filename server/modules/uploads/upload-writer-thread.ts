@@ -38,6 +38,8 @@ export class UploadWriterThread {
   private drained: (() => void)[] = []
   /** Empty blocks, back from the thread; at most as many as can be outstanding. */
   private readonly spare: ArrayBuffer[] = []
+  /** Requests writing now; when the last one ends, the spare blocks are let go. */
+  private writers = 0
 
   private takeBlock(): Uint8Array {
     return new Uint8Array(this.spare.pop() ?? new ArrayBuffer(BLOCK_BYTES))
@@ -88,6 +90,7 @@ export class UploadWriterThread {
    * too). It finishes once every byte is on disk.
    */
   writer(id: string, path: string, position: number): UploadWriter {
+    this.writers++
     let block = this.takeBlock()
     let used = 0
     let sent = position
@@ -137,9 +140,12 @@ export class UploadWriterThread {
         // Whatever arrived before an error still goes to disk, so the upload resumes after it.
         send()
         void this.send({ op: 'close', id }).catch(() => undefined)
+        const ended = () => {
+          if (--this.writers === 0) this.spare.length = 0
+        }
         settled().then(
-          () => callback(err),
-          (writeErr: Error) => callback(err ?? writeErr),
+          () => (ended(), callback(err)),
+          (writeErr: Error) => (ended(), callback(err ?? writeErr)),
         )
       },
     })
