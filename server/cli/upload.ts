@@ -7,6 +7,7 @@ import { MultiBar, Presets } from 'cli-progress'
 import { Command, InvalidArgumentError } from 'commander'
 import * as tus from 'tus-js-client'
 import { Upload, type UrlStorage } from 'tus-js-client'
+import { fileSlices } from './file-slices'
 
 // The Node build exports a file-backed URL store that the package's typings leave out.
 const { FileUrlStorage } = tus as unknown as { FileUrlStorage: new (path: string) => UrlStorage }
@@ -68,6 +69,7 @@ function uploadOne(
       metadata: { dataset: o.dataset, filename: basename(path) },
       uploadSize: size,
       chunkSize: o.chunkMib * 1024 * 1024,
+      fileReader: fileSlices,
       retryDelays: RETRY_DELAYS(o.retries),
       urlStorage: new FileUrlStorage(o.state),
       storeFingerprintForResuming: true,

@@ -52,7 +52,13 @@ async function ddSeconds(dir: string): Promise<number> {
   return seconds
 }
 
-/** tus-js-client in a child process, timing from the first request to the server's last answer. */
+/** The workstation uploader's file reader (server/cli/file-slices.ts), as `stipple-upload` uses it. */
+const FILE_SLICES = new URL('../../server/cli/file-slices.ts', import.meta.url).href
+
+/**
+ * tus-js-client in a child process, set up as the workstation uploader sets it up (its file
+ * reader, 256 MiB requests), timing from the first request to the server's last answer.
+ */
 async function uploadSeconds(
   url: string,
   token: string,
@@ -62,14 +68,16 @@ async function uploadSeconds(
   const script = `
     import { createReadStream } from 'node:fs'
     import { Upload } from 'tus-js-client'
+    import { fileSlices } from ${JSON.stringify(FILE_SLICES)}
     const started = performance.now()
     new Upload(createReadStream(${JSON.stringify(source)}), {
       endpoint: ${JSON.stringify(`${url}/api/uploads`)}, headers: { Authorization: 'Bearer ${token}' },
       metadata: { dataset: 'STPL-000005', filename: 'bench-${round}.bin' }, uploadSize: ${BYTES}, chunkSize: 256 * 1024 * 1024,
+      fileReader: fileSlices,
       onSuccess: () => { console.log('SECONDS', (performance.now() - started) / 1000) },
       onError: (e) => { console.error(String(e)); process.exit(1) },
     }).start()`
-  const child = spawn(process.execPath, ['--input-type=module', '-e', script], {
+  const child = spawn(process.execPath, ['--import', 'tsx', '--input-type=module', '-e', script], {
     stdio: ['ignore', 'pipe', 'inherit'],
   })
   let out = ''
