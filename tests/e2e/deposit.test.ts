@@ -6,9 +6,8 @@
 import type { Page } from 'playwright-core'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { RunningStipple } from '@server/start'
-import { startE2eSession, type E2eSession } from './e2e-session'
+import { signInAs, startE2eSession, type E2eSession } from './e2e-session'
 import { DatasetCreatePage, DatasetsPage } from './pages/datasets.page'
-import { SignInPage } from './pages/sign-in.page'
 
 let session: E2eSession
 let stipple: RunningStipple
@@ -23,9 +22,7 @@ afterAll(() => session?.close())
 
 describe('a depositor in the browser', () => {
   it('signs in, creates a dataset, sees it in the table and signs out', async () => {
-    await page.goto(stipple.url)
-    await new SignInPage(page).signIn('kasimir.feld@harrowgate.example', 'demo-depositor-pass')
-    await page.waitForURL(`${stipple.url}/`)
+    await signInAs(session)
     await expect.poll(() => page.getByTestId('user-name').textContent()).toContain('Kasimir Feld')
 
     const title = `Clathrin lattice DNA-PAINT ${Date.now()}`

@@ -6,6 +6,7 @@ import { loadConfig } from '@server/config'
 import { CLIENT_DIR } from '@server/paths'
 import { startStipple, type RunningStipple } from '@server/start'
 import { launchBrowser } from './browser'
+import { SignInPage } from './pages/sign-in.page'
 
 export interface E2eSession {
   stipple: RunningStipple
@@ -45,4 +46,27 @@ export async function startE2eSession(): Promise<E2eSession> {
       rmSync(dataDir, { recursive: true, force: true })
     },
   }
+}
+
+/** The demo depositor (demo-data/accounts.json) the browser tests act as. */
+export const DEPOSITOR = {
+  email: 'kasimir.feld@harrowgate.example',
+  password: 'demo-depositor-pass',
+}
+
+/** Signs the page in through the stand-in provider and waits for the home page. */
+export async function signInAs(session: E2eSession, account = DEPOSITOR): Promise<void> {
+  await session.page.goto(session.stipple.url)
+  await new SignInPage(session.page).signIn(account.email, account.password)
+  await session.page.waitForURL(`${session.stipple.url}/`)
+}
+
+/** The demo depositor's draft the tests work on, found through the API as the page sees it. */
+export async function demoDraft(page: Page): Promise<{ accession: string; state: string }> {
+  const found = await page.evaluate(() =>
+    fetch('/api/datasets?q=new%20EMCCD%20gain%20settings').then((r) => r.json()),
+  )
+  return found.items.find(
+    (d: { title: string }) => d.title === 'Test acquisition with new EMCCD gain settings',
+  )
 }

@@ -6,9 +6,8 @@
 import type { Page } from 'playwright-core'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { RunningStipple } from '@server/start'
-import { startE2eSession, type E2eSession } from './e2e-session'
+import { demoDraft, signInAs, startE2eSession, type E2eSession } from './e2e-session'
 import { FilesPage } from './pages/files.page'
-import { SignInPage } from './pages/sign-in.page'
 
 let session: E2eSession
 let stipple: RunningStipple
@@ -34,15 +33,8 @@ const AMBIGUOUS = ['a,b,c', '1,500,800', '2,510,810', '3,520,820', '4,530,830'].
 
 describe('a depositor uploading tables in the browser', () => {
   it('uploads, reads the report, maps an ambiguous table and sees both ready', async () => {
-    await page.goto(stipple.url)
-    await new SignInPage(page).signIn('kasimir.feld@harrowgate.example', 'demo-depositor-pass')
-    await page.waitForURL(`${stipple.url}/`)
-    const found = await page.evaluate(() =>
-      fetch('/api/datasets?q=new%20EMCCD%20gain%20settings').then((r) => r.json()),
-    )
-    const draft = found.items.find(
-      (d: { title: string }) => d.title === 'Test acquisition with new EMCCD gain settings',
-    )
+    await signInAs(session)
+    const draft = await demoDraft(page)
     await page.goto(`${stipple.url}/datasets/${draft.accession}`)
     const files = new FilesPage(page)
     await files.open()

@@ -6,9 +6,8 @@
 import type { Page } from 'playwright-core'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { RunningStipple } from '@server/start'
-import { startE2eSession, type E2eSession } from './e2e-session'
+import { demoDraft, signInAs, startE2eSession, type E2eSession } from './e2e-session'
 import { MetadataFormPage } from './pages/metadata-form.page'
-import { SignInPage } from './pages/sign-in.page'
 
 let session: E2eSession
 let stipple: RunningStipple
@@ -23,16 +22,9 @@ afterAll(() => session?.close())
 
 describe('a depositor describing a draft in the browser', () => {
   it('fills objective fields, sees completeness rise, and finds them saved after a reload', async () => {
-    await page.goto(stipple.url)
-    await new SignInPage(page).signIn('kasimir.feld@harrowgate.example', 'demo-depositor-pass')
-    await page.waitForURL(`${stipple.url}/`)
+    await signInAs(session)
 
-    const found = await page.evaluate(() =>
-      fetch('/api/datasets?q=new%20EMCCD%20gain%20settings').then((r) => r.json()),
-    )
-    const draft = found.items.find(
-      (d: { title: string }) => d.title === 'Test acquisition with new EMCCD gain settings',
-    )
+    const draft = await demoDraft(page)
     expect(draft?.state).toBe('draft')
     await page.goto(`${stipple.url}/datasets/${draft.accession}`)
     await page.getByRole('toolbar').getByRole('link', { name: 'Describe' }).click()

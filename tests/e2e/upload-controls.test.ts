@@ -9,9 +9,8 @@ import { createHash, randomBytes } from 'node:crypto'
 import type { CDPSession, Locator, Page } from 'playwright-core'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { RunningStipple } from '@server/start'
-import { startE2eSession, type E2eSession } from './e2e-session'
+import { demoDraft, signInAs, startE2eSession, type E2eSession } from './e2e-session'
 import { FilesPage } from './pages/files.page'
-import { SignInPage } from './pages/sign-in.page'
 
 let session: E2eSession
 let stipple: RunningStipple
@@ -27,13 +26,8 @@ const THROTTLED_BYTES_PER_S = 4 * MIB
 beforeAll(async () => {
   session = await startE2eSession()
   ;({ stipple, page, consoleErrors } = session)
-  await page.goto(stipple.url)
-  await new SignInPage(page).signIn('kasimir.feld@harrowgate.example', 'demo-depositor-pass')
-  await page.waitForURL(`${stipple.url}/`)
-  const found = await page.evaluate(() =>
-    fetch('/api/datasets?q=new%20EMCCD%20gain%20settings').then((r) => r.json()),
-  )
-  accession = found.items[0].accession
+  await signInAs(session)
+  accession = (await demoDraft(page)).accession
   cdp = await page.context().newCDPSession(page)
 })
 afterAll(() => session?.close())
