@@ -139,7 +139,7 @@ export class UploadWriterThread {
       destroy: (err, callback) => {
         // Whatever arrived before an error still goes to disk, so the upload resumes after it.
         send()
-        void this.send({ op: 'close', id }).catch(() => undefined)
+        void this.close(id).catch(() => undefined)
         const ended = () => {
           if (--this.writers === 0) this.spare.length = 0
         }
