@@ -2,13 +2,13 @@ import { existsSync } from 'node:fs'
 import { fileURLToPath } from 'node:url'
 import express, { type Express } from 'express'
 import session from 'express-session'
-import helmet from 'helmet'
 import type Provider from 'oidc-provider'
 import swaggerUi from 'swagger-ui-express'
 import { authenticate, requireUser } from './http/authenticate'
 import { sameOriginWrites } from './http/csrf'
 import { apiNotFound, errorHandler } from './http/error-handler'
 import { requestContext } from './http/request-context'
+import { securityHeaders } from './http/security-headers'
 import { auditRouter } from './modules/audit/audit.routes'
 import { AccessVersionReader } from './modules/common/access-version'
 import { authRouter } from './modules/auth/auth.routes'
@@ -55,25 +55,7 @@ export function createApp(appOptions: CreateAppOptions): Express {
   app.set('trust proxy', config.trustProxy)
 
   const issuerOrigin = config.oidc.issuer ? new URL(config.oidc.issuer).origin : config.publicUrl
-  app.use(
-    helmet({
-      contentSecurityPolicy: {
-        directives: {
-          'script-src': ["'self'"],
-          // Vuetify writes its theme into a <style> element; no inline script is ever allowed.
-          'style-src': ["'self'", "'unsafe-inline'"],
-          'img-src': ["'self'", 'data:', 'blob:'],
-          'connect-src': ["'self'"],
-          // Sign-out posts a form that redirects to the identity provider.
-          'form-action': ["'self'", issuerOrigin],
-          'upgrade-insecure-requests': config.publicUrl.startsWith('https://') ? [] : null,
-        },
-      },
-      crossOriginEmbedderPolicy: false,
-      // 'no-referrer' would make browsers send `Origin: null` on our own form posts (sign-out).
-      referrerPolicy: { policy: 'same-origin' },
-    }),
-  )
+  app.use(securityHeaders({ issuerOrigin, https: config.publicUrl.startsWith('https://') }))
   app.use(requestContext(orm))
 
   // The identity provider parses its own bodies; no global body parser sits before it.

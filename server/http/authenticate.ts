@@ -101,9 +101,8 @@ export function authenticate(accessVersion: AccessVersionReader): RequestHandler
   const cache = new VersionedCache<Identity | null>(5000)
   const publicAbility = { second: -1, value: defineAbilityFor(null) }
   return async (req, _res, next) => {
-    const em = requestEm()
     const now = Date.now()
-    const version = await accessVersion.read()
+    const version = accessVersion.readNow() ?? (await accessVersion.read())
     req.accessVersion = version
     req.authMethod = null
     let identity: Identity | null = null
@@ -117,7 +116,7 @@ export function authenticate(accessVersion: AccessVersionReader): RequestHandler
         const key = `token:${hashToken(match[1])}`
         identity = cache.get(key, version) ?? null
         if (!identity) {
-          identity = await tokenIdentity(em, key.slice(6), now)
+          identity = await tokenIdentity(requestEm(), key.slice(6), now)
           if (identity) cache.set(key, version, identity)
         }
         if (!identity || (identity.expiresAt != null && identity.expiresAt <= now)) {
@@ -125,13 +124,18 @@ export function authenticate(accessVersion: AccessVersionReader): RequestHandler
         }
         if (now - (identity.lastUsedWrite ?? 0) > LAST_USED_RESOLUTION_MS) {
           identity.lastUsedWrite = now
-          await em.nativeUpdate(ApiToken, { id: identity.tokenId }, { lastUsedAt: new Date(now) })
+          await requestEm().nativeUpdate(
+            ApiToken,
+            { id: identity.tokenId },
+            { lastUsedAt: new Date(now) },
+          )
         }
         req.authMethod = 'token'
       } else if (sessionUser) {
         const key = `session:${sessionUser}`
         identity = cache.get(key, version) ?? null
         if (!identity) {
+          const em = requestEm()
           identity = await identityFor(em, await em.findOne(User, { id: sessionUser }))
           if (identity) cache.set(key, version, identity)
         }

@@ -43,14 +43,31 @@ describe('service routes', () => {
 })
 
 describe('security headers', () => {
-  it('sends a Content-Security-Policy that allows no inline script', async () => {
-    const res = await request(t.app).get('/api/health')
+  it('sends pages a Content-Security-Policy that allows no inline script', async () => {
+    const res = await request(t.app).get('/api/docs/')
+    expect(res.headers['content-type']).toMatch(/text\/html/)
     const csp = res.headers['content-security-policy'] as string
     const scriptSrc = csp.split(';').find((d) => d.trim().startsWith('script-src'))!
     expect(scriptSrc.trim()).toBe("script-src 'self'")
     expect(csp).toContain("object-src 'none'")
+    expect(csp).toContain("frame-ancestors 'self'")
     expect(res.headers['x-content-type-options']).toBe('nosniff')
+    expect(res.headers['x-frame-options']).toBe('SAMEORIGIN')
     expect(res.headers['x-powered-by']).toBeUndefined()
+  })
+
+  // OWASP REST Security Cheat Sheet, "Security headers": an API answer needs no document policy,
+  // only one that forbids rendering, framing and sniffing it.
+  it('sends API answers a policy under which nothing in them can run or be framed', async () => {
+    for (const path of ['/api/health', '/api/nothing-here']) {
+      const res = await request(t.app).get(path)
+      expect(res.headers['content-security-policy']).toBe(
+        "default-src 'none';frame-ancestors 'none'",
+      )
+      expect(res.headers['x-content-type-options']).toBe('nosniff')
+      expect(res.headers['cross-origin-resource-policy']).toBe('same-origin')
+      expect(res.headers['x-powered-by']).toBeUndefined()
+    }
   })
 })
 

@@ -1,11 +1,13 @@
 /**
  * GET /api/datasets (page of 50, sorted) with 10,000 datasets, 50 concurrent connections on
  * loopback. The server runs in its own process (server/main.ts, as in production); the load comes
- * from autocannon in this one. Prints p50/p95/p99 latency and requests per second.
+ * from wrk (or autocannon in this one). Prints p50/p95/p99 latency, requests per second and the
+ * server's CPU time per request. BENCH_PATH loads another route the same way (e.g. /api/health,
+ * to see what the middleware alone costs).
  */
 import { execFile, spawn } from 'node:child_process'
 import { promisify } from 'node:util'
-import { mkdtempSync, rmSync } from 'node:fs'
+import { mkdtempSync, readFileSync, rmSync } from 'node:fs'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
 import autocannon from 'autocannon'
@@ -104,7 +106,9 @@ async function autocannonLoad(
   }
 }
 
-async function startServer(dataDir: string): Promise<{ url: string; stop: () => void }> {
+async function startServer(
+  dataDir: string,
+): Promise<{ url: string; pid: number | undefined; stop: () => void }> {
   const child = spawn(
     process.execPath,
     [
@@ -134,7 +138,17 @@ async function startServer(dataDir: string): Promise<{ url: string; stop: () => 
     })
     child.once('exit', (code) => reject(new Error(`server exited with ${code}`)))
   })
-  return { url, stop: () => child.kill('SIGTERM') }
+  return { url, pid: child.pid, stop: () => child.kill('SIGTERM') }
+}
+
+/** CPU seconds (user + system) a process has used so far, from /proc on Linux; null elsewhere. */
+function cpuSeconds(pid: number | undefined): number | null {
+  try {
+    const fields = readFileSync(`/proc/${pid}/stat`, 'utf8').split(') ')[1]!.split(' ')
+    return (Number(fields[11]) + Number(fields[12])) / 100 // utime, stime in clock ticks (USER_HZ)
+  } catch {
+    return null
+  }
 }
 
 export async function benchDatasetList() {
@@ -144,22 +158,30 @@ export async function benchDatasetList() {
   await orm.close()
   const server = await startServer(dataDir)
   try {
-    const path = '/api/datasets?limit=50&offset=0&sort=-updatedAt'
+    const path = process.env.BENCH_PATH ?? '/api/datasets?limit=50&offset=0&sort=-updatedAt'
     const headers = { authorization: `Bearer ${token}` }
     const probe = await fetch(server.url + path, { headers })
     const body = (await probe.json()) as { total: number; items: unknown[] }
-    if (probe.status !== 200 || body.items.length !== 50)
+    if (probe.status !== 200 || (body.items?.length ?? 50) !== 50)
       throw new Error(`unexpected answer ${probe.status}`)
 
     const load = (await hasWrk()) ? wrkLoad : autocannonLoad
     await load(server.url + path, headers.authorization, 3) // warm-up
+    const cpuBefore = cpuSeconds(server.pid)
     const result = await load(server.url + path, headers.authorization, DURATION_S)
+    const cpuAfter = cpuSeconds(server.pid)
+    // Latency swings with whatever else the machine runs; server CPU per request is steadier.
+    const serverCpuUsPerRequest =
+      cpuBefore === null || cpuAfter === null
+        ? null
+        : Math.round(((cpuAfter - cpuBefore) * 1e6) / result.requests)
     return {
       datasets: DATASETS,
       visibleToUser: body.total,
       connections: CONNECTIONS,
       durationS: DURATION_S,
       ...result,
+      serverCpuUsPerRequest,
       targetP95ms: 30,
     }
   } finally {

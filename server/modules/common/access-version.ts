@@ -30,6 +30,11 @@ export class AccessVersionReader {
         : new Database(dbPath, { readonly: true, fileMustExist: true }).prepare(SQL)
   }
 
+  /** The version without a promise, when this reader has its own connection; otherwise null. */
+  readNow(): number | null {
+    return this.statement ? (this.statement.get()?.value ?? 0) : null
+  }
+
   async read(): Promise<number> {
     if (!this.statement) return readAccessVersion(this.em())
     return this.statement.get()?.value ?? 0

@@ -100,15 +100,20 @@ export class DatasetCatalogue {
     Map<string, { where: ObjectQuery<IDataset>; key: string } | null>
   >()
 
-  async list(em: EntityManager, actor: Actor, q: ListDatasetsParams): Promise<Page<DatasetDto>> {
+  /** `em` is asked for only when the page is not cached. */
+  async list(
+    em: () => EntityManager,
+    actor: Actor,
+    q: ListDatasetsParams,
+  ): Promise<Page<DatasetDto>> {
     const filter = this.filterFor(actor, q)
     if (filter === null) return { items: [], total: 0 }
-    const version = actor.accessVersion ?? (await readAccessVersion(em))
+    const version = actor.accessVersion ?? (await readAccessVersion(em()))
     const pageKey = `${filter.key}|${q.sort}|${q.limit}|${q.offset}`
     const cached = this.pages.get(pageKey, version)
     if (cached) return cached
     // MikroORM rewrites the filter objects it is given; the memoised one must stay intact.
-    const page = await this.read(em, structuredClone(filter.where), filter.key, version, q)
+    const page = await this.read(em(), structuredClone(filter.where), filter.key, version, q)
     this.pages.set(pageKey, version, page)
     return page
   }

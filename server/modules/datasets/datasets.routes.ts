@@ -35,7 +35,7 @@ export function datasetsRouter(deps: AppDeps): Router {
   // Pages come back from the catalogue's cache as the same objects; encode each one once.
   const encoded = new WeakMap<object, Buffer>()
   router.get('/', async (req, res) => {
-    const page = await catalogue.list(em(), req, parseQuery(listDatasetsQuerySchema, req))
+    const page = await catalogue.list(em, req, parseQuery(listDatasetsQuerySchema, req))
     let body = encoded.get(page)
     if (!body) encoded.set(page, (body = Buffer.from(JSON.stringify(page))))
     res.type('application/json').send(body)
