@@ -4,7 +4,8 @@ import { mkdtempSync, readdirSync, readFileSync, writeFileSync } from 'node:fs'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
 import request from 'supertest'
-import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { Readable } from 'node:stream'
+import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest'
 import { AuditEvent } from '@server/modules/audit/audit-event.entity'
 import { DatasetFile } from '@server/modules/files/dataset-file.entity'
 import { HashingFileStore } from '@server/modules/uploads/hashing-file-store'
@@ -53,6 +54,30 @@ const upload = (
   metadata: Record<string, string>,
   options: Parameters<typeof tusUpload>[4] = {},
 ) => tusUpload(endpoint(), token, data, metadata, options)
+/** A bare tus creation request (POST) for the draft; returns the upload's path. */
+async function createUpload(filename: string, size: number): Promise<string> {
+  const meta = (v: string) => Buffer.from(v).toString('base64')
+  const created = await request(live.url)
+    .post('/api/uploads')
+    .set(bearer(token))
+    .set('Tus-Resumable', '1.0.0')
+    .set('Upload-Length', String(size))
+    .set('Upload-Metadata', `dataset ${meta(draft.accession)},filename ${meta(filename)}`)
+  expect(created.status).toBe(201)
+  return created.headers.location as string
+}
+/** A PATCH from offset 0 written by hand, for bodies tus-js-client would never send. */
+const rawPatch = (path: string, headers: Record<string, string> = {}) =>
+  httpRequest(`${live.url}${path}`, {
+    method: 'PATCH',
+    headers: {
+      ...bearer(token),
+      'tus-resumable': '1.0.0',
+      'upload-offset': '0',
+      'content-type': 'application/offset+octet-stream',
+      ...headers,
+    },
+  })
 const fileRow = (id: string | null) => t.em().findOneOrFail(DatasetFile, { id: Number(id) })
 
 describe('resumable uploads with tus-js-client (the protocol’s reference client)', () => {
@@ -278,28 +303,10 @@ describe('resumable uploads with tus-js-client (the protocol’s reference clien
 
   it('keeps the bytes of a PATCH whose client vanished mid-body, and the checksum stays right on resumption', async () => {
     const data = randomBytes(5 * 1024 * 1024 + 5)
-    const created = await request(live.url)
-      .post('/api/uploads')
-      .set(bearer(token))
-      .set('Tus-Resumable', '1.0.0')
-      .set('Upload-Length', String(data.length))
-      .set(
-        'Upload-Metadata',
-        `dataset ${Buffer.from(draft.accession).toString('base64')},filename ${Buffer.from('vanished.bin').toString('base64')}`,
-      )
-    const path = created.headers.location as string
+    const path = await createUpload('vanished.bin', data.length)
     // Declares the whole body, sends 4.5 MiB (more than one of the store’s 4 MiB blocks), then cuts the socket.
     await new Promise<void>((resolve) => {
-      const req = httpRequest(`${live.url}${path}`, {
-        method: 'PATCH',
-        headers: {
-          ...bearer(token),
-          'tus-resumable': '1.0.0',
-          'upload-offset': '0',
-          'content-type': 'application/offset+octet-stream',
-          'content-length': String(data.length),
-        },
-      })
+      const req = rawPatch(path, { 'content-length': String(data.length) })
       req.on('error', () => resolve())
       req.write(data.subarray(0, 4.5 * 1024 * 1024), () => setTimeout(() => req.destroy(), 200))
     })
@@ -322,5 +329,40 @@ describe('resumable uploads with tus-js-client (the protocol’s reference clien
       .send(data.subarray(offset))
     expect(finish.status).toBe(204)
     expect((await fileRow(finish.headers['stipple-file-id'] ?? null)).sha256).toBe(sha256(data))
+  })
+
+  it('writes PATCH bodies straight from the Node request, with no web-stream round trip', async () => {
+    const toWeb = vi.spyOn(Readable, 'toWeb')
+    const fromWeb = vi.spyOn(Readable, 'fromWeb')
+    try {
+      const data = randomBytes(2 * 1024 * 1024 + 3)
+      const res = await upload(data, { dataset: draft.accession, filename: 'direct.bin' })
+      expect(res.status).toBe(204)
+      expect((await fileRow(res.fileId)).sha256).toBe(sha256(data))
+      expect(toWeb).not.toHaveBeenCalled()
+      expect(fromWeb).not.toHaveBeenCalled()
+    } finally {
+      toWeb.mockRestore()
+      fromWeb.mockRestore()
+    }
+  })
+
+  it('answers 413 to a chunked PATCH longer than the upload, keeping no byte past its end', async () => {
+    const size = 1024 * 1024
+    const path = await createUpload('overlong.bin', size)
+    // No Content-Length, so only the streamed count can tell the body is too long.
+    const status = await new Promise<number>((resolve, reject) => {
+      const req = rawPatch(path)
+      req.on('response', (res) => {
+        res.resume()
+        resolve(res.statusCode ?? 0)
+      })
+      req.on('error', reject)
+      req.end(randomBytes(size + 256 * 1024))
+    })
+    expect(status).toBe(413)
+    const head = await request(live.url).head(path).set(bearer(token)).set('Tus-Resumable', '1.0.0')
+    expect(Number(head.headers['upload-offset'])).toBeLessThanOrEqual(size)
+    expect(await t.em().count(DatasetFile, { name: 'overlong.bin' })).toBe(0)
   })
 })

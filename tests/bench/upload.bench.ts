@@ -5,7 +5,7 @@
  */
 import { execFile, spawn } from 'node:child_process'
 import { createHash } from 'node:crypto'
-import { createReadStream, createWriteStream, mkdtempSync, rmSync } from 'node:fs'
+import { createReadStream, createWriteStream, mkdtempSync, readFileSync, rmSync } from 'node:fs'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
 import { writeFile } from 'node:fs/promises'
@@ -64,7 +64,7 @@ async function uploadSeconds(
   token: string,
   source: string,
   round: number,
-): Promise<number> {
+): Promise<{ seconds: number; clientCpuSeconds: number }> {
   const script = `
     import { createReadStream } from 'node:fs'
     import { Upload } from 'tus-js-client'
@@ -74,7 +74,10 @@ async function uploadSeconds(
       endpoint: ${JSON.stringify(`${url}/api/uploads`)}, headers: { Authorization: 'Bearer ${token}' },
       metadata: { dataset: 'STPL-000005', filename: 'bench-${round}.bin' }, uploadSize: ${BYTES}, chunkSize: 256 * 1024 * 1024,
       fileReader: fileSlices,
-      onSuccess: () => { console.log('SECONDS', (performance.now() - started) / 1000) },
+      onSuccess: () => {
+        const cpu = process.cpuUsage()
+        console.log('SECONDS', (performance.now() - started) / 1000, (cpu.user + cpu.system) / 1e6)
+      },
       onError: (e) => { console.error(String(e)); process.exit(1) },
     }).start()`
   const child = spawn(process.execPath, ['--import', 'tsx', '--input-type=module', '-e', script], {
@@ -83,9 +86,32 @@ async function uploadSeconds(
   let out = ''
   child.stdout.on('data', (d: Buffer) => (out += d.toString()))
   await new Promise((r) => child.once('exit', r))
-  const m = /SECONDS (\S+)/.exec(out)
+  const m = /SECONDS (\S+) (\S+)/.exec(out)
   if (!m) throw new Error(`upload failed: ${out}`)
-  return Number(m[1])
+  return { seconds: Number(m[1]), clientCpuSeconds: Number(m[2]) }
+}
+
+/**
+ * Waits until the server has been all but idle for a second (the demo's own files are processed
+ * by jobs right after start, and each upload queues its inspection), so a round measures the
+ * upload alone.
+ */
+async function serverIdle(pid: number | undefined): Promise<void> {
+  for (let tries = 0; tries < 120; tries++) {
+    const before = cpuSeconds(pid)
+    await new Promise((r) => setTimeout(r, 1000))
+    if (!(cpuSeconds(pid) - before > 0.05)) return
+  }
+}
+
+/** CPU seconds (user + system) a process has used so far, from /proc on Linux; NaN elsewhere. */
+function cpuSeconds(pid: number | undefined): number {
+  try {
+    const fields = readFileSync(`/proc/${pid}/stat`, 'utf8').split(') ')[1]!.split(' ')
+    return (Number(fields[11]) + Number(fields[12])) / 100 // utime, stime in clock ticks (USER_HZ)
+  } catch {
+    return NaN
+  }
 }
 
 export async function benchUpload(): Promise<Record<string, unknown>> {
@@ -112,11 +138,18 @@ export async function benchUpload(): Promise<Record<string, unknown>> {
     // upload take turns, three rounds, and the medians are compared.
     const dds: number[] = []
     const uploads: number[] = []
+    const serverCpu: number[] = []
+    const clientCpu: number[] = []
     for (let round = 0; round < ROUNDS; round++) {
       dds.push(await ddSeconds(dir))
       // A different first byte each round, or the dataset would refuse the copy as a duplicate.
       await writeFile(source, Buffer.from([round]), { flag: 'r+' })
-      uploads.push(await uploadSeconds(server.url, token, source, round))
+      await serverIdle(server.child?.pid)
+      const cpuBefore = cpuSeconds(server.child?.pid)
+      const upload = await uploadSeconds(server.url, token, source, round)
+      serverCpu.push(cpuSeconds(server.child?.pid) - cpuBefore)
+      uploads.push(upload.seconds)
+      clientCpu.push(upload.clientCpuSeconds)
     }
     const res = await fetch(`${server.url}/api/datasets/STPL-000005/files`, {
       headers: { authorization: `Bearer ${token}` },
@@ -133,6 +166,9 @@ export async function benchUpload(): Promise<Record<string, unknown>> {
       ddMBps: Math.round(ddMBps),
       uploadSeconds: uploads.map((x) => x.toFixed(2)).join(' / '),
       uploadMBps: Math.round(uploadMBps),
+      // Where the two cores go: CPU seconds (user + system) of each side per upload.
+      serverCpuSeconds: serverCpu.map((x) => x.toFixed(1)).join(' / '),
+      clientCpuSeconds: clientCpu.map((x) => x.toFixed(1)).join(' / '),
       ratio: Number((uploadMBps / ddMBps).toFixed(2)),
       target: '≥ 0.80',
       sha256Matches: stored?.sha256 === expected,

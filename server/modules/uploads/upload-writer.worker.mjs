@@ -1,7 +1,8 @@
 // Writes upload bytes to their files and keeps each upload's running SHA-256, in a thread of its
-// own: the request thread only gathers the network's small packets into blocks of a few MB and
-// hands them over (transferred, not copied). Messages are handled one at a time, in arrival order,
-// so the bytes on disk are always a prefix of the upload and the hash covers exactly that prefix.
+// own: the request thread only gathers the network's small packets into blocks of a few MB in a
+// pool of memory both threads share, and names the block to write. Messages are handled one at a
+// time, in arrival order, so the bytes on disk are always a prefix of the upload and the hash
+// covers exactly that prefix.
 import { createHash } from 'node:crypto'
 import { closeSync, createReadStream, openSync, write as writeAsync } from 'node:fs'
 import { promisify } from 'node:util'
@@ -9,6 +10,8 @@ import { parentPort } from 'node:worker_threads'
 
 /** Running state per upload id: its hash, and the file while a request is writing to it. */
 const uploads = new Map()
+/** The shared block pool (a SharedArrayBuffer), as the request thread last announced it. */
+let pool = null
 
 async function rehash(id, path, length) {
   const hash = createHash('sha256')
@@ -42,13 +45,16 @@ async function write(m) {
   const upload = uploads.get(m.id)
   if (!upload) throw new Error(`no running hash for upload ${m.id}`)
   if (upload.fd == null) upload.fd = openSync(m.path, 'r+')
-  const bytes = new Uint8Array(m.data)
+  const bytes = new Uint8Array(pool, m.offset, m.length)
   const written = writeAll(upload.fd, bytes, m.position)
   upload.hash.update(bytes)
   await written
 }
 
 const handlers = {
+  pool: (m) => {
+    pool = m.buffer
+  },
   rehash: (m) => rehash(m.id, m.path, m.length),
   write,
   close: (m) => closeFile(m.id),
@@ -67,12 +73,10 @@ const handlers = {
 let queue = Promise.resolve()
 parentPort.on('message', (m) => {
   queue = queue.then(async () => {
-    const bytes = m.data?.byteLength
+    const bytes = m.op === 'write' ? m.length : undefined
     try {
       const reply = (await handlers[m.op](m)) ?? {}
-      // A written block goes back to the request thread to be filled again (no garbage to collect).
-      if (m.data) parentPort.postMessage({ seq: m.seq, bytes, data: m.data, ...reply }, [m.data])
-      else parentPort.postMessage({ seq: m.seq, bytes, ...reply })
+      parentPort.postMessage({ seq: m.seq, bytes, ...reply })
     } catch (err) {
       // A failed write leaves the file and the hash out of step: the next request rehashes.
       closeFile(m.id)

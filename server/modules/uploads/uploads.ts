@@ -12,6 +12,7 @@ import type { LocalStorage } from '../../storage/local-storage'
 import { audit } from '../audit/audit.service'
 import { registerUpload, storageKeyFor } from '../files/file-registry.service'
 import { HashingFileStore } from './hashing-file-store'
+import { handleWithNodeBody } from './node-body'
 import { refuse } from './upload-errors'
 import { checkQuota, uploadName, uploadTarget } from './upload-policy'
 import { UploadReservation } from './upload-reservation.entity'
@@ -128,6 +129,8 @@ export function createUploads(deps: {
     void em().nativeDelete(UploadReservation, { uploadId: id })
   })
 
+  const handle = handleWithNodeBody(tus)
+
   return {
     store,
     handler: (req, res) => {
@@ -140,7 +143,7 @@ export function createUploads(deps: {
         res.once('finish', first as () => void)
         return end()
       }) as typeof res.end
-      void tus.handle(req, res)
+      void handle(req, res)
     },
     async expire() {
       const removed = await store.deleteExpired()

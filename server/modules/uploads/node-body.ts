@@ -1,0 +1,95 @@
+import type { IncomingMessage, ServerResponse } from 'node:http'
+import { PassThrough, Readable } from 'node:stream'
+import { pipeline } from 'node:stream/promises'
+import {
+  type CancellationContext,
+  ERRORS,
+  EVENTS,
+  type Server,
+  StreamLimiter,
+  type Upload,
+} from '@tus/server'
+import { NodeRequest, sendNodeResponse } from 'srvx/node'
+
+/**
+ * tus (2.x) handles a web Request: the Node request body becomes a web ReadableStream
+ * (Readable.toWeb) and, to be written, a Node stream again (Readable.fromWeb). For an upload of
+ * gigabytes those two conversions cost more CPU than hashing the bytes, on a machine where the
+ * client, the server and the hash share two cores. Here the Node request itself stands in as the
+ * body and the PATCH and POST handlers write it straight to the store; everything else (headers,
+ * offsets, locking, hooks, responses) is tus's own.
+ */
+export function handleWithNodeBody(tus: Server) {
+  for (const handler of [tus.handlers.PATCH, tus.handlers.POST]) {
+    const webWrite = handler['writeToStore'].bind(handler)
+    Object.assign(handler, {
+      writeToStore(
+        body: ReadableStream | Readable | null,
+        upload: Upload,
+        maxFileSize: number,
+        context: CancellationContext,
+      ): Promise<number> {
+        // A progress listener (POST_RECEIVE) is tus's business; leave that path to it.
+        if (!(body instanceof Readable) || handler.listenerCount(EVENTS.POST_RECEIVE) > 0)
+          return webWrite(
+            body instanceof Readable ? (Readable.toWeb(body) as ReadableStream) : body,
+            upload,
+            maxFileSize,
+            context,
+          )
+        return writeNodeBody(handler.store, body, upload, maxFileSize, context)
+      },
+    })
+  }
+  // As Server.handle does, with the Node request as the body (read only when a handler asks).
+  return async (req: IncomingMessage, res: ServerResponse): Promise<void> => {
+    const request = new NodeRequest({ req, res })
+    Object.defineProperty(request, 'body', {
+      get: () => (req.method === 'GET' || req.method === 'HEAD' ? null : req),
+    })
+    const response = await (tus as unknown as { handler(r: Request): Promise<Response> }).handler(
+      request as unknown as Request,
+    )
+    await sendNodeResponse(res, response)
+  }
+}
+
+/**
+ * tus's BaseHandler.writeToStore with the Node request as the source. As there, the request is
+ * piped through a proxy, so a failed write or an over-size body ends the write without destroying
+ * the request (the client then reads a proper answer instead of a dropped connection).
+ */
+async function writeNodeBody(
+  store: Server['datastore'],
+  source: Readable,
+  upload: Upload,
+  maxFileSize: number,
+  context: CancellationContext,
+): Promise<number> {
+  if (context.signal.aborted) throw ERRORS.ABORTED
+  const proxy = new PassThrough({ highWaterMark: 1 << 20 })
+  let sourceError: unknown
+  const onSourceError = (error: unknown) => {
+    sourceError = error
+    source.unpipe(proxy)
+    if (!context.signal.aborted) proxy.destroy(error as Error)
+  }
+  source.on('error', onSourceError)
+  const onAbort = () => {
+    source.unpipe(proxy)
+    if (!proxy.destroyed) proxy.end()
+  }
+  context.signal.addEventListener('abort', onAbort, { once: true })
+  try {
+    return await pipeline(source.pipe(proxy), new StreamLimiter(maxFileSize), (limited) =>
+      store.write(limited as Readable, upload.id, upload.offset),
+    )
+  } catch (error) {
+    source.unpipe(proxy)
+    const aborted = error instanceof Error && error.name === 'AbortError'
+    throw (sourceError !== undefined && error === sourceError) || aborted ? ERRORS.ABORTED : error
+  } finally {
+    source.off('error', onSourceError)
+    context.signal.removeEventListener('abort', onAbort)
+  }
+}
