@@ -1,5 +1,5 @@
 import type { EntityManager } from '@mikro-orm/better-sqlite'
-import type { RequestHandler } from 'express'
+import type { Request, RequestHandler } from 'express'
 import { defineAbilityFor, type AppAbility } from '@shared/permissions/abilities'
 import type { Viewer } from '@shared/permissions/viewer'
 import { UnauthorizedError } from '../errors/http-error'
@@ -10,6 +10,8 @@ import { User, type IUser } from '../modules/users/user.entity'
 import { loadViewer } from '../modules/users/viewer.service'
 import { requestEm } from './request-context'
 import { VersionedCache } from './versioned-cache'
+
+type AuthMethod = Request['authMethod']
 
 /** Who is signed in: a snapshot of their user row, safe to keep beyond one request. */
 export type CurrentUser = Pick<IUser, 'id' | 'email' | 'name' | 'siteRole' | 'organization'>
@@ -100,52 +102,90 @@ async function tokenIdentity(
 export function authenticate(accessVersion: AccessVersionReader): RequestHandler {
   const cache = new VersionedCache<Identity | null>(5000)
   const publicAbility = { second: -1, value: defineAbilityFor(null) }
-  return async (req, _res, next) => {
-    const now = Date.now()
-    const version = accessVersion.readNow() ?? (await accessVersion.read())
-    req.accessVersion = version
-    req.authMethod = null
-    let identity: Identity | null = null
-    const header = req.get('authorization')
-    const sessionUser = req.session?.userId
-    if (header !== undefined || sessionUser) {
-      if (header !== undefined) {
-        const match = /^Bearer\s+(\S+)$/i.exec(header)
-        if (!match?.[1])
-          throw new UnauthorizedError('The Authorization header must be "Bearer <token>".')
-        const key = `token:${hashToken(match[1])}`
-        identity = cache.get(key, version) ?? null
-        if (!identity) {
-          identity = await tokenIdentity(requestEm(), key.slice(6), now)
-          if (identity) cache.set(key, version, identity)
-        }
-        if (!identity || (identity.expiresAt != null && identity.expiresAt <= now)) {
-          throw new UnauthorizedError('That token is unknown, revoked or expired.')
-        }
-        if (now - (identity.lastUsedWrite ?? 0) > LAST_USED_RESOLUTION_MS) {
-          identity.lastUsedWrite = now
-          await requestEm().nativeUpdate(
-            ApiToken,
-            { id: identity.tokenId },
-            { lastUsedAt: new Date(now) },
-          )
-        }
-        req.authMethod = 'token'
-      } else if (sessionUser) {
-        const key = `session:${sessionUser}`
-        identity = cache.get(key, version) ?? null
-        if (!identity) {
-          const em = requestEm()
-          identity = await identityFor(em, await em.findOne(User, { id: sessionUser }))
-          if (identity) cache.set(key, version, identity)
-        }
-        if (identity) req.authMethod = 'session'
-      }
-    }
+  const bearerKey = (header: string) => {
+    const match = /^Bearer\s+(\S+)$/i.exec(header)
+    if (!match?.[1])
+      throw new UnauthorizedError('The Authorization header must be "Bearer <token>".')
+    return `token:${hashToken(match[1])}`
+  }
+  const usable = (identity: Identity | null | undefined, now: number): identity is Identity => {
+    if (!identity || (identity.expiresAt != null && identity.expiresAt <= now))
+      throw new UnauthorizedError('That token is unknown, revoked or expired.')
+    return true
+  }
+  const settle = (req: Request, identity: Identity | null, method: AuthMethod, now: number) => {
+    req.authMethod = identity ? method : null
     req.user = identity?.user ?? null
     req.viewer = identity?.viewer ?? null
     req.ability = abilityAt(identity, now, publicAbility)
-    next()
+  }
+
+  /** The answer from the cache alone, or undefined when the database must be asked. */
+  const fromCache = (req: Request, version: number, now: number) => {
+    const header = req.get('authorization')
+    if (header !== undefined) {
+      const identity = cache.get(bearerKey(header), version)
+      if (identity === undefined || identity === null) return undefined
+      if (!usable(identity, now) || now - (identity.lastUsedWrite ?? 0) > LAST_USED_RESOLUTION_MS)
+        return undefined
+      return { identity, method: 'token' as const }
+    }
+    const sessionUser = req.session?.userId
+    if (!sessionUser) return { identity: null, method: null }
+    const identity = cache.get(`session:${sessionUser}`, version)
+    return identity ? { identity, method: 'session' as const } : undefined
+  }
+
+  const fromDatabase = async (req: Request, version: number, now: number) => {
+    const header = req.get('authorization')
+    if (header !== undefined) {
+      const key = bearerKey(header)
+      let identity = cache.get(key, version) ?? null
+      if (!identity) {
+        identity = await tokenIdentity(requestEm(), key.slice(6), now)
+        if (identity) cache.set(key, version, identity)
+      }
+      usable(identity, now)
+      if (now - (identity!.lastUsedWrite ?? 0) > LAST_USED_RESOLUTION_MS) {
+        identity!.lastUsedWrite = now
+        await requestEm().nativeUpdate(
+          ApiToken,
+          { id: identity!.tokenId },
+          { lastUsedAt: new Date(now) },
+        )
+      }
+      return settle(req, identity, 'token', now)
+    }
+    const sessionUser = req.session?.userId
+    let identity: Identity | null = null
+    if (sessionUser) {
+      const key = `session:${sessionUser}`
+      identity = cache.get(key, version) ?? null
+      if (!identity) {
+        const em = requestEm()
+        identity = await identityFor(em, await em.findOne(User, { id: sessionUser }))
+        if (identity) cache.set(key, version, identity)
+      }
+    }
+    settle(req, identity, 'session', now)
+  }
+
+  // Most requests are answered from the cache; they stay synchronous (no promise, no extra turn).
+  return (req, _res, next) => {
+    const now = Date.now()
+    const version = accessVersion.readNow()
+    const cached = version === null ? undefined : fromCache(req, version, now)
+    if (cached) {
+      req.accessVersion = version!
+      settle(req, cached.identity, cached.method, now)
+      return next()
+    }
+    return (async () => {
+      const current = version ?? (await accessVersion.read())
+      req.accessVersion = current
+      await fromDatabase(req, current, now)
+      next()
+    })()
   }
 }
 

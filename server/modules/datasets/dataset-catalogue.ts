@@ -100,6 +100,14 @@ export class DatasetCatalogue {
     Map<string, { where: ObjectQuery<IDataset>; key: string } | null>
   >()
 
+  /** A page from the cache, without waiting for anything; undefined when it must be read. */
+  cached(actor: Actor, q: ListDatasetsParams): Page<DatasetDto> | undefined {
+    const filter = this.filterFor(actor, q)
+    if (filter === null) return { items: [], total: 0 }
+    if (actor.accessVersion === undefined) return undefined
+    return this.pages.get(this.pageKey(filter.key, q), actor.accessVersion)
+  }
+
   /** `em` is asked for only when the page is not cached. */
   async list(
     em: () => EntityManager,
@@ -109,13 +117,17 @@ export class DatasetCatalogue {
     const filter = this.filterFor(actor, q)
     if (filter === null) return { items: [], total: 0 }
     const version = actor.accessVersion ?? (await readAccessVersion(em()))
-    const pageKey = `${filter.key}|${q.sort}|${q.limit}|${q.offset}`
+    const pageKey = this.pageKey(filter.key, q)
     const cached = this.pages.get(pageKey, version)
     if (cached) return cached
     // MikroORM rewrites the filter objects it is given; the memoised one must stay intact.
     const page = await this.read(em(), structuredClone(filter.where), filter.key, version, q)
     this.pages.set(pageKey, version, page)
     return page
+  }
+
+  private pageKey(filterKey: string, q: ListDatasetsParams) {
+    return `${filterKey}|${q.sort}|${q.limit}|${q.offset}`
   }
 
   private filterFor(actor: Actor, q: ListDatasetsParams) {
