@@ -93,6 +93,14 @@ async function tokenIdentity(
   })
 }
 
+function assertUsable(identity: Identity | null, now: number): asserts identity is Identity {
+  if (!identity || (identity.expiresAt != null && identity.expiresAt <= now))
+    throw new UnauthorizedError('That token is unknown, revoked or expired.')
+}
+
+const lastUseDue = (identity: Identity, now: number) =>
+  now - (identity.lastUsedWrite ?? 0) > LAST_USED_RESOLUTION_MS
+
 /**
  * Works out who is asking: a bearer token wins over the session cookie. Sets req.user, req.viewer
  * and req.ability (the shared CASL abilities); anonymous requests get the public abilities.
@@ -108,11 +116,6 @@ export function authenticate(accessVersion: AccessVersionReader): RequestHandler
       throw new UnauthorizedError('The Authorization header must be "Bearer <token>".')
     return `token:${hashToken(match[1])}`
   }
-  const usable = (identity: Identity | null | undefined, now: number): identity is Identity => {
-    if (!identity || (identity.expiresAt != null && identity.expiresAt <= now))
-      throw new UnauthorizedError('That token is unknown, revoked or expired.')
-    return true
-  }
   const settle = (req: Request, identity: Identity | null, method: AuthMethod, now: number) => {
     req.authMethod = identity ? method : null
     req.user = identity?.user ?? null
@@ -125,10 +128,9 @@ export function authenticate(accessVersion: AccessVersionReader): RequestHandler
     const header = req.get('authorization')
     if (header !== undefined) {
       const identity = cache.get(bearerKey(header), version)
-      if (identity === undefined || identity === null) return undefined
-      if (!usable(identity, now) || now - (identity.lastUsedWrite ?? 0) > LAST_USED_RESOLUTION_MS)
-        return undefined
-      return { identity, method: 'token' as const }
+      if (!identity) return undefined
+      assertUsable(identity, now)
+      return lastUseDue(identity, now) ? undefined : { identity, method: 'token' as const }
     }
     const sessionUser = req.session?.userId
     if (!sessionUser) return { identity: null, method: null }
@@ -145,12 +147,12 @@ export function authenticate(accessVersion: AccessVersionReader): RequestHandler
         identity = await tokenIdentity(requestEm(), key.slice(6), now)
         if (identity) cache.set(key, version, identity)
       }
-      usable(identity, now)
-      if (now - (identity!.lastUsedWrite ?? 0) > LAST_USED_RESOLUTION_MS) {
-        identity!.lastUsedWrite = now
+      assertUsable(identity, now)
+      if (lastUseDue(identity, now)) {
+        identity.lastUsedWrite = now
         await requestEm().nativeUpdate(
           ApiToken,
-          { id: identity!.tokenId },
+          { id: identity.tokenId },
           { lastUsedAt: new Date(now) },
         )
       }

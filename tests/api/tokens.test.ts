@@ -1,6 +1,6 @@
 import request from 'supertest'
 import { createHash } from 'node:crypto'
-import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest'
 import { ApiToken } from '@server/modules/tokens/api-token.entity'
 import { bearer, buildMember, tokenFor } from '../fixtures/builders'
 import { createTestApp, type TestApp } from '../fixtures/test-app'
@@ -61,6 +61,23 @@ describe('personal access tokens', () => {
       { expiresAt: new Date(Date.now() - 1000) },
     )
     expect((await request(t.app).get('/api/me').set(bearer(created.body.token))).status).toBe(401)
+  })
+
+  it('stops accepting a token the moment it expires, though its identity is cached', async () => {
+    const created = await request(t.app)
+      .post('/api/me/tokens')
+      .set(bearer(token))
+      .send({ name: 'Cached', expiresInDays: 1 })
+    expect((await request(t.app).get('/api/me').set(bearer(created.body.token))).status).toBe(200)
+    // Nothing in the database changes: only the clock passes the expiry.
+    vi.useFakeTimers({ toFake: ['Date'], now: Date.now() + 2 * 86_400_000 })
+    try {
+      const res = await request(t.app).get('/api/me').set(bearer(created.body.token))
+      expect(res.status).toBe(401)
+      expect(res.body.detail).toMatch(/unknown, revoked or expired/)
+    } finally {
+      vi.useRealTimers()
+    }
   })
 
   it('answers a malformed Authorization header with 401', async () => {
