@@ -3,7 +3,7 @@ import type http from 'node:http'
 import type { Readable } from 'node:stream'
 import { pipeline } from 'node:stream/promises'
 import { FileStore } from '@tus/file-store'
-import { ERRORS } from '@tus/server'
+import { ERRORS, type Upload } from '@tus/server'
 import { UploadWriterThread } from './upload-writer-thread'
 
 /**
@@ -16,6 +16,8 @@ export class HashingFileStore extends FileStore {
   private readonly hashes = new UploadWriterThread()
   /** How far each running hash has got. */
   private readonly hashedTo = new Map<string, number>()
+  /** Uploads registered in the request still being answered (their tus record is gone). */
+  private readonly finished = new Map<string, Upload>()
 
   private resolvePath(id: string): string {
     return `${this.directory}/${id}`
@@ -65,6 +67,24 @@ export class HashingFileStore extends FileStore {
     const sha256 = await this.hashes.digest(id)
     if (!sha256) throw new Error(`No running hash for upload ${id}`)
     return { sha256, size }
+  }
+
+  override async getUpload(id: string): Promise<Upload> {
+    try {
+      return await super.getUpload(id)
+    } catch (err) {
+      const done = this.finished.get(id)
+      if (done) return done
+      throw err
+    }
+  }
+
+  rememberFinished(upload: Upload): void {
+    this.finished.set(upload.id, upload)
+  }
+
+  forgetFinished(id: string): void {
+    this.finished.delete(id)
   }
 
   forget(id: string): void {

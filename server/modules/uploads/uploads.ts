@@ -3,7 +3,7 @@ import { createReadStream, existsSync } from 'node:fs'
 import { readdir } from 'node:fs/promises'
 import type { IncomingMessage } from 'node:http'
 import type { EntityManager } from '@mikro-orm/better-sqlite'
-import { Server, type Upload } from '@tus/server'
+import { Server, Upload } from '@tus/server'
 import type { Request, RequestHandler } from 'express'
 import type { Orm } from '../../db'
 import type { AppConfig } from '../../config'
@@ -117,6 +117,11 @@ export function createUploads(deps: {
         store.configstore.delete(upload.id),
       )
       deps.onRegistered?.()
+      // A creation-with-upload POST reads the upload once more after this hook, to decide on
+      // Upload-Expires; the record is gone by then, so the store answers from memory until the
+      // response is out.
+      store.rememberFinished(new Upload({ ...upload, offset: size }))
+      r.res?.once('close', () => store.forgetFinished(upload.id))
       return {
         headers: { 'Stipple-File-Id': file.id, 'Stipple-File-Name': encodeURIComponent(file.name) },
       }
