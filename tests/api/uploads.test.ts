@@ -387,4 +387,19 @@ describe('resumable uploads with tus-js-client (the protocol’s reference clien
       .set('Tus-Resumable', '1.0.0')
     expect(head.status).toBe(404)
   })
+
+  it('offers exactly the tus extensions it keeps (no deferred length: quotas need the size)', async () => {
+    const res = await request(live.url)
+      .options('/api/uploads')
+      .set(bearer(token))
+      .set('Tus-Resumable', '1.0.0')
+    expect(res.status).toBe(204)
+    expect(res.headers['tus-version']).toBe('1.0.0')
+    expect(String(res.headers['tus-extension']).split(',').sort()).toEqual([
+      'creation',
+      'creation-with-upload',
+      'expiration',
+      'termination',
+    ])
+  })
 })

@@ -19,6 +19,13 @@ export class HashingFileStore extends FileStore {
   /** Uploads registered in the request still being answered (their tus record is gone). */
   private readonly finished = new Map<string, Upload>()
 
+  constructor(options: ConstructorParameters<typeof FileStore>[0]) {
+    super(options)
+    // Quota and registration need the size up front, so a deferred length is refused (400);
+    // the OPTIONS answer must not offer it either.
+    this.extensions = this.extensions.filter((e) => e !== 'creation-defer-length')
+  }
+
   private resolvePath(id: string): string {
     return `${this.directory}/${id}`
   }
