@@ -4,7 +4,6 @@ import { pipeline } from 'node:stream/promises'
 import {
   type CancellationContext,
   ERRORS,
-  EVENTS,
   type Server,
   StreamLimiter,
   type Upload,
@@ -20,25 +19,16 @@ import { NodeRequest, sendNodeResponse } from 'srvx/node'
  * offsets, locking, hooks, responses) is tus's own.
  */
 export function handleWithNodeBody(tus: Server) {
+  // This path emits no POST_RECEIVE progress events; nothing here listens for them.
   for (const handler of [tus.handlers.PATCH, tus.handlers.POST]) {
-    const webWrite = handler['writeToStore'].bind(handler)
     Object.assign(handler, {
-      writeToStore(
-        body: ReadableStream | Readable | null,
+      writeToStore: (
+        body: Readable | null,
         upload: Upload,
         maxFileSize: number,
         context: CancellationContext,
-      ): Promise<number> {
-        // A progress listener (POST_RECEIVE) is tus's business; leave that path to it.
-        if (!(body instanceof Readable) || handler.listenerCount(EVENTS.POST_RECEIVE) > 0)
-          return webWrite(
-            body instanceof Readable ? (Readable.toWeb(body) as ReadableStream) : body,
-            upload,
-            maxFileSize,
-            context,
-          )
-        return writeNodeBody(handler.store, body, upload, maxFileSize, context)
-      },
+      ): Promise<number> =>
+        writeNodeBody(handler.store, body ?? Readable.from([]), upload, maxFileSize, context),
     })
   }
   // As Server.handle does, with the Node request as the body (read only when a handler asks).
