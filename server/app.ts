@@ -3,6 +3,7 @@ import { fileURLToPath } from 'node:url'
 import express, { type Express } from 'express'
 import session from 'express-session'
 import type Provider from 'oidc-provider'
+import type { Locker } from '@tus/server'
 import swaggerUi from 'swagger-ui-express'
 import { authenticate, requireUser } from './http/authenticate'
 import { sameOriginWrites } from './http/csrf'
@@ -16,7 +17,7 @@ import type { RelyingParty } from './modules/auth/relying-party'
 import { datasetsRouter } from './modules/datasets/datasets.routes'
 import type { DemoAccount } from './modules/idp/accounts'
 import { interactionRouter } from './modules/idp/interaction.routes'
-import type { MailCatcher } from './modules/mail/mail-catcher'
+import type { Mailbox } from './modules/mail/mail-catcher'
 import { caughtMailRouter } from './modules/mail/mail.routes'
 import { projectsRouter } from './modules/projects/projects.routes'
 import { OrmSessionStore } from './modules/sessions/session-store'
@@ -33,7 +34,10 @@ export interface CreateAppOptions extends Omit<AppDeps, 'storage'> {
   relyingParty: RelyingParty
   /** The stand-in identity provider, mounted at /oidc and /idp when no real one is configured. */
   localIdp?: { provider: Provider; accounts: DemoAccount[] }
-  mailCatcher?: MailCatcher
+  /** Demo mode: where the caught-mail page reads from. */
+  mailbox?: Mailbox
+  /** Upload locks shared by all HTTP workers (server/cluster); in-process when omitted. */
+  uploadLocker?: Locker
   /** The built client (vite build); omitted in API tests. */
   clientDir?: string
 }
@@ -99,7 +103,11 @@ export function createApp(appOptions: CreateAppOptions): Express {
   app.use('/auth', authRouter(options, options.relyingParty))
 
   // tus reads the raw request stream, so uploads are mounted before any body parser.
-  const uploads = createUploads({ ...options, onRegistered: () => options.jobs?.notify() })
+  const uploads = createUploads({
+    ...options,
+    locker: options.uploadLocker,
+    onRegistered: () => options.jobs?.notify(),
+  })
   app.locals.uploads = uploads
   app.all(`${UPLOADS_PATH}{/*rest}`, requireUser, uploads.handler)
 
@@ -123,8 +131,7 @@ export function createApp(appOptions: CreateAppOptions): Express {
   api.use('/audit', auditRouter())
   api.use('/instrument-profiles', instrumentProfilesRouter())
   api.use(metadataRouter())
-  if (config.demo && options.mailCatcher)
-    api.use('/dev/mail', caughtMailRouter(options.mailCatcher))
+  if (config.demo && options.mailbox) api.use('/dev/mail', caughtMailRouter(options.mailbox))
   api.use(apiNotFound)
   app.use('/api', api)
 

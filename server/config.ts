@@ -39,6 +39,11 @@ const envSchema = z.object({
     .default(2 * 1024 ** 4),
   /** Unfinished uploads untouched this long are deleted and their space freed. */
   UPLOAD_EXPIRY_HOURS: z.coerce.number().positive().default(48),
+  /**
+   * Processes that serve HTTP (node:cluster); more than one puts every core to work on requests,
+   * while one primary process runs the jobs, the mail catcher and the upkeep.
+   */
+  WEB_CONCURRENCY: z.coerce.number().int().min(1).max(64).default(1),
   /** Worker threads for heavy jobs (ingest, raw-stack scans). */
   JOB_WORKERS: z.coerce.number().int().min(1).max(16).default(1),
 })
@@ -61,6 +66,7 @@ export interface AppConfig {
   logLevel: 'silent' | 'error' | 'info' | 'debug'
   uploads: { maxBytes: number; projectQuotaBytes: number; expiryMs: number }
   jobWorkers: number
+  httpWorkers: number
 }
 
 /** Secrets the server makes for itself on first start, kept in the data directory (never in git). */
@@ -147,5 +153,6 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): AppConfig {
       expiryMs: e.UPLOAD_EXPIRY_HOURS * 3600_000,
     },
     jobWorkers: e.JOB_WORKERS,
+    httpWorkers: e.WEB_CONCURRENCY,
   }
 }

@@ -4,19 +4,17 @@ import type { Express } from 'express'
 import { createApp } from './app'
 import type { AppConfig } from './config'
 import { loadLocalSecrets } from './config'
-import { openDatabase, refreshPlannerStatistics, type Orm } from './db'
+import type { Locker } from '@tus/server'
+import { openBackground } from './background'
+import { openDatabase, type Orm } from './db'
 import { createLogger, type Logger } from './logger'
 import { createRelyingParty } from './modules/auth/relying-party'
 import { loadAccounts, type DemoAccount } from './modules/idp/accounts'
 import { createLocalProvider } from './modules/idp/local-provider'
-import { pruneOidcPayloads } from './modules/idp/oidc-adapter'
-import { startMailCatcher, type MailCatcher } from './modules/mail/mail-catcher'
+import type { Mailbox, MailCatcher } from './modules/mail/mail-catcher'
 import { createMailer } from './modules/mail/mailer'
-import { OrmSessionStore } from './modules/sessions/session-store'
 import { DEMO_DIR } from './paths'
-import { seedDemo } from './seeders/demo.seeder'
-import { JobRunner } from './jobs/job-runner'
-import { fileJobCompletions } from './modules/files/file-jobs.completions'
+import type { JobRunner } from './jobs/job-runner'
 import type { Uploads } from './modules/uploads/uploads'
 import { LocalStorage } from './storage/local-storage'
 
@@ -29,8 +27,25 @@ export interface RunningStipple {
   logger: Logger
   mailCatcher: MailCatcher | null
   accounts: DemoAccount[]
-  jobs: JobRunner
+  /** Null in an HTTP worker: the primary runs the jobs. */
+  jobs: JobRunner | null
   stop(): Promise<void>
+}
+
+/**
+ * What an HTTP worker of a multi-process Stipple (server/cluster) uses from the primary instead
+ * of running it itself: the job runner, the caught mail and the upload locks.
+ */
+export interface PrimaryLink {
+  jobs: { notify(): void }
+  mailbox: Mailbox | null
+  uploadLocker: Locker
+}
+
+export interface StartOptions {
+  clientDir?: string
+  /** Set in an HTTP worker: the demo data, mail catcher, jobs and upkeep are the primary's. */
+  primary?: PrimaryLink
 }
 
 const listen = (server: Server, port: number, host: string) =>
@@ -46,7 +61,7 @@ const listen = (server: Server, port: number, host: string) =>
  */
 export async function startStipple(
   config: AppConfig,
-  options: { clientDir?: string } = {},
+  options: StartOptions = {},
 ): Promise<RunningStipple> {
   const logger = createLogger(config.logLevel)
   // Requests that arrive while Stipple starts wait for it rather than get an error: a resumable
@@ -78,22 +93,20 @@ export async function startStipple(
 async function startOn(
   server: Server,
   config: AppConfig,
-  options: { clientDir?: string },
+  options: StartOptions,
   logger: Logger,
 ): Promise<RunningStipple> {
   const { port } = server.address() as AddressInfo
   // With port 0 the operating system picks the port, so the public URL is only known now.
   const publicUrl = config.port === 0 ? `http://${config.host}:${port}` : config.publicUrl
   const cfg: AppConfig = { ...config, port, publicUrl }
+  const { primary } = options
 
   const orm = await openDatabase(cfg.dbPath)
+  const storage = new LocalStorage(cfg.dataDir)
   const accounts = cfg.demo || cfg.oidc.local ? loadAccounts(`${DEMO_DIR}/accounts.json`) : []
-  if (cfg.demo) {
-    const { created } = await seedDemo(orm.em.fork(), DEMO_DIR)
-    if (created) logger.info({ created }, 'demo data seeded')
-  }
-  const mailCatcher = cfg.demo ? await startMailCatcher() : null
-  const smtpUrl = mailCatcher?.url ?? cfg.smtpUrl
+  const background = primary ? null : await openBackground({ config: cfg, orm, logger, storage })
+  const smtpUrl = background?.mailCatcher?.url ?? cfg.smtpUrl
   const mailer = smtpUrl
     ? createMailer(smtpUrl, cfg.mailFrom, logger)
     : {
@@ -117,13 +130,6 @@ async function startOn(
         }),
       }
     : undefined
-  const storage = new LocalStorage(cfg.dataDir)
-  const jobs = new JobRunner({
-    orm,
-    logger,
-    workers: cfg.jobWorkers,
-    completions: fileJobCompletions(storage),
-  })
   const relyingParty = createRelyingParty({
     issuer,
     clientId: cfg.oidc.clientId,
@@ -137,26 +143,14 @@ async function startOn(
     logger,
     relyingParty,
     localIdp,
-    mailCatcher: mailCatcher ?? undefined,
+    mailbox: primary ? (primary.mailbox ?? undefined) : (background?.mailCatcher ?? undefined),
     clientDir: options.clientDir,
     storage,
-    jobs,
+    jobs: primary?.jobs ?? background!.jobs,
+    uploadLocker: primary?.uploadLocker,
   })
   const uploads = app.locals.uploads as Uploads
-  const completed = await uploads.reconcile()
-  if (completed) logger.info({ completed }, 'interrupted uploads registered')
-  jobs.start()
-
-  const sessions = new OrmSessionStore(orm)
-  const hourly = () =>
-    Promise.all([
-      sessions.prune(),
-      pruneOidcPayloads(orm),
-      refreshPlannerStatistics(orm),
-      uploads.expire(),
-    ]).catch((err: unknown) => logger.error({ err }, 'hourly upkeep failed'))
-  const pruning = setInterval(() => void hourly(), 3600_000)
-  pruning.unref()
+  await background?.begin(uploads)
 
   return {
     url: publicUrl,
@@ -165,19 +159,17 @@ async function startOn(
     orm,
     config: cfg,
     logger,
-    mailCatcher,
+    mailCatcher: background?.mailCatcher ?? null,
     accounts,
-    jobs,
+    jobs: background?.jobs ?? null,
     async stop() {
-      clearInterval(pruning)
-      await jobs.stop()
       // Finish the requests in flight, then close; stragglers are cut after a grace period.
       const closed = new Promise<void>((resolve) => server.close(() => resolve()))
       server.closeIdleConnections()
       const force = setTimeout(() => server.closeAllConnections(), 5000)
       await closed
       clearTimeout(force)
-      await mailCatcher?.stop()
+      await background?.stop()
       await uploads.close()
       ;(app.locals.close as () => void)()
       await orm.close()

@@ -1,5 +1,4 @@
 import { Router, type Request, type Response } from 'express'
-import { rateLimit } from 'express-rate-limit'
 import * as oidc from 'openid-client'
 import { requestEm as em } from '../../http/request-context'
 import { escapeHtml, renderPage } from '../../http/html-page'
@@ -7,6 +6,7 @@ import type { AppDeps } from '../../services'
 import { audit } from '../audit/audit.service'
 import { userFromClaims } from '../users/users.service'
 import type { RelyingParty } from './relying-party'
+import { perMinuteLimit } from '../../http/rate-limit'
 
 /** Only paths on our own site may be a destination after sign-in (no open redirects). */
 export function safeReturnTo(value: unknown): string {
@@ -34,12 +34,7 @@ const destroy = (req: Request) => new Promise<void>((ok) => req.session.destroy(
 
 export function authRouter(deps: AppDeps, rp: RelyingParty): Router {
   const router = Router()
-  const limiter = rateLimit({
-    windowMs: 60_000,
-    limit: deps.config.rateLimitSignIn,
-    standardHeaders: 'draft-8',
-    legacyHeaders: false,
-  })
+  const limiter = perMinuteLimit('auth-login', deps.config.rateLimitSignIn)
 
   router.get('/login', limiter, async (req, res) => {
     const config = await rp.configuration()

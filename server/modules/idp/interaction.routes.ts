@@ -1,8 +1,8 @@
 import express, { Router, type Request, type Response } from 'express'
-import { rateLimit } from 'express-rate-limit'
 import type Provider from 'oidc-provider'
 import { escapeHtml, renderPage } from '../../http/html-page'
 import { checkPassword, type DemoAccount } from './accounts'
+import { perMinuteLimit } from '../../http/rate-limit'
 
 function loginPage(uid: string, options: { login?: string; error?: string; demo: boolean }) {
   const error = options.error
@@ -48,12 +48,7 @@ export function interactionRouter(
 ): Router {
   const router = Router()
   const byEmail = new Map(accounts.map((a) => [a.email, a]))
-  const limiter = rateLimit({
-    windowMs: 60_000,
-    limit: signInLimit,
-    standardHeaders: 'draft-8',
-    legacyHeaders: false,
-  })
+  const limiter = perMinuteLimit('idp-sign-in', signInLimit)
   const noStore = (_req: Request, res: Response, next: () => void) => {
     res.set('cache-control', 'no-store')
     next()

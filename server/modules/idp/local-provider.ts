@@ -1,11 +1,9 @@
-import { existsSync, readFileSync, writeFileSync } from 'node:fs'
-import { join } from 'node:path'
-import { exportJWK, generateKeyPair, type JWK } from 'jose'
 import Provider, { type Configuration, type KoaContextWithOIDC } from 'oidc-provider'
 import { escapeHtml, renderPage } from '../../http/html-page'
 import type { Orm } from '../../db'
 import type { DemoAccount } from './accounts'
 import { sqliteAdapter } from './oidc-adapter'
+import { signingKey } from './signing-key'
 
 export interface LocalProviderOptions {
   issuer: string
@@ -17,21 +15,6 @@ export interface LocalProviderOptions {
   cookieKeys: string[]
   /** Where the provider keeps its sessions, interactions, grants and codes. */
   orm: Orm
-}
-
-/** The provider's signing key, made once and kept in the data directory. */
-async function signingKey(dataDir: string): Promise<JWK> {
-  const file = join(dataDir, 'idp-signing-key.json')
-  if (existsSync(file)) return JSON.parse(readFileSync(file, 'utf8')) as JWK
-  const { privateKey } = await generateKeyPair('RS256', { extractable: true })
-  const jwk = {
-    ...(await exportJWK(privateKey)),
-    kid: `stipple-${Date.now()}`,
-    alg: 'RS256',
-    use: 'sig',
-  }
-  writeFileSync(file, JSON.stringify(jwk), { mode: 0o600 })
-  return jwk
 }
 
 function setPage(ctx: KoaContextWithOIDC, title: string, body: string, scripts: string[] = []) {

@@ -6,7 +6,12 @@ import type { CaughtMailDto as CaughtMail } from '@shared/schemas/audit.schema'
 
 export type { CaughtMail }
 
-export interface MailCatcher {
+/** What the caught-mail page reads: the catcher itself, or (in an HTTP worker) the primary's. */
+export interface Mailbox {
+  list(): Promise<CaughtMail[]>
+}
+
+export interface MailCatcher extends Mailbox {
   url: string
   messages: CaughtMail[]
   stop(): Promise<void>
@@ -44,6 +49,7 @@ export async function startMailCatcher(): Promise<MailCatcher> {
   return {
     url: `smtp://127.0.0.1:${port}?ignoreTLS=true`,
     messages,
+    list: () => Promise.resolve(messages),
     stop: () => new Promise<void>((resolve) => server.close(() => resolve())),
   }
 }

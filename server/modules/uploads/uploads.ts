@@ -3,7 +3,7 @@ import { createReadStream, existsSync } from 'node:fs'
 import { readdir } from 'node:fs/promises'
 import type { IncomingMessage } from 'node:http'
 import type { EntityManager } from '@mikro-orm/better-sqlite'
-import { Server, Upload } from '@tus/server'
+import { Server, Upload, type Locker } from '@tus/server'
 import type { Request, RequestHandler } from 'express'
 import type { Orm } from '../../db'
 import type { AppConfig } from '../../config'
@@ -48,6 +48,8 @@ export function createUploads(deps: {
   logger: Logger
   storage: LocalStorage
   onRegistered?: () => void
+  /** Where upload locks live; tus's in-process MemoryLocker unless several processes serve HTTP. */
+  locker?: Locker
 }): Uploads {
   const { orm, config, storage } = deps
   const store = new HashingFileStore({
@@ -66,6 +68,7 @@ export function createUploads(deps: {
   const tus = new Server({
     path: UPLOADS_PATH,
     datastore: store,
+    locker: deps.locker,
     relativeLocation: true,
     respectForwardedHeaders: config.trustProxy > 0,
     maxSize: config.uploads.maxBytes,

@@ -1,5 +1,4 @@
 import { Router } from 'express'
-import { rateLimit } from 'express-rate-limit'
 import { z } from 'zod'
 import { idSchema } from '@shared/schemas/common.schema'
 import { createTokenSchema } from '@shared/schemas/token.schema'
@@ -14,15 +13,11 @@ import { Organization } from '../organizations/organization.entity'
 import { accessibleWhere } from '../../http/access'
 import type { IApiToken } from '../tokens/api-token.entity'
 import { createToken, listTokens, revokeToken } from '../tokens/tokens.service'
+import { perMinuteLimit } from '../../http/rate-limit'
 
 export function meRouter(deps: AppDeps): Router {
   const router = Router()
-  const tokenLimit = rateLimit({
-    windowMs: 60_000,
-    limit: deps.config.rateLimitSignIn,
-    standardHeaders: 'draft-8',
-    legacyHeaders: false,
-  })
+  const tokenLimit = perMinuteLimit('token-create', deps.config.rateLimitSignIn)
 
   router.get('/', async (req, res) => {
     const user = req.user

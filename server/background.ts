@@ -1,0 +1,73 @@
+import type { AppConfig } from './config'
+import type { Orm } from './db'
+import { refreshPlannerStatistics } from './db'
+import { JobRunner } from './jobs/job-runner'
+import type { Logger } from './logger'
+import { fileJobCompletions } from './modules/files/file-jobs.completions'
+import { pruneOidcPayloads } from './modules/idp/oidc-adapter'
+import { startMailCatcher, type MailCatcher } from './modules/mail/mail-catcher'
+import { OrmSessionStore } from './modules/sessions/session-store'
+import type { Uploads } from './modules/uploads/uploads'
+import { DEMO_DIR } from './paths'
+import { seedDemo } from './seeders/demo.seeder'
+import type { LocalStorage } from './storage/local-storage'
+
+export interface Background {
+  /** Demo mode: the local SMTP server every process sends to. */
+  mailCatcher: MailCatcher | null
+  jobs: JobRunner
+  /** Finishes interrupted uploads, then starts the jobs and the hourly upkeep. */
+  begin(uploads: Pick<Uploads, 'reconcile' | 'expire'>): Promise<void>
+  stop(): Promise<void>
+}
+
+/**
+ * The work one process does for the whole server: demo data, the mail catcher, the job runner,
+ * registering uploads a crash interrupted, and the hourly upkeep. A single-process Stipple runs
+ * it beside its HTTP server; with several HTTP workers the primary runs it (server/cluster).
+ */
+export async function openBackground(deps: {
+  config: AppConfig
+  orm: Orm
+  logger: Logger
+  storage: LocalStorage
+}): Promise<Background> {
+  const { config, orm, logger, storage } = deps
+  if (config.demo) {
+    const { created } = await seedDemo(orm.em.fork(), DEMO_DIR)
+    if (created) logger.info({ created }, 'demo data seeded')
+  }
+  const mailCatcher = config.demo ? await startMailCatcher() : null
+  const jobs = new JobRunner({
+    orm,
+    logger,
+    workers: config.jobWorkers,
+    completions: fileJobCompletions(storage),
+  })
+  let upkeep: NodeJS.Timeout | null = null
+
+  return {
+    mailCatcher,
+    jobs,
+    async begin(uploads) {
+      const completed = await uploads.reconcile()
+      if (completed) logger.info({ completed }, 'interrupted uploads registered')
+      jobs.start()
+      const sessions = new OrmSessionStore(orm)
+      const hourly = () =>
+        Promise.all([
+          sessions.prune(),
+          pruneOidcPayloads(orm),
+          refreshPlannerStatistics(orm),
+          uploads.expire(),
+        ]).catch((err: unknown) => logger.error({ err }, 'hourly upkeep failed'))
+      upkeep = setInterval(() => void hourly(), 3600_000)
+      upkeep.unref()
+    },
+    async stop() {
+      if (upkeep) clearInterval(upkeep)
+      await jobs.stop()
+      await mailCatcher?.stop()
+    },
+  }
+}

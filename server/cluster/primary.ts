@@ -1,0 +1,138 @@
+import cluster, { type Worker } from 'node:cluster'
+import { ClusterMemoryStorePrimary } from '@express-rate-limit/cluster-memory-store'
+import { openBackground } from '../background'
+import type { AppConfig } from '../config'
+import { openDatabase } from '../db'
+import { createLogger, type Logger } from '../logger'
+import { loadAccounts, type DemoAccount } from '../modules/idp/accounts'
+import { signingKey } from '../modules/idp/signing-key'
+import { createUploads } from '../modules/uploads/uploads'
+import { DEMO_DIR } from '../paths'
+import { LocalStorage } from '../storage/local-storage'
+import { LockBroker } from './lock-broker'
+import { isStippleMessage, type ToPrimary, type ToWorker } from './messages'
+
+export interface RunningPrimary {
+  url: string
+  config: AppConfig
+  logger: Logger
+  accounts: DemoAccount[]
+  /** The HTTP workers' process ids, as they are now. */
+  workerPids(): number[]
+  stop(): Promise<void>
+}
+
+/** More exits than this within a minute means the workers cannot run; the primary gives up. */
+const CRASHES_PER_MINUTE = 5
+const STOP_GRACE_MS = 10_000
+
+function sendTo(worker: Worker | undefined, message: ToWorker) {
+  if (worker?.isConnected()) worker.send(message)
+}
+
+/**
+ * The primary of a multi-process Stipple (WEB_CONCURRENCY > 1). It prepares what must exist
+ * once (migrations, demo data, the identity provider's key), runs the background work (jobs,
+ * mail catcher, upkeep), holds the upload locks and the rate-limit counts for all workers, and
+ * keeps config.httpWorkers HTTP workers running, starting a new one when one dies. It serves no
+ * HTTP itself; node:cluster hands each new connection to a worker in turn.
+ */
+export async function startPrimary(config: AppConfig): Promise<RunningPrimary> {
+  const logger = createLogger(config.logLevel)
+  const orm = await openDatabase(config.dbPath)
+  const storage = new LocalStorage(config.dataDir)
+  const accounts = config.demo || config.oidc.local ? loadAccounts(`${DEMO_DIR}/accounts.json`) : []
+  if (config.oidc.local) await signingKey(config.dataDir)
+  const background = await openBackground({ config, orm, logger, storage })
+  const uploads = createUploads({
+    orm,
+    config,
+    logger,
+    storage,
+    onRegistered: () => background.jobs.notify(),
+  })
+  await background.begin(uploads)
+
+  new ClusterMemoryStorePrimary().init()
+  const broker = new LockBroker((owner, message) => sendTo(cluster.workers?.[owner], message))
+  cluster.on('message', (worker, message: unknown) => {
+    if (!isStippleMessage<ToPrimary>(message) || broker.handle(worker.id, message)) return
+    if (message.stipple === 'jobs-notify') background.jobs.notify()
+    else if (message.stipple === 'mail-list')
+      sendTo(worker, {
+        stipple: 'mail-list',
+        ask: message.ask,
+        items: background.mailCatcher?.messages ?? [],
+      })
+  })
+
+  // Workers read the environment as the primary did; they send mail to the primary's catcher.
+  const workerEnv = background.mailCatcher ? { SMTP_URL: background.mailCatcher.url } : {}
+  let stopping = false
+  const exits: number[] = []
+  const everyoneListening = new Promise<string>((resolve, reject) => {
+    const listening = new Set<number>()
+    cluster.on('message', (worker, message: unknown) => {
+      if (!isStippleMessage<ToPrimary>(message) || message.stipple !== 'listening') return
+      listening.add(worker.id)
+      if (listening.size === config.httpWorkers) resolve(message.url)
+    })
+    cluster.on('exit', (worker, code, signal) => {
+      broker.forgetWorker(worker.id)
+      if (stopping) return
+      if (listening.size < config.httpWorkers && !listening.has(worker.id))
+        return reject(new Error(`An HTTP worker could not start (exit code ${code}).`))
+      const now = Date.now()
+      exits.push(now)
+      while (exits[0]! < now - 60_000) exits.shift()
+      logger.error({ pid: worker.process.pid, code, signal }, 'an HTTP worker stopped')
+      if (exits.length > CRASHES_PER_MINUTE) {
+        logger.error({ exits: exits.length }, 'HTTP workers keep stopping; Stipple shuts down')
+        void stop().then(() => process.exit(1))
+        return
+      }
+      listening.delete(worker.id)
+      cluster.fork(workerEnv)
+    })
+  })
+  for (let i = 0; i < config.httpWorkers; i++) cluster.fork(workerEnv)
+
+  async function stop() {
+    if (stopping) return
+    stopping = true
+    const workers = Object.values(cluster.workers ?? {}).filter((w): w is Worker => !!w)
+    await Promise.all(
+      workers.map(
+        (w) =>
+          new Promise<void>((resolve) => {
+            if (w.isDead()) return resolve()
+            // A worker finishes its requests in flight on SIGTERM (server/main.ts); it is cut
+            // short only after the grace period.
+            const force = setTimeout(() => w.process.kill('SIGKILL'), STOP_GRACE_MS)
+            w.once('exit', () => (clearTimeout(force), resolve()))
+            w.process.kill('SIGTERM')
+          }),
+      ),
+    )
+    await background.stop()
+    await uploads.close()
+    await orm.close()
+  }
+
+  let url: string
+  try {
+    url = await everyoneListening
+  } catch (err) {
+    await stop()
+    throw err
+  }
+  return {
+    url,
+    config,
+    logger,
+    accounts,
+    workerPids: () =>
+      Object.values(cluster.workers ?? {}).flatMap((w) => (w?.process.pid ? [w.process.pid] : [])),
+    stop,
+  }
+}
