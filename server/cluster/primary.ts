@@ -72,16 +72,20 @@ export async function startPrimary(config: AppConfig): Promise<RunningPrimary> {
   const exits: number[] = []
   const everyoneListening = new Promise<string>((resolve, reject) => {
     const listening = new Set<number>()
+    let started = false
     cluster.on('message', (worker, message: unknown) => {
       if (!isStippleMessage<ToPrimary>(message) || message.stipple !== 'listening') return
       listening.add(worker.id)
-      if (listening.size === config.httpWorkers) resolve(message.url)
+      if (!started && listening.size === config.httpWorkers) {
+        started = true
+        resolve(message.url)
+      }
     })
     cluster.on('exit', (worker, code, signal) => {
       broker.forgetWorker(worker.id)
       if (stopping) return
-      if (listening.size < config.httpWorkers && !listening.has(worker.id))
-        return reject(new Error(`An HTTP worker could not start (exit code ${code}).`))
+      // At start-up a worker that cannot start means Stipple cannot; later, it is replaced.
+      if (!started) return reject(new Error(`An HTTP worker could not start (exit code ${code}).`))
       const now = Date.now()
       exits.push(now)
       while (exits[0]! < now - 60_000) exits.shift()
@@ -95,6 +99,10 @@ export async function startPrimary(config: AppConfig): Promise<RunningPrimary> {
       cluster.fork(workerEnv)
     })
   })
+  // With a worker per core, V8's parallel and concurrent GC threads can only take time from the
+  // other workers (measured here with two workers: 383–398 µs of CPU per list request instead of
+  // 414–505, p95 25–27 ms instead of 26–31), so each worker collects on its own thread.
+  cluster.setupPrimary({ execArgv: [...process.execArgv, '--single-threaded-gc'] })
   for (let i = 0; i < config.httpWorkers; i++) cluster.fork(workerEnv)
 
   async function stop() {

@@ -9,7 +9,7 @@ import { execFile } from 'node:child_process'
 import { createHash, randomBytes } from 'node:crypto'
 import { request as httpRequest, type IncomingMessage } from 'node:http'
 import { mkdtempSync, readdirSync, readFileSync, readlinkSync, rmSync } from 'node:fs'
-import { connect, type Socket } from 'node:net'
+import { connect, createServer, type Socket } from 'node:net'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
 import { promisify } from 'node:util'
@@ -323,5 +323,23 @@ describe('Stipple with two HTTP worker processes', () => {
     server.child!.kill('SIGTERM')
     expect(await exit).toBe(0)
     for (const pid of pids) expect(() => process.kill(pid, 0)).toThrow()
+  })
+})
+
+describe('a multi-process Stipple that cannot start', () => {
+  it('exits with a clear error when its port is taken', async () => {
+    const taken = createServer()
+    const port = await freePort()
+    await new Promise<void>((r) => taken.listen(port, '127.0.0.1', r))
+    const blocked = new ServerProcess(port, {
+      DATA_DIR: join(dir, 'blocked'),
+      DEMO: 'false',
+      WEB_CONCURRENCY: '2',
+    })
+    try {
+      await expect(blocked.start()).rejects.toThrow(/EADDRINUSE[\s\S]*could not start/)
+    } finally {
+      taken.close()
+    }
   })
 })
