@@ -17,8 +17,6 @@ export interface RunningPrimary {
   config: AppConfig
   logger: Logger
   accounts: DemoAccount[]
-  /** The HTTP workers' process ids, as they are now. */
-  workerPids(): number[]
   stop(): Promise<void>
 }
 
@@ -139,8 +137,6 @@ export async function startPrimary(config: AppConfig): Promise<RunningPrimary> {
     config,
     logger,
     accounts,
-    workerPids: () =>
-      Object.values(cluster.workers ?? {}).flatMap((w) => (w?.process.pid ? [w.process.pid] : [])),
     stop,
   }
 }
