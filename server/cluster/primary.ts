@@ -53,6 +53,16 @@ export async function startPrimary(config: AppConfig): Promise<RunningPrimary> {
 
   new ClusterMemoryStorePrimary().init()
   const broker = new LockBroker((owner, message) => sendTo(cluster.workers?.[owner], message))
+  const listening = new Set<number>()
+  let started = false
+  let stopping = false
+  let ready!: (url: string) => void
+  let failed!: (err: Error) => void
+  const everyoneListening = new Promise<string>((resolve, reject) => {
+    ready = resolve
+    failed = reject
+  })
+
   cluster.on('message', (worker, message: unknown) => {
     if (!isStippleMessage<ToPrimary>(message) || broker.handle(worker.id, message)) return
     if (message.stipple === 'jobs-notify') background.jobs.notify()
@@ -62,40 +72,33 @@ export async function startPrimary(config: AppConfig): Promise<RunningPrimary> {
         ask: message.ask,
         items: background.mailCatcher?.messages ?? [],
       })
+    else if (message.stipple === 'listening' && !started) {
+      listening.add(worker.id)
+      if (listening.size === config.httpWorkers) {
+        started = true
+        ready(message.url)
+      }
+    }
   })
 
   // Workers read the environment as the primary did; they send mail to the primary's catcher.
   const workerEnv = background.mailCatcher ? { SMTP_URL: background.mailCatcher.url } : {}
-  let stopping = false
   const exits: number[] = []
-  const everyoneListening = new Promise<string>((resolve, reject) => {
-    const listening = new Set<number>()
-    let started = false
-    cluster.on('message', (worker, message: unknown) => {
-      if (!isStippleMessage<ToPrimary>(message) || message.stipple !== 'listening') return
-      listening.add(worker.id)
-      if (!started && listening.size === config.httpWorkers) {
-        started = true
-        resolve(message.url)
-      }
-    })
-    cluster.on('exit', (worker, code, signal) => {
-      broker.forgetWorker(worker.id)
-      if (stopping) return
-      // At start-up a worker that cannot start means Stipple cannot; later, it is replaced.
-      if (!started) return reject(new Error(`An HTTP worker could not start (exit code ${code}).`))
-      const now = Date.now()
-      exits.push(now)
-      while (exits[0]! < now - 60_000) exits.shift()
-      logger.error({ pid: worker.process.pid, code, signal }, 'an HTTP worker stopped')
-      if (exits.length > CRASHES_PER_MINUTE) {
-        logger.error({ exits: exits.length }, 'HTTP workers keep stopping; Stipple shuts down')
-        void stop().then(() => process.exit(1))
-        return
-      }
-      listening.delete(worker.id)
-      cluster.fork(workerEnv)
-    })
+  cluster.on('exit', (worker, code, signal) => {
+    broker.forgetWorker(worker.id)
+    if (stopping) return
+    // At start-up a worker that cannot start means Stipple cannot; later, it is replaced.
+    if (!started) return failed(new Error(`An HTTP worker could not start (exit code ${code}).`))
+    const now = Date.now()
+    exits.push(now)
+    while (exits[0]! < now - 60_000) exits.shift()
+    logger.error({ pid: worker.process.pid, code, signal }, 'an HTTP worker stopped')
+    if (exits.length > CRASHES_PER_MINUTE) {
+      logger.error({ exits: exits.length }, 'HTTP workers keep stopping; Stipple shuts down')
+      void stop().then(() => process.exit(1))
+      return
+    }
+    cluster.fork(workerEnv)
   })
   // With a worker per core, V8's parallel and concurrent GC threads can only take time from the
   // other workers (measured here with two workers: 383–398 µs of CPU per list request instead of
