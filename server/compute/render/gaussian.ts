@@ -1,0 +1,153 @@
+/**
+ * Gaussian render (DOMAIN §1.11): each localization is a normalized 2D Gaussian integrated over
+ * every pixel with erf (not sampled at pixel centres), truncated at ±`truncateSigmas`·σ and
+ * renormalized, so a localization whose kernel lies inside the view adds exactly 1 to the image.
+ * The 2D kernel is the outer product of two 1D rows of pixel weights.
+ *
+ * Edges: localizations just outside the view still draw the part of their kernel that falls inside
+ * (tiles then join without seams), and the part of an inside localization's kernel beyond the view
+ * is lost; `renderGaussianDetailed` reports both, so
+ * sum(image) = inside − weightLeavingView + weightEnteringView.
+ */
+import type { Localizations, NumericColumn } from '../localizations.types'
+import { fillAxisWeights, type AxisWindow } from './gaussian-weights'
+import { resolveSigmas, type GaussianOptions, type SigmaPlan } from './gaussian-options'
+import { blankImage, RowFilter, type RenderView } from './render-view'
+import type { ValueImage } from './histogram'
+
+export interface GaussianRender {
+  image: Float32Array
+  /** Localizations passing the filter with their centre inside the view. */
+  inside: number
+  /** Kernels that put weight in the view (inside ones and outside neighbours). */
+  drawn: number
+  /** Weight of inside localizations' kernels falling beyond the view. */
+  weightLeavingView: number
+  /** Weight of outside localizations' kernels falling into the view. */
+  weightEnteringView: number
+  /** Rows whose σ was raised to minSigmaPx or lowered to maxSigmaPx. */
+  sigmaClamped: number
+}
+
+export function renderGaussian(
+  locs: Localizations,
+  view: RenderView,
+  options: GaussianOptions = {},
+): Float32Array {
+  return renderGaussianDetailed(locs, view, options).image
+}
+
+export function renderGaussianDetailed(
+  locs: Localizations,
+  view: RenderView,
+  options: GaussianOptions = {},
+): GaussianRender {
+  const result = emptyResult(view)
+  if (result.image.length > 0) drawKernels(locs, view, options, result, null, null)
+  return result
+}
+
+/**
+ * Gaussian density and, per pixel, the kernel-weighted mean of `value` (z or frame); rows whose
+ * value is not finite are left out of both.
+ */
+export function renderGaussianValue(
+  locs: Localizations,
+  view: RenderView,
+  value: NumericColumn,
+  options: GaussianOptions = {},
+): ValueImage {
+  const result = emptyResult(view)
+  const sums = new Float64Array(result.image.length)
+  if (result.image.length > 0) drawKernels(locs, view, options, result, value, sums)
+  const density = result.image
+  const mean = new Float32Array(density.length)
+  for (let p = 0; p < density.length; p++) mean[p] = density[p]! > 0 ? sums[p]! / density[p]! : NaN
+  return { density, mean }
+}
+
+function emptyResult(view: RenderView): GaussianRender {
+  return {
+    image: blankImage(view),
+    inside: 0,
+    drawn: 0,
+    weightLeavingView: 0,
+    weightEnteringView: 0,
+    sigmaClamped: 0,
+  }
+}
+
+function drawKernels(
+  locs: Localizations,
+  view: RenderView,
+  options: GaussianOptions,
+  result: GaussianRender,
+  value: NumericColumn | null,
+  sums: Float64Array | null,
+) {
+  const { xMinNm, yMinNm, pixelNm, width, height } = view
+  const plan = resolveSigmas(options, pixelNm)
+  const uncertainty = plan.fixedPx === null ? (locs.uncertainty ?? null) : null
+  const rows = new RowFilter(locs, options.filter)
+  const reach = plan.truncate * plan.maxPx + 1
+  const wx = new Float64Array(Math.min(width, Math.ceil(2 * reach) + 2))
+  const wy = new Float64Array(Math.min(height, Math.ceil(2 * reach) + 2))
+  const ax: AxisWindow = { first: 0, length: 0, keptShare: 0 }
+  const ay: AxisWindow = { first: 0, length: 0, keptShare: 0 }
+  const n = Math.min(locs.count, locs.x.length, locs.y.length)
+  for (let i = 0; i < n; i++) {
+    const u = (locs.x[i]! - xMinNm) / pixelNm
+    const v = (locs.y[i]! - yMinNm) / pixelNm
+    // Beyond the widest kernel's reach (or NaN): nothing of it lands in the view.
+    if (!(u > -reach && u < width + reach && v > -reach && v < height + reach)) continue
+    if (rows.active && !rows.accepts(i)) continue
+    if (value !== null && !Number.isFinite(value[i]!)) continue
+    const s = sigmaPx(plan, uncertainty, i, pixelNm, result)
+    fillAxisWeights(u, s, plan.truncate, width, wx, ax)
+    fillAxisWeights(v, s, plan.truncate, height, wy, ay)
+    const kept = ax.keptShare * ay.keptShare
+    if (u >= 0 && u < width && v >= 0 && v < height) {
+      result.inside++
+      result.weightLeavingView += 1 - kept
+    } else result.weightEnteringView += kept
+    if (ax.length === 0 || ay.length === 0) continue
+    result.drawn++
+    addOuterProduct(result.image, width, ax, wx, ay, wy, 1)
+    if (value !== null && sums !== null) addOuterProduct(sums, width, ax, wx, ay, wy, value[i]!)
+  }
+}
+
+function sigmaPx(
+  plan: SigmaPlan,
+  uncertainty: NumericColumn | null,
+  i: number,
+  pixelNm: number,
+  result: GaussianRender,
+): number {
+  let s = plan.fixedPx ?? plan.fallbackPx
+  if (uncertainty !== null) {
+    const own = uncertainty[i]! / pixelNm
+    if (own > 0 && own < Infinity) s = own
+  }
+  if (s >= plan.minPx && s <= plan.maxPx) return s
+  result.sigmaClamped++
+  return s < plan.minPx ? plan.minPx : plan.maxPx
+}
+
+/** image[row, col] += scale · wy[row] · wx[col] over the kernel's window inside the view. */
+function addOuterProduct(
+  image: Float32Array | Float64Array,
+  width: number,
+  ax: AxisWindow,
+  wx: Float64Array,
+  ay: AxisWindow,
+  wy: Float64Array,
+  scale: number,
+) {
+  const columns = ax.length
+  for (let r = 0; r < ay.length; r++) {
+    const weightY = wy[r]! * scale
+    const offset = (ay.first + r) * width + ax.first
+    for (let c = 0; c < columns; c++) image[offset + c] = image[offset + c]! + weightY * wx[c]!
+  }
+}
