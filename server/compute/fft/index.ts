@@ -1,0 +1,13 @@
+/**
+ * FFT area: in-place 2D complex FFT (unnormalized forward, 1/size² on inverse), two real images
+ * through one complex transform, and circular cross-correlation with zero shift at the centre.
+ */
+export { fft2d, isPowerOfTwo, transposeSquare } from './fft-2d'
+export {
+  mirrorIndex,
+  splitPairSpectra,
+  transformRealPair,
+  type ComplexImage,
+  type SplitSpectra,
+} from './real-pair'
+export { crossCorrelation2d } from './cross-correlation'
