@@ -1,8 +1,9 @@
 /**
- * A hashed uniform grid: points are bucketed by the cell of side `cellSize` that holds them, so a
- * search within one cell side only visits the 3 × 3 cells around the query. Cells are hashed into a
- * power-of-two table sized to the points, not to the field, so memory stays O(points) however large
- * or sparse the field is. Different cells may share a bucket; callers check real distances anyway.
+ * A hashed uniform grid: points are bucketed by the cell of side 2 × `radius` that holds them, so a
+ * search within `radius` only visits the 2 × 2 cells on the query's side of its own cell. Cells are
+ * hashed into a power-of-two table of ~8 buckets per point, sized to the points, not to the field, so
+ * memory stays O(points) however large or sparse the field is. Different cells may share a bucket;
+ * callers check real distances anyway.
  */
 export class CellBuckets {
   private offsets = new Uint32Array(2)
@@ -10,13 +11,15 @@ export class CellBuckets {
   private bucketOfItem = new Uint32Array(0)
   private mask = 0
   private inverseCell = 1
+  /** The four buckets found by the last `findNearBuckets` call. */
+  readonly nearBuckets = new Uint32Array(4)
 
   /** Buckets the points with ids ids[0 … count − 1] at (xs[id], ys[id]). */
-  build(ids: Uint32Array, count: number, xs: Float64Array, ys: Float64Array, cellSize: number) {
+  build(ids: Uint32Array, count: number, xs: Float64Array, ys: Float64Array, radius: number) {
     let tableSize = 2
-    while (tableSize < 2 * count) tableSize *= 2
+    while (tableSize < 8 * count) tableSize *= 2
     this.mask = tableSize - 1
-    this.inverseCell = 1 / cellSize
+    this.inverseCell = 1 / (2 * radius)
     if (this.offsets.length < tableSize + 1) this.offsets = new Uint32Array(2 * tableSize + 1)
     if (this.members.length < count) {
       this.members = new Uint32Array(2 * count)
@@ -41,13 +44,25 @@ export class CellBuckets {
     offsets[tableSize] = count
   }
 
-  /** Integer cell coordinate of a position along one axis. */
-  cellOf(position: number): number {
+  /** Fills `nearBuckets` with the buckets of every cell holding points within `radius` of (x, y). */
+  findNearBuckets(x: number, y: number) {
+    const scaledX = x * this.inverseCell
+    const scaledY = y * this.inverseCell
+    const cellX = Math.floor(scaledX)
+    const cellY = Math.floor(scaledY)
+    const sideX = scaledX - cellX < 0.5 ? -1 : 1
+    const sideY = scaledY - cellY < 0.5 ? -1 : 1
+    this.nearBuckets[0] = this.bucketOfCell(cellX, cellY)
+    this.nearBuckets[1] = this.bucketOfCell(cellX + sideX, cellY)
+    this.nearBuckets[2] = this.bucketOfCell(cellX, cellY + sideY)
+    this.nearBuckets[3] = this.bucketOfCell(cellX + sideX, cellY + sideY)
+  }
+
+  private cellOf(position: number): number {
     return Math.floor(position * this.inverseCell)
   }
 
-  /** Bucket holding cell (cellX, cellY). */
-  bucketOfCell(cellX: number, cellY: number): number {
+  private bucketOfCell(cellX: number, cellY: number): number {
     const h = Math.imul(cellX, 0x9e3779b1) ^ Math.imul(cellY, 0x85ebca77)
     return (h ^ (h >>> 15)) & this.mask
   }

@@ -17,37 +17,43 @@ const countingSortFrameLimit = (rowCount: number) => 4 * rowCount + 65_536
 
 /** Orders usable rows by frame in O(n + frames) (counting sort), or O(n log n) for sparse huge frame numbers. */
 export function orderRowsByFrame(locs: Localizations): FrameOrder {
-  const { x, y, frame } = locs
-  const valid = new Uint32Array(locs.count)
   let validCount = 0
   let maxFrame = 0
   for (let i = 0; i < locs.count; i++) {
-    const f = frame[i] ?? Number.NaN
-    const xi = x[i] ?? Number.NaN
-    const yi = y[i] ?? Number.NaN
-    if (!Number.isInteger(f) || f < 0 || f > 0xfffffffe) continue
-    if (!Number.isFinite(xi) || !Number.isFinite(yi)) continue
-    valid[validCount++] = i
+    const f = usableFrame(locs, i)
+    if (f < 0) continue
+    validCount++
     if (f > maxFrame) maxFrame = f
   }
-  const rows = valid.subarray(0, validCount)
   const excludedRows = locs.count - validCount
   if (maxFrame > countingSortFrameLimit(validCount)) {
-    rows.sort((a, b) => (frame[a] ?? 0) - (frame[b] ?? 0) || a - b)
-    return { ...groupSortedRows(rows, frame), excludedRows }
+    const rows = new Uint32Array(validCount)
+    for (let i = 0, k = 0; i < locs.count; i++) if (usableFrame(locs, i) >= 0) rows[k++] = i
+    rows.sort((a, b) => (locs.frame[a] ?? 0) - (locs.frame[b] ?? 0) || a - b)
+    return { ...groupSortedRows(rows, locs.frame), excludedRows }
   }
-  return { ...countingSortByFrame(rows, frame, maxFrame), excludedRows }
+  return { ...countingSortByFrame(locs, validCount, maxFrame), excludedRows }
+}
+
+/** The row's frame if the row is usable (finite x and y, whole frame ≥ 0), else −1. */
+function usableFrame(locs: Localizations, row: number): number {
+  const f = locs.frame[row] ?? Number.NaN
+  if (!Number.isInteger(f) || f < 0 || f > 0xfffffffe) return -1
+  if (!Number.isFinite(locs.x[row] ?? Number.NaN) || !Number.isFinite(locs.y[row] ?? Number.NaN))
+    return -1
+  return f
 }
 
 function countingSortByFrame(
-  rows: Uint32Array,
-  frame: Localizations['frame'],
+  locs: Localizations,
+  validCount: number,
   maxFrame: number,
 ): Omit<FrameOrder, 'excludedRows'> {
   const offsets = new Uint32Array(maxFrame + 2)
   let distinct = 0
-  for (let k = 0; k < rows.length; k++) {
-    const f = frame[rows[k] ?? 0] ?? 0
+  for (let row = 0; row < locs.count; row++) {
+    const f = usableFrame(locs, row)
+    if (f < 0) continue
     const n = offsets[f + 1] ?? 0
     if (n === 0) distinct++
     offsets[f + 1] = n + 1
@@ -64,10 +70,10 @@ function countingSortByFrame(
     }
     offsets[f + 1] = (offsets[f] ?? 0) + n
   }
-  const sorted = new Uint32Array(rows.length)
-  for (let k = 0; k < rows.length; k++) {
-    const row = rows[k] ?? 0
-    const f = frame[row] ?? 0
+  const sorted = new Uint32Array(validCount)
+  for (let row = 0; row < locs.count; row++) {
+    const f = usableFrame(locs, row)
+    if (f < 0) continue
     const at = offsets[f] ?? 0
     sorted[at] = row
     offsets[f] = at + 1

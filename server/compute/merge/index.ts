@@ -1,30 +1,20 @@
 import type { Localizations } from '../localizations.types'
-import { orderRowsByFrame } from './frame-order'
-import { linkEvents, type EventTable } from './link-events'
+import { orderRowsByFrame, type FrameOrder } from './frame-order'
+import { aggregateEvents, type MergedEvents } from './aggregate-events'
+import { linkEvents, NO_EVENT } from './link-events'
 import { localizationsPerEventHistogram, onTimeHistogram, type IntegerHistogram } from './summaries'
 
 export { CellBuckets } from './cell-buckets'
 export { orderRowsByFrame, type FrameOrder } from './frame-order'
 export { NO_EVENT } from './link-events'
 export type { IntegerHistogram } from './summaries'
+export type { MergedEvents } from './aggregate-events'
 
 export interface MergeOptions {
   /** Link radius, nm. Default: 2.5 × the median `uncertainty` when that column is usable, else 30. */
   radiusNm?: number
   /** Frames an event may stay dark and still be continued (0 = only consecutive frames). Default 1. */
   maxDarkFrames?: number
-}
-
-/** One row per event, indexed by event id. */
-export interface MergedEvents {
-  /** Photon-weighted mean position, nm (equal weights when photons are missing or unusable). */
-  x: Float64Array
-  y: Float64Array
-  /** Sum of the rows' photons (0 when the table has no photons column). */
-  photons: Float64Array
-  firstFrame: Uint32Array
-  lastFrame: Uint32Array
-  localizations: Uint32Array
 }
 
 export interface MergeResult {
@@ -73,41 +63,39 @@ export function mergeLocalizations(locs: Localizations, options: MergeOptions = 
       frames: new Uint32Array(0),
       starts: new Uint32Array(1),
     }
-    const table = linkEvents(
-      locs,
-      { ...nothing, excludedRows: locs.count },
-      { radiusNm: 1, maxDarkFrames, weights },
-    )
-    return summarize(table, parameters, 'the link radius must be a finite number of nm above 0')
+    return summarize(locs, { ...nothing, excludedRows: locs.count }, parameters, {
+      eventOf: new Uint32Array(locs.count).fill(NO_EVENT),
+      events: 0,
+      reason: 'the link radius must be a finite number of nm above 0',
+    })
   }
-  const table = linkEvents(locs, order, { radiusNm: radius.value, maxDarkFrames, weights })
+  const { eventOf, events } = linkEvents(locs, order, {
+    radiusNm: radius.value,
+    maxDarkFrames,
+    weights,
+  })
   const reason =
-    table.count === 0 ? 'no localization has a finite x, y and a whole frame ≥ 0' : undefined
-  return summarize(table, parameters, reason)
+    events === 0 ? 'no localization has a finite x, y and a whole frame ≥ 0' : undefined
+  return summarize(locs, order, parameters, { eventOf, events, reason })
 }
 
 function summarize(
-  table: EventTable,
+  locs: Localizations,
+  order: FrameOrder,
   parameters: MergeResult['parameters'],
-  reason: string | undefined,
+  linked: { eventOf: Uint32Array; events: number; reason: string | undefined },
 ): MergeResult {
-  const n = table.count
+  const weights = parameters.weighting === 'photons' ? (locs.photons ?? null) : null
+  const merged = aggregateEvents(locs, order, linked.eventOf, linked.events, weights)
   return {
-    events: n,
-    eventOf: table.eventOf,
-    onTimeFrames: onTimeHistogram(table),
-    localizationsPerEvent: localizationsPerEventHistogram(table),
-    merged: {
-      x: table.meanX.slice(0, n),
-      y: table.meanY.slice(0, n),
-      photons: table.photons.slice(0, n),
-      firstFrame: table.firstFrame.slice(0, n),
-      lastFrame: table.lastFrame.slice(0, n),
-      localizations: table.localizations.slice(0, n),
-    },
+    events: linked.events,
+    eventOf: linked.eventOf,
+    onTimeFrames: onTimeHistogram(merged),
+    localizationsPerEvent: localizationsPerEventHistogram(merged),
+    merged,
     method: MERGE_METHOD,
     parameters,
-    ...(reason ? { reason } : {}),
+    ...(linked.reason ? { reason: linked.reason } : {}),
   }
 }
 

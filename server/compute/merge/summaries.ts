@@ -1,4 +1,4 @@
-import type { EventTable } from './link-events'
+import type { MergedEvents } from './aggregate-events'
 
 /** Histogram of a whole-number quantity: counts[k] holds values in [edges[k], edges[k + 1]). */
 export interface IntegerHistogram {
@@ -82,13 +82,13 @@ function valueAtRank(
 }
 
 /** On-time in frames from first to last sighting, dark frames inside the event included. */
-export function onTimeHistogram(table: EventTable): IntegerHistogram {
+export function onTimeHistogram(merged: MergedEvents): IntegerHistogram {
   return integerHistogram(
-    table.count,
-    (event) => (table.lastFrame[event] ?? 0) - (table.firstFrame[event] ?? 0) + 1,
+    merged.x.length,
+    (event) => (merged.lastFrame[event] ?? 0) - (merged.firstFrame[event] ?? 0) + 1,
   )
 }
 
-export function localizationsPerEventHistogram(table: EventTable): IntegerHistogram {
-  return integerHistogram(table.count, (event) => table.localizations[event] ?? 0)
+export function localizationsPerEventHistogram(merged: MergedEvents): IntegerHistogram {
+  return integerHistogram(merged.x.length, (event) => merged.localizations[event] ?? 0)
 }
