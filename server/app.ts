@@ -8,6 +8,7 @@ import swaggerUi from 'swagger-ui-express'
 import { authenticate, requireUser } from './http/authenticate'
 import { sameOriginWrites } from './http/csrf'
 import { apiNotFound, errorHandler } from './http/error-handler'
+import { refuseNulInUrl } from './http/nul-guard'
 import { requestContext } from './http/request-context'
 import { securityHeaders } from './http/security-headers'
 import { auditRouter } from './modules/audit/audit.routes'
@@ -61,6 +62,7 @@ export function createApp(appOptions: CreateAppOptions): Express {
   const issuerOrigin = config.oidc.issuer ? new URL(config.oidc.issuer).origin : config.publicUrl
   app.use(securityHeaders({ issuerOrigin, https: config.publicUrl.startsWith('https://') }))
   app.use(requestContext(orm))
+  app.use(refuseNulInUrl)
 
   // The identity provider parses its own bodies; no global body parser sits before it.
   if (options.localIdp) {

@@ -3,7 +3,9 @@ import type { Orm } from './db'
 import { refreshPlannerStatistics } from './db'
 import { JobRunner } from './jobs/job-runner'
 import type { Logger } from './logger'
+import { queueMissingFileJobs } from './modules/files/file-jobs'
 import { fileJobCompletions } from './modules/files/file-jobs.completions'
+import { sweepOrphanedBytes } from './modules/files/orphan-sweep.service'
 import { pruneOidcPayloads } from './modules/idp/oidc-adapter'
 import { startMailCatcher, type MailCatcher } from './modules/mail/mail-catcher'
 import { OrmSessionStore } from './modules/sessions/session-store'
@@ -41,8 +43,9 @@ export async function openBackground(deps: {
   const jobs = new JobRunner({
     orm,
     logger,
+    dataDir: config.dataDir,
     workers: config.jobWorkers,
-    completions: fileJobCompletions(storage),
+    completions: fileJobCompletions(),
   })
   let upkeep: NodeJS.Timeout | null = null
 
@@ -52,6 +55,14 @@ export async function openBackground(deps: {
     async begin(uploads) {
       const completed = await uploads.reconcile()
       if (completed) logger.info({ completed }, 'interrupted uploads registered')
+      const requeued = await queueMissingFileJobs(orm.em.fork())
+      if (requeued) logger.info({ requeued }, 'files without their processing job requeued')
+      const sweep = () =>
+        sweepOrphanedBytes(orm.em.fork(), storage).then((removed) => {
+          if (removed.originals + removed.derived + removed.uploads)
+            logger.info({ removed }, 'bytes without a record removed')
+        })
+      await sweep()
       jobs.start()
       const sessions = new OrmSessionStore(orm)
       const hourly = () =>
@@ -60,6 +71,7 @@ export async function openBackground(deps: {
           pruneOidcPayloads(orm),
           refreshPlannerStatistics(orm),
           uploads.expire(),
+          sweep(),
         ]).catch((err: unknown) => logger.error({ err }, 'hourly upkeep failed'))
       upkeep = setInterval(() => void hourly(), 3600_000)
       upkeep.unref()

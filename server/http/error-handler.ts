@@ -14,6 +14,36 @@ interface BodyParserError {
   status?: number
 }
 
+/** The body parser's refusals, by its error type, in words. */
+const BODY_PROBLEMS: Record<string, Omit<Problem, 'type'>> = {
+  'entity.parse.failed': {
+    title: 'Bad request',
+    status: 400,
+    detail: 'The body is not valid JSON.',
+  },
+  'entity.too.large': { title: 'Too large', status: 413, detail: 'The request body is too large.' },
+  'encoding.unsupported': {
+    title: 'Unsupported content encoding',
+    status: 415,
+    detail: 'Send the body uncompressed, or compressed with gzip, deflate or br.',
+  },
+  'charset.unsupported': {
+    title: 'Unsupported charset',
+    status: 415,
+    detail: 'Send JSON bodies in UTF-8.',
+  },
+  'stream.encoding.set': {
+    title: 'Bad request',
+    status: 400,
+    detail: 'The body could not be read.',
+  },
+  'request.size.invalid': {
+    title: 'Bad request',
+    status: 400,
+    detail: 'The body is shorter or longer than its Content-Length says.',
+  },
+}
+
 function toProblem(err: unknown): Problem {
   if (err instanceof HttpError) {
     return {
@@ -49,20 +79,16 @@ function toProblem(err: unknown): Problem {
     }
   }
   const parser = err as BodyParserError
-  if (parser?.type === 'entity.parse.failed') {
+  const known = parser?.type ? BODY_PROBLEMS[parser.type] : undefined
+  if (known) return { type: '/problems/bad-request', ...known }
+  // Any other refusal of the body parser (http-errors with a 4xx status) is the client's: say so
+  // in our words, never in the library's.
+  if (typeof parser?.status === 'number' && parser.status >= 400 && parser.status < 500) {
     return {
       type: '/problems/bad-request',
       title: 'Bad request',
-      status: 400,
-      detail: 'The body is not valid JSON.',
-    }
-  }
-  if (parser?.type === 'entity.too.large') {
-    return {
-      type: '/problems/too-large',
-      title: 'Too large',
-      status: 413,
-      detail: 'The request body is too large.',
+      status: parser.status,
+      detail: 'The request body could not be read.',
     }
   }
   return {

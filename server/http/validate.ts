@@ -10,7 +10,29 @@ export function zodFieldErrors(error: z.ZodError): FieldError[] {
   }))
 }
 
+/**
+ * The JSON pointer of the first string holding a NUL character, if any. SQLite and most tools end
+ * text at NUL, so such input is refused before it reaches a query or a file name.
+ */
+export function nulBytePointer(value: unknown, path = '#'): string | null {
+  if (typeof value === 'string') return value.includes('\u0000') ? path : null
+  if (typeof value !== 'object' || value === null) return null
+  for (const [key, item] of Object.entries(value)) {
+    const at = `${path}/${key}`
+    if (key.includes('\u0000')) return at
+    const found = nulBytePointer(item, at)
+    if (found) return found
+  }
+  return null
+}
+
 function parseWith<T extends z.ZodType>(schema: T, value: unknown, where: string): z.output<T> {
+  const nul = nulBytePointer(value)
+  if (nul)
+    throw new ValidationError(
+      [{ pointer: nul, detail: 'Text may not contain the NUL character (U+0000).' }],
+      `The ${where} contains a NUL character.`,
+    )
   const result = schema.safeParse(value)
   if (!result.success) {
     throw new ValidationError(

@@ -15,6 +15,8 @@ export interface JobCompletion {
 export interface JobRunnerOptions {
   orm: Orm
   logger: Logger
+  /** The data directory; worker threads resolve storage keys under it. */
+  dataDir: string
   workers: number
   completions: Record<string, JobCompletion>
   pollMs?: number
@@ -77,6 +79,7 @@ export class JobRunner {
           { id: { $in: [...this.running.keys()] } },
           { heartbeatAt: new Date() },
         )
+        await this.stopCancelled(em)
       }
       if (this.running.size >= this.o.workers || !(await hasClaimableJobs(em, heartbeat * 5)))
         return
@@ -94,12 +97,36 @@ export class JobRunner {
     }
   }
 
+  /**
+   * Running jobs that newer work replaced: their thread is ended (the only sure way to stop
+   * synchronous work) and the job recorded as cancelled; a fresh thread takes the next job.
+   */
+  private async stopCancelled(em: EntityManager): Promise<void> {
+    const cancelled = await em.find(
+      Job,
+      { id: { $in: [...this.running.keys()] }, cancelRequested: true },
+      { fields: ['id'] },
+    )
+    for (const { id } of cancelled) {
+      const worker = this.running.get(id)
+      this.running.delete(id)
+      if (worker) void worker.terminate()
+      await em.nativeUpdate(
+        Job,
+        { id },
+        { state: 'cancelled', message: 'replaced by newer work', finishedAt: new Date() },
+      )
+    }
+  }
+
   /** An idle worker thread, or a new one (they load the job modules once, then stay). */
   private worker(): Worker {
     const idle = this.idle.pop()
     if (idle) return idle
     // workerData must be an object: geotiff's web-worker shim reads fields of it when loaded in a thread.
-    const worker = new Worker(WORKER_URL, { workerData: { role: 'job-worker' } })
+    const worker = new Worker(WORKER_URL, {
+      workerData: { role: 'job-worker', dataDir: this.o.dataDir },
+    })
     worker.on('message', (m: JobMessage & { id?: number }) => {
       if (m.id === undefined) return
       if (m.type === 'progress') {
@@ -154,6 +181,11 @@ export class JobRunner {
     try {
       await em.transactional(async (tem) => {
         const job = await tem.findOneOrFail(Job, { id })
+        // Newer work replaced it while it ran: its result is stale and is not recorded.
+        if (job.cancelRequested || job.state === 'cancelled') {
+          Object.assign(job, { state: 'cancelled', finishedAt: job.finishedAt ?? new Date() })
+          return
+        }
         const completion = this.o.completions[job.kind]
         if (outcome.type === 'done') {
           await completion?.done(tem, job, outcome.result)

@@ -1,6 +1,10 @@
-import { parentPort } from 'node:worker_threads'
+import { parentPort, workerData } from 'node:worker_threads'
+import { LocalStorage } from '../storage/local-storage'
 import type { JobMessage, JobRequest } from './job-protocol'
 import { JOB_WORK } from './work'
+
+/** Where bytes live, from the runner: every path a job touches is resolved here from keys. */
+const storage = new LocalStorage(String((workerData as { dataDir?: string }).dataDir ?? 'data'))
 
 /**
  * A long-lived job worker thread: it loads the heavy modules once and then runs one job at a time
@@ -12,12 +16,15 @@ async function run({ id, kind, payload }: JobRequest & { id: number }) {
   if (!work) return post({ type: 'failed', error: `No job of kind "${kind}".` })
   let last = 0
   try {
-    const result = await work(payload, (fraction, message) => {
-      const now = Date.now()
-      // Progress is persisted by the runner; a few updates a second are plenty.
-      if (now - last < 250 && fraction < 1) return
-      last = now
-      post({ type: 'progress', fraction: Math.max(0, Math.min(1, fraction)), message })
+    const result = await work(payload, {
+      storage,
+      progress: (fraction, message) => {
+        const now = Date.now()
+        // Progress is persisted by the runner; a few updates a second are plenty.
+        if (now - last < 250 && fraction < 1) return
+        last = now
+        post({ type: 'progress', fraction: Math.max(0, Math.min(1, fraction)), message })
+      },
     })
     post({ type: 'done', result })
   } catch (err) {

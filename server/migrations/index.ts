@@ -4,6 +4,7 @@ import { Migration20261201231929 } from './Migration20261201231929'
 import { Migration20261201233454 } from './Migration20261201233454'
 import { Migration20261201233748 } from './Migration20261201233748'
 import { Migration20261202022156 } from './Migration20261202022156'
+import { Migration20261204133522 } from './Migration20261204133522'
 
 /**
  * Migrations in the order they run. `npm run db -- migration:create` writes new files here;
@@ -16,4 +17,5 @@ export const migrationsList = [
   { name: 'Migration20261201233454', class: Migration20261201233454 },
   { name: 'Migration20261201233748', class: Migration20261201233748 },
   { name: 'Migration20261202022156', class: Migration20261202022156 },
+  { name: 'Migration20261204133522', class: Migration20261204133522 },
 ]

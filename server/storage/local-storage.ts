@@ -1,4 +1,5 @@
 import { mkdirSync } from 'node:fs'
+import { readdir, rm, stat } from 'node:fs/promises'
 import { join } from 'node:path'
 
 /**
@@ -29,5 +30,73 @@ export class LocalStorage {
     const dir = join(this.derivedDir, String(fileId))
     mkdirSync(dir, { recursive: true })
     return join(dir, name)
+  }
+
+  /** Removes a deposited file's original and everything derived from it. */
+  async removeFile(storageKey: string, fileId: number): Promise<void> {
+    await this.removeOriginal(storageKey)
+    await this.removeDerived(fileId)
+  }
+
+  removeOriginal(storageKey: string): Promise<void> {
+    return rm(this.originalPath(storageKey), { force: true })
+  }
+
+  removeDerived(fileId: number): Promise<void> {
+    return rm(join(this.derivedDir, String(fileId)), { recursive: true, force: true })
+  }
+
+  /** Removes every byte a dataset's files own: its originals' folder and their derived folders. */
+  async removeDataset(datasetId: number, fileIds: number[]): Promise<void> {
+    await rm(join(this.filesDir, String(datasetId)), { recursive: true, force: true })
+    for (const id of fileIds) await this.removeDerived(id)
+  }
+
+  /** Keys of stored originals (`<dataset>/<upload id>`) with their age, for the orphan sweep. */
+  async *storedOriginals(): AsyncGenerator<{ key: string; ageMs: number }> {
+    for (const dataset of await readdir(this.filesDir)) {
+      const dir = join(this.filesDir, dataset)
+      for (const name of await readdir(dir).catch(() => [])) {
+        const info = await stat(join(dir, name)).catch(() => null)
+        if (info) yield { key: `${dataset}/${name}`, ageMs: Date.now() - info.mtimeMs }
+      }
+    }
+  }
+
+  /** File ids that have a derived folder, with its age. */
+  async *derivedFolders(): AsyncGenerator<{ fileId: number; ageMs: number }> {
+    for (const name of await readdir(this.derivedDir)) {
+      const info = await stat(join(this.derivedDir, name)).catch(() => null)
+      if (info && /^\d+$/.test(name))
+        yield { fileId: Number(name), ageMs: Date.now() - info.mtimeMs }
+    }
+  }
+
+  /** Bytes of everything derived from one file (columnar store, index, thumbnails, tiles). */
+  async derivedBytes(fileId: number): Promise<number> {
+    const dir = join(this.derivedDir, String(fileId))
+    let total = 0
+    for (const entry of await readdir(dir, { recursive: true }).catch(() => [])) {
+      const info = await stat(join(dir, String(entry))).catch(() => null)
+      if (info?.isFile()) total += info.size
+    }
+    return total
+  }
+
+  /** Unfinished tus uploads: their id, whether tus still has their record, and their age. */
+  async *uploadEntries(): AsyncGenerator<{ id: string; hasRecord: boolean; ageMs: number }> {
+    const names = new Set(await readdir(this.uploadsDir))
+    for (const name of names) {
+      if (name.endsWith('.json')) continue
+      const info = await stat(join(this.uploadsDir, name)).catch(() => null)
+      if (info?.isFile())
+        yield { id: name, hasRecord: names.has(`${name}.json`), ageMs: Date.now() - info.mtimeMs }
+    }
+  }
+
+  /** Removes an unfinished upload's bytes and its tus record. */
+  async removeUpload(id: string): Promise<void> {
+    await rm(join(this.uploadsDir, id), { force: true })
+    await rm(join(this.uploadsDir, `${id}.json`), { force: true })
   }
 }

@@ -13,7 +13,7 @@ import { JobRunner } from '@server/jobs/job-runner'
 import { createLogger } from '@server/logger'
 import { DatasetFile, type IDatasetFile } from '@server/modules/files/dataset-file.entity'
 import { fileJobCompletions } from '@server/modules/files/file-jobs.completions'
-import { derivedPaths } from '@server/modules/files/file-processing'
+import { derivedPaths } from '@server/modules/files/file-jobs'
 import { LocalStorage } from '@server/storage/local-storage'
 import { bearer, buildDataset, buildMember, buildProject, tokenFor } from '../fixtures/builders'
 import { listen } from '../fixtures/live-server'
@@ -35,9 +35,10 @@ beforeAll(async () => {
   runner = new JobRunner({
     orm: t.orm,
     logger: createLogger('silent'),
+    dataDir: t.config.dataDir,
     workers: 1,
     pollMs: 50,
-    completions: fileJobCompletions(storage),
+    completions: fileJobCompletions(),
   })
   runner.start()
   const em = t.em()

@@ -1,7 +1,10 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { openDatabase, type Orm } from '@server/db'
 import { Job } from '@server/jobs/job.entity'
-import { enqueueJob, hasClaimableJobs } from '@server/jobs/job-queue'
+import { z } from 'zod'
+import { defineJobKind } from '@server/jobs/job-kind'
+import { claimNextJob, enqueue, hasClaimableJobs } from '@server/jobs/job-queue'
+import { queueProbeJob } from '@server/jobs/queue-probe.job'
 import { JobRunner } from '@server/jobs/job-runner'
 import { createLogger } from '@server/logger'
 
@@ -16,6 +19,7 @@ function runner() {
   return new JobRunner({
     orm,
     logger: createLogger('silent'),
+    dataDir: ':memory:',
     workers: 2,
     pollMs: 50,
     heartbeatMs: 100,
@@ -42,7 +46,7 @@ const jobState = async (id: number) => (await orm.em.fork().findOneOrFail(Job, {
 describe('the job queue', () => {
   it('runs a job in a worker thread, recording progress and the outcome', async () => {
     const em = orm.em.fork()
-    const job = enqueueJob(em, { kind: 'queue-probe', payload: { ms: 600, n: 1 } })
+    const job = await enqueue(em, queueProbeJob, { ms: 600, n: 1 })
     await em.flush()
     const r = runner()
     r.start()
@@ -54,15 +58,12 @@ describe('the job queue', () => {
     })
     await r.stop()
     expect([...seen].some((p) => p > 0 && p < 1)).toBe(true)
-    expect(outcomes).toContain(`done ${job.id} {"echoed":{"ms":600,"n":1}}`)
+    expect(outcomes).toContain(`done ${job.id} {"echoed":{"subjectId":0,"ms":600,"n":1}}`)
   })
 
   it('records a failure in words', async () => {
     const em = orm.em.fork()
-    const job = enqueueJob(em, {
-      kind: 'queue-probe',
-      payload: { fail: 'the table has no x column' },
-    })
+    const job = await enqueue(em, queueProbeJob, { fail: 'the table has no x column' })
     await em.flush()
     const r = runner()
     r.start()
@@ -75,7 +76,7 @@ describe('the job queue', () => {
 
   it('takes up a job whose process died (stale heartbeat) and completes it', async () => {
     const em = orm.em.fork()
-    const job = enqueueJob(em, { kind: 'queue-probe', payload: { ms: 100 } })
+    const job = await enqueue(em, queueProbeJob, { ms: 100 })
     await em.flush()
     // What a killed process leaves behind: the job marked running, its heartbeat long gone.
     await em.nativeUpdate(
@@ -92,7 +93,7 @@ describe('the job queue', () => {
 
   it('a stopped runner leaves its job to be resumed by the next one', async () => {
     const em = orm.em.fork()
-    const job = enqueueJob(em, { kind: 'queue-probe', payload: { ms: 3000 } })
+    const job = await enqueue(em, queueProbeJob, { ms: 3000 })
     await em.flush()
     const first = runner()
     first.start()
@@ -109,7 +110,7 @@ describe('the job queue', () => {
     const em = orm.em.fork()
     await em.nativeDelete(Job, {})
     expect(await hasClaimableJobs(em, 1000)).toBe(false)
-    const job = enqueueJob(em, { kind: 'queue-probe', payload: {} })
+    const job = await enqueue(em, queueProbeJob, {})
     await em.flush()
     expect(await hasClaimableJobs(em, 1000)).toBe(true)
     await em.nativeUpdate(Job, { id: job.id }, { state: 'running', heartbeatAt: new Date() })
@@ -121,12 +122,59 @@ describe('the job queue', () => {
 
   it('fails an unknown kind of job', async () => {
     const em = orm.em.fork()
-    const job = enqueueJob(em, { kind: 'no-such-work', payload: {} })
+    const job = em.create(Job, {
+      kind: 'no-such-work',
+      payload: {},
+      subjectType: 'dataset',
+      subjectId: 0,
+      dedupeKey: 'none',
+    })
     await em.flush()
     const r = runner()
     r.start()
     await until(async () => (await jobState(job.id)) === 'failed')
     await r.stop()
     expect((await orm.em.fork().findOneOrFail(Job, { id: job.id })).error).toMatch(/No job of kind/)
+  })
+
+  it('waits for the kinds it must follow on the same subject, and only those', async () => {
+    const em = orm.em.fork()
+    await em.nativeDelete(Job, {})
+    const followsProbe = defineJobKind({
+      name: 'follows-probe',
+      payload: z.object({ subjectId: z.int() }),
+      subject: (p) => ({ type: 'dataset', id: p.subjectId }),
+      after: ['queue-probe'],
+    })
+    const later = await enqueue(em, followsProbe, { subjectId: 7 })
+    const first = await enqueue(em, queueProbeJob, { subjectId: 7 })
+    const elsewhere = await enqueue(em, queueProbeJob, { subjectId: 8 })
+    await em.flush()
+    // The follower is older, but its subject still has probe work queued.
+    expect(await claimNextJob(em)).toBe(first.id)
+    expect(await claimNextJob(em)).toBe(elsewhere.id)
+    expect(await claimNextJob(em)).toBeNull()
+    await em.nativeUpdate(Job, { id: first.id }, { state: 'done' })
+    expect(await claimNextJob(em)).toBe(later.id)
+  })
+
+  it('newer work of the same key replaces queued work and stops running work', async () => {
+    const em = orm.em.fork()
+    await em.nativeDelete(Job, {})
+    const running = await enqueue(em, queueProbeJob, { ms: 4000, key: 'table-7' })
+    await em.flush()
+    const r = runner()
+    r.start()
+    await until(async () => (await jobState(running.id)) === 'running')
+    const queued = await enqueue(em, queueProbeJob, { ms: 4000, key: 'other' })
+    const replaced = await enqueue(em, queueProbeJob, { ms: 100, key: 'table-7', n: 1 })
+    const latest = await enqueue(em, queueProbeJob, { ms: 100, key: 'table-7', n: 2 })
+    await em.flush()
+    await until(async () => (await jobState(latest.id)) === 'done')
+    await r.stop()
+    expect(await jobState(running.id)).toBe('cancelled')
+    expect(await jobState(replaced.id)).toBe('cancelled')
+    expect(await jobState(queued.id)).not.toBe('cancelled')
+    expect(outcomes.some((o) => o.startsWith(`done ${running.id} `))).toBe(false)
   })
 })

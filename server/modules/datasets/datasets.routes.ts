@@ -63,7 +63,7 @@ export function datasetsRouter(deps: AppDeps): Router {
   })
 
   router.delete('/:id', requireUser, async (req, res) => {
-    await deleteDataset(em(), req, await target(req, 'delete'))
+    await deleteDataset(em(), req, await target(req, 'delete'), deps.storage)
     res.status(204).end()
   })
 

@@ -3,9 +3,8 @@ import type { JobCompletion } from '../../jobs/job-runner'
 import type { IJob } from '../../jobs/job.entity'
 import { importOmeXml } from '../metadata/ome/ome-import'
 import { DatasetFile, type IDatasetFile } from './dataset-file.entity'
-import { enqueueJob } from '../../jobs/job-queue'
-import type { LocalStorage } from '../../storage/local-storage'
-import { FILE_JOBS } from './file-processing'
+import { enqueue } from '../../jobs/job-queue'
+import { scanRawStackJob } from './file-jobs'
 import type { RawStackReport } from './raw-stack.work'
 import { rejectOnFailure } from './file-job-failure'
 import { tableCompletions } from './table-jobs.completions'
@@ -20,12 +19,12 @@ async function fileOf(em: EntityManager, job: IJob) {
  */
 async function multiFilePart(
   em: EntityManager,
-  storage: LocalStorage,
   file: IDatasetFile,
   report: RawStackReport,
   job: IJob,
 ): Promise<string | null> {
-  if (report.fileSet.length < 2 || Array.isArray(job.payload.parts)) return null
+  const payload = scanRawStackJob.payload.parse(job.payload)
+  if (report.fileSet.length < 2 || payload.partKeys) return null
   const siblings = await em.find(DatasetFile, {
     dataset: file.dataset,
     name: { $in: report.fileSet },
@@ -34,17 +33,13 @@ async function multiFilePart(
   const missing = report.fileSet.filter((n) => !byName.has(n))
   if (missing.length)
     return `Part of a multi-file OME-TIFF; still to upload: ${missing.join(', ')}.`
-  const parts = report.fileSet.map((n) => storage.originalPath(byName.get(n)!.storageKey))
-  enqueueJob(em, {
-    kind: FILE_JOBS.scanRawStack,
-    payload: { ...job.payload, parts },
-    fileId: file.id,
-  })
+  const partKeys = report.fileSet.map((n) => byName.get(n)!.storageKey)
+  await enqueue(em, scanRawStackJob, { ...payload, partKeys })
   file.status = 'processing'
   return null
 }
 
-const scanRawStack = (storage: LocalStorage): JobCompletion => ({
+const scanRawStack: JobCompletion = {
   async done(em, job, result) {
     const file = await fileOf(em, job)
     if (!file) return
@@ -60,11 +55,11 @@ const scanRawStack = (storage: LocalStorage): JobCompletion => ({
     }
     file.report = { ...report, omeXml: undefined, hasOmeXml: report.omeXml !== null, omePrefill }
     file.status = 'ready'
-    file.problem = await multiFilePart(em, storage, file, report, job)
+    file.problem = await multiFilePart(em, file, report, job)
   },
   failed: rejectOnFailure,
-})
+}
 
-export function fileJobCompletions(storage: LocalStorage): Record<string, JobCompletion> {
-  return { [FILE_JOBS.scanRawStack]: scanRawStack(storage), ...tableCompletions() }
+export function fileJobCompletions(): Record<string, JobCompletion> {
+  return { [scanRawStackJob.name]: scanRawStack, ...tableCompletions() }
 }

@@ -3,7 +3,6 @@ import { dirname } from 'node:path'
 import { mkdirSync } from 'node:fs'
 import type { EntityManager } from '@mikro-orm/better-sqlite'
 import type { Upload } from '@tus/server'
-import { enqueueJob } from '../../jobs/job-queue'
 import type { LocalStorage } from '../../storage/local-storage'
 import { audit } from '../audit/audit.service'
 import { Dataset } from '../datasets/dataset.entity'
@@ -11,7 +10,7 @@ import { UploadReservation } from '../uploads/upload-reservation.entity'
 import { DUPLICATE_FILE_PROBLEM, refuse } from '../uploads/upload-errors'
 import { DatasetFile, type IDatasetFile } from './dataset-file.entity'
 import { detectFileKind } from './file-kind'
-import { firstJobFor } from './file-processing'
+import { queueFirstJob } from './file-jobs'
 
 export interface FinishedUpload {
   upload: Upload
@@ -84,33 +83,47 @@ export async function registerUpload(
     original,
     String(f.upload.metadata?.filename ?? ''),
   )
-  const dataset = await em.findOneOrFail(Dataset, { id: datasetId })
-  const file = em.create(DatasetFile, {
-    dataset: datasetId,
-    name: await uniqueName(em, datasetId, String(f.upload.metadata?.filename ?? 'file')),
-    size: f.size,
-    sha256: f.sha256,
-    kind,
-    mediaType,
-    status: kind === 'localization_table' || kind === 'raw_stack' ? 'processing' : 'ready',
-    storageKey: key,
-    createdBy: f.userId,
-  })
-  await em.flush()
-  const job = firstJobFor(file, storage)
-  if (job) enqueueJob(em, { ...job, fileId: file.id })
-  dataset.updatedAt = new Date()
-  audit(
-    em,
-    { user: { id: f.userId }, ip: f.ip ?? undefined },
-    {
-      action: 'file.upload',
-      targetType: 'Dataset',
-      targetId: dataset.accession,
-      details: { file: file.name, size: f.size, sha256: f.sha256, kind },
-    },
-  )
-  await em.nativeDelete(UploadReservation, { uploadId: f.upload.id })
-  await em.flush()
-  return file
+  const name = String(f.upload.metadata?.filename ?? 'file')
+  try {
+    // The row, its first job, the audit event and the end of the reservation commit together:
+    // a crash leaves either all of them or none (and the bytes, which reconcile() picks up).
+    return await em.transactional(async (tem) => {
+      const dataset = await tem.findOne(Dataset, { id: datasetId })
+      if (!dataset)
+        throw refuse(404, 'Dataset gone', 'The dataset this upload was for no longer exists.')
+      const file = tem.create(DatasetFile, {
+        dataset: datasetId,
+        name: await uniqueName(tem, datasetId, name),
+        size: f.size,
+        sha256: f.sha256,
+        kind,
+        mediaType,
+        status: kind === 'localization_table' || kind === 'raw_stack' ? 'processing' : 'ready',
+        storageKey: key,
+        createdBy: f.userId,
+      })
+      await tem.flush()
+      await queueFirstJob(tem, file)
+      dataset.updatedAt = new Date()
+      audit(
+        tem,
+        { user: { id: f.userId }, ip: f.ip ?? undefined },
+        {
+          action: 'file.upload',
+          targetType: 'Dataset',
+          targetId: dataset.accession,
+          details: { file: file.name, size: f.size, sha256: f.sha256, kind },
+        },
+      )
+      await tem.nativeDelete(UploadReservation, { uploadId: f.upload.id })
+      return file
+    })
+  } catch (err) {
+    // Refused after the move (the dataset went away): the bytes have no owner; remove them.
+    if ((err as { status_code?: number }).status_code) {
+      await rm(original, { force: true })
+      await em.nativeDelete(UploadReservation, { uploadId: f.upload.id })
+    }
+    throw err
+  }
 }

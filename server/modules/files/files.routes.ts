@@ -1,4 +1,3 @@
-import { rm } from 'node:fs/promises'
 import { Router, type Request, type RequestHandler } from 'express'
 import { datasetSubject } from '@shared/permissions/abilities'
 import { idSchema } from '@shared/schemas/common.schema'
@@ -17,7 +16,6 @@ import { datasetFor, datasetParams } from '../datasets/dataset-access'
 import { UploadReservation } from '../uploads/upload-reservation.entity'
 import { DatasetFile, type IDatasetFile } from './dataset-file.entity'
 import { fileDownloadsRouter } from './file-downloads.routes'
-import { derivedPaths } from './file-processing'
 import { queueIngest, queueInspect } from './table-jobs.completions'
 
 const fileParams = datasetParams.extend({ fileId: idSchema })
@@ -119,11 +117,7 @@ export function filesRouter(storage: LocalStorage, jobs?: { notify(): void }): R
   const tableCorrection =
     (
       action: string,
-      queue: (
-        req: Request,
-        file: IDatasetFile,
-        paths: { source: string; output: string },
-      ) => object,
+      queue: (req: Request, file: IDatasetFile) => Promise<object>,
     ): RequestHandler =>
     async (req, res) => {
       const { id, fileId } = parseParams(fileParams, req)
@@ -132,10 +126,7 @@ export function filesRouter(storage: LocalStorage, jobs?: { notify(): void }): R
       if (!file) throw new NotFoundError('file', fileId)
       if (file.kind !== 'localization_table')
         throw new ConflictError(`"${file.name}" is not a localization table.`)
-      const details = queue(req, file, {
-        source: storage.originalPath(file.storageKey),
-        output: derivedPaths(storage, file.id).columnar,
-      })
+      const details = await queue(req, file)
       audit(em(), req, {
         action,
         targetType: 'Dataset',
@@ -151,8 +142,8 @@ export function filesRouter(storage: LocalStorage, jobs?: { notify(): void }): R
   router.put(
     '/files/:fileId/mapping',
     requireUser,
-    tableCorrection('file.mapping', (req, file, paths) => {
-      queueIngest(em(), file, parseBody(columnMappingSchema, req), paths)
+    tableCorrection('file.mapping', async (req, file) => {
+      await queueIngest(em(), file, parseBody(columnMappingSchema, req))
       return {}
     }),
   )
@@ -161,9 +152,9 @@ export function filesRouter(storage: LocalStorage, jobs?: { notify(): void }): R
   router.put(
     '/files/:fileId/format',
     requireUser,
-    tableCorrection('file.format', (req, file, paths) => {
+    tableCorrection('file.format', async (req, file) => {
       const format = parseBody(tableFormatChoiceSchema, req)
-      queueInspect(em(), file, format, paths)
+      await queueInspect(em(), file, format)
       return { delimiter: format.delimiter }
     }),
   )
@@ -181,8 +172,7 @@ export function filesRouter(storage: LocalStorage, jobs?: { notify(): void }): R
     })
     em().remove(file)
     await em().flush()
-    await rm(storage.originalPath(file.storageKey), { force: true })
-    await rm(storage.derivedPath(file.id, '.'), { recursive: true, force: true })
+    await storage.removeFile(file.storageKey, file.id)
     res.status(204).end()
   })
 

@@ -1,5 +1,6 @@
 import { writeFile } from 'node:fs/promises'
 import type { JobWork } from '../../jobs/job-protocol'
+import { derivedPaths, scanRawStackJob } from './file-jobs'
 import { readStackHeader, resolveOmeFileSet, scanStack } from './raw-stacks'
 
 export interface RawStackReport {
@@ -22,11 +23,14 @@ export interface RawStackReport {
  * Header, then one streaming pass over every frame: per-frame mean trace and a projection
  * thumbnail, written next to the file. Runs in a worker thread.
  */
-export const scanRawStackWork: JobWork = async (payload, progress) => {
-  const source = String(payload.source)
+export const scanRawStackWork: JobWork = async (input, { storage, progress }) => {
+  const payload = scanRawStackJob.payload.parse(input)
+  const source = storage.originalPath(payload.sourceKey)
+  const out = derivedPaths(storage, payload.fileId)
   // A multi-file OME-TIFF is scanned over all its parts, in plane order, once they have all arrived.
-  const paths =
-    Array.isArray(payload.parts) && payload.parts.length ? payload.parts.map(String) : [source]
+  const paths = payload.partKeys?.length
+    ? payload.partKeys.map((key) => storage.originalPath(key))
+    : [source]
   const header = await readStackHeader(source)
   progress(0.02, 'header read')
   const fileSet = header.omeXml ? fileNamesOf(header.omeXml) : []
@@ -34,9 +38,9 @@ export const scanRawStackWork: JobWork = async (payload, progress) => {
     paths,
     onProgress: (f) => progress(0.02 + 0.96 * f, 'reading frames'),
   })
-  await writeFile(String(payload.thumbnail), scan.thumbnail.png)
+  await writeFile(out.thumbnail, scan.thumbnail.png)
   await writeFile(
-    String(payload.trace),
+    out.trace,
     JSON.stringify(Array.from(scan.meanTrace, (v) => Math.round(v * 1000) / 1000)),
   )
   let min = Infinity

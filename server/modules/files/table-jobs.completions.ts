@@ -5,13 +5,13 @@ import {
   type ColumnMapping,
   type TableFormatChoice,
 } from '@shared/schemas/localization-mapping.schema'
-import { enqueueJob } from '../../jobs/job-queue'
+import { enqueue } from '../../jobs/job-queue'
 import type { JobCompletion } from '../../jobs/job-runner'
 import type { IJob } from '../../jobs/job.entity'
 import { DatasetMetadata } from '../metadata/dataset-metadata.entity'
 import { DatasetFile, type IDatasetFile } from './dataset-file.entity'
 import { rejectOnFailure } from './file-job-failure'
-import { FILE_JOBS } from './file-processing'
+import { ingestTableJob, inspectTableJob } from './file-jobs'
 import type { IngestReport, TableSniff } from './localizations'
 
 /** The pixel size from the dataset's description, for tables in camera pixels. */
@@ -21,19 +21,15 @@ async function pixelSizeOf(em: EntityManager, datasetId: number): Promise<number
 }
 
 /** Queues the ingest of a table with a confirmed mapping. */
-export function queueIngest(
-  em: EntityManager,
-  file: IDatasetFile,
-  mapping: ColumnMapping,
-  paths: { source: string; output: string },
-) {
+export async function queueIngest(em: EntityManager, file: IDatasetFile, mapping: ColumnMapping) {
   file.mapping = mapping
   file.status = 'processing'
   file.problem = null
-  enqueueJob(em, {
-    kind: FILE_JOBS.ingestTable,
-    payload: { fileId: file.id, ...paths, mapping, format: declaredFormatOf(file) },
+  await enqueue(em, ingestTableJob, {
     fileId: file.id,
+    sourceKey: file.storageKey,
+    mapping,
+    format: declaredFormatOf(file),
   })
 }
 
@@ -43,19 +39,14 @@ function declaredFormatOf(file: IDatasetFile): TableFormatChoice | null {
 }
 
 /** Reads the table's header again, with the depositor's declared format over the sniffed one. */
-export function queueInspect(
+export async function queueInspect(
   em: EntityManager,
   file: IDatasetFile,
   format: TableFormatChoice,
-  paths: { source: string; output: string },
 ) {
   file.status = 'processing'
   file.problem = null
-  enqueueJob(em, {
-    kind: FILE_JOBS.inspectTable,
-    payload: { fileId: file.id, ...paths, format },
-    fileId: file.id,
-  })
+  await enqueue(em, inspectTableJob, { fileId: file.id, sourceKey: file.storageKey, format })
 }
 
 const inspect: JobCompletion = {
@@ -66,7 +57,7 @@ const inspect: JobCompletion = {
     file.report = {
       sniff: { ...sniff, sampleRows: sniff.sampleRows.slice(0, 10) },
       suggestion,
-      declaredFormat: (job.payload.format as TableFormatChoice | undefined) ?? null,
+      declaredFormat: inspectTableJob.payload.parse(job.payload).format ?? null,
     }
     let mapping = mappingFromSuggestion(suggestion)
     // A header in pixels leaves no doubt once the description gives the pixel size.
@@ -75,10 +66,7 @@ const inspect: JobCompletion = {
       mapping = pixelSizeNm ? { ...mapping, pixelSizeNm } : null
     }
     if (mapping) {
-      queueIngest(em, file, mapping, {
-        source: String(job.payload.source),
-        output: String(job.payload.output),
-      })
+      await queueIngest(em, file, mapping)
       return
     }
     file.status = 'needs_mapping'
@@ -110,5 +98,5 @@ const ingest: JobCompletion = {
 
 /** Completions of the localization-table jobs (inspect, ingest). */
 export function tableCompletions(): Record<string, JobCompletion> {
-  return { [FILE_JOBS.inspectTable]: inspect, [FILE_JOBS.ingestTable]: ingest }
+  return { [inspectTableJob.name]: inspect, [ingestTableJob.name]: ingest }
 }

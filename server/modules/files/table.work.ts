@@ -1,16 +1,16 @@
 import { suggestMapping } from '@shared/domain/localization-columns'
 import type { JobWork } from '../../jobs/job-protocol'
+import { derivedPaths, ingestTableJob, inspectTableJob } from './file-jobs'
 import { ingestLocalizationTable, sniffTable, TableFormatError } from './localizations'
-import type { FormatOverrides } from './localizations/table.sniffer'
-
-/** What the depositor declared about the table's format (PUT …/format), over what is sniffed. */
-const declaredFormat = (payload: Record<string, unknown>) =>
-  (payload.format as FormatOverrides | null | undefined) ?? undefined
 
 /** Reads the table's format and header and proposes a column mapping. Runs in a worker thread. */
-export const inspectTableWork: JobWork = async (payload, progress) => {
+export const inspectTableWork: JobWork = async (input, { storage, progress }) => {
+  const payload = inspectTableJob.payload.parse(input)
   try {
-    const sniff = await sniffTable(String(payload.source), declaredFormat(payload))
+    const sniff = await sniffTable(
+      storage.originalPath(payload.sourceKey),
+      payload.format ?? undefined,
+    )
     progress(1, 'format read')
     return { sniff, suggestion: suggestMapping(sniff.header, sniff.sampleRows) }
   } catch (err) {
@@ -22,14 +22,19 @@ export const inspectTableWork: JobWork = async (payload, progress) => {
   }
 }
 
-/** Parses, validates and converts the whole table to the tile-ordered columnar store. */
-export const ingestTableWork: JobWork = async (payload, progress) => {
-  return ingestLocalizationTable({
-    sourcePath: String(payload.source),
-    outputPath: String(payload.output),
-    mapping: payload.mapping as never,
-    format: declaredFormat(payload),
-    // The worker thread of this job is itself one of the two cores' worth; let the engine decide.
+/**
+ * Parses, validates and converts the whole table to the tile-ordered columnar store. The report
+ * keeps no paths: where the store lives follows from the file id.
+ */
+export const ingestTableWork: JobWork = async (input, { storage, progress }) => {
+  const payload = ingestTableJob.payload.parse(input)
+  const report = await ingestLocalizationTable({
+    sourcePath: storage.originalPath(payload.sourceKey),
+    outputPath: derivedPaths(storage, payload.fileId).columnar,
+    mapping: payload.mapping,
+    format: payload.format ?? undefined,
     onProgress: (f) => progress(f, 'parsing and converting'),
   })
+  const { arrowPath: _arrow, indexPath: _index, ...output } = report.output
+  return { ...report, output }
 }

@@ -1,6 +1,6 @@
 import { createHash } from 'node:crypto'
 import { createReadStream, existsSync } from 'node:fs'
-import { readdir } from 'node:fs/promises'
+import { readdir, rm } from 'node:fs/promises'
 import type { IncomingMessage } from 'node:http'
 import type { EntityManager } from '@mikro-orm/better-sqlite'
 import { Server, Upload, type Locker } from '@tus/server'
@@ -10,11 +10,18 @@ import type { AppConfig } from '../../config'
 import type { Logger } from '../../logger'
 import type { LocalStorage } from '../../storage/local-storage'
 import { audit } from '../audit/audit.service'
+import { DatasetFile } from '../files/dataset-file.entity'
 import { registerUpload, storageKeyFor } from '../files/file-registry.service'
 import { HashingFileStore } from './hashing-file-store'
 import { handleWithNodeBody } from './node-body'
 import { refuse } from './upload-errors'
-import { checkQuota, uploadName, uploadTarget } from './upload-policy'
+import {
+  checkQuota,
+  targetRefusal,
+  uploaderAbility,
+  uploadName,
+  uploadTarget,
+} from './upload-policy'
 import { UploadReservation } from './upload-reservation.entity'
 
 export const UPLOADS_PATH = '/api/uploads'
@@ -58,10 +65,27 @@ export function createUploads(deps: {
   })
   const em = () => orm.em.fork() as EntityManager
 
-  async function ownUpload(req: Request, id: string): Promise<Upload> {
+  /** Drops an upload's bytes, its tus record and its quota reservation. */
+  async function discard(id: string) {
+    store.forget(id)
+    await store.remove(id).catch(() => undefined)
+    await em().nativeDelete(UploadReservation, { uploadId: id })
+  }
+
+  /**
+   * Every request on an existing upload: it must be the requester's, and its dataset must still
+   * take files from them (`edit`, which ends at submission). An upload whose dataset is gone or
+   * left the editable states can never be registered: its bytes go at once.
+   */
+  async function authorisedUpload(req: Request, id: string): Promise<Upload> {
     const upload = await store.getUpload(id).catch(() => null)
     if (!upload || Number(upload.metadata?.userId) !== req.user?.id)
       throw refuse(404, 'Not found', 'No such upload of yours.')
+    const refusal = await targetRefusal(em(), req.ability, Number(upload.metadata?.datasetId))
+    if (refusal) {
+      await discard(id)
+      throw refusal
+    }
     return upload
   }
 
@@ -72,9 +96,16 @@ export function createUploads(deps: {
     relativeLocation: true,
     respectForwardedHeaders: config.trustProxy > 0,
     maxSize: config.uploads.maxBytes,
+    // Errors that are not refusals of ours or tus's own (a database or disk fault) are logged and
+    // answered in words; their message may hold SQL or paths and never reaches the client.
+    onResponseError: (_req, err) => {
+      if ((err as { status_code?: number }).status_code) return undefined
+      deps.logger.error({ err }, 'upload request failed')
+      return refuse(500, 'Upload failed', 'The server could not store this upload; try again.')
+    },
     onIncomingRequest: async (req, id) => {
       if (req.method === 'POST' || req.method === 'OPTIONS') return
-      await ownUpload(expressRequest(req), id)
+      await authorisedUpload(expressRequest(req), id)
     },
     onUploadCreate: async (req, upload) => {
       const r = expressRequest(req)
@@ -108,6 +139,12 @@ export function createUploads(deps: {
     },
     onUploadFinish: async (req, upload) => {
       const r = expressRequest(req)
+      // The dataset may have been submitted or deleted while the last bytes arrived.
+      const refusal = await targetRefusal(em(), r.ability, Number(upload.metadata?.datasetId))
+      if (refusal) {
+        await discard(upload.id)
+        throw refusal
+      }
       const { sha256, size } = await store.finish(upload.id)
       const file = await registerUpload(em(), storage, {
         upload,
@@ -179,12 +216,23 @@ export function createUploads(deps: {
         const datasetId = Number(upload?.metadata?.datasetId)
         const userId = Number(upload?.metadata?.userId)
         if (!upload || !datasetId || !userId) continue
-        const moved = existsSync(storage.originalPath(storageKeyFor(datasetId, id)))
+        const original = storage.originalPath(storageKeyFor(datasetId, id))
+        const moved = existsSync(original)
         if (!moved && upload.offset !== upload.size) continue
         try {
-          const { sha256, size } = moved
-            ? await hashFile(storage.originalPath(storageKeyFor(datasetId, id)))
-            : await store.finish(id)
+          // Registered already (the crash came after the commit): only the tus record is left.
+          if (await em().count(DatasetFile, { storageKey: storageKeyFor(datasetId, id) })) {
+            await store.configstore.delete(id)
+            continue
+          }
+          // The same rule as a live request: the dataset must still take files from its uploader.
+          const refusal = await targetRefusal(em(), await uploaderAbility(em(), userId), datasetId)
+          if (refusal) {
+            await discard(id)
+            await rm(original, { force: true })
+            continue
+          }
+          const { sha256, size } = moved ? await hashFile(original) : await store.finish(id)
           await registerUpload(em(), storage, {
             upload: { ...upload, size } as Upload,
             sha256,

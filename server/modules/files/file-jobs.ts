@@ -1,0 +1,89 @@
+import { z } from 'zod'
+import {
+  columnMappingSchema,
+  tableFormatChoiceSchema,
+  type ColumnMappingInput,
+} from '@shared/schemas/localization-mapping.schema'
+import type { EntityManager } from '@mikro-orm/better-sqlite'
+import { defineJobKind } from '../../jobs/job-kind'
+import { enqueue } from '../../jobs/job-queue'
+import type { LocalStorage } from '../../storage/local-storage'
+import { Job } from '../../jobs/job.entity'
+import { DatasetFile, type IDatasetFile } from './dataset-file.entity'
+
+const onFile = (p: { fileId: number }) => ({ type: 'file' as const, id: p.fileId })
+const fileId = z.int().positive()
+/** A deposited file's storage key (`<dataset>/<upload id>`), resolved by the worker's storage. */
+const storageKey = z.string().min(1).max(200)
+
+/** Reads a localization table's format and header and proposes a column mapping. */
+export const inspectTableJob = defineJobKind({
+  name: 'inspect-table',
+  payload: z.object({ fileId, sourceKey: storageKey, format: tableFormatChoiceSchema.nullish() }),
+  subject: onFile,
+})
+
+/** Parses, validates and converts a whole table into the tile-ordered localization store. */
+export const ingestTableJob = defineJobKind({
+  name: 'ingest-table',
+  payload: z.object({
+    fileId,
+    sourceKey: storageKey,
+    mapping: columnMappingSchema,
+    format: tableFormatChoiceSchema.nullish(),
+  }),
+  subject: onFile,
+  after: ['inspect-table'],
+})
+
+/** Header, frame-mean trace and projection thumbnail of a raw stack (all parts of a file set). */
+export const scanRawStackJob = defineJobKind({
+  name: 'scan-raw-stack',
+  payload: z.object({ fileId, sourceKey: storageKey, partKeys: z.array(storageKey).optional() }),
+  subject: onFile,
+})
+
+/** Where a file's derived outputs go; the same on both threads, from the file id alone. */
+export function derivedPaths(storage: LocalStorage, fileId: number) {
+  return {
+    columnar: storage.derivedPath(fileId, 'localizations.arrow'),
+    thumbnail: storage.derivedPath(fileId, 'projection.png'),
+    trace: storage.derivedPath(fileId, 'frame-means.json'),
+  }
+}
+
+/** Queues the first job a newly registered file needs, if any. */
+export async function queueFirstJob(em: EntityManager, file: IDatasetFile): Promise<void> {
+  const payload = { fileId: file.id, sourceKey: file.storageKey }
+  if (file.kind === 'localization_table') await enqueue(em, inspectTableJob, payload)
+  if (file.kind === 'raw_stack') await enqueue(em, scanRawStackJob, payload)
+}
+
+/**
+ * Start-up repair: a file still "processing" must have work queued or running for it; one that
+ * lost its job (an older release registered files and jobs in separate steps) gets it again —
+ * the ingest when its mapping is known, else its first job.
+ */
+export async function queueMissingFileJobs(em: EntityManager): Promise<number> {
+  const waiting = await em.find(DatasetFile, { status: 'processing' })
+  let queued = 0
+  for (const file of waiting) {
+    const active = await em.count(Job, {
+      subjectType: 'file',
+      subjectId: file.id,
+      state: { $in: ['queued', 'running'] },
+    })
+    if (active) continue
+    if (file.kind === 'localization_table' && file.mapping) {
+      await enqueue(em, ingestTableJob, {
+        fileId: file.id,
+        sourceKey: file.storageKey,
+        // Checked against the mapping schema by enqueue().
+        mapping: file.mapping as ColumnMappingInput,
+      })
+    } else await queueFirstJob(em, file)
+    queued++
+  }
+  await em.flush()
+  return queued
+}
