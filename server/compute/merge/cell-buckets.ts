@@ -15,7 +15,13 @@ export class CellBuckets {
   readonly nearBuckets = new Uint32Array(4)
 
   /** Buckets the points with ids ids[0 … count − 1] at (xs[id], ys[id]). */
-  build(ids: Uint32Array, count: number, xs: Float64Array, ys: Float64Array, radius: number) {
+  build(
+    ids: Uint32Array,
+    count: number,
+    xs: ArrayLike<number>,
+    ys: ArrayLike<number>,
+    radius: number,
+  ) {
     let tableSize = 2
     while (tableSize < 8 * count) tableSize *= 2
     this.mask = tableSize - 1
