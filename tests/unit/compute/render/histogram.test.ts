@@ -54,6 +54,17 @@ describe('histogram render', () => {
     expectEqualCounts(renderHistogram(locs, field, filter), bruteForceCounts(locs, field, filter))
   })
 
+  it('a large image (counted band by band) equals the brute-force count', () => {
+    const big: RenderView = { xMinNm: 0, yMinNm: 0, pixelNm: 1, width: 1500, height: 1100 }
+    const many = randomTable(600_000, 22, { x0: -50, x1: 1550, y0: -50, y1: 1150 })
+    const image = renderHistogram(many, big, { frameMax: 899 })
+    const expected = bruteForceCounts(many, big, { frameMax: 899 })
+    let mismatches = 0
+    for (let p = 0; p < image.length; p++) if (image[p] !== (expected.get(p) ?? 0)) mismatches++
+    expect(mismatches).toBe(0)
+    expect(sum(image)).toBe(sum([...expected.values()]))
+  })
+
   it('row 0 holds the smallest y and pixels are half-open', () => {
     const v: RenderView = { xMinNm: 0, yMinNm: 0, pixelNm: 10, width: 3, height: 2 }
     const image = renderHistogram(
