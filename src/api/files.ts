@@ -1,12 +1,17 @@
 import type { FileKind, FileStatus } from '@shared/domain/files'
-import type { ColumnRole, ColumnUnit, MappingSuggestion } from '@shared/domain/localization-columns'
+import type { FileValidation, TableReport } from '@shared/schemas/file-report.schema'
+
+export type {
+  FileValidation,
+  OmePrefill,
+  StackReport,
+  TableReport,
+} from '@shared/schemas/file-report.schema'
 import type {
-  ColumnMapping,
   ColumnMappingInput,
   TableFormatChoice,
 } from '@shared/schemas/localization-mapping.schema'
 import { api } from './client'
-import type { OmeImportReport } from './metadata'
 
 export interface FileJob {
   state: string
@@ -42,96 +47,6 @@ export interface FilesAnswer {
   items: DatasetFileDto[]
   uploadsInProgress: UploadInProgress[]
 }
-
-/** How a table is written, as the inspection found it; `sampleRows` are its first rows as text. */
-export interface TableSniff {
-  delimiter: string
-  hasHeader: boolean
-  header: string[]
-  sampleRows: string[][]
-  compression: string
-  decimalMark: string
-  dataStartLine?: number
-  problems: string[]
-}
-
-export interface RejectExample {
-  /** 1-based line of the file where the record starts. */
-  line: number
-  text: string
-  column?: string
-  detail?: string
-}
-
-export interface RejectedReason {
-  count: number
-  description: string
-  examples: RejectExample[]
-}
-
-export interface IngestedColumn {
-  name: string
-  role: ColumnRole
-  unit: string | null
-  sourceColumn?: string
-  sourceUnit?: ColumnUnit | null
-  min: number | null
-  max: number | null
-  count: number
-  missing?: number
-}
-
-/** A table's report: the inspection always, the ingest's findings once it ran. */
-export interface TableReport {
-  sniff?: TableSniff
-  /** The separator the depositor declared (PUT …/format), when they did. */
-  declaredFormat?: TableFormatChoice | null
-  suggestion?: MappingSuggestion
-  rowsRead?: number
-  rowsAccepted?: number
-  rowsRejected?: number
-  rejected?: Record<string, RejectedReason>
-  columns?: IngestedColumn[]
-  boundsNm?: { xMin: number; xMax: number; yMin: number; yMax: number } | null
-  /** Stored frame numbers, counted from 0. */
-  frames?: { first: number; last: number; sourceBase: 0 | 1 } | null
-  aduColumns?: string[]
-  problems?: string[]
-}
-
-export type OmePrefill = OmeImportReport | { error: string }
-
-export interface StackReport {
-  format: string
-  byteOrder: string
-  width: number
-  height: number
-  frames: number
-  bitsPerSample: number
-  sampleFormat: string
-  compression: string
-  fileSet: string[]
-  hasOmeXml: boolean
-  omePrefill: OmePrefill | null
-  trace?: { min: number; max: number; mean: number }
-  thumbnail?: { width: number; height: number }
-}
-
-interface ValidationBase {
-  id: number
-  name: string
-  status: FileStatus
-  problem: string | null
-  mapping: ColumnMapping | null
-}
-
-/** GET …/validation: the report's shape follows the file's kind. */
-export type FileValidation = ValidationBase &
-  (
-    | { kind: 'localization_table'; report: TableReport | null }
-    | { kind: 'raw_stack'; report: StackReport | null }
-    | { kind: 'metadata' | 'other'; report: null }
-  )
 
 /** The table report of a validation, when the file is a table. */
 export const tableReportOf = (v: FileValidation | null): TableReport | null =>

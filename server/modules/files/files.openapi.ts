@@ -5,6 +5,7 @@ import {
   columnMappingSchema,
   tableFormatChoiceSchema,
 } from '@shared/schemas/localization-mapping.schema'
+import { fileValidationSchema } from '@shared/schemas/file-report.schema'
 import { listOf, registerJsonRoute } from '../../openapi/registry'
 
 const fileSchema = z
@@ -46,9 +47,12 @@ export function registerFilePaths(registry: OpenAPIRegistry) {
     path: '/api/datasets/{idOrAccession}/files/{fileId}/validation',
     summary:
       'What validation or scanning found (rows by reject reason with examples and line numbers; stack dimensions)',
+    description:
+      'Follows the preview right. The first rows of a table and the text of rejected rows are included only for those who may download the file.',
     tags,
     params: fileParams,
-    errors: [404],
+    response: fileValidationSchema,
+    errors: [403, 404],
   })
   registerJsonRoute(registry, {
     method: 'put',

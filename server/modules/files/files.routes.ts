@@ -16,6 +16,7 @@ import { datasetFor, datasetParams } from '../datasets/dataset-access'
 import { UploadReservation } from '../uploads/upload-reservation.entity'
 import { DatasetFile, type IDatasetFile } from './dataset-file.entity'
 import { fileDownloadsRouter } from './file-downloads.routes'
+import { toFileValidation } from './file-report.mapper'
 import { queueIngest, queueInspect } from './table-jobs.completions'
 
 const fileParams = datasetParams.extend({ fileId: idSchema })
@@ -94,20 +95,13 @@ export function filesRouter(storage: LocalStorage, jobs?: { notify(): void }): R
     })
   })
 
+  /** The validation report follows the preview right; the table's own text the download right. */
   router.get('/files/:fileId/validation', async (req, res) => {
     const { id, fileId } = parseParams(fileParams, req)
-    const dataset = await datasetFor(req, em(), id, 'read')
+    const dataset = await datasetFor(req, em(), id, 'preview')
     const file = await em().findOne(DatasetFile, { id: fileId, dataset: dataset.id })
     if (!file) throw new NotFoundError('file', fileId)
-    res.json({
-      id: file.id,
-      name: file.name,
-      kind: file.kind,
-      status: file.status,
-      problem: file.problem ?? null,
-      mapping: file.mapping ?? null,
-      report: file.report ?? null,
-    })
+    res.json(toFileValidation(file, req.ability.can('download', datasetSubject(dataset))))
   })
 
   /**

@@ -9,6 +9,7 @@ import {
   type Upload,
 } from '@tus/server'
 import { NodeRequest, sendNodeResponse } from 'srvx/node'
+import { PROBLEM_CONTENT_TYPE } from '@shared/api/problem'
 
 /**
  * tus (2.x) handles a web Request: the Node request body becomes a web ReadableStream
@@ -40,8 +41,28 @@ export function handleWithNodeBody(tus: Server) {
     const response = await (tus as unknown as { handler(r: Request): Promise<Response> }).handler(
       request as unknown as Request,
     )
-    await sendNodeResponse(res, response)
+    await sendNodeResponse(res, response.status >= 400 ? await asProblem(response) : response)
   }
+}
+
+/**
+ * Error answers as application/problem+json, like the rest of the API: our refusals already have
+ * a problem body; tus's own (a wrong offset, a missing header) are plain text and get wrapped.
+ */
+async function asProblem(response: Response): Promise<Response> {
+  const text = await response.text()
+  const headers = new Headers(response.headers)
+  headers.set('content-type', PROBLEM_CONTENT_TYPE)
+  const body = text.startsWith('{')
+    ? text
+    : JSON.stringify({
+        type: '/problems/upload',
+        title: 'Upload refused',
+        status: response.status,
+        detail: text.trim(),
+      })
+  headers.delete('content-length')
+  return new Response(body, { status: response.status, headers })
 }
 
 /**

@@ -152,10 +152,13 @@ export function createUploads(deps: {
         size,
         userId: r.user!.id,
         ip: r.ip ?? null,
-      }).finally(() =>
-        // Registered or refused, the upload is over: its tus record goes either way.
-        store.configstore.delete(upload.id),
-      )
+      }).catch(async (err: unknown) => {
+        // Refused, the upload is over. A fault (database, disk) keeps the tus record, so the
+        // start-up repair registers the bytes later: nothing received is lost.
+        if ((err as { status_code?: number }).status_code) await store.configstore.delete(upload.id)
+        throw err
+      })
+      await store.configstore.delete(upload.id)
       deps.onRegistered?.()
       // A creation-with-upload POST reads the upload once more after this hook, to decide on
       // Upload-Expires; the record is gone by then, so the store answers from memory until the
@@ -212,7 +215,9 @@ export function createUploads(deps: {
       for (const name of await readdir(storage.uploadsDir)) {
         if (!name.endsWith('.json')) continue
         const id = name.slice(0, -5)
-        const upload = await store.getUpload(id).catch(() => null)
+        // The record, not getUpload(): once the bytes were moved the tus file is gone.
+        const record = await store.configstore.get(id).catch(() => undefined)
+        const upload = record ? await store.getUpload(id).catch(() => record) : null
         const datasetId = Number(upload?.metadata?.datasetId)
         const userId = Number(upload?.metadata?.userId)
         if (!upload || !datasetId || !userId) continue
