@@ -9,6 +9,7 @@ import { authenticate, requireUser } from './http/authenticate'
 import { sameOriginWrites } from './http/csrf'
 import { apiNotFound, errorHandler } from './http/error-handler'
 import { refuseNulInUrl } from './http/nul-guard'
+import { failedTokenLimit } from './http/rate-limit'
 import { requestContext } from './http/request-context'
 import { securityHeaders } from './http/security-headers'
 import { auditRouter } from './modules/audit/audit.routes'
@@ -26,6 +27,7 @@ import { meRouter } from './modules/users/me.routes'
 import { instrumentProfilesRouter } from './modules/metadata/instrument-profiles.routes'
 import { metadataRouter } from './modules/metadata/metadata.routes'
 import { buildOpenApiDocument } from './openapi/document'
+import type { AppConfig } from './config'
 import type { AppDeps } from './services'
 import { LocalStorage } from './storage/local-storage'
 import { createUploads, UPLOADS_PATH } from './modules/uploads/uploads'
@@ -45,6 +47,15 @@ export interface CreateAppOptions extends Omit<AppDeps, 'storage'> {
 
 const asset = (path: string) => fileURLToPath(new URL(path, import.meta.url))
 export const SESSION_COOKIE = 'stipple.sid'
+
+/** Secure whenever users reach Stipple over https, whatever the hop from the proxy looks like. */
+export const sessionCookieOptions = (config: AppConfig) =>
+  ({
+    httpOnly: true,
+    sameSite: 'lax',
+    secure: config.secureCookies ? true : 'auto',
+    maxAge: 8 * 3600_000,
+  }) as const
 
 /** Builds the whole HTTP application; it never listens (server/main.ts does). */
 export function createApp(appOptions: CreateAppOptions): Express {
@@ -89,7 +100,7 @@ export function createApp(appOptions: CreateAppOptions): Express {
     resave: false,
     saveUninitialized: false,
     rolling: true,
-    cookie: { httpOnly: true, sameSite: 'lax', secure: 'auto', maxAge: 8 * 3600_000 },
+    cookie: sessionCookieOptions(config),
   })
   // Scripts and workstations authenticate with a bearer token and never carry a session.
   app.use((req, res, next) =>
@@ -99,6 +110,7 @@ export function createApp(appOptions: CreateAppOptions): Express {
     orm.em.fork(),
   )
   app.locals.close = () => accessVersion.close()
+  app.use(failedTokenLimit(config.rateLimitSignIn))
   app.use(authenticate(accessVersion))
   app.use(sameOriginWrites(new URL(config.publicUrl).origin))
 

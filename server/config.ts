@@ -62,6 +62,8 @@ export interface AppConfig {
   smtpUrl: string | null
   mailFrom: string
   trustProxy: number
+  /** The session cookie is always Secure when users reach Stipple over https. */
+  secureCookies: boolean
   rateLimitSignIn: number
   logLevel: 'silent' | 'error' | 'info' | 'debug'
   uploads: { maxBytes: number; projectQuotaBytes: number; expiryMs: number }
@@ -111,6 +113,12 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): AppConfig {
       problems.push('OIDC_ISSUER, OIDC_CLIENT_ID and OIDC_CLIENT_SECRET must name a real provider')
     if (!e.SMTP_URL) problems.push('SMTP_URL must name a real mail server')
     if (!e.PUBLIC_URL?.startsWith('https://')) problems.push('PUBLIC_URL must be an https:// URL')
+    // Stipple speaks plain HTTP behind a TLS proxy; without trusting it, every request looks
+    // insecure and the (always Secure) session cookie would never be set: sign-in would loop.
+    else if (e.TRUST_PROXY < 1)
+      problems.push(
+        'TRUST_PROXY must be at least 1: an https PUBLIC_URL is served through a TLS proxy, and the session cookie is Secure',
+      )
     if (problems.length) {
       throw new ConfigError(
         `Refusing to start in production with demo settings:\n  ${problems.join('\n  ')}`,
@@ -145,6 +153,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): AppConfig {
     smtpUrl: e.SMTP_URL ?? null,
     mailFrom: e.MAIL_FROM,
     trustProxy: e.TRUST_PROXY,
+    secureCookies: publicUrl.startsWith('https://'),
     rateLimitSignIn: e.RATE_LIMIT_SIGN_IN,
     logLevel: e.LOG_LEVEL,
     uploads: {

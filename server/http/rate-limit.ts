@@ -1,6 +1,7 @@
 import cluster from 'node:cluster'
 import { ClusterMemoryStoreWorker } from '@express-rate-limit/cluster-memory-store'
-import { rateLimit, type RateLimitRequestHandler } from 'express-rate-limit'
+import { rateLimit, type Options, type RateLimitRequestHandler } from 'express-rate-limit'
+import { HttpError } from '../errors/http-error'
 
 /**
  * A per-address limit of `limit` requests a minute, with the standard RateLimit headers. In an
@@ -8,12 +9,37 @@ import { rateLimit, type RateLimitRequestHandler } from 'express-rate-limit'
  * cluster store), so the limit holds for the whole server, not per process. `name` keeps the
  * limiters' counts apart there.
  */
-export function perMinuteLimit(name: string, limit: number): RateLimitRequestHandler {
+export function perMinuteLimit(
+  name: string,
+  limit: number,
+  options: Partial<Pick<Options, 'skip' | 'requestWasSuccessful' | 'skipSuccessfulRequests'>> = {},
+): RateLimitRequestHandler {
   return rateLimit({
     windowMs: 60_000,
     limit,
     standardHeaders: 'draft-8',
     legacyHeaders: false,
+    ...options,
+    handler: (_req, _res, next) =>
+      next(
+        new HttpError(
+          429,
+          'Too many requests',
+          'Too many attempts from your address; wait a minute and try again.',
+          '/problems/too-many-requests',
+        ),
+      ),
     ...(cluster.isWorker ? { store: new ClusterMemoryStoreWorker({ prefix: name }) } : {}),
   })
 }
+
+/**
+ * Guessing tokens: requests with an Authorization header count against the sign-in limit only
+ * when they are turned away as unauthenticated (401), so scripts with a good token are never slowed.
+ */
+export const failedTokenLimit = (limit: number) =>
+  perMinuteLimit('bearer-failures', limit, {
+    skip: (req) => req.headers.authorization === undefined,
+    skipSuccessfulRequests: true,
+    requestWasSuccessful: (_req, res) => res.statusCode !== 401,
+  })

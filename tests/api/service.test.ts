@@ -1,5 +1,6 @@
 import request from 'supertest'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { sessionCookieOptions } from '@server/app'
 import { ConfigError, loadConfig } from '@server/config'
 import { createTestApp, type TestApp } from '../fixtures/test-app'
 
@@ -91,11 +92,32 @@ describe('configuration', () => {
       OIDC_CLIENT_ID: 'stipple',
       OIDC_CLIENT_SECRET: 'from-the-environment',
       SMTP_URL: 'smtp://mail.example.org:587',
+      TRUST_PROXY: '1',
     })
     expect(config).toMatchObject({
       demo: false,
+      secureCookies: true,
       oidc: { local: false, issuer: 'https://login.example.org/realms/lab' },
     })
+  })
+
+  it('in production over https, the session cookie is Secure, and a server that trusts no proxy refuses to start', () => {
+    const production = {
+      NODE_ENV: 'production',
+      DATA_DIR: t.config.dataDir,
+      PUBLIC_URL: 'https://hub.example.org',
+      OIDC_ISSUER: 'https://login.example.org/realms/lab',
+      OIDC_CLIENT_ID: 'stipple',
+      OIDC_CLIENT_SECRET: 'from-the-environment',
+      SMTP_URL: 'smtp://mail.example.org:587',
+    }
+    expect(() => loadConfig(production)).toThrow(/TRUST_PROXY must be at least 1/)
+    for (const trust of ['1', '2'])
+      expect(sessionCookieOptions(loadConfig({ ...production, TRUST_PROXY: trust })).secure).toBe(
+        true,
+      )
+    // Plain http in development: Secure only when the request itself came over https.
+    expect(sessionCookieOptions(t.config).secure).toBe('auto')
   })
 
   it('explains a malformed environment', () => {

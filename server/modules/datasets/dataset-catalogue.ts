@@ -66,21 +66,34 @@ function toDto(r: CatalogueRow): DatasetDto {
   }
 }
 
+/**
+ * `%` and `_` are LIKE's wildcards; searched for as text they are escaped, and SQLite honours an
+ * escape only when the query names one, which MikroORM's $like does not: hence a raw fragment.
+ * A fragment is good for one query only, so the search filter is built afresh for each use.
+ */
+function searchFilter(text: string): FilterQuery<IDataset> {
+  const like = `%${text.replace(/[\\%_]/g, (c) => `\\${c}`)}%`
+  const columns = ['title', 'description', 'accession']
+  return {
+    [raw(
+      (alias: string) => `(${columns.map((c) => `${alias}.${c} like ? escape '\\'`).join(' or ')})`,
+      columns.map(() => like),
+    )]: [],
+  }
+}
+
 function filtersFor(allowed: FilterQuery<IDataset>, q: ListDatasetsParams): ObjectQuery<IDataset> {
-  const filters: FilterQuery<IDataset>[] = [allowed]
+  const filters: FilterQuery<IDataset>[] = [structuredClone(allowed)]
   if (q.projectId) filters.push({ project: q.projectId })
   if (q.state) filters.push({ state: q.state })
-  if (q.q) {
-    const like = `%${q.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`
-    filters.push({
-      $or: [
-        { title: { $like: like } },
-        { description: { $like: like } },
-        { accession: { $like: like } },
-      ],
-    })
-  }
+  if (q.q) filters.push(searchFilter(q.q))
   return { $and: filters }
+}
+
+/** A list filter: `where()` gives a fresh copy for each query (MikroORM rewrites what it is given). */
+interface CatalogueFilter {
+  where(): ObjectQuery<IDataset>
+  key: string
 }
 
 /**
@@ -95,10 +108,7 @@ export class DatasetCatalogue {
   private readonly totals = new VersionedCache<number>(2000)
   private readonly pages = new VersionedCache<Page<DatasetDto>>(500)
   /** The filter (and its cache key) per abilities object and query; abilities are reused for a second. */
-  private readonly filters = new WeakMap<
-    object,
-    Map<string, { where: ObjectQuery<IDataset>; key: string } | null>
-  >()
+  private readonly filters = new WeakMap<object, Map<string, CatalogueFilter | null>>()
 
   /** A page from the cache, without waiting for anything; undefined when it must be read. */
   cached(actor: Actor, q: ListDatasetsParams): Page<DatasetDto> | undefined {
@@ -120,8 +130,7 @@ export class DatasetCatalogue {
     const pageKey = this.pageKey(filter.key, q)
     const cached = this.pages.get(pageKey, version)
     if (cached) return cached
-    // MikroORM rewrites the filter objects it is given; the memoised one must stay intact.
-    const page = await this.read(em(), structuredClone(filter.where), filter.key, version, q)
+    const page = await this.read(em(), filter, version, q)
     this.pages.set(pageKey, version, page)
     return page
   }
@@ -137,8 +146,13 @@ export class DatasetCatalogue {
     let filter = perAbility.get(queryKey)
     if (filter === undefined) {
       const allowed = accessibleWhere<IDataset>(actor.ability, 'read', 'Dataset')
-      const where = allowed === null ? null : filtersFor(allowed, q)
-      filter = where === null ? null : { where, key: JSON.stringify(where) }
+      filter =
+        allowed === null
+          ? null
+          : {
+              where: () => filtersFor(allowed, q),
+              key: JSON.stringify({ allowed, queryKey }),
+            }
       // Free-text searches are too varied to keep; the rest are a handful per person.
       if (!q.q) perAbility.set(queryKey, filter)
     }
@@ -147,15 +161,14 @@ export class DatasetCatalogue {
 
   private async read(
     em: EntityManager,
-    where: ObjectQuery<IDataset>,
-    key: string,
+    filter: CatalogueFilter,
     version: number,
     q: ListDatasetsParams,
   ) {
-    let total = this.totals.get(key, version)
+    let total = this.totals.get(filter.key, version)
     if (total === undefined) {
-      total = await em.count(Dataset, structuredClone(where))
-      this.totals.set(key, version, total)
+      total = await em.count(Dataset, filter.where())
+      this.totals.set(filter.key, version, total)
     }
     if (total === 0 || q.offset >= total) return { items: [], total }
 
@@ -167,7 +180,7 @@ export class DatasetCatalogue {
       .select([raw('d.*'), raw('p.name as project_name'), raw('u.name as creator_name')])
       .join('d.project', 'p')
       .leftJoin('d.createdBy', 'u')
-      .where(where)
+      .where(filter.where())
       .orderBy([{ [raw(column)]: direction }, { id: direction }])
       .limit(q.limit)
       .offset(q.offset)

@@ -66,11 +66,27 @@ export function parseOmeXml(xml: string): XmlNode {
     trimValues: true,
     isArray: (name) => REPEATED.has(name),
   })
-  const doc = parser.parse(xml) as XmlNode
+  const doc = parseOrRefuse(parser, xml)
   const ome = doc.OME
   if (!ome || typeof ome !== 'object')
     throw new BadRequestError('This XML document has no <OME> root element.')
   return ome as XmlNode
+}
+
+/** The parser's own refusals (nesting too deep, names that could pollute prototypes) are the sender's. */
+function parseOrRefuse(parser: XMLParser, xml: string): XmlNode {
+  try {
+    return parser.parse(xml) as XmlNode
+  } catch (err) {
+    const reason = err instanceof Error ? err.message.replace(/^\[SECURITY\]\s*/, '') : ''
+    throw new BadRequestError(
+      /nested/i.test(reason)
+        ? 'The XML nests elements too deeply to be read.'
+        : /Invalid name/i.test(reason)
+          ? `The XML uses a name that is refused: ${reason.replace(/^Invalid name:\s*/, '')}.`
+          : 'The XML could not be read.',
+    )
+  }
 }
 
 export const children = (node: XmlNode | undefined, name: string): XmlNode[] => {
