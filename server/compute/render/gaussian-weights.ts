@@ -1,8 +1,8 @@
 /**
  * One axis of a pixel-integrated Gaussian kernel: the share of a 1D Gaussian (centre u, SD s, both
- * in pixels) falling in each pixel of a window truncated at ±`truncate`·s, renormalized so the
- * whole window holds exactly 1. Only the pixels inside [0, size) are written; the share of the
- * window they hold is returned, so the caller knows how much of the kernel the view kept.
+ * in pixels) falling in each pixel of a window truncated at ±`truncate`·s. Weights are written
+ * unnormalized for the pixels inside [0, size); `scale` renormalizes them so the whole window
+ * (inside the view or not) holds exactly 1, and `keptShare` is the normalized share inside.
  */
 import { normalCdf } from './normal-cdf'
 
@@ -11,11 +11,15 @@ export interface AxisWindow {
   first: number
   /** Pixels written. */
   length: number
+  /** Factor that normalizes the written weights over the whole window. */
+  scale: number
   /** Share of the kernel on this axis inside the view, 0…1. */
   keptShare: number
 }
 
-/** Pixel-edge positions are at whole numbers: pixel c spans [c, c+1). */
+export const emptyWindow = (): AxisWindow => ({ first: 0, length: 0, scale: 0, keptShare: 0 })
+
+/** Pixel edges are at whole numbers: pixel c spans [c, c+1). */
 export function fillAxisWeights(
   u: number,
   s: number,
@@ -26,23 +30,23 @@ export function fillAxisWeights(
 ): void {
   const windowStart = Math.floor(u - truncate * s)
   const windowEnd = Math.floor(u + truncate * s) + 1
-  const first = Math.max(0, windowStart)
-  const end = Math.min(size, windowEnd)
+  const first = windowStart > 0 ? windowStart : 0
+  const end = windowEnd < size ? windowEnd : size
   out.first = first
-  out.length = Math.max(0, end - first)
+  out.length = end > first ? end - first : 0
   out.keptShare = 0
-  if (out.length === 0) return
+  if (end <= first) return
   const inverse = 1 / s
-  const total = normalCdf((windowEnd - u) * inverse) - normalCdf((windowStart - u) * inverse)
-  const scale = 1 / total
-  let left = normalCdf((first - u) * inverse)
-  let kept = 0
-  for (let k = 0; k < out.length; k++) {
+  const firstEdge = normalCdf((first - u) * inverse)
+  let left = firstEdge
+  for (let k = 0; k < end - first; k++) {
     const right = normalCdf((first + k + 1 - u) * inverse)
-    const w = (right - left) * scale
-    weights[k] = w
-    kept += w
+    weights[k] = right - left
     left = right
   }
-  out.keptShare = kept
+  // The window's own ends are the edges just computed unless the view cut the window.
+  const low = first === windowStart ? firstEdge : normalCdf((windowStart - u) * inverse)
+  const high = end === windowEnd ? left : normalCdf((windowEnd - u) * inverse)
+  out.scale = 1 / (high - low)
+  out.keptShare = (left - firstEdge) * out.scale
 }

