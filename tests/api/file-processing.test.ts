@@ -19,6 +19,7 @@ import { bearer, buildDataset, buildMember, buildProject, tokenFor } from '../fi
 import { listen } from '../fixtures/live-server'
 import { createTestApp, type TestApp } from '../fixtures/test-app'
 import { writeTiffStack } from '../fixtures/tiff-writer'
+import { omeStandardFile } from '../fixtures/ome-standard'
 import { tusUpload } from '../fixtures/tus-upload'
 
 let t: TestApp
@@ -204,10 +205,7 @@ describe('raw stacks', () => {
       height: 24,
       frames: 12,
       pixels: (f) => new Array(32 * 24).fill(100 + f),
-      description: readFileSync(
-        join(process.cwd(), '../shared/standards/ome-2016-06/minimum-specification.ome.xml'),
-        'utf8',
-      ),
+      description: readFileSync(omeStandardFile('minimum-specification.ome.xml'), 'utf8'),
     })
     const id = await uploadText('stack.tif', readFileSync(path))
     const file = await settled(id)

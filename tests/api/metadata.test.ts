@@ -1,10 +1,10 @@
 import { readFileSync } from 'node:fs'
-import { join } from 'node:path'
 import request from 'supertest'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { DatasetMetadata } from '@server/modules/metadata/dataset-metadata.entity'
 import { bearer, buildDataset, buildMember, buildProject, tokenFor } from '../fixtures/builders'
 import { completeMetadata } from '../fixtures/metadata'
+import { omeStandardFile } from '../fixtures/ome-standard'
 import { createTestApp, type TestApp } from '../fixtures/test-app'
 
 let t: TestApp
@@ -100,10 +100,7 @@ describe('the metadata routes', () => {
   })
 
   it('import OME-XML as prefill, refusing hostile documents', async () => {
-    const xml = readFileSync(
-      join(process.cwd(), '../shared/standards/ome-2016-06/instrument.ome.xml'),
-      'utf8',
-    )
+    const xml = readFileSync(omeStandardFile('instrument.ome.xml'), 'utf8')
     const res = await request(t.app)
       .post('/api/metadata/import')
       .set(bearer(depositor))

@@ -1,10 +1,9 @@
-import { readFileSync } from 'node:fs'
-import { join } from 'node:path'
 import { describe, expect, it } from 'vitest'
 import * as terms from '@shared/metadata/ome-terms'
+import { readOmeStandard } from '../../fixtures/ome-standard'
 
 /** The official OME 2016-06 XSD, kept in the repository's neighbour folder of published standards. */
-const xsd = readFileSync(join(process.cwd(), '../shared/standards/ome-2016-06/ome.xsd'), 'utf8')
+const xsd = readOmeStandard('ome.xsd')
 
 function enumerationOf(element: string, attribute: string): string[] {
   const start = xsd.indexOf(`<xsd:element name="${element}"`)

@@ -7,9 +7,10 @@ import { metadataSchema, type DatasetMetadata } from '@shared/metadata/metadata.
 import { exportOmeXml } from '@server/modules/metadata/ome/ome-export'
 import { importOmeXml } from '@server/modules/metadata/ome/ome-import'
 import { completeMetadata } from '../../fixtures/metadata'
+import { OME_STANDARD_DIR } from '../../fixtures/ome-standard'
 
 /** The OME data model specification's own files, release 2016-06 (schema and sample documents). */
-const STANDARD = join(process.cwd(), '../shared/standards/ome-2016-06')
+const STANDARD = OME_STANDARD_DIR
 const sample = (name: string) => readFileSync(join(STANDARD, name), 'utf8')
 const subject = {
   accession: 'STPL-000042',
