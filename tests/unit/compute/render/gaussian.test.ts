@@ -35,7 +35,8 @@ function simpsonPixel(cx: number, cy: number, s: number, px: number, py: number)
 describe('Gaussian render', () => {
   it('one localization, σ = 10 nm on 1 nm pixels: peak ≈ 1/(2π·100), total 1 (DOMAIN §1.11 [S])', () => {
     const locs = tableOf({ x: [100.5], y: [100.5] })
-    const image = renderGaussian(locs, view(1, 201), { sigmaNm: 10 })
+    // Truncated far out (6σ), so the image is the untruncated Gaussian the check values describe.
+    const image = renderGaussian(locs, view(1, 201), { sigmaNm: 10, truncateSigmas: 6 })
     // The pixel integral is a little below the point density 0.0015915 (0.0015902 by erf).
     expect(image[100 * 201 + 100]).toBeCloseTo(0.0015915, 5)
     expect(Math.max(...image)).toBe(image[100 * 201 + 100])
@@ -44,9 +45,19 @@ describe('Gaussian render', () => {
 
   it('on 5 nm pixels the centred pixel holds erf(5/(2√2·10))² = 0.03897 (DOMAIN §1.11 [S])', () => {
     const locs = tableOf({ x: [102.5], y: [102.5] })
-    const image = renderGaussian(locs, view(5, 41), { sigmaNm: 10 })
+    const image = renderGaussian(locs, view(5, 41), { sigmaNm: 10, truncateSigmas: 6 })
     expect(image[20 * 41 + 20]).toBeCloseTo(0.03897, 5)
     expect(sum(image)).toBeCloseTo(1, 5)
+  })
+
+  it('the default 3σ cut keeps the total at 1 and moves the centre by the renormalization only', () => {
+    const locs = tableOf({ x: [102.5], y: [102.5] })
+    const image = renderGaussian(locs, view(5, 41), { sigmaNm: 10 })
+    expect(sum(image)).toBeCloseTo(1, 5)
+    // DOMAIN §1.11 value 0.03897 to more digits (Python math.erf); the window ends at pixel edges
+    // 6.5 px = 3.25σ from the centre and holds erf(3.25/√2)² of the mass.
+    const windowMass = erf(3.25 / Math.SQRT2) ** 2
+    expect(image[20 * 41 + 20]).toBeCloseTo(0.038971755 / windowMass, 6)
   })
 
   it('matches a Simpson-rule integral of the Gaussian over every pixel (independent quadrature)', () => {
