@@ -1,0 +1,91 @@
+/**
+ * Localization precision of a table: the table's own uncertainty column when it has one, else the
+ * precision its photon counts predict (Thompson 2002, or Mortensen 2010 with the EMCCD excess-noise
+ * factor for EMCCD detectors), plus the ratio of the two medians for the plain-language verdict.
+ */
+import type { Localizations } from '../localizations.types'
+import { distribution, type Distribution } from './distribution'
+import {
+  describePrecisionInputs,
+  expectationInputs,
+  expectedColumn,
+  type PrecisionInputs,
+  type PrecisionOptions,
+} from './precision-inputs'
+import { computed, notComputable, type StatisticResult } from './result'
+
+export interface PrecisionSummary {
+  source: 'uncertainty column' | 'expected from photons'
+  medianNm: number
+  distribution: Distribution
+  /** Median precision the photon counts predict, and the formula used; null without photons. */
+  expectedMedianNm: number | null
+  expectedFormula: string | null
+  /** Median of the column ÷ expected median (1 = as good as photon statistics allow). */
+  measuredToExpected: number | null
+}
+
+export const PRECISION_METHOD =
+  'Median and distribution of the uncertainty column when present, else of the precision expected ' +
+  'per localization from its photons and background (one PSF width and pixel size per table); ' +
+  'measured-to-expected ratio = ratio of the two medians'
+
+const DEFAULT_SAMPLE = 262_144
+
+/** Median (rank ⌈n/2⌉) of the expected precision over a systematic sample of rows. */
+function expectedMedian(table: Localizations, inputs: PrecisionInputs, sampleSize: number) {
+  const stride = Math.max(1, Math.floor(table.count / sampleSize))
+  const values = expectedColumn(table, inputs, stride)
+    .filter((v) => v - v === 0)
+    .sort()
+  return values.length ? (values[Math.ceil(values.length / 2) - 1] ?? null) : null
+}
+
+/** Precision statistics; pass the uncertainty column's distribution if already computed. */
+export function precisionStatistics(
+  table: Localizations,
+  options: PrecisionOptions = {},
+  uncertaintyDistribution?: StatisticResult<Distribution>,
+): StatisticResult<PrecisionSummary> {
+  const inputs = expectationInputs(table, options)
+  const parameters = describePrecisionInputs(inputs, options)
+  const method = PRECISION_METHOD
+  if (table.count === 0) return notComputable('The table has no localizations.', method, parameters)
+  const formula = typeof inputs === 'string' ? null : (parameters.formula as string)
+  if (table.uncertainty) {
+    const measured =
+      uncertaintyDistribution ?? distribution(table.uncertainty, table.count, options.distribution)
+    if (!measured.value) return notComputable(measured.reason ?? '', method, parameters)
+    const sampleSize = options.sampleSize ?? DEFAULT_SAMPLE
+    const expected = typeof inputs === 'string' ? null : expectedMedian(table, inputs, sampleSize)
+    const summary: PrecisionSummary = {
+      source: 'uncertainty column',
+      medianNm: measured.value.median,
+      distribution: measured.value,
+      expectedMedianNm: expected,
+      expectedFormula: expected === null ? null : formula,
+      measuredToExpected: expected ? measured.value.median / expected : null,
+    }
+    return computed(summary, method, { ...parameters, expectedSampleRows: sampleSize })
+  }
+  if (typeof inputs === 'string') {
+    return notComputable(
+      `No uncertainty column, and no expected precision: ${inputs}`,
+      method,
+      parameters,
+    )
+  }
+  const expected = distribution(expectedColumn(table, inputs, 1), table.count, options.distribution)
+  if (!expected.value) {
+    return notComputable('No row has usable photons and background.', method, parameters)
+  }
+  const summary: PrecisionSummary = {
+    source: 'expected from photons',
+    medianNm: expected.value.median,
+    distribution: expected.value,
+    expectedMedianNm: expected.value.median,
+    expectedFormula: formula,
+    measuredToExpected: null,
+  }
+  return computed(summary, method, parameters)
+}
