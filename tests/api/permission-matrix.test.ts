@@ -217,3 +217,63 @@ describe('a share grants only the capabilities it names', () => {
     expect((await request(t.app).get(`${path}/manifest.txt`).set(bearer(token))).status).toBe(403)
   })
 })
+
+/**
+ * The cells that matter most, written out by hand rather than read from the matrix the abilities
+ * are built from: a wrong cell in shared/permissions/matrix.ts would pass the sweep above (it
+ * checks the API against the same matrix) but fails here. Sources: PRODUCT.md (roles, a dataset's
+ * life: embargoed files stay closed, withdrawn data keep a tombstone page) and DOMAIN.md §4
+ * (embargo: metadata public, files closed).
+ */
+const HAND_WRITTEN: [MatrixRole, DatasetAction, AccessPhase, number | 'ok'][] = [
+  // Embargoed files stay closed to everyone outside the project, the public included.
+  ['public', 'download', 'embargoed', 403],
+  ['public', 'preview', 'embargoed', 403],
+  ['outsider', 'download', 'embargoed', 403],
+  ['editor', 'download', 'embargoed', 403],
+  ['public', 'read', 'embargoed', 'ok'],
+  ['collaborator', 'download', 'embargoed', 'ok'],
+  ['member', 'download', 'embargoed', 'ok'],
+  // Drafts and submissions are invisible to outsiders (404: existence does not leak).
+  ['public', 'read', 'draft', 404],
+  ['outsider', 'read', 'draft', 404],
+  ['outsider', 'read', 'submitted', 404],
+  ['editor', 'read', 'draft', 404],
+  ['editor', 'read', 'submitted', 'ok'],
+  ['editor', 'download', 'submitted', 403],
+  // Withdrawn: a tombstone page for all, downloads only for the project and the stewards.
+  ['public', 'read', 'withdrawn', 'ok'],
+  ['public', 'download', 'withdrawn', 403],
+  ['collaborator', 'download', 'withdrawn', 403],
+  ['owner', 'download', 'withdrawn', 'ok'],
+  ['steward', 'download', 'withdrawn', 'ok'],
+  ['collaborator', 'annotate', 'withdrawn', 403],
+  // Released: open to all; annotating needs an account and a relation.
+  ['public', 'download', 'released', 'ok'],
+  ['public', 'annotate', 'released', 401],
+  ['outsider', 'annotate', 'released', 403],
+  // What a collaborator's share can and cannot do.
+  ['collaborator', 'annotate', 'draft', 'ok'],
+  ['collaborator', 'edit', 'draft', 403],
+  ['collaborator', 'share', 'draft', 403],
+  ['collaborator', 'delete', 'draft', 403],
+  // Depositors edit only drafts and datasets sent back; stewards curate but never edit.
+  ['member', 'edit', 'submitted', 403],
+  ['member', 'edit', 'embargoed', 403],
+  ['member', 'edit', 'changes_requested', 'ok'],
+  ['member', 'delete', 'submitted', 403],
+  ['member', 'curate', 'submitted', 403],
+  ['steward', 'edit', 'draft', 403],
+  ['steward', 'curate', 'submitted', 'ok'],
+]
+
+describe('the cells that matter most, written out by hand', () => {
+  it.each(HAND_WRITTEN)('%s / %s / %s → %s', async (role, action, phase, expected) => {
+    const dataset = await datasetIn(phase)
+    const token = tokens.get(role)
+    const req = probe(action, dataset.id, phase)
+    const res = await (token ? req.set(bearer(token)) : req)
+    const ok = res.status >= 200 && res.status < 300
+    expect(ok ? 'ok' : res.status).toBe(expected)
+  })
+})
