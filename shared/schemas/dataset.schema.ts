@@ -115,7 +115,10 @@ export const datasetShareSchema = z
     id: z.number(),
     userId: z.number(),
     email: z.string(),
+    /** Empty while the invitation is open: nobody has signed in with that address yet. */
     name: z.string(),
+    /** Invited by e-mail, not signed in yet: the share waits for them. */
+    invitationOpen: z.boolean(),
     capabilities: z.array(z.enum(SHARE_CAPABILITIES)),
     createdAt: z.string(),
   })

@@ -188,6 +188,35 @@ describe('sharing with an external collaborator', () => {
     expect(mail.text).toContain(`/datasets/${d.accession}`)
   })
 
+  it('an address nobody has signed in with gets an invitation, not a share that claims an account', async () => {
+    const d = await draft('Shared with a newcomer')
+    const res = await request(t.app)
+      .post(`/api/datasets/${d.id}/shares`)
+      .set(bearer(depositorToken))
+      .send({ email: 'newcomer@faraway.test', capabilities: ['preview'] })
+    expect(res.status).toBe(201)
+    expect(res.body).toMatchObject({ invitationOpen: true, name: '' })
+    const mail = await mailTo(t.mail, 'newcomer@faraway.test')
+    expect(mail.subject).toMatch(/invites you/)
+    expect(mail.text).toMatch(/no Stipple account yet/)
+    expect(mail.text).toMatch(/Sign in once with this address/)
+
+    // Someone who has signed in before gets the plain notice, and is shown by name.
+    const em = t.em()
+    const known = await buildUser(em, { email: 'known@partner.test', name: 'Known Person' })
+    known.subject = 'idp-known'
+    known.lastSignInAt = new Date()
+    await em.flush()
+    const shared = await request(t.app)
+      .post(`/api/datasets/${d.id}/shares`)
+      .set(bearer(depositorToken))
+      .send({ email: 'known@partner.test', capabilities: ['preview'] })
+    expect(shared.body).toMatchObject({ invitationOpen: false, name: 'Known Person' })
+    const notice = await mailTo(t.mail, 'known@partner.test')
+    expect(notice.subject).toMatch(/shared .* with you/)
+    expect(notice.text).not.toMatch(/no Stipple account/)
+  })
+
   it('lets the collaborator see only what was shared', async () => {
     const em = t.em()
     const guest = await buildUser(em, { email: 'guest2@partner.test' })

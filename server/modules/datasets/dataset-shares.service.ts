@@ -8,12 +8,17 @@ import { User, type IUser } from '../users/user.entity'
 import { findOrInviteUser } from '../users/users.service'
 import { DatasetShare, type IDataset, type IDatasetShare } from './dataset.entity'
 
+/** Nobody has signed in with this address yet: the person exists only as an invitation. */
+const invitationOpen = (user: IUser) => user.subject == null && user.lastSignInAt == null
+
 function toShareDto(share: IDatasetShare, user: IUser): DatasetShareDto {
+  const open = invitationOpen(user)
   return {
     id: share.id,
     userId: user.id,
     email: user.email,
-    name: user.name,
+    name: open ? '' : user.name,
+    invitationOpen: open,
     capabilities: share.capabilities,
     createdAt: share.createdAt.toISOString(),
   }
@@ -31,7 +36,52 @@ export async function listShares(em: EntityManager, dataset: IDataset): Promise<
 }
 
 /**
- * Shares a dataset with one person (creating an invitation if they have never signed in), makes
+ * The e-mail a share sends. Someone who has never signed in gets an invitation that says so: no
+ * account exists yet, and signing in with this address (through the consortium's sign-in) is
+ * what opens the dataset to them.
+ */
+function shareMail(
+  actor: Actor,
+  deps: Pick<AppDeps, 'config'>,
+  dataset: IDataset,
+  { email, capabilities, message }: ShareDatasetBody,
+  invitation: boolean,
+) {
+  const who = actor.user?.name ?? 'A Stipple user'
+  const can = capabilities.length
+    ? `read its description and ${capabilities.join(', ')}`
+    : 'read its description'
+  const link = `${deps.config.publicUrl}/datasets/${dataset.accession}`
+  const note = message ? `\nTheir message:\n${message}\n` : ''
+  if (invitation)
+    return {
+      to: email,
+      subject: `${who} invites you to Stipple to see ${dataset.accession}`,
+      text: [
+        `${who} invited you to the dataset ${dataset.accession} "${dataset.title}" on Stipple, the consortium's data hub.`,
+        `You have no Stipple account yet. Sign in once with this address (${email}) and you can ${can}.`,
+        note,
+        `Accept the invitation by signing in here:`,
+        link,
+        '',
+        'If you did not expect this, ignore this message; nothing is shared until you sign in.',
+      ].join('\n'),
+    }
+  return {
+    to: email,
+    subject: `${who} shared ${dataset.accession} with you on Stipple`,
+    text: [
+      `${who} shared the dataset ${dataset.accession} "${dataset.title}" with you.`,
+      `You can ${can}.`,
+      note,
+      `Open it here (sign in with ${email}):`,
+      link,
+    ].join('\n'),
+  }
+}
+
+/**
+ * Shares a dataset with one person (inviting them by e-mail if they have never signed in), makes
  * them a collaborator of the project so they can find it, and tells them by e-mail.
  */
 export async function shareDataset(
@@ -41,7 +91,7 @@ export async function shareDataset(
   dataset: IDataset,
   input: ShareDatasetBody,
 ): Promise<{ share: DatasetShareDto; created: boolean }> {
-  const { email, capabilities, message } = input
+  const { email, capabilities } = input
   const { user } = await findOrInviteUser(em, email)
   const membership = await em.findOne(Membership, { project: dataset.project, user: user.id })
   if (membership && membership.role !== 'collaborator') {
@@ -70,20 +120,7 @@ export async function shareDataset(
   })
   await em.flush()
 
-  const can = capabilities.length
-    ? `read its description and ${capabilities.join(', ')}`
-    : 'read its description'
-  await deps.mailer.send({
-    to: email,
-    subject: `${actor.user?.name ?? 'Someone'} shared ${dataset.accession} with you on Stipple`,
-    text: [
-      `${actor.user?.name ?? 'A Stipple user'} shared the dataset ${dataset.accession} "${dataset.title}" with you.`,
-      `You can ${can}.`,
-      message ? `\nTheir message:\n${message}\n` : '',
-      `Open it here (sign in with ${email}):`,
-      `${deps.config.publicUrl}/datasets/${dataset.accession}`,
-    ].join('\n'),
-  })
+  await deps.mailer.send(shareMail(actor, deps, dataset, input, invitationOpen(user)))
   return { share: toShareDto(share, user), created }
 }
 
