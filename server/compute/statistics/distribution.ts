@@ -69,27 +69,28 @@ function sampleRange(values: NumericColumn, count: number, sampleSize: number) {
   return hi > lo ? { lo, hi } : null
 }
 
-/** Plotting bins made of whole fine bins, from the one holding qLow to the one holding qHigh. */
+/**
+ * Plotting bins made of whole fine bins, from the one holding qLow to the one holding qHigh; the
+ * last plotting bin may hold fewer fine bins than the others.
+ */
 function plottingBins(fine: FineHistogram, qLow: number, qHigh: number, most: number) {
   const fineBins = fine.counts.length
   const first = Math.max(0, Math.floor((qLow - fine.lo) / fine.width))
   const last = Math.min(fineBins - 1, Math.floor((qHigh - fine.lo) / fine.width))
-  const span = last - first + 1
-  const group = Math.ceil(span / most)
-  const bins = Math.min(Math.ceil(span / group), Math.floor(fineBins / group))
-  const start = Math.min(first, fineBins - group * bins)
-  const edges = [fine.lo + start * fine.width]
+  const group = Math.ceil((last - first + 1) / most)
+  const edges = [fine.lo + first * fine.width]
   const counts: number[] = []
   let below = fine.under
-  for (let j = 0; j < start; j++) below += fine.counts[j] ?? 0
-  for (let b = 0; b < bins; b++) {
+  for (let j = 0; j < first; j++) below += fine.counts[j] ?? 0
+  for (let start = first; start <= last; start += group) {
+    const end = Math.min(start + group, last + 1)
     let sum = 0
-    for (let j = start + b * group; j < start + (b + 1) * group; j++) sum += fine.counts[j] ?? 0
+    for (let j = start; j < end; j++) sum += fine.counts[j] ?? 0
     counts.push(sum)
-    edges.push(fine.lo + (start + (b + 1) * group) * fine.width)
+    edges.push(fine.lo + end * fine.width)
   }
   let above = fine.over
-  for (let j = start + group * bins; j < fineBins; j++) above += fine.counts[j] ?? 0
+  for (let j = last + 1; j < fineBins; j++) above += fine.counts[j] ?? 0
   return { edges, counts, below, above }
 }
 

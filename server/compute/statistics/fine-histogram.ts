@@ -36,8 +36,8 @@ export function buildFineHistogram(
   bins: number,
 ): FineHistogram {
   const { lo } = range
-  // hi falls inside the last bin, so every bin is half-open.
-  const width = range.hi > lo ? (range.hi - lo) / (bins - 1) : 1
+  // hi sits in the middle of the last bin, safe from rounding, so every bin can be half-open.
+  const width = range.hi > lo ? (range.hi - lo) / (bins - 0.5) : 1
   const scale = 1 / width
   const slots = new Uint32Array(bins + 2)
   const overSlot = bins + 1
