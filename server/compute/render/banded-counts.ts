@@ -14,12 +14,19 @@ const DIRECT_LIMIT = 1 << 20
 
 let sortedScratch: Int32Array | null = null
 let indexScratch: Int32Array | null = null
+let valueScratch: Float64Array | null = null
 let bandStarts = new Int32Array(0)
 
 /** A reusable buffer for one chunk of pixel indices. */
 export function indexBuffer(): Int32Array {
   indexScratch ??= new Int32Array(INDEX_CHUNK)
   return indexScratch
+}
+
+/** A reusable buffer for the values that go with a chunk of pixel indices. */
+export function valueBuffer(): Float64Array {
+  valueScratch ??= new Float64Array(INDEX_CHUNK)
+  return valueScratch
 }
 
 /** counts[indices[k]] += 1 for k < length. */
@@ -31,14 +38,38 @@ export function addCounts(counts: Float32Array, indices: Int32Array, length: num
     }
     return
   }
-  const sorted = sortByBand(indices, length, counts.length)
+  const sorted = scatterByBand(indices, length, counts.length, true)
   for (let k = 0; k < length; k++) {
     const p = sorted[k]!
     counts[p] = counts[p]! + 1
   }
 }
 
-function sortByBand(indices: Int32Array, length: number, pixels: number): Int32Array {
+/** counts[indices[k]] += 1 and sums[indices[k]] += values[k] for k < length. */
+export function addCountsAndSums(
+  counts: Float32Array,
+  sums: Float32Array,
+  indices: Int32Array,
+  values: Float64Array,
+  length: number,
+): void {
+  const order =
+    counts.length <= DIRECT_LIMIT ? null : scatterByBand(indices, length, counts.length, false)
+  for (let j = 0; j < length; j++) {
+    const k = order === null ? j : order[j]!
+    const p = indices[k]!
+    counts[p] = counts[p]! + 1
+    sums[p] = sums[p]! + values[k]!
+  }
+}
+
+/** Counting sort by band (stable), writing the indices themselves or their positions k. */
+function scatterByBand(
+  indices: Int32Array,
+  length: number,
+  pixels: number,
+  writeIndices: boolean,
+): Int32Array {
   sortedScratch ??= new Int32Array(INDEX_CHUNK)
   const sorted = sortedScratch
   const bands = (pixels >>> BAND_SHIFT) + 1
@@ -54,7 +85,7 @@ function sortByBand(indices: Int32Array, length: number, pixels: number): Int32A
     const p = indices[k]!
     const b = p >>> BAND_SHIFT
     const at = starts[b]!
-    sorted[at] = p
+    sorted[at] = writeIndices ? p : k
     starts[b] = at + 1
   }
   return sorted

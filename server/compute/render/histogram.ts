@@ -3,7 +3,7 @@
  * with a per-pixel sum of one value column (z or frame) for colouring by that value.
  */
 import type { Localizations, NumericColumn } from '../localizations.types'
-import { addCounts, indexBuffer, INDEX_CHUNK } from './banded-counts'
+import { addCounts, addCountsAndSums, indexBuffer, INDEX_CHUNK, valueBuffer } from './banded-counts'
 import {
   blankImage,
   isDrawableView,
@@ -42,11 +42,13 @@ export function renderValueHistogram(
   filter?: RenderFilter,
 ): ValueImage {
   const counts = blankImage(view)
-  const sums = new Float64Array(counts.length)
-  if (counts.length > 0)
-    accumulateValues(locs, view, new RowFilter(locs, filter), counts, value, sums)
-  const mean = new Float32Array(counts.length)
-  for (let p = 0; p < counts.length; p++) mean[p] = counts[p]! > 0 ? sums[p]! / counts[p]! : NaN
+  // Float32 sums (then the means, in place) keep a whole-field render's memory at two images;
+  // their rounding, ~1e-7 of the sum, is far below a colormap step.
+  const mean = blankImage(view)
+  if (counts.length > 0) {
+    accumulateValues(locs, view, new RowFilter(locs, filter), counts, value, mean)
+  }
+  for (let p = 0; p < counts.length; p++) mean[p] = counts[p]! > 0 ? mean[p]! / counts[p]! : NaN
   return { density: counts, mean }
 }
 
@@ -61,12 +63,36 @@ function accumulateCounts(
   const indices = indexBuffer()
   const n = Math.min(locs.count, locs.x.length, locs.y.length)
   for (let start = 0; start < n; start += INDEX_CHUNK) {
-    const length = pixelIndices(locs, view, rows, start, Math.min(n, start + INDEX_CHUNK), indices)
+    const end = Math.min(n, start + INDEX_CHUNK)
+    const length = pixelIndices(locs, view, rows, start, end, indices, null, null)
     addCounts(counts, indices, length)
   }
 }
 
-/** Writes the pixel index of each drawn row in [start, end) to `out`; returns how many. */
+/** Counts and value sums, the same way. */
+function accumulateValues(
+  locs: Localizations,
+  view: RenderView,
+  rows: RowFilter,
+  counts: Float32Array,
+  value: NumericColumn,
+  sums: Float32Array,
+) {
+  if (!isDrawableView(view)) return
+  const indices = indexBuffer()
+  const values = valueBuffer()
+  const n = Math.min(locs.count, locs.x.length, locs.y.length, value.length)
+  for (let start = 0; start < n; start += INDEX_CHUNK) {
+    const end = Math.min(n, start + INDEX_CHUNK)
+    const length = pixelIndices(locs, view, rows, start, end, indices, value, values)
+    addCountsAndSums(counts, sums, indices, values, length)
+  }
+}
+
+/**
+ * Writes the pixel index of each drawn row in [start, end) to `out` (and its value to
+ * `valuesOut`, leaving out rows whose value is not finite); returns how many.
+ */
 function pixelIndices(
   locs: Localizations,
   view: RenderView,
@@ -74,6 +100,8 @@ function pixelIndices(
   start: number,
   end: number,
   out: Int32Array,
+  value: NumericColumn | null,
+  valuesOut: Float64Array | null,
 ): number {
   const { xMinNm, yMinNm, pixelNm, width, height } = view
   const { x, y } = locs
@@ -86,34 +114,12 @@ function pixelIndices(
     const fy = (y[i]! - yMinNm) / pixelNm
     if (!(fy >= 0 && fy < height)) continue
     if (filtering && !rows.accepts(i)) continue
+    if (value !== null && valuesOut !== null) {
+      const v = value[i]!
+      if (!(v > -Infinity && v < Infinity)) continue
+      valuesOut[length] = v
+    }
     out[length++] = (fy | 0) * width + (fx | 0)
   }
   return length
-}
-
-/** Counts and value sums, one row at a time. */
-function accumulateValues(
-  locs: Localizations,
-  view: RenderView,
-  rows: RowFilter,
-  counts: Float32Array,
-  value: NumericColumn,
-  sums: Float64Array,
-) {
-  if (!isDrawableView(view)) return
-  const { xMinNm, yMinNm, pixelNm, width, height } = view
-  const { x, y } = locs
-  const n = Math.min(locs.count, x.length, y.length)
-  for (let i = 0; i < n; i++) {
-    const fx = (x[i]! - xMinNm) / pixelNm
-    if (!(fx >= 0 && fx < width)) continue
-    const fy = (y[i]! - yMinNm) / pixelNm
-    if (!(fy >= 0 && fy < height)) continue
-    if (rows.active && !rows.accepts(i)) continue
-    const v = value[i]!
-    if (!Number.isFinite(v)) continue
-    const p = (fy | 0) * width + (fx | 0)
-    sums[p] = sums[p]! + v
-    counts[p] = counts[p]! + 1
-  }
 }
