@@ -99,8 +99,9 @@ function measureMoments(locs: Localizations, x0: number, y0: number) {
 export function chooseGrid(extent: Extent, pixelNm: number, maxSize: number): RenderGrid {
   const widthPixels = Math.max(extent.maxX - extent.minX, extent.maxY - extent.minY) / pixelNm
   let size = MIN_GRID_SIZE
-  while (size < widthPixels + 1 && size < maxSize) size *= 2
-  const cropped = widthPixels + 1 > size
+  // Centred on the box, the grid holds it when the box is strictly narrower than the grid.
+  while (size <= widthPixels && size < maxSize) size *= 2
+  const cropped = widthPixels >= size
   const centreX = (extent.minX + extent.maxX) / 2
   const centreY = (extent.minY + extent.maxY) / 2
   return {
