@@ -1,6 +1,6 @@
-import { fft2d } from '../fft'
 import { subPixelPeak } from './peak'
 import type { RenderGrid, Spectrum } from './render-spectra'
+import { WindowInverse } from './window-inverse'
 
 /** Measured shift of segment j relative to segment i (r_ij = d_j − d_i), nm; NaN when not found. */
 export interface PairShifts {
@@ -14,7 +14,7 @@ export interface PairShifts {
  * Cross-correlates every pair of segments (i < j) from their spectra: c = IFFT(conj(A_i)·A_j·G),
  * where G is a Gaussian smoothing of `smoothingPixels` SD (it widens the correlation peak over a few
  * pixels so the 3-point fit has something to fit) times (−1)^(u+v), which puts zero shift at the
- * image centre. Two pairs share one inverse FFT: both correlations are real, so the transform of
+ * image centre; only the shifts within reach are transformed back. Two pairs share one inverse FFT: both correlations are real, so the transform of
  * P₁ + i·P₂ returns c₁ in the real and c₂ in the imaginary part.
  */
 export function correlateAllPairs(
@@ -42,13 +42,17 @@ export function correlateAllPairs(
   const filter = centredGaussian(size, smoothingPixels)
   const re = new Float64Array(size * size)
   const im = new Float64Array(size * size)
+  // One pixel beyond the reach so that a peak at the reach still has neighbours for the fit.
   const reachPixels = Math.min(size / 2 - 2, Math.ceil(maxShiftNm / grid.pixelNm))
+  const inverse = new WindowInverse(size, reachPixels + 1)
   for (let p = 0; p < pairTotal; p += 2) {
     const hasSecond = p + 1 < pairTotal
     writePairProducts(spectra, pairs, p, hasSecond, filter, re, im)
-    fft2d(re, im, size, true)
-    storeShift(pairs, p, subPixelPeak(re, size, reachPixels), grid.pixelNm)
-    if (hasSecond) storeShift(pairs, p + 1, subPixelPeak(im, size, reachPixels), grid.pixelNm)
+    inverse.run(re, im)
+    storeShift(pairs, p, subPixelPeak(inverse.re, inverse.width, reachPixels), grid.pixelNm)
+    if (hasSecond) {
+      storeShift(pairs, p + 1, subPixelPeak(inverse.im, inverse.width, reachPixels), grid.pixelNm)
+    }
   }
   return pairs
 }
@@ -73,15 +77,27 @@ function writePairProducts(
   const a2 = hasSecond ? spectra[pairs.first[p + 1] ?? 0] : undefined
   const b2 = hasSecond ? spectra[pairs.second[p + 1] ?? 0] : undefined
   if (!a1 || !b1) return
+  const [a1re, a1im, b1re, b1im] = [a1.re, a1.im, b1.re, b1.im]
+  const empty = new Float32Array(0)
+  const [a2re, a2im, b2re, b2im] =
+    a2 && b2 ? [a2.re, a2.im, b2.re, b2.im] : [empty, empty, empty, empty]
+  const second = a2re.length > 0
+  // Plain scalar loads: destructuring here would allocate per element.
   for (let k = 0; k < re.length; k++) {
     const g = filter[k] ?? 0
-    const [ar, ai, br, bi] = [a1.re[k] ?? 0, a1.im[k] ?? 0, b1.re[k] ?? 0, b1.im[k] ?? 0]
+    const ar = a1re[k] ?? 0
+    const ai = a1im[k] ?? 0
+    const br = b1re[k] ?? 0
+    const bi = b1im[k] ?? 0
     const p1r = g * (ar * br + ai * bi)
     const p1i = g * (ar * bi - ai * br)
     let p2r = 0
     let p2i = 0
-    if (a2 && b2) {
-      const [cr, ci, dr, di] = [a2.re[k] ?? 0, a2.im[k] ?? 0, b2.re[k] ?? 0, b2.im[k] ?? 0]
+    if (second) {
+      const cr = a2re[k] ?? 0
+      const ci = a2im[k] ?? 0
+      const dr = b2re[k] ?? 0
+      const di = b2im[k] ?? 0
       p2r = g * (cr * dr + ci * di)
       p2i = g * (cr * di - ci * dr)
     }

@@ -1,12 +1,12 @@
 /**
- * Highest value of a centred correlation image within `reach` pixels of the centre, refined to
+ * Highest value of a centred, odd-sided correlation window within `reach` pixels of its centre, refined to
  * sub-pixel precision by a Gaussian through the peak and its two neighbours on each axis (the
  * parabola through the logarithms; exact for a sampled Gaussian peak), or by a plain parabola when a
  * neighbour is not positive. Returns the shift from the centre in pixels, NaN when the highest value
  * lies on the edge of the searched square (the true peak may be further out).
  */
 export function subPixelPeak(image: Float64Array, size: number, reach: number) {
-  const centre = size / 2
+  const centre = (size - 1) / 2
   let best = -Infinity
   let bestRow = centre
   let bestColumn = centre

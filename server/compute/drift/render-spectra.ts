@@ -1,6 +1,7 @@
 import { fft2d, mirrorIndex } from '../fft'
 import type { Localizations } from '../localizations.types'
 import type { SegmentPlan } from './segments'
+import type { DenseDrift } from './trajectory'
 
 /** The square power-of-two image every segment is rendered on. */
 export interface RenderGrid {
@@ -18,7 +19,7 @@ export interface Spectrum {
 
 /**
  * Smallest power-of-two image holding the field plus the largest shift searched (circular
- * correlation then never wraps a shift within reach onto another). When that would exceed
+ * correlation then never wraps a shift within reach onto another), centred on the field. When that would exceed
  * maxImageSize, the pixel grows instead so the whole field still fits.
  */
 export function chooseGrid(
@@ -31,19 +32,24 @@ export function chooseGrid(
   let size = 16
   while (size < extent / renderPixelNm && size < maxImageSize) size *= 2
   const pixelNm = Math.max(renderPixelNm, extent / size)
-  return { size, pixelNm, originX: plan.minX, originY: plan.minY }
+  // Half the shift range as a margin on each side keeps drift-corrected positions inside the image.
+  return { size, pixelNm, originX: plan.minX - maxShiftNm / 2, originY: plan.minY - maxShiftNm / 2 }
 }
 
-/** Renders the given segments and Fourier-transforms them two at a time (one complex FFT per pair). */
+/**
+ * Renders the given segments, each position less the drift of its frame when `correction` is given,
+ * and Fourier-transforms them two at a time (one complex FFT per pair of segments).
+ */
 export function segmentSpectra(
   locs: Localizations,
   plan: SegmentPlan,
   grid: RenderGrid,
   segments: number[],
+  correction: DenseDrift | null,
 ): Spectrum[] {
   const cells = grid.size * grid.size
   const spectra = segments.map(() => ({ re: new Float32Array(cells), im: new Float32Array(cells) }))
-  renderHistograms(locs, plan, grid, segments, spectra)
+  renderHistograms(locs, plan, grid, { segments, spectra, correction })
   const re = new Float64Array(cells)
   const im = new Float64Array(cells)
   for (let k = 0; k < spectra.length; k += 2) {
@@ -64,18 +70,26 @@ function renderHistograms(
   locs: Localizations,
   plan: SegmentPlan,
   grid: RenderGrid,
-  segments: number[],
-  spectra: Spectrum[],
+  target: { segments: number[]; spectra: Spectrum[]; correction: DenseDrift | null },
 ) {
   const slotOfSegment = new Int32Array(plan.rows.length).fill(-1)
-  segments.forEach((segment, slot) => (slotOfSegment[segment] = slot))
+  target.segments.forEach((segment, slot) => (slotOfSegment[segment] = slot))
   const { size, pixelNm, originX, originY } = grid
+  const correction = target.correction
   for (let i = 0; i < locs.count; i++) {
     const segment = plan.segmentOf[i] ?? -1
-    const image = segment >= 0 ? spectra[slotOfSegment[segment] ?? -1]?.re : undefined
+    const image = segment >= 0 ? target.spectra[slotOfSegment[segment] ?? -1]?.re : undefined
     if (!image) continue
-    const column = Math.min(size - 1, Math.floor(((locs.x[i] ?? 0) - originX) / pixelNm))
-    const row = Math.min(size - 1, Math.floor(((locs.y[i] ?? 0) - originY) / pixelNm))
+    let x = (locs.x[i] ?? 0) - originX
+    let y = (locs.y[i] ?? 0) - originY
+    if (correction) {
+      const k = Math.round((locs.frame[i] ?? 0) - correction.firstFrame)
+      x -= correction.x[k] ?? 0
+      y -= correction.y[k] ?? 0
+    }
+    // Corrected positions may leave the field by the drift; the padding holds them, the clamp is a guard.
+    const column = Math.max(0, Math.min(size - 1, Math.floor(x / pixelNm)))
+    const row = Math.max(0, Math.min(size - 1, Math.floor(y / pixelNm)))
     image[row * size + column] = (image[row * size + column] ?? 0) + 1
   }
 }

@@ -7,7 +7,7 @@ export interface SegmentPlan {
   endFrame: number[]
   /** Usable rows per segment. */
   rows: number[]
-  /** Segment of every row, or −1 for rows left out (non-finite x, y or frame). */
+  /** Segment of every row, or −1 for rows left out (non-finite x, y; frame not a whole number ≥ 0). */
   segmentOf: Int32Array
   /** Bounding box of the usable rows, nm. */
   minX: number
@@ -27,7 +27,7 @@ export function scanRows(locs: Localizations) {
     const x = locs.x[i] ?? Number.NaN
     const y = locs.y[i] ?? Number.NaN
     const f = locs.frame[i] ?? Number.NaN
-    if (!Number.isFinite(x) || !Number.isFinite(y) || !Number.isFinite(f)) continue
+    if (!usable(x, y, f)) continue
     usableRows++
     if (x < minX) minX = x
     if (x > maxX) maxX = x
@@ -59,7 +59,7 @@ export function planSegments(
     const x = locs.x[i] ?? Number.NaN
     const y = locs.y[i] ?? Number.NaN
     const f = locs.frame[i] ?? Number.NaN
-    if (!Number.isFinite(x) || !Number.isFinite(y) || !Number.isFinite(f)) continue
+    if (!usable(x, y, f)) continue
     let k = Math.min(count - 1, Math.floor((f - scan.firstFrame) * perFrame))
     // Rounded boundaries can disagree with the estimate by one segment.
     while (k > 0 && f < (startFrame[k] ?? 0)) k--
@@ -68,4 +68,9 @@ export function planSegments(
     rows[k] = (rows[k] ?? 0) + 1
   }
   return { ...scan, startFrame, endFrame, rows, segmentOf }
+}
+
+/** Finite position and a whole frame number ≥ 0. */
+function usable(x: number, y: number, frame: number): boolean {
+  return Number.isFinite(x) && Number.isFinite(y) && Number.isInteger(frame) && frame >= 0
 }
