@@ -26,6 +26,31 @@ export const GAUSSIAN_DEFAULTS = {
   truncateSigmas: 3,
 } as const satisfies GaussianOptions
 
+export type ResolvedGaussianOptions = Required<Omit<GaussianOptions, 'filter'>>
+
+const positive = (value: number | undefined): value is number =>
+  value !== undefined && value > 0 && value < Infinity
+
+/**
+ * The options after defaults; unusable values (not finite, not positive) take the default, a
+ * fixed σ that is unusable means each row's own, and the truncation stays within 1…6 σ.
+ */
+export function resolveGaussianOptions(options: GaussianOptions = {}): ResolvedGaussianOptions {
+  const d = GAUSSIAN_DEFAULTS
+  const { sigmaNm, fallbackSigmaNm, minSigmaPx, maxSigmaPx, truncateSigmas } = options
+  const minPx = minSigmaPx !== undefined && minSigmaPx >= 0 && minSigmaPx < Infinity
+  return {
+    sigmaNm: typeof sigmaNm === 'number' && positive(sigmaNm) ? sigmaNm : 'uncertainty',
+    fallbackSigmaNm: positive(fallbackSigmaNm) ? fallbackSigmaNm : d.fallbackSigmaNm,
+    minSigmaPx: minPx ? minSigmaPx : d.minSigmaPx,
+    maxSigmaPx: positive(maxSigmaPx) ? maxSigmaPx : d.maxSigmaPx,
+    truncateSigmas: positive(truncateSigmas)
+      ? Math.min(6, Math.max(1, truncateSigmas))
+      : d.truncateSigmas,
+  }
+}
+
+/** The options in pixels of one view. */
 export interface SigmaPlan {
   fixedPx: number | null
   fallbackPx: number
@@ -35,23 +60,14 @@ export interface SigmaPlan {
 }
 
 export function resolveSigmas(options: GaussianOptions, pixelNm: number): SigmaPlan {
-  const pick = (value: number | undefined, fallback: number) =>
-    value !== undefined && Number.isFinite(value) && value > 0 ? value : fallback
-  const sigma = options.sigmaNm ?? GAUSSIAN_DEFAULTS.sigmaNm
-  const fallbackNm = pick(options.fallbackSigmaNm, GAUSSIAN_DEFAULTS.fallbackSigmaNm)
+  const o = resolveGaussianOptions(options)
   // A kernel narrower than a thousandth of a pixel is a point; the floor keeps 1/σ finite.
-  const minPx = Math.max(
-    1e-3,
-    options.minSigmaPx === undefined ? GAUSSIAN_DEFAULTS.minSigmaPx : pick(options.minSigmaPx, 0),
-  )
+  const minPx = Math.max(1e-3, o.minSigmaPx)
   return {
-    fixedPx: typeof sigma === 'number' ? pick(sigma, fallbackNm) / pixelNm : null,
-    fallbackPx: fallbackNm / pixelNm,
+    fixedPx: o.sigmaNm === 'uncertainty' ? null : o.sigmaNm / pixelNm,
+    fallbackPx: o.fallbackSigmaNm / pixelNm,
     minPx,
-    maxPx: Math.max(minPx, pick(options.maxSigmaPx, GAUSSIAN_DEFAULTS.maxSigmaPx)),
-    truncate: Math.min(
-      6,
-      Math.max(1, pick(options.truncateSigmas, GAUSSIAN_DEFAULTS.truncateSigmas)),
-    ),
+    maxPx: Math.max(minPx, o.maxSigmaPx),
+    truncate: o.truncateSigmas,
   }
 }

@@ -10,7 +10,12 @@ export {
   renderGaussianValue,
   type GaussianRender,
 } from './gaussian'
-export { GAUSSIAN_DEFAULTS, type GaussianOptions } from './gaussian-options'
+export {
+  GAUSSIAN_DEFAULTS,
+  resolveGaussianOptions,
+  type GaussianOptions,
+  type ResolvedGaussianOptions,
+} from './gaussian-options'
 export { erf, normalCdf } from './normal-cdf'
 export { isDrawableView, type RenderFilter, type RenderView } from './render-view'
 export { COLORMAP_NAMES, colormapTable, isColormapName, type ColormapName } from './colormaps'

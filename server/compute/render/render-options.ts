@@ -5,7 +5,11 @@
  */
 import { isColormapName, type ColormapName } from './colormaps'
 import { DEFAULT_CONTRAST_PERCENTILE, type ContrastSetting } from './contrast'
-import { GAUSSIAN_DEFAULTS, type GaussianOptions } from './gaussian-options'
+import {
+  resolveGaussianOptions,
+  type GaussianOptions,
+  type ResolvedGaussianOptions,
+} from './gaussian-options'
 import type { RenderFilter } from './render-view'
 
 export type RenderMethod = 'histogram' | 'gaussian'
@@ -37,7 +41,7 @@ export interface RenderOptions {
 
 export interface ResolvedRenderOptions {
   method: RenderMethod
-  gaussian: Required<Omit<GaussianOptions, 'filter'>> | null
+  gaussian: ResolvedGaussianOptions | null
   filter: RenderFilter
   colourBy: ColourBy
   colormap: ColormapName | null
@@ -56,7 +60,7 @@ export function resolveRenderOptions(options: RenderOptions = {}): ResolvedRende
   const range = options.valueRange
   return {
     method,
-    gaussian: method === 'gaussian' ? resolveGaussian(options.gaussian ?? {}) : null,
+    gaussian: method === 'gaussian' ? resolveGaussianOptions(options.gaussian) : null,
     filter: resolveFilter(options.filter ?? {}),
     colourBy,
     colormap:
@@ -74,21 +78,6 @@ export function resolveRenderOptions(options: RenderOptions = {}): ResolvedRende
         ? { min: range.min, max: range.max }
         : null,
     channels: colourBy === 'channels' ? (options.channels ?? [0, 1]) : null,
-  }
-}
-
-function resolveGaussian(g: Omit<GaussianOptions, 'filter'>) {
-  const d = GAUSSIAN_DEFAULTS
-  const sigmaNm = typeof g.sigmaNm === 'number' && positive(g.sigmaNm) ? g.sigmaNm : d.sigmaNm
-  return {
-    sigmaNm,
-    fallbackSigmaNm: positive(g.fallbackSigmaNm) ? g.fallbackSigmaNm : d.fallbackSigmaNm,
-    minSigmaPx:
-      g.minSigmaPx !== undefined && g.minSigmaPx >= 0 && g.minSigmaPx < Infinity
-        ? g.minSigmaPx
-        : d.minSigmaPx,
-    maxSigmaPx: positive(g.maxSigmaPx) ? g.maxSigmaPx : d.maxSigmaPx,
-    truncateSigmas: positive(g.truncateSigmas) ? g.truncateSigmas : d.truncateSigmas,
   }
 }
 

@@ -79,6 +79,9 @@ describe('histogram render', () => {
     const v: RenderView = { xMinNm: 0, yMinNm: 0, pixelNm: 10, width: 2, height: 2 }
     expect(sum(renderHistogram(bad, v))).toBe(0)
     expect(renderHistogram(bad, { ...v, pixelNm: NaN })).toHaveLength(0)
+    // A table without a channel column is channel 0 throughout.
+    expect(sum(renderHistogram(tableOf({ x: [5], y: [5] }), v, { channel: 0 }))).toBe(1)
+    expect(sum(renderHistogram(tableOf({ x: [5], y: [5] }), v, { channel: 1 }))).toBe(0)
     // A precision filter on a table without uncertainties draws nothing rather than everything.
     expect(sum(renderHistogram(tableOf({ x: [5], y: [5] }), v, { maxUncertaintyNm: 10 }))).toBe(0)
   })

@@ -33,6 +33,10 @@ describe('render options key', () => {
     )
     expect(renderOptionsKey({ valueRange: { min: 0, max: 5 } })).toBe(renderOptionsKey({}))
     expect(resolveRenderOptions({ colourBy: 'z' }).colormap).toBe('viridis')
+    // Unusable values take the default that is actually drawn, so they share its key.
+    const gaussian = (g: object) => renderOptionsKey({ method: 'gaussian', gaussian: g })
+    expect(gaussian({ sigmaNm: -5, truncateSigmas: 0 })).toBe(gaussian({}))
+    expect(gaussian({ truncateSigmas: 100 })).toBe(gaussian({ truncateSigmas: 6 }))
   })
 })
 
