@@ -103,11 +103,7 @@ function drawKernels(
     if (!(u > -reach && u < width + reach && v > -reach && v < height + reach)) continue
     if (rows.active && !rows.accepts(i)) continue
     if (value !== null && !Number.isFinite(value[i]!)) continue
-    let s = defaultPx
-    if (uncertainty !== null) {
-      const own = uncertainty[i]! / pixelNm
-      if (own > 0 && own < Infinity) s = own
-    }
+    let s = uncertainty === null ? defaultPx : ownSigmaPx(uncertainty[i]! / pixelNm, defaultPx)
     if (s < minPx || s > maxPx) {
       s = s < minPx ? minPx : maxPx
       counters.clamped++
@@ -125,6 +121,11 @@ function drawKernels(
   result.weightLeavingView = counters.leaving
   result.weightEnteringView = counters.entering
   result.sigmaClamped = counters.clamped
+}
+
+/** A row's own σ in pixels, or the default when it has none usable. */
+function ownSigmaPx(own: number, defaultPx: number): number {
+  return own > 0 && own < Infinity ? own : defaultPx
 }
 
 interface Counters {

@@ -8,7 +8,7 @@ import {
   type RenderOptions,
   type ResolvedRenderOptions,
 } from './render-options'
-import type { RenderFilter, RenderView } from './render-view'
+import { isDrawableView, type RenderFilter, type RenderView } from './render-view'
 
 export interface RenderedImage {
   /** width·height·3 bytes, row-major, row 0 at the smallest y. */
@@ -26,48 +26,40 @@ export function renderImage(
   options: RenderOptions = {},
 ): RenderedImage {
   const resolved = resolveRenderOptions(options)
-  const { width, height } = view
-  const done = (rgb: Uint8Array, reason?: string): RenderedImage =>
-    reason === undefined
-      ? { rgb, width, height, options: resolved }
-      : { rgb, width, height, options: resolved, reason }
-  const colour = { colormap: resolved.colormap ?? undefined, gamma: resolved.gamma }
+  if (!isDrawableView(view)) {
+    const reason = 'the view has no usable pixel size, origin or dimensions'
+    return { rgb: new Uint8Array(0), width: 0, height: 0, options: resolved, reason }
+  }
+  const { rgb, reason } = colouredImage(locs, view, resolved)
+  const image: RenderedImage = { rgb, width: view.width, height: view.height, options: resolved }
+  if (reason !== undefined) image.reason = reason
+  return image
+}
+
+function colouredImage(
+  locs: Localizations,
+  view: RenderView,
+  resolved: ResolvedRenderOptions,
+): { rgb: Uint8Array; reason?: string } {
+  const { contrast, gamma } = resolved
+  const colour = { colormap: resolved.colormap ?? undefined, contrast, gamma }
   if (resolved.colourBy === 'channels') {
     const [a, b] = resolved.channels ?? [0, 1]
     const first = density(locs, view, resolved, { ...resolved.filter, channel: a })
     const second = density(locs, view, resolved, { ...resolved.filter, channel: b })
-    const reason = locs.channel
-      ? undefined
-      : 'the table has no channel column: all rows are channel 0'
-    return done(
-      overlayChannels(first, second, { contrast: resolved.contrast, gamma: resolved.gamma }),
-      reason,
-    )
-  }
-  if (resolved.colourBy === 'density') {
-    return done(
-      colourize(density(locs, view, resolved, resolved.filter), {
-        ...colour,
-        contrast: resolved.contrast,
-      }),
-    )
+    const rgb = overlayChannels(first, second, { contrast, gamma })
+    if (locs.channel) return { rgb }
+    return { rgb, reason: 'the table has no channel column: all rows are channel 0' }
   }
   const column = resolved.colourBy === 'z' ? locs.z : locs.frame
-  if (!column) {
-    const image = density(locs, view, resolved, resolved.filter)
-    return done(
-      colourize(image, { ...colour, contrast: resolved.contrast }),
-      'the table has no z column: coloured by density',
-    )
+  if (resolved.colourBy === 'density' || !column) {
+    const rgb = colourize(density(locs, view, resolved, resolved.filter), colour)
+    if (column || resolved.colourBy === 'density') return { rgb }
+    return { rgb, reason: 'the table has no z column: coloured by density' }
   }
   const valued = valueImage(locs, view, resolved, column)
   const valueRange = resolved.valueRange ?? finiteRange(column, locs.count)
-  const rgb = colourizeByValue(valued.density, valued.mean, {
-    ...colour,
-    contrast: resolved.contrast,
-    valueRange,
-  })
-  return done(rgb)
+  return { rgb: colourizeByValue(valued.density, valued.mean, { ...colour, valueRange }) }
 }
 
 function density(
@@ -97,6 +89,7 @@ export function finiteRange(column: NumericColumn, count: number): { min: number
   const n = Math.min(count, column.length)
   for (let i = 0; i < n; i++) {
     const v = column[i]!
+    if (!(v > -Infinity && v < Infinity)) continue
     if (v < min) min = v
     if (v > max) max = v
   }

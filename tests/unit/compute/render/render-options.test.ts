@@ -53,8 +53,22 @@ describe('renderImage', () => {
     }
   })
 
+  it('colours by z through the range given: z at the top of the range is viridis(1) = #fde725', () => {
+    const withZ = tableOf({ x: [5, 35], y: [5, 35], z: [100, 0] })
+    const image = renderImage(withZ, view, {
+      colourBy: 'z',
+      valueRange: { min: 0, max: 100 },
+      contrast: { mode: 'manual', low: 0, high: 1 },
+    })
+    expect(Array.from(image.rgb.subarray(0, 3))).toEqual([0xfd, 0xe7, 0x25])
+    expect(Array.from(image.rgb.subarray(45, 48))).toEqual([0x44, 0x01, 0x54]) // viridis(0)
+    expect(Array.from(image.rgb.subarray(3, 6))).toEqual([0, 0, 0]) // no localizations
+  })
+
   it('says what it drew instead when the table lacks the column asked for', () => {
     expect(renderImage(locs, view, { colourBy: 'z' }).reason).toMatch(/no z column/)
     expect(renderImage(locs, view, { colourBy: 'channels' }).reason).toMatch(/no channel column/)
+    const nowhere = renderImage(locs, { ...view, pixelNm: -1 })
+    expect([nowhere.rgb.length, nowhere.reason]).toEqual([0, expect.stringMatching(/view/)])
   })
 })
