@@ -8,6 +8,7 @@ import type { NumericColumn } from '../localizations.types'
 import {
   buildFineHistogram,
   quantileFromHistogram,
+  type ChunkVisitor,
   type FineHistogram,
   type NonFiniteCounts,
 } from './fine-histogram'
@@ -22,7 +23,7 @@ export interface DistributionOptions {
   upperPercentile?: number
   /** Bins of the fine histogram behind quantiles and plotting bins (default 4096). */
   fineBins?: number
-  /** Rows in the sample that sets the fine histogram's range (default 65 536). */
+  /** Rows in the sample that sets the fine histogram's range (default 16 384). */
   sampleSize?: number
 }
 
@@ -49,10 +50,11 @@ const DEFAULTS = {
   lowerPercentile: 0.5,
   upperPercentile: 99.5,
   fineBins: 4096,
-  sampleSize: 65_536,
+  sampleSize: 16_384,
 }
-// The fine range spans the sample's 0.01st to 99.99th percentiles, far enough out that the
-// plotting percentiles fall inside it unless the sample is very unlucky (then: exact range).
+// The fine range spans the sample's second-smallest to second-largest value (about its 0.01st
+// to 99.99th percentiles), far enough out that the plotting percentiles fall inside it unless the
+// sample is very unlucky (then: the exact range).
 const SAMPLE_TAIL = 1e-4
 
 export const DISTRIBUTION_METHOD =
@@ -60,8 +62,7 @@ export const DISTRIBUTION_METHOD =
   'fine histogram and interpolated by rank inside its bin (error below one fine bin); NaN and ±∞ ' +
   'counted and left out'
 
-function sampleRange(values: NumericColumn, count: number, sampleSize: number) {
-  const sample = systematicSample(values, count, sampleSize)
+function sampleRange(sample: Float64Array) {
   if (sample.length === 0) return null
   const tail = Math.floor(SAMPLE_TAIL * sample.length)
   const lo = sample[tail] ?? 0
@@ -100,26 +101,47 @@ function quantiles(fine: FineHistogram, settings: typeof DEFAULTS) {
   return values.every((v) => v !== null) ? values : null
 }
 
+/** Values a distribution describes: a sorted sample of them and every row in chunks. */
+export interface ValueSource {
+  count: number
+  /** Sorted finite values of a systematic sample of about `size` rows. */
+  sample(size: number): Float64Array
+  chunks: ChunkVisitor
+}
+
 /** Distribution of the first `count` values of a column (see DistributionOptions for defaults). */
 export function distribution(
   values: NumericColumn,
   count: number = values.length,
   options: DistributionOptions = {},
 ): StatisticResult<Distribution> {
+  const source: ValueSource = {
+    count,
+    sample: (size) => systematicSample(values, count, size),
+    chunks: (visit) => visit(values, count),
+  }
+  return distributionOf(source, options)
+}
+
+/** Distribution of values from any source, e.g. computed chunk by chunk without a full column. */
+export function distributionOf(
+  source: ValueSource,
+  options: DistributionOptions = {},
+): StatisticResult<Distribution> {
   const settings = { ...DEFAULTS, ...options }
   const parameters = { ...settings, quantileDefinition: 'rank ⌈p·n⌉' }
   const method = DISTRIBUTION_METHOD
-  if (count === 0) return notComputable('The column has no rows.', method, parameters)
-  let range = sampleRange(values, count, settings.sampleSize) ?? finiteRange(values, count)
-  let fine = buildFineHistogram(values, count, range, settings.fineBins)
+  if (source.count === 0) return notComputable('The column has no rows.', method, parameters)
+  let range = sampleRange(source.sample(settings.sampleSize)) ?? finiteRange(source.chunks)
+  let fine = buildFineHistogram(source.chunks, range, settings.fineBins)
   if (fine.finite === 0) {
     return notComputable('The column has no finite values.', method, parameters)
   }
   let q = quantiles(fine, settings)
   if (q === null) {
     // The sample missed the tails: the exact range puts every value inside the fine bins.
-    range = finiteRange(values, count)
-    fine = buildFineHistogram(values, count, range, settings.fineBins)
+    range = finiteRange(source.chunks)
+    fine = buildFineHistogram(source.chunks, range, settings.fineBins)
     q = quantiles(fine, settings)
   }
   const [lowerQuartile = 0, median = 0, upperQuartile = 0, qLow = 0, qHigh = 0] = q ?? []

@@ -44,11 +44,18 @@ function unitVariance(model: PrecisionModel, r: number): number {
   return mortensenMlePrecisionNm(spot) ** 2
 }
 
+/** For Thompson and Mortensen LSQ: var = (shot + perR · b²/N)/N; null for Mortensen MLE. */
+export function linearCoefficients(model: PrecisionModel): { shot: number; perR: number } | null {
+  if (model.formula === 'mortensen-mle') return null
+  const shot = unitVariance(model, 0)
+  return { shot, perR: unitVariance(model, 1) - shot }
+}
+
 /** A function (N, b²) → expected precision in nm; NaN when N ≤ 0 or b² < 0 or not finite. */
 export function expectedPrecision(model: PrecisionModel): (n: number, b2: number) => number {
-  if (model.formula !== 'mortensen-mle') {
-    const shot = unitVariance(model, 0)
-    const perR = unitVariance(model, 1) - shot
+  const linear = linearCoefficients(model)
+  if (linear) {
+    const { shot, perR } = linear
     return (n, b2) => (n > 0 && b2 >= 0 ? Math.sqrt((shot + (perR * b2) / n) / n) : NaN)
   }
   const table = new Float64Array(TABLE_POINTS)

@@ -25,51 +25,104 @@ export interface FineHistogram {
   nonFinite: NonFiniteCounts
 }
 
+/** Where a histogram reads its values: chunks in row order that together cover every row. */
+export type ChunkVisitor = (visit: (values: NumericColumn, length: number) => void) => void
+
+interface Tally {
+  even: Uint32Array
+  odd: Uint32Array
+  nan: number
+  positiveInfinity: number
+  negativeInfinity: number
+  sum: number
+}
+
+/** Adds one value to the tally (the slow path, for pairs holding a NaN or ±∞). */
+function addOne(tally: Tally, v: number, lo: number, scale: number): void {
+  if (v !== v) tally.nan++
+  else if (v === Infinity) tally.positiveInfinity++
+  else if (v === -Infinity) tally.negativeInfinity++
+  else {
+    tally.sum += v
+    const over = tally.even.length - 1
+    const slot = Math.min(over, Math.max(0, (v - lo) * scale + 1)) | 0
+    tally.even[slot] = (tally.even[slot] ?? 0) + 1
+  }
+}
+
 /**
- * One pass: bins, sum and the NaN/±∞ counts. Out-of-range values are clamped into two extra
- * slots instead of branching, which keeps the loop about three times faster in V8.
+ * Two values per step into two slot arrays (merged at the end): out-of-range values are clamped
+ * into an under and an over slot instead of branching, and alternating arrays keep repeated
+ * increments of one bin from waiting on each other (about 3× faster than a branchy loop in V8).
  */
-export function buildFineHistogram(
+function tallyChunk(
+  tally: Tally,
   values: NumericColumn,
-  count: number,
+  length: number,
+  lo: number,
+  scale: number,
+) {
+  const { even, odd } = tally
+  const over = even.length - 1
+  let sum = 0
+  const pairs = length & ~1
+  for (let i = 0; i < pairs; i += 2) {
+    const v = values[i] ?? NaN
+    const w = values[i + 1] ?? NaN
+    // v − v is 0 exactly for finite v, NaN for NaN and ±∞: one test on the common path.
+    if (v - v !== 0 || w - w !== 0) {
+      addOne(tally, v, lo, scale)
+      addOne(tally, w, lo, scale)
+      continue
+    }
+    sum += v + w
+    let j = (v - lo) * scale + 1
+    j = j < 0 ? 0 : j > over ? over : j
+    let k = (w - lo) * scale + 1
+    k = k < 0 ? 0 : k > over ? over : k
+    const slotV = j | 0
+    const slotW = k | 0
+    even[slotV] = (even[slotV] ?? 0) + 1
+    odd[slotW] = (odd[slotW] ?? 0) + 1
+  }
+  if (pairs < length) addOne(tally, values[pairs] ?? NaN, lo, scale)
+  tally.sum += sum
+}
+
+/** One pass over every chunk: bins, sum and the NaN/±∞ counts. */
+export function buildFineHistogram(
+  chunks: ChunkVisitor,
   range: { lo: number; hi: number },
   bins: number,
 ): FineHistogram {
   const { lo } = range
   // hi sits in the middle of the last bin, safe from rounding, so every bin can be half-open.
   const width = range.hi > lo ? (range.hi - lo) / (bins - 0.5) : 1
-  const scale = 1 / width
-  const slots = new Uint32Array(bins + 2)
-  const overSlot = bins + 1
-  let nan = 0
-  let positiveInfinity = 0
-  let sum = 0
-  for (let i = 0; i < count; i++) {
-    const v = values[i] ?? NaN
-    // v − v is 0 exactly for finite v, NaN for NaN and ±∞: one test on the common path.
-    if (v - v !== 0) {
-      if (v !== v) nan++
-      else if (v > 0) positiveInfinity++
-      continue
-    }
-    sum += v
-    let slot = (v - lo) * scale + 1
-    slot = slot < 0 ? 0 : slot > overSlot ? overSlot : slot
-    const index = slot | 0
-    slots[index] = (slots[index] ?? 0) + 1
+  const tally: Tally = {
+    even: new Uint32Array(bins + 2),
+    odd: new Uint32Array(bins + 2),
+    nan: 0,
+    positiveInfinity: 0,
+    negativeInfinity: 0,
+    sum: 0,
   }
-  const nonFiniteTotal = count - slots.reduce((a, c) => a + c, 0)
-  const negativeInfinity = nonFiniteTotal - nan - positiveInfinity
-  const nonFinite = { nan, positiveInfinity, negativeInfinity }
+  chunks((values, length) => tallyChunk(tally, values, length, lo, 1 / width))
+  const slots = tally.even
+  let finite = 0
+  for (let j = 0; j < slots.length; j++) {
+    slots[j] = (slots[j] ?? 0) + (tally.odd[j] ?? 0)
+    finite += slots[j] ?? 0
+  }
+  const { nan, positiveInfinity, negativeInfinity, sum } = tally
   return {
     lo,
     width,
-    counts: slots.subarray(1, overSlot),
+    counts: slots.subarray(1, bins + 1),
     under: slots[0] ?? 0,
-    over: slots[overSlot] ?? 0,
-    finite: count - nonFiniteTotal,
+    over: slots[bins + 1] ?? 0,
+    finite,
     sum,
-    nonFinite,
+    nonFinite: { nan, positiveInfinity, negativeInfinity },
   }
 }
 

@@ -4,7 +4,13 @@
  */
 import type { Localizations } from '../localizations.types'
 import type { DistributionOptions } from './distribution'
-import { excessNoiseOf, expectedPrecision, type PrecisionFormula } from './expected-precision'
+import type { ValueSource } from './distribution'
+import {
+  excessNoiseOf,
+  expectedPrecision,
+  linearCoefficients,
+  type PrecisionFormula,
+} from './expected-precision'
 import type { ParameterValue } from './result'
 import { systematicSample } from './sampling'
 
@@ -21,7 +27,7 @@ export interface PrecisionOptions {
   detector?: 'emccd' | 'scmos' | 'ccd' | 'unknown'
   /** Estimator assumed for Mortensen (default 'mle'). */
   fit?: 'mle' | 'lsq'
-  /** Rows sampled for the expected median when the table has its own column (default 262 144). */
+  /** Rows sampled for the expected median when the table has its own column (default 65 536). */
   sampleSize?: number
   distribution?: DistributionOptions
 }
@@ -72,31 +78,61 @@ export function expectationInputs(
   }
 }
 
-/** Median (rank ⌈n/2⌉) of a systematic sample of up to 262 144 rows. */
+/** Median (rank ⌈n/2⌉) of a systematic sample of up to 65 536 rows. */
 function medianOf(column: Localizations['sigma'], count: number): number | null {
   if (!column) return null
-  const sample = systematicSample(column, count, 262_144)
+  const sample = systematicSample(column, count, 65_536)
   return sample.length ? (sample[Math.ceil(sample.length / 2) - 1] ?? null) : null
 }
 
-/** Expected precision of every stride-th row from mid-stride (every row for stride 1); NaN for rows
- * without usable photons or background. */
-export function expectedColumn(
+// Rows per chunk when the expected precision of a whole table is histogrammed: 256 KiB of
+// float32, so a 10-million-row table never needs a 40 MB column of its own.
+const CHUNK_ROWS = 65_536
+
+/** Writes the expected precision of rows first, first + stride, … into `out` (NaN if unusable). */
+function fillExpected(
   table: Localizations,
   inputs: PrecisionInputs,
-  stride: number,
-): Float32Array {
-  const precisionOf = expectedPrecision(inputs)
+  out: Float32Array,
+  rows: { first: number; stride: number; length: number },
+): void {
   const { photons, background } = table
-  const first = Math.floor((stride - 1) / 2)
-  const out = new Float32Array(Math.max(0, Math.floor((table.count - 1 - first) / stride) + 1))
-  const extraB2 = inputs.readNoise2
-  const fixedB2 = inputs.backgroundPhotons
-  for (let k = 0, i = first; k < out.length; k++, i += stride) {
-    const b2 = (background ? (background[i] ?? NaN) : fixedB2) + extraB2
-    out[k] = precisionOf(photons?.[i] ?? NaN, b2)
+  const b2Extra = inputs.readNoise2
+  const b2Fixed = inputs.backgroundPhotons
+  const linear = linearCoefficients(inputs)
+  const general = linear ? null : expectedPrecision(inputs)
+  const shot = linear?.shot ?? 0
+  const perR = linear?.perR ?? 0
+  for (let k = 0, i = rows.first; k < rows.length; k++, i += rows.stride) {
+    const n = photons ? (photons[i] ?? NaN) : NaN
+    const b2 = (background ? (background[i] ?? NaN) : b2Fixed) + b2Extra
+    if (general) out[k] = general(n, b2)
+    else out[k] = n > 0 && b2 >= 0 ? Math.sqrt((shot + (perR * b2) / n) / n) : NaN
   }
-  return out
+}
+
+/** The expected precision of every row as a value source: sampled, or visited in chunks. */
+export function expectedValues(table: Localizations, inputs: PrecisionInputs): ValueSource {
+  const { count } = table
+  return {
+    count,
+    sample(size) {
+      const stride = Math.max(1, Math.floor(count / size))
+      const first = Math.floor((stride - 1) / 2)
+      const length = Math.max(0, Math.floor((count - 1 - first) / stride) + 1)
+      const out = new Float32Array(length)
+      fillExpected(table, inputs, out, { first, stride, length })
+      return Float64Array.from(out.filter((v) => v - v === 0)).sort()
+    },
+    chunks(visit) {
+      const chunk = new Float32Array(Math.min(CHUNK_ROWS, count))
+      for (let first = 0; first < count; first += CHUNK_ROWS) {
+        const length = Math.min(CHUNK_ROWS, count - first)
+        fillExpected(table, inputs, chunk, { first, stride: 1, length })
+        visit(chunk, length)
+      }
+    },
+  }
 }
 
 export function describePrecisionInputs(

@@ -4,11 +4,11 @@
  * factor for EMCCD detectors), plus the ratio of the two medians for the plain-language verdict.
  */
 import type { Localizations } from '../localizations.types'
-import { distribution, type Distribution } from './distribution'
+import { distribution, distributionOf, type Distribution } from './distribution'
 import {
   describePrecisionInputs,
   expectationInputs,
-  expectedColumn,
+  expectedValues,
   type PrecisionInputs,
   type PrecisionOptions,
 } from './precision-inputs'
@@ -30,14 +30,11 @@ export const PRECISION_METHOD =
   'per localization from its photons and background (one PSF width and pixel size per table); ' +
   'measured-to-expected ratio = ratio of the two medians'
 
-const DEFAULT_SAMPLE = 262_144
+const DEFAULT_SAMPLE = 65_536
 
 /** Median (rank ⌈n/2⌉) of the expected precision over a systematic sample of rows. */
 function expectedMedian(table: Localizations, inputs: PrecisionInputs, sampleSize: number) {
-  const stride = Math.max(1, Math.floor(table.count / sampleSize))
-  const values = expectedColumn(table, inputs, stride)
-    .filter((v) => v - v === 0)
-    .sort()
+  const values = expectedValues(table, inputs).sample(sampleSize)
   return values.length ? (values[Math.ceil(values.length / 2) - 1] ?? null) : null
 }
 
@@ -75,7 +72,7 @@ export function precisionStatistics(
       parameters,
     )
   }
-  const expected = distribution(expectedColumn(table, inputs, 1), table.count, options.distribution)
+  const expected = distributionOf(expectedValues(table, inputs), options.distribution)
   if (!expected.value) {
     return notComputable('No row has usable photons and background.', method, parameters)
   }

@@ -1,5 +1,6 @@
 /** Cheap looks at a column: a sorted systematic sample of its finite values, its finite extremes. */
 import type { NumericColumn } from '../localizations.types'
+import type { ChunkVisitor } from './fine-histogram'
 
 /**
  * Every k-th row (k = ⌊count/size⌋, starting mid-stride) when the column is larger than `size`,
@@ -20,15 +21,17 @@ export function systematicSample(values: NumericColumn, count: number, size: num
  * Smallest and largest finite values. A constant column gets a range of one unit around its value
  * so bins keep a width. Ternaries rather than ifs: V8 compiles them branch-free, about 3× faster.
  */
-export function finiteRange(values: NumericColumn, count: number): { lo: number; hi: number } {
+export function finiteRange(chunks: ChunkVisitor): { lo: number; hi: number } {
   let lo = Infinity
   let hi = -Infinity
-  for (let i = 0; i < count; i++) {
-    const v = values[i] ?? NaN
-    const finite = v - v === 0
-    lo = finite && v < lo ? v : lo
-    hi = finite && v > hi ? v : hi
-  }
+  chunks((values, length) => {
+    for (let i = 0; i < length; i++) {
+      const v = values[i] ?? NaN
+      const finite = v - v === 0
+      lo = finite && v < lo ? v : lo
+      hi = finite && v > hi ? v : hi
+    }
+  })
   if (!(hi > lo)) return { lo: lo === Infinity ? 0 : lo, hi: lo === Infinity ? 1 : lo + 1 }
   return { lo, hi }
 }
