@@ -7,43 +7,49 @@ export interface FrameCounts {
   last: number
   counts: Uint32Array
   distinct: number
-  /** Rows whose frame is not a finite number ≥ 0 (left out). */
+  /** Rows whose frame is not a number from 0 to MAX_FRAME_SPAN − 1 (left out). */
   invalid: number
 }
 
-// 2²⁶ frames (~67 million) is far above any acquisition (10⁴–10⁵ frames, DOMAIN.md §2).
+// Frame numbers of 2²⁶ (~67 million) and above are refused: far above any acquisition
+// (10⁴–10⁵ frames, DOMAIN.md §2), and they would need a large count array.
 export const MAX_FRAME_SPAN = 2 ** 26
 
-function frameRange(frame: NumericColumn, count: number) {
-  let first = Infinity
-  let last = -Infinity
+/**
+ * Counts per frame in one pass: the count array grows (doubling) to the largest frame seen;
+ * frames are 0-based, so it starts at frame 0 and the leading empty frames are trimmed after.
+ */
+function countFromZero(frame: NumericColumn, count: number) {
+  let counts = new Uint32Array(1024)
   let invalid = 0
   for (let i = 0; i < count; i++) {
     const f = frame[i] ?? NaN
-    const valid = f >= 0 && f - f === 0
-    invalid += valid ? 0 : 1
-    first = valid && f < first ? f : first
-    last = valid && f > last ? f : last
+    if (!(f >= 0 && f < MAX_FRAME_SPAN)) {
+      invalid++
+      continue
+    }
+    const index = f | 0
+    if (index >= counts.length) {
+      const grown = new Uint32Array(Math.min(MAX_FRAME_SPAN, 2 ** Math.ceil(Math.log2(index + 1))))
+      grown.set(counts)
+      counts = grown
+    }
+    counts[index] = (counts[index] ?? 0) + 1
   }
-  return { first: Math.floor(first), last: Math.floor(last), invalid }
+  return { counts, invalid }
 }
 
-/** Counts per frame, or a reason when there are none or the frames span too many numbers. */
+/** Counts per frame, or a reason when no row has a usable frame number. */
 export function countPerFrame(frame: NumericColumn, count: number): FrameCounts | string {
-  const { first, last, invalid } = frameRange(frame, count)
-  if (invalid === count) return 'No row has a valid frame number (a finite number ≥ 0).'
-  if (last - first + 1 > MAX_FRAME_SPAN) {
-    return `Frame numbers span ${last - first + 1} frames, more than ${MAX_FRAME_SPAN}.`
+  const { counts, invalid } = countFromZero(frame, count)
+  if (invalid === count) {
+    return `No row has a usable frame number (a number from 0 to ${MAX_FRAME_SPAN - 1}).`
   }
-  const counts = new Uint32Array(last - first + 1)
-  for (let i = 0; i < count; i++) {
-    const f = frame[i] ?? NaN
-    if (f >= 0 && f - f === 0) {
-      const index = Math.floor(f) - first
-      counts[index] = (counts[index] ?? 0) + 1
-    }
-  }
+  let first = 0
+  while ((counts[first] ?? 0) === 0) first++
+  let last = counts.length - 1
+  while ((counts[last] ?? 0) === 0) last--
   let distinct = 0
-  for (let i = 0; i < counts.length; i++) distinct += (counts[i] ?? 0) > 0 ? 1 : 0
-  return { first, last, counts, distinct, invalid }
+  for (let i = first; i <= last; i++) distinct += (counts[i] ?? 0) > 0 ? 1 : 0
+  return { first, last, counts: counts.slice(first, last + 1), distinct, invalid }
 }
