@@ -84,6 +84,16 @@ export function transposeSquare(matrix: FloatPlane, size: number): void {
  * and both arrays size² long (programming errors, so these throw).
  */
 export function fft2d(re: FloatPlane, im: FloatPlane, size: number, inverse = false): void {
+  fft2dTransposed(re, im, size, inverse)
+  transposeSquare(re, size)
+  transposeSquare(im, size)
+}
+
+/**
+ * fft2d without the final transpose: the result is the transform's transpose, F(u,v) at row u and
+ * column v. For sums that are symmetric in u and v (ring sums) this saves two passes over the image.
+ */
+export function fft2dTransposed(re: FloatPlane, im: FloatPlane, size: number, inverse = false) {
   if (!isPowerOfTwo(size)) throw new RangeError(`FFT size must be a power of two ≥ 2, got ${size}`)
   if (re.length !== size * size || im.length !== size * size) {
     throw new RangeError(`FFT arrays must hold size² = ${size * size} values`)
@@ -93,6 +103,4 @@ export function fft2d(re: FloatPlane, im: FloatPlane, size: number, inverse = fa
   transposeSquare(re, size)
   transposeSquare(im, size)
   transformRows(re, im, plan, inverse)
-  transposeSquare(re, size)
-  transposeSquare(im, size)
 }

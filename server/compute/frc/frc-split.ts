@@ -1,4 +1,4 @@
-import { fft2d } from '../fft'
+import { fft2dTransposed } from '../fft'
 import type { Localizations } from '../localizations.types'
 import { applyEdgeTaper, type TaperedCounts } from './edge-taper'
 import { renderHalves, type HalfCounts, type TimeBlocks } from './render-halves'
@@ -32,7 +32,8 @@ export function computeSplit(
   const size = grid.size
   const counts = renderHalves(locs, grid, blocks, re, im)
   const tapered = applyEdgeTaper(re, im, size, counts)
-  fft2d(re, im, size)
+  // Ring sums are symmetric in u and v, so the transposed spectrum serves as well.
+  fft2dTransposed(re, im, size)
   const sums = ringSums(re, im, size)
   const rings = sums.pixels.length
   const frc = new Float64Array(rings)

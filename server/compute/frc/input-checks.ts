@@ -33,6 +33,10 @@ function principalSpreads(extent: Extent): { minor: number; major: number } {
   return { minor: Math.sqrt(Math.max(0, mean - radius)), major: Math.sqrt(mean + radius) }
 }
 
+function isLine({ minor, major }: { minor: number; major: number }): boolean {
+  return minor < Math.max(1e-3, 1e-6 * major)
+}
+
 /** The data's extent, or the reason FRC cannot be computed from it. */
 export function checkInput(
   locs: Localizations,
@@ -53,10 +57,10 @@ export function checkInput(
   if (frames < blocks) {
     return { reason: `only ${frames} distinct frames for ${blocks} time blocks` }
   }
-  const { minor, major } = principalSpreads(extent)
-  if (major < pixelNm) return { reason: 'all localizations lie within one render pixel' }
-  if (minor < Math.max(1e-3, 1e-6 * major)) {
-    return { reason: 'all localizations lie on one straight line' }
-  }
+  let spreads = principalSpreads(extent)
+  // Moments from a sample: a sample on one line is confirmed (or not) with every row.
+  if (spreads.major < pixelNm || isLine(spreads)) spreads = principalSpreads(measureExtent(locs, 1))
+  if (spreads.major < pixelNm) return { reason: 'all localizations lie within one render pixel' }
+  if (isLine(spreads)) return { reason: 'all localizations lie on one straight line' }
   return { extent }
 }

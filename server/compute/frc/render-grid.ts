@@ -32,13 +32,20 @@ export interface Extent {
   covarianceXY: number
 }
 
+/** Rows the second moments are taken from by default; more rows are sampled at a stride. */
+const MOMENT_SAMPLE = 1_000_000
+
 /**
  * Bounds, frame range and second moments of the rows with finite x, y and frame. Two simple
- * passes: one loop carrying all twelve accumulators measured several times slower than both.
+ * passes (one loop carrying all twelve accumulators measured several times slower than both); the
+ * moments come from every `momentStride`-th row unless a stride of 1 is asked for.
  */
-export function measureExtent(locs: Localizations): Extent {
+export function measureExtent(
+  locs: Localizations,
+  momentStride = Math.max(1, Math.floor(locs.count / MOMENT_SAMPLE)),
+): Extent {
   const bounds = measureBounds(locs)
-  return { ...bounds, ...measureMoments(locs, bounds.minX, bounds.minY) }
+  return { ...bounds, ...measureMoments(locs, bounds.minX, bounds.minY, momentStride) }
 }
 
 function measureBounds(locs: Localizations) {
@@ -68,7 +75,7 @@ function measureBounds(locs: Localizations) {
 }
 
 /** Moments about (x0, y0) (the lower corner), so large coordinates do not cancel. */
-function measureMoments(locs: Localizations, x0: number, y0: number) {
+function measureMoments(locs: Localizations, x0: number, y0: number, stride: number) {
   const { x, y, frame, count } = locs
   let n = 0
   let sx = 0
@@ -76,7 +83,7 @@ function measureMoments(locs: Localizations, x0: number, y0: number) {
   let sxx = 0
   let syy = 0
   let sxy = 0
-  for (let i = 0; i < count; i++) {
+  for (let i = 0; i < count; i += stride) {
     const dx = x[i]! - x0
     const dy = y[i]! - y0
     const fi = frame[i]!

@@ -1,6 +1,7 @@
+// @vitest-environment node
 import { describe, expect, it } from 'vitest'
 import { fft as packageFft } from 'fft-js'
-import { fft2d, transposeSquare } from '../../../../server/compute/fft'
+import { fft2d, fft2dTransposed, transposeSquare } from '../../../../server/compute/fft'
 import { createRandom } from '../../../fixtures/spot-simulation'
 import { maxAbsDifference, naiveDft2d, randomImage } from './naive-dft'
 
@@ -87,6 +88,22 @@ describe('fft2d', () => {
     fft2d(re32, im32, size)
     expect(maxAbsDifference(re32, expected.re)).toBeLessThan(1e-4)
     expect(maxAbsDifference(im32, expected.im)).toBeLessThan(1e-4)
+  })
+
+  // Source: the naive DFT, read transposed (F(u,v) at row u, column v).
+  it('leaves the transform transposed in fft2dTransposed', () => {
+    const size = 8
+    const random = createRandom(9)
+    const re = randomImage(size, random)
+    const im = randomImage(size, random)
+    const expected = naiveDft2d(re, im, size)
+    fft2dTransposed(re, im, size)
+    for (let v = 0; v < size; v++) {
+      for (let u = 0; u < size; u++) {
+        expect(re[u * size + v]).toBeCloseTo(expected.re[v * size + u]!, 10)
+        expect(im[u * size + v]).toBeCloseTo(expected.im[v * size + u]!, 10)
+      }
+    }
   })
 
   it('refuses sizes that are not powers of two and arrays of the wrong length', () => {

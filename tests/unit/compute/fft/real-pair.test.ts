@@ -1,3 +1,4 @@
+// @vitest-environment node
 import { describe, expect, it } from 'vitest'
 import { mirrorIndex, splitPairSpectra, transformRealPair } from '../../../../server/compute/fft'
 import { createRandom } from '../../../fixtures/spot-simulation'

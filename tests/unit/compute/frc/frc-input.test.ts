@@ -1,8 +1,12 @@
+// @vitest-environment node
 import { describe, expect, it } from 'vitest'
 import { computeFrc, FRC_DEFAULTS } from '../../../../server/compute/frc'
 import type { Localizations } from '../../../../server/compute/localizations.types'
 import { createRandom } from '../../../fixtures/spot-simulation'
 import { filamentEmitters, localize } from './simulated-points'
+
+/** A guard against a hung test only: each simulation takes a few seconds on an idle machine. */
+const SIMULATION_TIMEOUT = { timeout: 60_000 }
 
 function table(x: number[], y: number[], frame: number[]): Localizations {
   return {
@@ -77,7 +81,7 @@ describe('computeFrc on bad input (null values with a reason, never a throw)', (
   })
 })
 
-describe('computeFrc parameters and conventions', () => {
+describe('computeFrc parameters and conventions', SIMULATION_TIMEOUT, () => {
   const sim = localize(
     filamentEmitters(createRandom(3), { emitters: 4000, fieldNm: 3000, lengthNm: 1500 }),
     { frames: 2000, extraBurstsMean: 0, burstLengthMean: 1, precisionNm: 8 },

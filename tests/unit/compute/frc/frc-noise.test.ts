@@ -1,7 +1,11 @@
+// @vitest-environment node
 import { describe, expect, it } from 'vitest'
 import { computeFrc } from '../../../../server/compute/frc'
 import { createRandom } from '../../../fixtures/spot-simulation'
 import { localize, uniformEmitters } from './simulated-points'
+
+/** A guard against a hung test only: each simulation takes a few seconds on an idle machine. */
+const SIMULATION_TIMEOUT = { timeout: 60_000 }
 
 /**
  * Two independent uniform random point sets: every emitter is localized once, so the halves share
@@ -9,7 +13,7 @@ import { localize, uniformEmitters } from './simulated-points'
  * — FRC scatters around 0 with variance ≈ 1/(pixels in ring); §6 [S] — measured FRC²·n ≈ 1.06
  * without a window and 1.10 with the taper.
  */
-describe('FRC of independent random point sets', () => {
+describe('FRC of independent random point sets', SIMULATION_TIMEOUT, () => {
   it.each([1, 2])('has mean FRC²·n near 1.10 over the rings (seed %i)', (seed) => {
     const emitters = uniformEmitters(createRandom(seed), 20_000, 100_000)
     const { locs } = localize(

@@ -1,7 +1,11 @@
+// @vitest-environment node
 import { describe, expect, it } from 'vitest'
 import { computeFrc } from '../../../../server/compute/frc'
 import { createRandom } from '../../../fixtures/spot-simulation'
 import { filamentEmitters, localize } from './simulated-points'
+
+/** A guard against a hung test only: each simulation takes a few seconds on an idle machine. */
+const SIMULATION_TIMEOUT = { timeout: 60_000 }
 
 /**
  * Simulated filaments, one localization per emitter, fixed precision σ. Source: DOMAIN.md §1.4
@@ -28,7 +32,7 @@ function domainExpectation(sigma: number): number {
   return NaN
 }
 
-describe('FRC against localization precision', () => {
+describe('FRC against localization precision', SIMULATION_TIMEOUT, () => {
   it('grows with σ_loc = 5, 10, 20 nm on the same filaments', () => {
     const emitters = filamentEmitters(createRandom(5), { emitters: 40_000 })
     const results = [5, 10, 20].map((sigma) => {

@@ -1,7 +1,11 @@
+// @vitest-environment node
 import { describe, expect, it } from 'vitest'
 import { computeFrc } from '../../../../server/compute/frc'
 import { createRandom } from '../../../fixtures/spot-simulation'
 import { expectedRepeats, filamentEmitters, localize, type Localized } from './simulated-points'
+
+/** A guard against a hung test only: each simulation takes a few seconds on an idle machine. */
+const SIMULATION_TIMEOUT = { timeout: 60_000 }
 
 /**
  * Repeated localizations of one emitter in both halves. Source: DOMAIN.md §1.4 step 6 and its test
@@ -30,7 +34,7 @@ function splitByEmitter(sim: Localized) {
   return { ...sim.locs, frame }
 }
 
-describe('spurious-correlation correction on repeated localizations', () => {
+describe('spurious-correlation correction on repeated localizations', SIMULATION_TIMEOUT, () => {
   it.each([1, 2])(
     'finds Q near 5 and a corrected value above the uncorrected (seed %i)',
     (seed) => {

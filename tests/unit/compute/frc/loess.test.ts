@@ -1,3 +1,4 @@
+// @vitest-environment node
 import { describe, expect, it } from 'vitest'
 import { frcSmoothingSpan, loessQuadratic } from '../../../../server/compute/frc/loess'
 import { createRandom } from '../../../fixtures/spot-simulation'

@@ -1,3 +1,4 @@
+// @vitest-environment node
 import { describe, expect, it } from 'vitest'
 import { applyEdgeTaper, taperWeights } from '../../../../server/compute/frc/edge-taper'
 import { chooseGrid, measureExtent } from '../../../../server/compute/frc/render-grid'

@@ -1,5 +1,6 @@
+// @vitest-environment node
 import { describe, expect, it } from 'vitest'
-import { fft2d } from '../../../../server/compute/fft'
+import { fft2d, fft2dTransposed } from '../../../../server/compute/fft'
 import { ringSums } from '../../../../server/compute/frc/ring-sums'
 import { createRandom } from '../../../fixtures/spot-simulation'
 import { naiveDft2d } from '../fft/naive-dft'
@@ -9,10 +10,11 @@ function randomCounts(size: number, seed: number): Float32Array {
   return Float32Array.from({ length: size * size }, () => Math.floor(random() * 4))
 }
 
-function packedSpectrum(a: Float32Array, b: Float32Array, size: number) {
+function packedSpectrum(a: Float32Array, b: Float32Array, size: number, transposed = false) {
   const re = a.slice()
   const im = b.slice()
-  fft2d(re, im, size)
+  if (transposed) fft2dTransposed(re, im, size)
+  else fft2d(re, im, size)
   return { re, im }
 }
 
@@ -37,32 +39,35 @@ describe('FRC ring sums', () => {
 
   // Source: brute force — each half transformed on its own by the naive DFT, then
   // Re Σ F_A F_B*, Σ|F_A|², Σ|F_B|² and the pixel count summed ring by ring from the definition.
-  it('matches ring sums formed from separately transformed halves (16×16)', () => {
-    const size = 16
-    const a = randomCounts(size, 2)
-    const b = randomCounts(size, 3)
-    const zeros = new Float64Array(size * size)
-    const fa = naiveDft2d(a, zeros, size)
-    const fb = naiveDft2d(b, zeros, size)
-    const rings = size / 2 + 1
-    const expected = { numerator: new Array(rings).fill(0), powerA: new Array(rings).fill(0) }
-    const pixels = new Array<number>(rings).fill(0)
-    for (let v = 0; v < size; v++) {
-      for (let u = 0; u < size; u++) {
-        const k = ringOf(u, v, size)
-        if (k >= rings) continue
-        const i = v * size + u
-        expected.numerator[k] += fa.re[i]! * fb.re[i]! + fa.im[i]! * fb.im[i]!
-        expected.powerA[k] += fa.re[i]! ** 2 + fa.im[i]! ** 2
-        pixels[k]!++
+  it.each([false, true])(
+    'matches ring sums of separately transformed halves (16×16, transposed: %s)',
+    (transposed) => {
+      const size = 16
+      const a = randomCounts(size, 2)
+      const b = randomCounts(size, 3)
+      const zeros = new Float64Array(size * size)
+      const fa = naiveDft2d(a, zeros, size)
+      const fb = naiveDft2d(b, zeros, size)
+      const rings = size / 2 + 1
+      const expected = { numerator: new Array(rings).fill(0), powerA: new Array(rings).fill(0) }
+      const pixels = new Array<number>(rings).fill(0)
+      for (let v = 0; v < size; v++) {
+        for (let u = 0; u < size; u++) {
+          const k = ringOf(u, v, size)
+          if (k >= rings) continue
+          const i = v * size + u
+          expected.numerator[k] += fa.re[i]! * fb.re[i]! + fa.im[i]! * fb.im[i]!
+          expected.powerA[k] += fa.re[i]! ** 2 + fa.im[i]! ** 2
+          pixels[k]!++
+        }
       }
-    }
-    const { re, im } = packedSpectrum(a, b, size)
-    const sums = ringSums(re, im, size)
-    for (let k = 0; k < rings; k++) {
-      expect(sums.numerator[k]).toBeCloseTo(expected.numerator[k], 2)
-      expect(sums.powerA[k]).toBeCloseTo(expected.powerA[k], 2)
-      expect(sums.pixels[k]).toBe(pixels[k])
-    }
-  })
+      const { re, im } = packedSpectrum(a, b, size, transposed)
+      const sums = ringSums(re, im, size)
+      for (let k = 0; k < rings; k++) {
+        expect(sums.numerator[k]).toBeCloseTo(expected.numerator[k], 2)
+        expect(sums.powerA[k]).toBeCloseTo(expected.powerA[k], 2)
+        expect(sums.pixels[k]).toBe(pixels[k])
+      }
+    },
+  )
 })

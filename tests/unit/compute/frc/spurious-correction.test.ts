@@ -1,3 +1,4 @@
+// @vitest-environment node
 import { describe, expect, it } from 'vitest'
 import { computeFrc } from '../../../../server/compute/frc'
 import {
@@ -8,6 +9,9 @@ import {
 } from '../../../../server/compute/frc/spurious-correction'
 import { createRandom } from '../../../fixtures/spot-simulation'
 import { expectedRepeats, localize, normal, uniformEmitters } from './simulated-points'
+
+/** A guard against a hung test only: each simulation takes a few seconds on an idle machine. */
+const SIMULATION_TIMEOUT = { timeout: 60_000 }
 
 describe('H(q), the precision transfer', () => {
   // Source: DOMAIN.md §1.4 step 6 — for σ ~ Normal(m, d²):
@@ -53,7 +57,7 @@ describe('H(q), the precision transfer', () => {
   })
 })
 
-describe('Q and the corrected curve', () => {
+describe('Q and the corrected curve', SIMULATION_TIMEOUT, () => {
   // Source: the model of DOMAIN.md §1.4 step 6 — a numerator made only of the spurious term
   // Q·H·sinc²/(1/N_A + 1/N_B) must give back Q, and the corrected FRC (num − spur)/(den + spur) 0.
   it('returns Q from a numerator that holds only the spurious term', () => {

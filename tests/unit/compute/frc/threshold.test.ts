@@ -1,3 +1,4 @@
+// @vitest-environment node
 import { describe, expect, it } from 'vitest'
 import { FRC_THRESHOLD, thresholdCrossing } from '../../../../server/compute/frc/threshold'
 
