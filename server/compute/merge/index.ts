@@ -47,7 +47,7 @@ const DEFAULT_MAX_DARK_FRAMES = 1
 /** Merges repeated localizations of one molecule into events (DOMAIN §1.8). */
 export function mergeLocalizations(locs: Localizations, options: MergeOptions = {}): MergeResult {
   const radius = chooseRadius(locs, options.radiusNm)
-  const maxDarkFrames = Math.max(0, Math.floor(options.maxDarkFrames ?? DEFAULT_MAX_DARK_FRAMES))
+  const maxDarkFrames = Math.floor(options.maxDarkFrames ?? DEFAULT_MAX_DARK_FRAMES)
   const order = orderRowsByFrame(locs)
   const weights = usablePhotons(locs) ? (locs.photons ?? null) : null
   const parameters: MergeResult['parameters'] = {
@@ -57,7 +57,12 @@ export function mergeLocalizations(locs: Localizations, options: MergeOptions = 
     weighting: weights ? 'photons' : 'equal',
     excludedRows: order.excludedRows,
   }
-  if (!(radius.value > 0) || !Number.isFinite(radius.value)) {
+  const invalid = !(radius.value > 0 && Number.isFinite(radius.value))
+    ? 'the link radius must be a finite number of nm above 0'
+    : !(maxDarkFrames >= 0 && Number.isFinite(maxDarkFrames))
+      ? 'the dark-frame allowance must be a whole number ≥ 0'
+      : null
+  if (invalid) {
     const nothing = {
       rows: new Uint32Array(0),
       frames: new Uint32Array(0),
@@ -66,7 +71,7 @@ export function mergeLocalizations(locs: Localizations, options: MergeOptions = 
     return summarize(locs, { ...nothing, excludedRows: locs.count }, parameters, {
       eventOf: new Uint32Array(locs.count).fill(NO_EVENT),
       events: 0,
-      reason: 'the link radius must be a finite number of nm above 0',
+      reason: invalid,
     })
   }
   const { eventOf, events } = linkEvents(locs, order, {

@@ -92,6 +92,14 @@ describe('mergeLocalizations — bad input', () => {
     expect(result.reason).toMatch(/radius/)
   })
 
+  it('refuses a negative or NaN dark-frame allowance with a reason', () => {
+    for (const maxDarkFrames of [-1, Number.NaN]) {
+      const result = mergeLocalizations(table([[0, 0, 0]]), { maxDarkFrames })
+      expect(result.events).toBe(0)
+      expect(result.reason).toMatch(/dark-frame/)
+    }
+  })
+
   it('uses equal weights when a photon count is zero', () => {
     const result = mergeLocalizations(
       table([
