@@ -1,3 +1,4 @@
+// @vitest-environment node
 import { describe, expect, it } from 'vitest'
 import { applyDriftCorrection, estimateDrift } from '@server/compute/drift'
 import { simulateLocalizations } from '@server/compute/simulate'

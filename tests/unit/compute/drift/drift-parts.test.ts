@@ -1,3 +1,4 @@
+// @vitest-environment node
 import { describe, expect, it } from 'vitest'
 import { fft2d } from '@server/compute/fft'
 import { createRandom } from '@server/compute/simulate'

@@ -1,3 +1,4 @@
+// @vitest-environment node
 import { describe, expect, it } from 'vitest'
 import { mergeLocalizations } from '@server/compute/merge'
 import type { Localizations } from '@server/compute/localizations.types'

@@ -1,3 +1,4 @@
+// @vitest-environment node
 import { describe, expect, it } from 'vitest'
 import type { Localizations } from '@server/compute/localizations.types'
 import { estimateNenaPrecision, nenaRayleighDensity } from '@server/compute/nena'
