@@ -1,4 +1,4 @@
-import { computeSplit, type SplitBuffers } from './frc-split'
+import { computeSplit, type SplitBuffers, type SplitCurves } from './frc-split'
 import type { Localizations } from '../localizations.types'
 import { loessQuadratic } from './loess'
 import { assignBlocksToHalves } from './random'
@@ -54,32 +54,27 @@ export function analyseSplit(context: SplitContext, random: () => number): Split
     halfA: curves.counts.a,
     halfB: curves.counts.b,
   }
-  const transfer = context.transfer
-  if (transfer) {
-    const countScale = 1 / curves.tapered.a + 1 / curves.tapered.b
-    const estimate = estimateRepeats(
-      curves.numeratorMean,
-      curves.denominatorMean,
-      transfer,
-      curves.pixels,
-      countScale,
-    )
-    const repeats = estimate.repeats ?? 0
-    const raw = correctedFrc(
-      curves.numeratorMean,
-      curves.denominatorMean,
-      transfer,
-      repeats,
-      countScale,
-    )
-    const corrected = loessQuadratic(raw, context.span)
-    const q = context.frequencyPerNm
-    outcome.correction = {
-      repeats: estimate.repeats,
-      corrected,
-      crossing: thresholdCrossing(corrected, q),
-      plateau: [q[Math.max(0, estimate.firstRing)]!, q[Math.max(0, estimate.lastRing)]!],
-    }
-  }
+  if (context.transfer) outcome.correction = correctSplit(curves, context.transfer, context)
   return outcome
+}
+
+/** Q of one split, and its curve with the spurious correlation taken out (smoothed). */
+function correctSplit(
+  curves: SplitCurves,
+  transfer: Float64Array,
+  context: SplitContext,
+): NonNullable<SplitOutcome['correction']> {
+  const countScale = 1 / curves.tapered.a + 1 / curves.tapered.b
+  const { numeratorMean, denominatorMean, pixels } = curves
+  const estimate = estimateRepeats(numeratorMean, denominatorMean, transfer, pixels, countScale)
+  const repeats = estimate.repeats ?? 0
+  const raw = correctedFrc(numeratorMean, denominatorMean, transfer, repeats, countScale)
+  const corrected = loessQuadratic(raw, context.span)
+  const q = context.frequencyPerNm
+  return {
+    repeats: estimate.repeats,
+    corrected,
+    crossing: thresholdCrossing(corrected, q),
+    plateau: [q[Math.max(0, estimate.firstRing)]!, q[Math.max(0, estimate.lastRing)]!],
+  }
 }
