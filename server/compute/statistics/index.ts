@@ -5,7 +5,13 @@
  * cannot be computed, a reason. `tableStatistics` runs them all, sharing passes over the rows.
  */
 import type { Localizations } from '../localizations.types'
-import { densityStatistics, type DensityOptions, type DensitySummary } from './density'
+import {
+  DEFAULT_DENSITY_PIXEL_NM,
+  densityStatistics,
+  type DensityOptions,
+  type DensitySummary,
+} from './density'
+import { occupancy } from './occupancy'
 import { distribution, type Distribution, type DistributionOptions } from './distribution'
 import { countPerFrame } from './frames'
 import { localizationsPerFrame, type PerFrameCurve } from './per-frame'
@@ -59,7 +65,9 @@ export function tableStatistics(
   options: TableStatisticsOptions = {},
 ): TableStatistics {
   const frameCounts = countPerFrame(table.frame, table.count)
-  const summary = summarizeTable(table, frameCounts)
+  // One pass over x and y gives both the occupied area and the extents of the summary.
+  const occupied = occupancy(table, options.density?.pixelNm ?? DEFAULT_DENSITY_PIXEL_NM)
+  const summary = summarizeTable(table, frameCounts, occupied)
   const distributions: TableStatistics['distributions'] = {}
   for (const name of DISTRIBUTION_COLUMNS) {
     const column = table[name]
@@ -74,7 +82,6 @@ export function tableStatistics(
     { distribution: options.distribution, ...options.precision },
     distributions.uncertainty,
   )
-  const extents = summary.value ? { x: summary.value.x, y: summary.value.y } : undefined
-  const density = densityStatistics(table, options.density, extents)
+  const density = densityStatistics(table, options.density, occupied)
   return { summary, distributions, perFrame, precision, density }
 }

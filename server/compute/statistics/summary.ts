@@ -36,10 +36,11 @@ export function extent(values: NumericColumn, count: number): Extent | null {
   return nonFinite === count ? null : { min, max, nonFinite }
 }
 
-/** Summary of a table; `frameCounts` may be passed in when already computed. */
+/** Summary of a table; frame counts and x, y extents may be passed in when already computed. */
 export function summarizeTable(
   table: Localizations,
   frameCounts?: FrameCounts | string,
+  extents?: { x: Extent | null; y: Extent | null },
 ): StatisticResult<TableSummary> {
   const { count } = table
   const parameters = { rows: count }
@@ -59,8 +60,8 @@ export function summarizeTable(
     {
       count,
       frames,
-      x: extent(table.x, count),
-      y: extent(table.y, count),
+      x: extents ? extents.x : extent(table.x, count),
+      y: extents ? extents.y : extent(table.y, count),
       z: table.z ? extent(table.z, count) : null,
     },
     SUMMARY_METHOD,

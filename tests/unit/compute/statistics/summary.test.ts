@@ -1,7 +1,14 @@
 import { describe, expect, it } from 'vitest'
 import type { Localizations } from '@server/compute/localizations.types'
 import { simulateLocalizations } from '@server/compute/simulate'
-import { localizationsPerFrame, summarizeTable } from '@server/compute/statistics'
+import {
+  densityStatistics,
+  distribution,
+  localizationsPerFrame,
+  precisionStatistics,
+  summarizeTable,
+  tableStatistics,
+} from '@server/compute/statistics'
 
 function table(x: number[], y: number[], frame: number[], z?: number[]): Localizations {
   return {
@@ -89,5 +96,22 @@ describe('localizationsPerFrame', () => {
     const single = localizationsPerFrame(table([1, 2, 3], [1, 2, 3], [4, 4, 4])).value
     expect(single).toMatchObject({ startFrame: [4], total: [3], meanPerFrame: [3] })
     expect(localizationsPerFrame(table([], [], [])).reason).toMatch(/no localizations/)
+  })
+})
+
+describe('tableStatistics shares passes without changing results', () => {
+  it('gives the same summary, density and distributions as the separate functions', () => {
+    const { localizations: t } = simulateLocalizations({ emitters: 5000, seed: 23, axial: {} })
+    const all = tableStatistics(t, { precision: { pixelNm: 108 } })
+    expect(all.summary).toEqual(summarizeTable(t))
+    expect(all.density).toEqual(densityStatistics(t))
+    expect(all.distributions.photons).toEqual(distribution(t.photons ?? new Float32Array()))
+    expect(Object.keys(all.distributions).sort()).toEqual(
+      ['background', 'photons', 'sigma', 'uncertainty', 'z'].sort(),
+    )
+    expect(all.precision).toEqual(precisionStatistics(t, { pixelNm: 108 }))
+    // Brute-force extremes.
+    expect(all.summary.value?.x?.min).toBe(Math.min(...t.x))
+    expect(all.summary.value?.y?.max).toBe(Math.max(...t.y))
   })
 })
