@@ -2,10 +2,12 @@ import type { AppConfig } from './config'
 import type { Orm } from './db'
 import { refreshPlannerStatistics } from './db'
 import { JobRunner } from './jobs/job-runner'
+import { FRESH_THREAD_KINDS } from './jobs/kinds'
 import type { Logger } from './logger'
 import { queueMissingFileJobs } from './modules/files/file-jobs'
 import { fileJobCompletions } from './modules/files/file-jobs.completions'
 import { sweepOrphanedBytes } from './modules/files/orphan-sweep.service'
+import { recountDerivedBytes } from './modules/files/project-usage'
 import { pruneOidcPayloads } from './modules/idp/oidc-adapter'
 import { startMailCatcher, type MailCatcher } from './modules/mail/mail-catcher'
 import { OrmSessionStore } from './modules/sessions/session-store'
@@ -45,7 +47,8 @@ export async function openBackground(deps: {
     logger,
     dataDir: config.dataDir,
     workers: config.jobWorkers,
-    completions: fileJobCompletions(),
+    completions: fileJobCompletions(config),
+    freshThreadKinds: FRESH_THREAD_KINDS,
   })
   let upkeep: NodeJS.Timeout | null = null
 
@@ -55,7 +58,8 @@ export async function openBackground(deps: {
     async begin(uploads) {
       const completed = await uploads.reconcile()
       if (completed) logger.info({ completed }, 'interrupted uploads registered')
-      const requeued = await queueMissingFileJobs(orm.em.fork())
+      await recountDerivedBytes(orm.em.fork(), storage)
+      const requeued = await queueMissingFileJobs(orm.em.fork(), config)
       if (requeued) logger.info({ requeued }, 'files without their processing job requeued')
       const sweep = () =>
         sweepOrphanedBytes(orm.em.fork(), storage).then((removed) => {

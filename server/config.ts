@@ -37,6 +37,10 @@ const envSchema = z.object({
     .int()
     .positive()
     .default(2 * 1024 ** 4),
+  /** A gzip table may expand to at most this many times its size (decompression bombs stop). */
+  INGEST_MAX_EXPANSION: z.coerce.number().positive().default(100),
+  /** The most rows one localization table may have. */
+  INGEST_MAX_ROWS: z.coerce.number().int().positive().default(500_000_000),
   /** Unfinished uploads untouched this long are deleted and their space freed. */
   UPLOAD_EXPIRY_HOURS: z.coerce.number().positive().default(48),
   /**
@@ -67,6 +71,7 @@ export interface AppConfig {
   rateLimitSignIn: number
   logLevel: 'silent' | 'error' | 'info' | 'debug'
   uploads: { maxBytes: number; projectQuotaBytes: number; expiryMs: number }
+  ingest: { maxExpansion: number; maxRows: number }
   jobWorkers: number
   httpWorkers: number
 }
@@ -161,6 +166,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): AppConfig {
       projectQuotaBytes: e.PROJECT_QUOTA_BYTES,
       expiryMs: e.UPLOAD_EXPIRY_HOURS * 3600_000,
     },
+    ingest: { maxExpansion: e.INGEST_MAX_EXPANSION, maxRows: e.INGEST_MAX_ROWS },
     jobWorkers: e.JOB_WORKERS,
     httpWorkers: e.WEB_CONCURRENCY,
   }

@@ -23,6 +23,11 @@ export interface JobKind<S extends z.ZodType = z.ZodType> {
   dedupeKey?(payload: z.output<S>): string
   /** Kinds on the same subject that must have finished before this one starts. */
   after?: readonly string[]
+  /**
+   * Run in a thread that ends with the job: whatever memory the work held (buffers, heaps of
+   * its helper threads) goes back to the system rather than staying with an idle thread.
+   */
+  freshThread?: boolean
 }
 
 export const defineJobKind = <S extends z.ZodType>(kind: JobKind<S>): JobKind<S> => kind

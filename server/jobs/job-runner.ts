@@ -23,6 +23,8 @@ export interface JobRunnerOptions {
   heartbeatMs?: number
   /** A job interrupted this many times is given up (it probably kills its process). */
   maxAttempts?: number
+  /** Kinds whose thread is ended after the job, giving its memory back (JobKind.freshThread). */
+  freshThreadKinds?: ReadonlySet<string>
 }
 
 const WORKER_URL = new URL('./worker-bootstrap.mjs', import.meta.url)
@@ -33,6 +35,8 @@ const WORKER_URL = new URL('./worker-bootstrap.mjs', import.meta.url)
  */
 export class JobRunner {
   private readonly running = new Map<number, Worker>()
+  /** The kind each running job has, for what happens to its thread afterwards. */
+  private readonly kinds = new Map<number, string>()
   private idle: Worker[] = []
   private timer: NodeJS.Timeout | null = null
   private ticking = false
@@ -65,6 +69,11 @@ export class JobRunner {
 
   get busy(): number {
     return this.running.size
+  }
+
+  /** Worker threads alive now, busy or idle. */
+  get threads(): number {
+    return this.running.size + this.idle.length
   }
 
   private async tick(): Promise<void> {
@@ -140,7 +149,10 @@ export class JobRunner {
         return
       }
       this.running.delete(m.id)
-      if (!this.stopped) this.idle.push(worker)
+      const kind = this.kinds.get(m.id)
+      this.kinds.delete(m.id)
+      if (kind && this.o.freshThreadKinds?.has(kind)) void worker.terminate()
+      else if (!this.stopped) this.idle.push(worker)
       void this.finish(m.id, m).then(() => this.notify())
     })
     worker.on('error', (err) => this.lost(worker, err.message))
@@ -170,6 +182,7 @@ export class JobRunner {
     }
     const worker = this.worker()
     this.running.set(job.id, worker)
+    this.kinds.set(job.id, job.kind)
     worker.postMessage({ id: job.id, kind: job.kind, payload: job.payload })
   }
 

@@ -5,6 +5,7 @@ import { Migration20261201233454 } from './Migration20261201233454'
 import { Migration20261201233748 } from './Migration20261201233748'
 import { Migration20261202022156 } from './Migration20261202022156'
 import { Migration20261204133522 } from './Migration20261204133522'
+import { Migration20261204141630 } from './Migration20261204141630'
 
 /**
  * Migrations in the order they run. `npm run db -- migration:create` writes new files here;
@@ -18,4 +19,5 @@ export const migrationsList = [
   { name: 'Migration20261201233748', class: Migration20261201233748 },
   { name: 'Migration20261202022156', class: Migration20261202022156 },
   { name: 'Migration20261204133522', class: Migration20261204133522 },
+  { name: 'Migration20261204141630', class: Migration20261204141630 },
 ]

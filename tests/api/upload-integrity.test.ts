@@ -203,9 +203,9 @@ describe('registering a finished upload', () => {
     const id = Number(res.fileId)
     // What an older release could leave after a crash: the file row without its job.
     await t.em().nativeDelete(Job, { subjectId: id })
-    expect(await queueMissingFileJobs(t.em())).toBe(1)
+    expect(await queueMissingFileJobs(t.em(), t.config)).toBe(1)
     const job = await t.em().findOneOrFail(Job, { subjectId: id, state: 'queued' })
     expect(job.kind).toBe('inspect-table')
-    expect(await queueMissingFileJobs(t.em())).toBe(0)
+    expect(await queueMissingFileJobs(t.em(), t.config)).toBe(0)
   })
 })

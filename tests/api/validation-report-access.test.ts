@@ -42,7 +42,7 @@ beforeAll(async () => {
     dataDir: t.config.dataDir,
     workers: 1,
     pollMs: 50,
-    completions: fileJobCompletions(),
+    completions: fileJobCompletions(t.config),
   })
   runner.start()
   const em = t.em()

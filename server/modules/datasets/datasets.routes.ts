@@ -105,7 +105,7 @@ export function datasetsRouter(deps: AppDeps): Router {
 
   router.use('/:id/comments', commentsRouter())
   router.use('/:id', datasetMetadataRouter(deps))
-  router.use('/:id', filesRouter(deps.storage, deps.jobs))
+  router.use('/:id', filesRouter(deps))
 
   return router
 }

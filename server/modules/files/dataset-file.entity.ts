@@ -13,6 +13,8 @@ export const DatasetFile = defineEntity({
     /** The sanitised file name shown to people and used in manifests. */
     name: p.string(),
     size: p.bigint('number'),
+    /** Bytes computed from it (localization store, thumbnails, tiles); they count against the quota. */
+    derivedBytes: p.bigint('number').default(0),
     sha256: p.string().nullable(),
     kind: p.string().$type<FileKind>().default('other'),
     status: p.string().$type<FileStatus>().default('processing'),

@@ -7,7 +7,7 @@ import { enqueue } from '../../jobs/job-queue'
 import { scanRawStackJob } from './file-jobs'
 import type { RawStackReport } from './raw-stack.work'
 import { rejectOnFailure } from './file-job-failure'
-import { tableCompletions } from './table-jobs.completions'
+import { tableCompletions, type IngestSettings } from './table-jobs.completions'
 
 async function fileOf(em: EntityManager, job: IJob) {
   return job.file == null ? null : em.findOne(DatasetFile, { id: job.file })
@@ -43,7 +43,8 @@ const scanRawStack: JobCompletion = {
   async done(em, job, result) {
     const file = await fileOf(em, job)
     if (!file) return
-    const report = result as RawStackReport
+    const { derivedBytes, ...report } = result as RawStackReport & { derivedBytes: number }
+    file.derivedBytes = derivedBytes
     // Embedded OME-XML becomes a prefill the depositor reviews before it touches the description.
     let omePrefill: unknown = null
     if (report.omeXml) {
@@ -60,6 +61,6 @@ const scanRawStack: JobCompletion = {
   failed: rejectOnFailure,
 }
 
-export function fileJobCompletions(): Record<string, JobCompletion> {
-  return { [scanRawStackJob.name]: scanRawStack, ...tableCompletions() }
+export function fileJobCompletions(settings: IngestSettings): Record<string, JobCompletion> {
+  return { [scanRawStackJob.name]: scanRawStack, ...tableCompletions(settings) }
 }

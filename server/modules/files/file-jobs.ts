@@ -7,6 +7,9 @@ import {
 import type { EntityManager } from '@mikro-orm/better-sqlite'
 import { defineJobKind } from '../../jobs/job-kind'
 import { enqueue } from '../../jobs/job-queue'
+import type { AppConfig } from '../../config'
+import { Dataset } from '../datasets/dataset.entity'
+import { projectBytesUsed } from './project-usage'
 import type { LocalStorage } from '../../storage/local-storage'
 import { Job } from '../../jobs/job.entity'
 import { DatasetFile, type IDatasetFile } from './dataset-file.entity'
@@ -23,6 +26,13 @@ export const inspectTableJob = defineJobKind({
   subject: onFile,
 })
 
+/** What one table may cost, fixed when the ingest is queued (see IngestLimits). */
+const ingestLimits = z.object({
+  maxExpansion: z.number().positive(),
+  maxRows: z.number().positive(),
+  maxOutputBytes: z.number().min(0),
+})
+
 /** Parses, validates and converts a whole table into the tile-ordered localization store. */
 export const ingestTableJob = defineJobKind({
   name: 'ingest-table',
@@ -31,9 +41,12 @@ export const ingestTableJob = defineJobKind({
     sourceKey: storageKey,
     mapping: columnMappingSchema,
     format: tableFormatChoiceSchema.nullish(),
+    limits: ingestLimits.optional(),
   }),
   subject: onFile,
   after: ['inspect-table'],
+  // A large table's buffers go back to the system with its thread.
+  freshThread: true,
 })
 
 /** Header, frame-mean trace and projection thumbnail of a raw stack (all parts of a file set). */
@@ -42,6 +55,21 @@ export const scanRawStackJob = defineJobKind({
   payload: z.object({ fileId, sourceKey: storageKey, partKeys: z.array(storageKey).optional() }),
   subject: onFile,
 })
+
+/** The limits of an ingest queued now: the site's settings, and what the project has left. */
+export async function ingestLimitsFor(
+  em: EntityManager,
+  config: Pick<AppConfig, 'ingest' | 'uploads'>,
+  file: IDatasetFile,
+) {
+  const dataset = await em.findOneOrFail(Dataset, { id: file.dataset })
+  // The table's own earlier store is replaced, so its bytes are free for the new one.
+  const used = (await projectBytesUsed(em, dataset.project)) - file.derivedBytes
+  return {
+    ...config.ingest,
+    maxOutputBytes: Math.max(0, config.uploads.projectQuotaBytes - used),
+  }
+}
 
 /** Where a file's derived outputs go; the same on both threads, from the file id alone. */
 export function derivedPaths(storage: LocalStorage, fileId: number) {
@@ -64,7 +92,10 @@ export async function queueFirstJob(em: EntityManager, file: IDatasetFile): Prom
  * lost its job (an older release registered files and jobs in separate steps) gets it again —
  * the ingest when its mapping is known, else its first job.
  */
-export async function queueMissingFileJobs(em: EntityManager): Promise<number> {
+export async function queueMissingFileJobs(
+  em: EntityManager,
+  config: Pick<AppConfig, 'ingest' | 'uploads'>,
+): Promise<number> {
   const waiting = await em.find(DatasetFile, { status: 'processing' })
   let queued = 0
   for (const file of waiting) {
@@ -80,6 +111,7 @@ export async function queueMissingFileJobs(em: EntityManager): Promise<number> {
         sourceKey: file.storageKey,
         // Checked against the mapping schema by enqueue().
         mapping: file.mapping as ColumnMappingInput,
+        limits: await ingestLimitsFor(em, config, file),
       })
     } else await queueFirstJob(em, file)
     queued++

@@ -10,7 +10,7 @@ import {
   tableFormatChoiceSchema,
 } from '@shared/schemas/localization-mapping.schema'
 import { Job } from '../../jobs/job.entity'
-import type { LocalStorage } from '../../storage/local-storage'
+import type { AppDeps } from '../../services'
 import { audit } from '../audit/audit.service'
 import { datasetFor, datasetParams } from '../datasets/dataset-access'
 import { UploadReservation } from '../uploads/upload-reservation.entity'
@@ -59,7 +59,8 @@ function summaryOf(f: IDatasetFile): Record<string, unknown> | null {
  * A dataset's files. The list is part of the description (names, sizes, checksums); the bytes and
  * the checksum manifest need the download right, which an embargo withholds.
  */
-export function filesRouter(storage: LocalStorage, jobs?: { notify(): void }): Router {
+export function filesRouter(deps: Pick<AppDeps, 'storage' | 'jobs' | 'config'>): Router {
+  const { storage, jobs } = deps
   const router = Router({ mergeParams: true })
 
   router.get('/files', async (req, res) => {
@@ -137,7 +138,7 @@ export function filesRouter(storage: LocalStorage, jobs?: { notify(): void }): R
     '/files/:fileId/mapping',
     requireUser,
     tableCorrection('file.mapping', async (req, file) => {
-      await queueIngest(em(), file, parseBody(columnMappingSchema, req))
+      await queueIngest(em(), file, parseBody(columnMappingSchema, req), deps.config)
       return {}
     }),
   )

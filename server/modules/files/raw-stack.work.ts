@@ -65,7 +65,7 @@ export const scanRawStackWork: JobWork = async (input, { storage, progress }) =>
     trace: { min, max, mean: scan.frames ? sum / scan.frames : 0 },
     thumbnail: { width: scan.thumbnail.width, height: scan.thumbnail.height },
   }
-  return report
+  return { ...report, derivedBytes: await storage.derivedBytes(payload.fileId) }
 }
 
 /** The files a multi-file OME-TIFF's OME-XML names, in the order of their first planes. */

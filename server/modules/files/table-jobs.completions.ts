@@ -11,7 +11,8 @@ import type { IJob } from '../../jobs/job.entity'
 import { DatasetMetadata } from '../metadata/dataset-metadata.entity'
 import { DatasetFile, type IDatasetFile } from './dataset-file.entity'
 import { rejectOnFailure } from './file-job-failure'
-import { ingestTableJob, inspectTableJob } from './file-jobs'
+import type { AppConfig } from '../../config'
+import { ingestLimitsFor, ingestTableJob, inspectTableJob } from './file-jobs'
 import type { IngestReport, TableSniff } from './localizations'
 
 /** The pixel size from the dataset's description, for tables in camera pixels. */
@@ -20,8 +21,15 @@ async function pixelSizeOf(em: EntityManager, datasetId: number): Promise<number
   return meta?.document.instrument?.detector?.pixelSizeNm
 }
 
-/** Queues the ingest of a table with a confirmed mapping. */
-export async function queueIngest(em: EntityManager, file: IDatasetFile, mapping: ColumnMapping) {
+export type IngestSettings = Pick<AppConfig, 'ingest' | 'uploads'>
+
+/** Queues the ingest of a table with a confirmed mapping, within the site's and project's limits. */
+export async function queueIngest(
+  em: EntityManager,
+  file: IDatasetFile,
+  mapping: ColumnMapping,
+  settings: IngestSettings,
+) {
   file.mapping = mapping
   file.status = 'processing'
   file.problem = null
@@ -30,6 +38,7 @@ export async function queueIngest(em: EntityManager, file: IDatasetFile, mapping
     sourceKey: file.storageKey,
     mapping,
     format: declaredFormatOf(file),
+    limits: await ingestLimitsFor(em, settings, file),
   })
 }
 
@@ -49,7 +58,7 @@ export async function queueInspect(
   await enqueue(em, inspectTableJob, { fileId: file.id, sourceKey: file.storageKey, format })
 }
 
-const inspect: JobCompletion = {
+const inspect = (settings: IngestSettings): JobCompletion => ({
   async done(em, job: IJob, result) {
     const file = job.file == null ? null : await em.findOne(DatasetFile, { id: job.file })
     if (!file) return
@@ -66,7 +75,7 @@ const inspect: JobCompletion = {
       mapping = pixelSizeNm ? { ...mapping, pixelSizeNm } : null
     }
     if (mapping) {
-      await queueIngest(em, file, mapping)
+      await queueIngest(em, file, mapping, settings)
       return
     }
     file.status = 'needs_mapping'
@@ -75,14 +84,15 @@ const inspect: JobCompletion = {
       : 'Confirm which column is which before the table can be read.'
   },
   failed: rejectOnFailure,
-}
+})
 
 const ingest: JobCompletion = {
   async done(em, job, result) {
     const file = job.file == null ? null : await em.findOne(DatasetFile, { id: job.file })
     if (!file) return
-    const report = result as IngestReport
+    const { derivedBytes, ...report } = result as IngestReport & { derivedBytes: number }
     file.report = { ...(file.report ?? {}), ...report }
+    file.derivedBytes = derivedBytes
     if (report.rowsAccepted === 0) {
       file.status = 'rejected'
       file.problem = 'No row of the table could be read; see the validation report.'
@@ -97,6 +107,6 @@ const ingest: JobCompletion = {
 }
 
 /** Completions of the localization-table jobs (inspect, ingest). */
-export function tableCompletions(): Record<string, JobCompletion> {
-  return { [inspectTableJob.name]: inspect, [ingestTableJob.name]: ingest }
+export function tableCompletions(settings: IngestSettings): Record<string, JobCompletion> {
+  return { [inspectTableJob.name]: inspect(settings), [ingestTableJob.name]: ingest }
 }

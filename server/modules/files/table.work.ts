@@ -33,8 +33,9 @@ export const ingestTableWork: JobWork = async (input, { storage, progress }) => 
     outputPath: derivedPaths(storage, payload.fileId).columnar,
     mapping: payload.mapping,
     format: payload.format ?? undefined,
+    limits: payload.limits,
     onProgress: (f) => progress(f, 'parsing and converting'),
   })
   const { arrowPath: _arrow, indexPath: _index, ...output } = report.output
-  return { ...report, output }
+  return { ...report, output, derivedBytes: await storage.derivedBytes(payload.fileId) }
 }

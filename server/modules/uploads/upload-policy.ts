@@ -5,11 +5,16 @@ import type { AppConfig } from '../../config'
 import { findDataset } from '../datasets/dataset-access'
 import { Dataset, type IDataset } from '../datasets/dataset.entity'
 import { FileNameError, safeFileName } from '../files/file-names'
+import { projectBytesUsed } from '../files/project-usage'
 import { loadViewer } from '../users/viewer.service'
 import { User } from '../users/user.entity'
 import { refuse } from './upload-errors'
 
-const gib = (bytes: number) => `${(bytes / 1024 ** 3).toFixed(bytes < 10 * 1024 ** 3 ? 2 : 0)} GiB`
+/** Bytes in the largest binary unit that keeps the number readable (MiB for small quotas). */
+const gib = (bytes: number) =>
+  bytes < 1024 ** 3
+    ? `${(bytes / 1024 ** 2).toFixed(2)} MiB`
+    : `${(bytes / 1024 ** 3).toFixed(bytes < 10 * 1024 ** 3 ? 2 : 0)} GiB`
 
 const NOT_EDITABLE = (accession: string) =>
   refuse(
@@ -90,16 +95,7 @@ export async function checkQuota(
   dataset: IDataset,
   size: number,
 ) {
-  const knex = em.getKnex()
-  const [files, pending] = await Promise.all([
-    knex('dataset_file as f')
-      .join('dataset as d', 'd.id', 'f.dataset_id')
-      .where('d.project_id', dataset.project)
-      .sum({ total: 'f.size' })
-      .first(),
-    knex('upload_reservation').where('project_id', dataset.project).sum({ total: 'size' }).first(),
-  ])
-  const used = Number(files?.total ?? 0) + Number(pending?.total ?? 0)
+  const used = await projectBytesUsed(em, dataset.project)
   const quota = config.uploads.projectQuotaBytes
   if (used + size > quota) {
     throw refuse(

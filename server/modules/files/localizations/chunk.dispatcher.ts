@@ -19,6 +19,8 @@ export interface Dispatch {
   /** The grid from the first rows; `readFraction` says how much of the file they are. */
   gridFor: (readFraction: number) => GridRule
   onProcessed: (readFraction: number) => void
+  /** Called with the rows processed so far; throws to stop the ingest (limits). */
+  checkRows?: (rows: number) => void
 }
 
 export async function processChunks(chunks: AsyncIterable<TableChunk>, d: Dispatch) {
@@ -27,12 +29,20 @@ export async function processChunks(chunks: AsyncIterable<TableChunk>, d: Dispat
   let failure: unknown = null
   let grid: TileGrid | null = null
   let seq = 0
+  let rows = 0
   const finish = (processed: Processed, readFraction: number) => {
     done.push(processed)
     d.buffers.give(processed.buffer)
     d.onProcessed(readFraction)
+    rows += processed.summary.rows
+    try {
+      d.checkRows?.(rows)
+    } catch (error) {
+      failure ??= error
+    }
   }
   for await (const chunk of chunks) {
+    if (failure) break
     if (!grid) {
       const first = d.inline.first(seq++, chunk.bytes, d.gridFor(chunk.readFraction))
       grid = first.grid

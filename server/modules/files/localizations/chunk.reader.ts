@@ -31,10 +31,12 @@ export async function* readRecordChunks(
   format: TableFormat,
   chunkBytes: number,
   buffers: BufferPool,
+  /** Gzip: the most text one compressed byte may expand to (a decompression bomb stops here). */
+  maxExpansion = Infinity,
 ): AsyncGenerator<TableChunk> {
   const source =
     format.compression === 'gzip'
-      ? await gzipSource(path, format.dataOffset)
+      ? await gzipSource(path, format.dataOffset, maxExpansion)
       : await plainSource(path, format.dataOffset)
   try {
     let carry = new Uint8Array(0)
@@ -97,6 +99,14 @@ function oversizedRecord(openQuote: boolean, offset: number) {
     : new TableFormatError('line_too_long', `A line longer than 1 MiB starts ${where}`)
 }
 
+function expanded(size: number, maxExpansion: number) {
+  return new TableFormatError(
+    'expansion',
+    `The compressed table expands to more than ${maxExpansion} times its ${size.toLocaleString('en')} bytes; ` +
+      'it was stopped as a likely decompression bomb. Upload the table uncompressed, or ask a site admin to raise INGEST_MAX_EXPANSION.',
+  )
+}
+
 async function plainSource(path: string, offset: number): Promise<ByteSource> {
   const file: FileHandle = await open(path, 'r')
   const size = (await file.stat()).size
@@ -112,8 +122,10 @@ async function plainSource(path: string, offset: number): Promise<ByteSource> {
   }
 }
 
-async function gzipSource(path: string, skip: number): Promise<ByteSource> {
+async function gzipSource(path: string, skip: number, maxExpansion: number): Promise<ByteSource> {
   const size = (await stat(path)).size
+  const maxText = Math.max(1 << 20, size * maxExpansion)
+  let text = 0
   const raw = createReadStream(path, { highWaterMark: 1 << 20 })
   const gunzip = createGunzip({ chunkSize: 1 << 20 })
   raw.on('error', (error) => gunzip.destroy(error))
@@ -128,6 +140,8 @@ async function gzipSource(path: string, skip: number): Promise<ByteSource> {
           .catch((error: unknown) => Promise.reject(damagedGzip(error)))
         if (next.done) return 0
         piece = next.value as Buffer
+        text += piece.length
+        if (text > maxText) throw expanded(size, maxExpansion)
         const skipped = Math.min(toSkip, piece.length)
         piece = piece.subarray(skipped)
         toSkip -= skipped

@@ -19,8 +19,10 @@ import { addUp, boundsOf, type IngestReport, type Totals } from './ingest-report
 import { buildParsePlan, slotOf } from './parse-plan'
 import { acquireParseWorkers } from './parse-worker.pool'
 import { PARSED_SHARE, writeOutput, type Run } from './output.writer'
+import { BYTES_PER_VALUE } from './output.columns'
 import { buildReport } from './report.builder'
 import { sniffTable } from './sniff.service'
+import { TableFormatError } from './table-format.types'
 import type { FormatOverrides } from './table.sniffer'
 import { planGrid, type Bounds, type TileGrid } from './tile.grid'
 
@@ -33,11 +35,39 @@ export interface IngestOptions {
   onProgress?: (fraction: number) => void
   /** What the depositor declared, over what the sniffer finds. */
   format?: FormatOverrides
+  /** What one table may cost; an ingest past any of them stops with a TableFormatError. */
+  limits?: IngestLimits
   /** For tests and benchmarks: worker count (0 = this thread), chunk size, rows per tile. */
   tuning?: { workers?: number; chunkBytes?: number; rowsPerTile?: number }
 }
 
+export interface IngestLimits {
+  /** Gzip: text bytes per compressed byte. */
+  maxExpansion?: number
+  maxRows?: number
+  /** Bytes the localization store may take (the project's remaining quota). */
+  maxOutputBytes?: number
+}
+
 const INLINE_BELOW_BYTES = 8 << 20
+
+/** Stops the ingest once the rows, or the store they need, pass the limits. */
+function rowLimit(plan: ReturnType<typeof buildParsePlan>, limits: IngestLimits = {}) {
+  const bytesPerRow = plan.slots.reduce((n, slot) => n + BYTES_PER_VALUE[slot.storage], 0)
+  const gib = (bytes: number) => `${(bytes / 1024 ** 3).toFixed(2)} GiB`
+  return (rows: number) => {
+    if (limits.maxRows !== undefined && rows > limits.maxRows)
+      throw new TableFormatError(
+        'too_many_rows',
+        `The table has more than ${limits.maxRows.toLocaleString('en')} rows, the most one table may have here; ask a site admin to raise INGEST_MAX_ROWS.`,
+      )
+    if (limits.maxOutputBytes !== undefined && rows * bytesPerRow > limits.maxOutputBytes)
+      throw new TableFormatError(
+        'too_large',
+        `Converted, the table would need more than ${gib(limits.maxOutputBytes)}, what is left of the project's quota; ask a site admin for more space.`,
+      )
+  }
+}
 
 export async function ingestLocalizationTable(options: IngestOptions): Promise<IngestReport> {
   const clock = phaseClock()
@@ -52,10 +82,18 @@ export async function ingestLocalizationTable(options: IngestOptions): Promise<I
     clock.lap('sniff')
     const chunkBytes = options.tuning?.chunkBytes ?? chunkSizeFor(size)
     const buffers = new BufferPool()
-    const chunks = readRecordChunks(options.sourcePath, sniff, chunkBytes, buffers)
+    const limits = options.limits ?? {}
+    const chunks = readRecordChunks(
+      options.sourcePath,
+      sniff,
+      chunkBytes,
+      buffers,
+      limits.maxExpansion,
+    )
     const gridFor = (readFraction: number) => gridRule(readFraction, options.tuning?.rowsPerTile)
     const onProcessed = (fraction: number) => run.progress(fraction * PARSED_SHARE)
-    const dispatch = { inline, workers, buffers, gridFor, onProcessed }
+    const checkRows = rowLimit(plan, limits)
+    const dispatch = { inline, workers, buffers, gridFor, onProcessed, checkRows }
     const { processed, grid } = await processChunks(chunks, dispatch)
     const totals = addUp(
       processed.map((p) => p.summary),

@@ -36,7 +36,15 @@ export interface TableSniff extends TableFormat {
 }
 
 export type TableFormatErrorCode =
-  'empty' | 'binary' | 'encoding' | 'line_too_long' | 'unterminated_quote' | 'no_data'
+  | 'empty'
+  | 'binary'
+  | 'encoding'
+  | 'line_too_long'
+  | 'unterminated_quote'
+  | 'no_data'
+  | 'expansion'
+  | 'too_many_rows'
+  | 'too_large'
 
 /** The file cannot be read as a table at all; `message` says why in words. */
 export class TableFormatError extends Error {
