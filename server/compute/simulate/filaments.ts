@@ -77,6 +77,32 @@ export interface FilamentParameters {
   persistenceNm: number
 }
 
+/** Writes site i: a random point on the tube's surface at arc position `along` (in steps). */
+function placeOnTube(
+  targets: StructureTargets,
+  i: number,
+  at: { curve: Curve; along: number; radius: number },
+  random: Random,
+): void {
+  const { curve, along, radius } = at
+  const segment = Math.min(curve.x.length - 2, Math.floor(along))
+  const fraction = along - segment
+  const xa = curve.x[segment] ?? 0
+  const ya = curve.y[segment] ?? 0
+  const dx = (curve.x[segment + 1] ?? 0) - xa
+  const dy = (curve.y[segment + 1] ?? 0) - ya
+  // A point on the tube's circular cross-section: one component across the curve, one along z.
+  const around = random.uniform() * 2 * Math.PI
+  const across = (radius * Math.cos(around)) / STEP_NM
+  targets.x[i] = xa + fraction * dx - across * dy
+  targets.y[i] = ya + fraction * dy + across * dx
+  if (targets.z) {
+    const curveFraction = (segment + fraction) / (curve.x.length - 1)
+    const zAxis = curve.zStart + curveFraction * (curve.zEnd - curve.zStart)
+    targets.z[i] = zAxis + radius * Math.sin(around)
+  }
+}
+
 /** Places `targets.count` tube-surface sites on `count` random curves, chosen by curve length. */
 export function placeOnFilaments(
   targets: StructureTargets,
@@ -104,21 +130,6 @@ export function placeOnFilaments(
       continue
     }
     const along = position - ((cumulativeSegments[c] ?? 0) - (curve.x.length - 1))
-    const segment = Math.min(curve.x.length - 2, Math.floor(along))
-    const fraction = along - segment
-    const xa = curve.x[segment] ?? 0
-    const ya = curve.y[segment] ?? 0
-    const dx = (curve.x[segment + 1] ?? 0) - xa
-    const dy = (curve.y[segment + 1] ?? 0) - ya
-    // A point on the tube's circular cross-section: one component across the curve, one along z.
-    const around = random.uniform() * 2 * Math.PI
-    const across = (radius * Math.cos(around)) / STEP_NM
-    targets.x[i] = xa + fraction * dx - across * dy
-    targets.y[i] = ya + fraction * dy + across * dx
-    if (targets.z) {
-      const curveFraction = (segment + fraction) / (curve.x.length - 1)
-      const zAxis = curve.zStart + curveFraction * (curve.zEnd - curve.zStart)
-      targets.z[i] = zAxis + radius * Math.sin(around)
-    }
+    placeOnTube(targets, i, { curve, along, radius }, random)
   }
 }

@@ -107,6 +107,7 @@ export interface SimulationOptions {
   structure?: Structure | Structure[]
   /** Emitter count of the single channel (default 20 000). */
   emitters?: number
+  /** Emitters per µm² of field, used when `emitters` is not given. */
   densityPerUm2?: number
   /** Two or more channels, each with its own structure; adds a `channel` column. */
   channels?: ChannelOptions[]

@@ -35,16 +35,20 @@ function placeClusters(targets: StructureTargets, random: Random, count: number,
   }
 }
 
-/** Ring centres at random, keeping centres 3 radii apart where 30 tries allow (a hash grid). */
+/**
+ * Ring centres at random, keeping centres 3 radii apart where 30 tries allow (a hash grid). A field
+ * too full for that spacing (exclusion squares covering over half of it) takes centres as drawn.
+ */
 function ringCentres(fieldNm: number, count: number, radius: number, random: Random): Float64Array {
   const spacing = 3 * radius
+  const tries = count * spacing * spacing > 0.5 * fieldNm * fieldNm ? 1 : 30
   const cells = Math.max(1, Math.floor(fieldNm / spacing))
   const grid = new Map<number, number[]>()
   const centres = new Float64Array(2 * count)
   for (let r = 0; r < count; r++) {
     let x = 0
     let y = 0
-    for (let attempt = 0; attempt < 30; attempt++) {
+    for (let attempt = 0; attempt < tries; attempt++) {
       x = radius + random.uniform() * (fieldNm - 2 * radius)
       y = radius + random.uniform() * (fieldNm - 2 * radius)
       if (!crowded(grid, centres, x, y, spacing, cells)) break

@@ -38,6 +38,52 @@ function expectedMedian(table: Localizations, inputs: PrecisionInputs, sampleSiz
   return values.length ? (values[Math.ceil(values.length / 2) - 1] ?? null) : null
 }
 
+type Parameters = StatisticResult<PrecisionSummary>['parameters']
+
+/** From the table's own column, with the expected median beside it when photons allow. */
+function fromColumn(
+  table: Localizations & { uncertainty: NonNullable<Localizations['uncertainty']> },
+  inputs: PrecisionInputs | string,
+  options: PrecisionOptions,
+  measured: StatisticResult<Distribution>,
+  parameters: Parameters,
+): StatisticResult<PrecisionSummary> {
+  if (!measured.value) return notComputable(measured.reason ?? '', PRECISION_METHOD, parameters)
+  const sampleSize = options.sampleSize ?? DEFAULT_SAMPLE
+  const expected = typeof inputs === 'string' ? null : expectedMedian(table, inputs, sampleSize)
+  const summary: PrecisionSummary = {
+    source: 'uncertainty column',
+    medianNm: measured.value.median,
+    distribution: measured.value,
+    expectedMedianNm: expected,
+    expectedFormula: expected === null ? null : String(parameters.formula),
+    measuredToExpected: expected ? measured.value.median / expected : null,
+  }
+  return computed(summary, PRECISION_METHOD, { ...parameters, expectedSampleRows: sampleSize })
+}
+
+/** From photons and background alone, every row. */
+function fromPhotons(
+  table: Localizations,
+  inputs: PrecisionInputs,
+  options: PrecisionOptions,
+  parameters: Parameters,
+): StatisticResult<PrecisionSummary> {
+  const expected = distributionOf(expectedValues(table, inputs), options.distribution)
+  if (!expected.value) {
+    return notComputable('No row has usable photons and background.', PRECISION_METHOD, parameters)
+  }
+  const summary: PrecisionSummary = {
+    source: 'expected from photons',
+    medianNm: expected.value.median,
+    distribution: expected.value,
+    expectedMedianNm: expected.value.median,
+    expectedFormula: String(parameters.formula),
+    measuredToExpected: null,
+  }
+  return computed(summary, PRECISION_METHOD, parameters)
+}
+
 /** Precision statistics; pass the uncertainty column's distribution if already computed. */
 export function precisionStatistics(
   table: Localizations,
@@ -46,43 +92,18 @@ export function precisionStatistics(
 ): StatisticResult<PrecisionSummary> {
   const inputs = expectationInputs(table, options)
   const parameters = describePrecisionInputs(inputs, options)
-  const method = PRECISION_METHOD
-  if (table.count === 0) return notComputable('The table has no localizations.', method, parameters)
-  const formula = typeof inputs === 'string' ? null : (parameters.formula as string)
-  if (table.uncertainty) {
+  if (table.count === 0) {
+    return notComputable('The table has no localizations.', PRECISION_METHOD, parameters)
+  }
+  const { uncertainty } = table
+  if (uncertainty) {
     const measured =
-      uncertaintyDistribution ?? distribution(table.uncertainty, table.count, options.distribution)
-    if (!measured.value) return notComputable(measured.reason ?? '', method, parameters)
-    const sampleSize = options.sampleSize ?? DEFAULT_SAMPLE
-    const expected = typeof inputs === 'string' ? null : expectedMedian(table, inputs, sampleSize)
-    const summary: PrecisionSummary = {
-      source: 'uncertainty column',
-      medianNm: measured.value.median,
-      distribution: measured.value,
-      expectedMedianNm: expected,
-      expectedFormula: expected === null ? null : formula,
-      measuredToExpected: expected ? measured.value.median / expected : null,
-    }
-    return computed(summary, method, { ...parameters, expectedSampleRows: sampleSize })
+      uncertaintyDistribution ?? distribution(uncertainty, table.count, options.distribution)
+    return fromColumn({ ...table, uncertainty }, inputs, options, measured, parameters)
   }
   if (typeof inputs === 'string') {
-    return notComputable(
-      `No uncertainty column, and no expected precision: ${inputs}`,
-      method,
-      parameters,
-    )
+    const reason = `No uncertainty column, and no expected precision: ${inputs}`
+    return notComputable(reason, PRECISION_METHOD, parameters)
   }
-  const expected = distributionOf(expectedValues(table, inputs), options.distribution)
-  if (!expected.value) {
-    return notComputable('No row has usable photons and background.', method, parameters)
-  }
-  const summary: PrecisionSummary = {
-    source: 'expected from photons',
-    medianNm: expected.value.median,
-    distribution: expected.value,
-    expectedMedianNm: expected.value.median,
-    expectedFormula: formula,
-    measuredToExpected: null,
-  }
-  return computed(summary, method, parameters)
+  return fromPhotons(table, inputs, options, parameters)
 }
