@@ -9,6 +9,7 @@ import { fileJobCompletions } from './modules/files/file-jobs.completions'
 import { sweepOrphanedBytes } from './modules/files/orphan-sweep.service'
 import { recountDerivedBytes } from './modules/files/project-usage'
 import { pruneOidcPayloads } from './modules/idp/oidc-adapter'
+import { qualityCompletions } from './modules/quality/quality.completions'
 import { startMailCatcher, type MailCatcher } from './modules/mail/mail-catcher'
 import { OrmSessionStore } from './modules/sessions/session-store'
 import type { Uploads } from './modules/uploads/uploads'
@@ -47,7 +48,7 @@ export async function openBackground(deps: {
     logger,
     dataDir: config.dataDir,
     workers: config.jobWorkers,
-    completions: fileJobCompletions(config),
+    completions: { ...fileJobCompletions(config), ...qualityCompletions() },
     freshThreadKinds: FRESH_THREAD_KINDS,
   })
   let upkeep: NodeJS.Timeout | null = null

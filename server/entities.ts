@@ -8,6 +8,7 @@ import { DatasetMetadata, InstrumentProfile } from './modules/metadata/dataset-m
 import { OidcPayload } from './modules/idp/oidc-payload.entity'
 import { Organization } from './modules/organizations/organization.entity'
 import { Membership, Project } from './modules/projects/project.entity'
+import { QualityReport } from './modules/quality/quality-report.entity'
 import { Session } from './modules/sessions/session.entity'
 import { ApiToken } from './modules/tokens/api-token.entity'
 import { UploadReservation } from './modules/uploads/upload-reservation.entity'
@@ -22,6 +23,7 @@ export const entities = [
   Dataset,
   DatasetShare,
   DatasetFile,
+  QualityReport,
   Comment,
   DatasetMetadata,
   InstrumentProfile,

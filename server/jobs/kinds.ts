@@ -1,4 +1,5 @@
 import { ingestTableJob, inspectTableJob, scanRawStackJob } from '../modules/files/file-jobs'
+import { computeQualityJob } from '../modules/quality/quality-jobs'
 import type { JobKind } from './job-kind'
 import { queueProbeJob } from './queue-probe.job'
 
@@ -7,6 +8,7 @@ export const JOB_KINDS: readonly JobKind[] = [
   inspectTableJob,
   ingestTableJob,
   scanRawStackJob,
+  computeQualityJob,
   queueProbeJob,
 ]
 

@@ -1,6 +1,8 @@
 import { ingestTableJob, inspectTableJob, scanRawStackJob } from '../modules/files/file-jobs'
 import { scanRawStackWork } from '../modules/files/raw-stack.work'
 import { ingestTableWork, inspectTableWork } from '../modules/files/table.work'
+import { computeQualityJob } from '../modules/quality/quality-jobs'
+import { computeQualityWork } from '../modules/quality/quality.work'
 import { queueProbeJob, queueProbeWork } from './queue-probe.job'
 import type { JobWork } from './job-protocol'
 
@@ -9,5 +11,6 @@ export const JOB_WORK: Record<string, JobWork> = {
   [inspectTableJob.name]: inspectTableWork,
   [ingestTableJob.name]: ingestTableWork,
   [scanRawStackJob.name]: scanRawStackWork,
+  [computeQualityJob.name]: computeQualityWork,
   [queueProbeJob.name]: queueProbeWork,
 }

@@ -16,6 +16,7 @@ import type { AppDeps } from '../../services'
 import { commentsRouter } from '../comments/comments.routes'
 import { filesRouter } from '../files/files.routes'
 import { datasetMetadataRouter } from '../metadata/metadata.routes'
+import { qualityRouter } from '../quality/quality.routes'
 import { datasetFor, datasetParams } from './dataset-access'
 import { reviewDataset, setEmbargo, submitDataset } from './dataset-lifecycle.service'
 import { toDatasetDto } from './dataset.mapper'
@@ -106,6 +107,7 @@ export function datasetsRouter(deps: AppDeps): Router {
   router.use('/:id/comments', commentsRouter())
   router.use('/:id', datasetMetadataRouter(deps))
   router.use('/:id', filesRouter(deps))
+  router.use('/:id', qualityRouter())
 
   return router
 }

@@ -9,6 +9,7 @@ import { enqueue } from '../../jobs/job-queue'
 import type { JobCompletion } from '../../jobs/job-runner'
 import type { IJob } from '../../jobs/job.entity'
 import { DatasetMetadata } from '../metadata/dataset-metadata.entity'
+import { queueQuality } from '../quality/quality-jobs'
 import { DatasetFile, type IDatasetFile } from './dataset-file.entity'
 import { rejectOnFailure } from './file-job-failure'
 import type { AppConfig } from '../../config'
@@ -98,6 +99,7 @@ const ingest: JobCompletion = {
       file.problem = 'No row of the table could be read; see the validation report.'
     } else {
       file.status = 'ready'
+      await queueQuality(em, file)
       file.problem = report.rowsRejected
         ? `${report.rowsRejected} of ${report.rowsRead} rows were rejected; see the validation report.`
         : null

@@ -1,0 +1,2 @@
+/** The quality report of a localization table: every metric, one entry. */
+export { computeQuality, type QualityInputs } from './compute-quality'
