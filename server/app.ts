@@ -30,6 +30,8 @@ import { buildOpenApiDocument } from './openapi/document'
 import type { AppConfig } from './config'
 import type { AppDeps } from './services'
 import { LocalStorage } from './storage/local-storage'
+import { PreviewService } from './modules/preview/preview.service'
+import { TilePool } from './modules/preview/tile-pool'
 import { createUploads, UPLOADS_PATH } from './modules/uploads/uploads'
 
 export interface CreateAppOptions extends Omit<AppDeps, 'storage'> {
@@ -59,9 +61,12 @@ export const sessionCookieOptions = (config: AppConfig) =>
 
 /** Builds the whole HTTP application; it never listens (server/main.ts does). */
 export function createApp(appOptions: CreateAppOptions): Express {
+  const storage = appOptions.storage ?? new LocalStorage(appOptions.config.dataDir)
+  const tilePool = new TilePool()
   const options: AppDeps & CreateAppOptions = {
     ...appOptions,
-    storage: appOptions.storage ?? new LocalStorage(appOptions.config.dataDir),
+    storage,
+    previews: new PreviewService(storage, tilePool),
   }
   const { orm, config } = options
   const app = express()
@@ -109,7 +114,10 @@ export function createApp(appOptions: CreateAppOptions): Express {
   const accessVersion = new AccessVersionReader(orm.config.get('dbName') ?? ':memory:', () =>
     orm.em.fork(),
   )
-  app.locals.close = () => accessVersion.close()
+  app.locals.close = () => {
+    accessVersion.close()
+    void tilePool.close()
+  }
   app.use(failedTokenLimit(config.rateLimitSignIn))
   app.use(authenticate(accessVersion))
   app.use(sameOriginWrites(new URL(config.publicUrl).origin))

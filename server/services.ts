@@ -3,6 +3,7 @@ import type { AppConfig } from './config'
 import type { Orm } from './db'
 import type { Logger } from './logger'
 import type { Mailer } from './modules/mail/mailer'
+import type { PreviewService } from './modules/preview/preview.service'
 import type { LocalStorage } from './storage/local-storage'
 
 /** What services need from the outside, injected by createApp (tests pass their own). */
@@ -14,6 +15,8 @@ export interface AppDeps {
   storage: LocalStorage
   /** Told when new jobs were queued, so they start at once rather than at the next poll. */
   jobs?: { notify(): void }
+  /** Preview tiles of localization tables (createApp makes it). */
+  previews?: PreviewService
 }
 
 /** The part of a request services may use: who acts, with which abilities, from where. */

@@ -5,7 +5,7 @@ import { registerDatasetPaths } from '../modules/datasets/datasets.openapi'
 import { registerFilePaths } from '../modules/files/files.openapi'
 import { registerMetadataPaths } from '../modules/metadata/metadata.openapi'
 import { registerProjectPaths } from '../modules/projects/projects.openapi'
-import { registerQualityPaths } from '../modules/quality/quality.openapi'
+import { registerPreviewPaths, registerQualityPaths } from '../modules/quality/quality.openapi'
 import { registerMePaths } from '../modules/users/me.openapi'
 import { z } from 'zod'
 
@@ -40,6 +40,7 @@ export function buildOpenApiDocument(publicUrl: string) {
   registerDatasetPaths(registry)
   registerFilePaths(registry)
   registerQualityPaths(registry)
+  registerPreviewPaths(registry)
   registerCommentPaths(registry)
   registerMetadataPaths(registry)
   registerAuditPaths(registry)

@@ -42,6 +42,11 @@ export class LocalStorage {
     return rm(this.originalPath(storageKey), { force: true })
   }
 
+  /** Removes one part of a file's derived folder (e.g. its cached preview tiles). */
+  removeDerivedPart(fileId: number, part: string): Promise<void> {
+    return rm(join(this.derivedDir, String(fileId), part), { recursive: true, force: true })
+  }
+
   removeDerived(fileId: number): Promise<void> {
     return rm(join(this.derivedDir, String(fileId)), { recursive: true, force: true })
   }

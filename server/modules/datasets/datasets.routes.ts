@@ -16,6 +16,7 @@ import type { AppDeps } from '../../services'
 import { commentsRouter } from '../comments/comments.routes'
 import { filesRouter } from '../files/files.routes'
 import { datasetMetadataRouter } from '../metadata/metadata.routes'
+import { previewRouter } from '../preview/preview.routes'
 import { qualityRouter } from '../quality/quality.routes'
 import { datasetFor, datasetParams } from './dataset-access'
 import { reviewDataset, setEmbargo, submitDataset } from './dataset-lifecycle.service'
@@ -108,6 +109,7 @@ export function datasetsRouter(deps: AppDeps): Router {
   router.use('/:id', datasetMetadataRouter(deps))
   router.use('/:id', filesRouter(deps))
   router.use('/:id', qualityRouter())
+  if (deps.previews) router.use('/:id', previewRouter(deps.previews))
 
   return router
 }

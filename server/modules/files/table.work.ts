@@ -28,6 +28,8 @@ export const inspectTableWork: JobWork = async (input, { storage, progress }) =>
  */
 export const ingestTableWork: JobWork = async (input, { storage, progress }) => {
   const payload = ingestTableJob.payload.parse(input)
+  // Tiles drawn from the previous store (another mapping) no longer show this table.
+  await storage.removeDerivedPart(payload.fileId, 'tiles')
   const report = await ingestLocalizationTable({
     sourcePath: storage.originalPath(payload.sourceKey),
     outputPath: derivedPaths(storage, payload.fileId).columnar,

@@ -1,5 +1,10 @@
 import type { OpenAPIRegistry } from '@asteasolutions/zod-to-openapi'
 import { z } from 'zod'
+import {
+  previewInfoSchema,
+  tileParamsSchema,
+  tileQuerySchema,
+} from '@shared/schemas/preview.schema'
 import { qualityReportSchema } from '@shared/schemas/quality.schema'
 import { registerJsonRoute } from '../../openapi/registry'
 
@@ -15,5 +20,33 @@ export function registerQualityPaths(registry: OpenAPIRegistry) {
     params: z.object({ idOrAccession: z.string(), fileId: z.number().int() }),
     response: qualityReportSchema,
     errors: [403, 404, 409],
+  })
+}
+
+export function registerPreviewPaths(registry: OpenAPIRegistry) {
+  const params = z.object({ idOrAccession: z.string(), fileId: z.number().int() })
+  registerJsonRoute(registry, {
+    method: 'get',
+    path: '/api/datasets/{idOrAccession}/files/{fileId}/preview',
+    summary: 'The tile pyramid of a localization table’s preview (geometry in sample nm)',
+    description: 'Follows the preview right.',
+    tags: ['Quality'],
+    params,
+    response: previewInfoSchema,
+    errors: [403, 404, 409],
+  })
+  registry.registerPath({
+    method: 'get',
+    path: '/api/datasets/{idOrAccession}/files/{fileId}/tiles/{z}/{x}/{y}.png',
+    summary: 'One 256 × 256 preview tile, rendered from the localization store with the options given',
+    description:
+      'Follows the preview right. Unknown options answer 400, a tile outside the pyramid 404 (problem+json).',
+    tags: ['Quality'],
+    request: { params: params.extend(tileParamsSchema.shape), query: tileQuerySchema },
+    responses: {
+      200: { description: 'PNG', content: { 'image/png': { schema: z.string() } } },
+      400: { description: 'Unknown or invalid options' },
+      404: { description: 'No such dataset, file or tile' },
+    },
   })
 }

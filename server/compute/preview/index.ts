@@ -1,0 +1,3 @@
+/** Tiles of the zoomable preview, rendered from a localization store. */
+export { renderTilePng, referenceScale, type ScaleTask, type TileTask } from './render-tile'
+export { localizationsInBox } from './store-rows'

@@ -1,0 +1,39 @@
+import { Router, type Request } from 'express'
+import { idSchema } from '@shared/schemas/common.schema'
+import { tileParamsSchema, tileQuerySchema } from '@shared/schemas/preview.schema'
+import { NotFoundError } from '../../errors/http-error'
+import { requestEm as em } from '../../http/request-context'
+import { parseParams, parseQuery } from '../../http/validate'
+import { datasetFor, datasetParams } from '../datasets/dataset-access'
+import { DatasetFile } from '../files/dataset-file.entity'
+import type { PreviewService } from './preview.service'
+
+const fileParams = datasetParams.extend({ fileId: idSchema })
+const tileParams = fileParams.extend(tileParamsSchema.shape)
+
+/** The preview of a table: those who may see the dataset's previews may read it, on every tile. */
+export function previewRouter(previews: PreviewService): Router {
+  const router = Router({ mergeParams: true })
+
+  async function tableOf(req: Request) {
+    const { id, fileId } = parseParams(fileParams, req)
+    const dataset = await datasetFor(req, em(), id, 'preview')
+    const file = await em().findOne(DatasetFile, { id: fileId, dataset: dataset.id })
+    if (!file) throw new NotFoundError('file', fileId)
+    return file
+  }
+
+  router.get('/files/:fileId/preview', async (req, res) => {
+    res.json(await previews.info(await tableOf(req)))
+  })
+
+  router.get('/files/:fileId/tiles/:z/:x/:y.png', async (req, res) => {
+    const file = await tableOf(req)
+    const { z, x, y } = parseParams(tileParams, req)
+    const query = parseQuery(tileQuerySchema, req)
+    const png = await previews.tile(file, z, x, y, query)
+    // Private: the tile may show embargoed data to someone allowed to see it.
+    res.type('image/png').set('cache-control', 'private, max-age=300').send(png)
+  })
+  return router
+}

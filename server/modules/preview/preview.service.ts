@@ -1,0 +1,186 @@
+import { createHash } from 'node:crypto'
+import { existsSync } from 'node:fs'
+import { mkdir, readFile, rename, stat, writeFile } from 'node:fs/promises'
+import { dirname, join } from 'node:path'
+import type { PreviewInfo, TileQuery } from '@shared/schemas/preview.schema'
+import {
+  pyramidFor,
+  renderOptionsKey,
+  tileView,
+  type RenderOptions,
+  type RenderView,
+  type TilePyramid,
+} from '../../compute/render'
+import { ConflictError, NotFoundError } from '../../errors/http-error'
+import type { LocalStorage } from '../../storage/local-storage'
+import type { IDatasetFile } from '../files/dataset-file.entity'
+import { derivedPaths } from '../files/file-jobs'
+import { readTileIndex } from '../files/localizations/tile.index'
+import type { TilePool } from './tile-pool'
+
+interface ColumnReport {
+  role: string
+  min: number | null
+  max: number | null
+}
+type TableReport = { columns?: ColumnReport[]; frames?: { first: number; last: number } | null }
+
+/** Reference render for the brightness scale: pixels near 20 nm, at most this many a side. */
+const REFERENCE_PIXEL_NM = 20
+const REFERENCE_MAX_SIDE = 2048
+const CONTRAST_PERCENTILE = 99.5
+/** Gaussian kernels reach this many of the largest σ drawn (32 px cap of the engine). */
+const GAUSSIAN_MARGIN_PX = 3 * 32
+
+/**
+ * The zoomable preview of ingested tables: what the pyramid looks like, and tiles rendered on
+ * demand in the tile pool, cached on disk under the file's derived folder by their options.
+ * Brightness is the same on every tile of a view: each level's scale derives from one reference
+ * render of the whole field (per file and filter), scaled by pixel area.
+ */
+export class PreviewService {
+  private readonly scales = new Map<string, Promise<number>>()
+
+  constructor(
+    private readonly storage: LocalStorage,
+    private readonly pool: TilePool,
+  ) {}
+
+  async info(file: IDatasetFile): Promise<PreviewInfo> {
+    const arrowPath = this.storePath(file)
+    const index = await readTileIndex(arrowPath)
+    const pyramid = pyramidFor(index.boundsNm ?? { xMin: 0, xMax: 1, yMin: 0, yMax: 1 })
+    const report = (file.report ?? {}) as TableReport
+    const column = (role: string) => report.columns?.find((c) => c.role === role)
+    const z = column('z')
+    const channel = column('channel')
+    return {
+      tileSize: pyramid.tileSize,
+      levels: pyramid.levels,
+      originNm: pyramid.originNm,
+      extentNm: pyramid.extentNm,
+      resolutionsNm: pyramid.resolutionsNm,
+      boundsNm: pyramid.boundsNm,
+      localizations: index.rowCount,
+      frames: report.frames ? { first: report.frames.first, last: report.frames.last } : null,
+      zRangeNm: z?.min != null && z.max != null ? { min: z.min, max: z.max } : null,
+      channels:
+        channel?.min != null && channel.max != null
+          ? Array.from({ length: channel.max - channel.min + 1 }, (_, i) => channel.min! + i)
+          : null,
+      hasUncertainty: index.columns.some((c) => c.role?.startsWith('uncertainty')),
+    }
+  }
+
+  /** The PNG of one tile: from the disk cache, or rendered now and kept. */
+  async tile(file: IDatasetFile, z: number, x: number, y: number, query: TileQuery) {
+    const info = await this.info(file)
+    const pyramid = pyramidFor(info.boundsNm)
+    const view = tileView(pyramid, z, x, y)
+    if (!view) throw new NotFoundError('tile', `${z}/${x}/${y}`)
+    const options = this.renderOptions(info, query)
+    const key = createHash('sha256')
+      .update(`${renderOptionsKey(options)}|${query.brightness}`)
+      .digest('hex')
+      .slice(0, 24)
+    const cached = this.storage.derivedPath(file.id, join('tiles', key, `${z}-${x}-${y}.png`))
+    if (existsSync(cached)) return readFile(cached)
+    const high = await this.levelScale(file, pyramid, view, options)
+    const png = await this.pool.tile({
+      arrowPath: this.storePath(file),
+      view,
+      options: {
+        ...options,
+        contrast: { mode: 'manual', low: 0, high: high / query.brightness },
+      },
+      marginNm: options.method === 'gaussian' ? GAUSSIAN_MARGIN_PX * view.pixelNm : 0,
+    })
+    await writeAtomically(cached, png)
+    return Buffer.from(png)
+  }
+
+  private storePath(file: IDatasetFile): string {
+    if (file.kind !== 'localization_table')
+      throw new ConflictError(`"${file.name}" is not a localization table; it has no preview.`)
+    const path = derivedPaths(this.storage, file.id).columnar
+    if (file.status !== 'ready' || !existsSync(path))
+      throw new ConflictError(`"${file.name}" has not been read yet; its preview follows.`)
+    return path
+  }
+
+  private renderOptions(info: PreviewInfo, q: TileQuery): RenderOptions {
+    const valueRange =
+      q.colourBy === 'z'
+        ? (info.zRangeNm ?? undefined)
+        : q.colourBy === 'frame' && info.frames
+          ? { min: info.frames.first, max: info.frames.last }
+          : undefined
+    return {
+      method: q.method,
+      colourBy: q.colourBy,
+      colormap: q.colormap,
+      gamma: q.gamma,
+      valueRange,
+      filter: {
+        frameMin: q.frameMin,
+        frameMax: q.frameMax,
+        maxUncertaintyNm: q.maxUncertaintyNm,
+        channel: q.channel,
+      },
+    }
+  }
+
+  /**
+   * The top of the brightness scale at this view's pixel: the reference percentile scaled by
+   * pixel area (counts grow with it), never below one localization for counted pixels.
+   */
+  private async levelScale(
+    file: IDatasetFile,
+    pyramid: TilePyramid,
+    view: RenderView,
+    options: RenderOptions,
+  ): Promise<number> {
+    const reference = referenceView(pyramid)
+    const key = `${file.id}|${(await stat(this.storePath(file))).mtimeMs}|${JSON.stringify(options.filter)}`
+    let scale = this.scales.get(key)
+    if (!scale) {
+      scale = this.pool
+        .scale({
+          arrowPath: this.storePath(file),
+          view: reference,
+          options,
+          percentile: CONTRAST_PERCENTILE,
+        })
+        .then((value) => value ?? 1)
+      scale.catch(() => this.scales.delete(key))
+      this.scales.set(key, scale)
+    }
+    const atLevel = (await scale) * (view.pixelNm / reference.pixelNm) ** 2
+    return options.method === 'gaussian' ? atLevel : Math.max(1, atLevel)
+  }
+}
+
+/** The whole field at about 20 nm per pixel (coarser for very large fields). */
+function referenceView(pyramid: TilePyramid): RenderView {
+  const side = Math.max(
+    pyramid.boundsNm.xMax - pyramid.boundsNm.xMin,
+    pyramid.boundsNm.yMax - pyramid.boundsNm.yMin,
+    1,
+  )
+  const pixelNm = Math.max(REFERENCE_PIXEL_NM, side / REFERENCE_MAX_SIDE)
+  const size = Math.max(1, Math.ceil(side / pixelNm))
+  return {
+    xMinNm: pyramid.boundsNm.xMin,
+    yMinNm: pyramid.boundsNm.yMin,
+    pixelNm,
+    width: size,
+    height: size,
+  }
+}
+
+async function writeAtomically(path: string, bytes: Uint8Array) {
+  await mkdir(dirname(path), { recursive: true })
+  const temporary = `${path}.${process.pid}.${Math.random().toString(36).slice(2)}.tmp`
+  await writeFile(temporary, bytes)
+  await rename(temporary, path)
+}

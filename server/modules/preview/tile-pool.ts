@@ -1,0 +1,28 @@
+import { availableParallelism } from 'node:os'
+import { Piscina } from 'piscina'
+import type { TileWorkerTask } from './tile.worker'
+
+/**
+ * Tiles are rendered off the request thread, by a small pool of threads (one per core, at most
+ * two here), so a burst of tile requests never stalls the API.
+ */
+export class TilePool {
+  private readonly pool = new Piscina({
+    filename: new URL('./tile-worker-bootstrap.mjs', import.meta.url).href,
+    minThreads: 0,
+    maxThreads: Math.max(1, Math.min(2, availableParallelism())),
+    idleTimeout: 60_000,
+  })
+
+  tile(task: Omit<Extract<TileWorkerTask, { kind: 'tile' }>, 'kind'>): Promise<Uint8Array> {
+    return this.pool.run({ kind: 'tile', ...task }) as Promise<Uint8Array>
+  }
+
+  scale(task: Omit<Extract<TileWorkerTask, { kind: 'scale' }>, 'kind'>): Promise<number | null> {
+    return this.pool.run({ kind: 'scale', ...task }) as Promise<number | null>
+  }
+
+  close(): Promise<void> {
+    return this.pool.destroy()
+  }
+}

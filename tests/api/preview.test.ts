@@ -1,0 +1,182 @@
+/**
+ * The zoomable preview through the API: the pyramid's description, tiles rendered in the pool and
+ * cached on disk, bad options and tiles outside the pyramid refused as problems, and every tile
+ * request authorised by the preview right.
+ */
+import { existsSync, readdirSync } from 'node:fs'
+import { join } from 'node:path'
+import request from 'supertest'
+import sharp from 'sharp'
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { previewInfoSchema, type PreviewInfo } from '@shared/schemas/preview.schema'
+import { simulateLocalizations } from '@server/compute/simulate'
+import { localizationsToCsv } from '@server/compute/simulate/table-text'
+import { JobRunner } from '@server/jobs/job-runner'
+import { createLogger } from '@server/logger'
+import { DatasetFile } from '@server/modules/files/dataset-file.entity'
+import { fileJobCompletions } from '@server/modules/files/file-jobs.completions'
+import { LocalStorage } from '@server/storage/local-storage'
+import {
+  bearer,
+  buildDataset,
+  buildMember,
+  buildProject,
+  buildShare,
+  buildUser,
+  tokenFor,
+} from '../fixtures/builders'
+import { listen } from '../fixtures/live-server'
+import { createTestApp, type TestApp } from '../fixtures/test-app'
+import { tusUpload } from '../fixtures/tus-upload'
+
+let t: TestApp
+let live: Awaited<ReturnType<typeof listen>>
+let runner: JobRunner
+const tokens: Record<string, string> = {}
+let dataset: { id: number; accession: string }
+let fileId: number
+
+beforeAll(async () => {
+  t = await createTestApp()
+  live = await listen(t.app)
+  runner = new JobRunner({
+    orm: t.orm,
+    logger: createLogger('silent'),
+    dataDir: t.config.dataDir,
+    workers: 1,
+    pollMs: 50,
+    completions: fileJobCompletions(t.config),
+  })
+  runner.start()
+  const em = t.em()
+  const member = await buildMember(em)
+  const project = await buildProject(em, [{ user: member, role: 'member' }])
+  dataset = await buildDataset(em, project.id)
+  const reader = await buildUser(em)
+  await buildShare(em, dataset.id, project.id, reader, [])
+  const outsider = await buildUser(em)
+  for (const [name, user] of Object.entries({ member, reader, outsider }))
+    tokens[name] = await tokenFor(em, user)
+  const { localizations } = simulateLocalizations({
+    seed: 3,
+    fieldNm: 4000,
+    emitters: 3000,
+    frames: 1000,
+    structure: { kind: 'rings' },
+  })
+  const res = await tusUpload(
+    `${live.url}/api/uploads`,
+    tokens.member!,
+    Buffer.from(localizationsToCsv(localizations)),
+    { dataset: dataset.accession, filename: 'rings.csv' },
+  )
+  fileId = Number(res.fileId)
+  const end = Date.now() + 60_000
+  while ((await t.em().findOneOrFail(DatasetFile, { id: fileId })).status !== 'ready') {
+    if (Date.now() > end) throw new Error('table not ready')
+    await new Promise((r) => setTimeout(r, 100))
+  }
+}, 90_000)
+afterAll(async () => {
+  await runner.stop()
+  await live.close()
+  await t.close()
+})
+
+const base = () => `/api/datasets/${dataset.accession}/files/${fileId}`
+const get = (path: string, who = 'member') =>
+  request(t.app)
+    .get(`${base()}${path}`)
+    .set(bearer(tokens[who]!))
+    .buffer(true)
+    .parse((res, done) => {
+      const chunks: Buffer[] = []
+      res.on('data', (c: Buffer) => chunks.push(c))
+      res.on('end', () => done(null, Buffer.concat(chunks)))
+    })
+
+describe('the preview of a table', () => {
+  let info: PreviewInfo
+
+  it('describes its pyramid: the whole field at level 0, about 1 nm per pixel at the deepest', async () => {
+    const res = await request(t.app).get(`${base()}/preview`).set(bearer(tokens.member!))
+    expect(res.status).toBe(200)
+    info = previewInfoSchema.parse(res.body)
+    expect(info.tileSize).toBe(256)
+    expect(info.resolutionsNm.at(-1)).toBe(1)
+    expect(info.resolutionsNm[0]! * 256).toBeGreaterThanOrEqual(
+      info.boundsNm.xMax - info.boundsNm.xMin,
+    )
+    expect(info.hasUncertainty).toBe(true)
+  })
+
+  it('renders a tile as a 256 × 256 PNG with something drawn, and keeps it on disk', async () => {
+    const res = await get('/tiles/0/0/0.png')
+    expect(res.status).toBe(200)
+    expect(res.headers['content-type']).toBe('image/png')
+    const { data, info: png } = await sharp(res.body as Buffer)
+      .raw()
+      .toBuffer({ resolveWithObject: true })
+    expect([png.width, png.height]).toEqual([256, 256])
+    expect(data.some((v) => v > 0)).toBe(true)
+    const tiles = join(new LocalStorage(t.config.dataDir).derivedDir, String(fileId), 'tiles')
+    expect(existsSync(tiles)).toBe(true)
+    const again = await get('/tiles/0/0/0.png')
+    expect(Buffer.compare(again.body as Buffer, res.body as Buffer)).toBe(0)
+  })
+
+  it('draws differently with other options (colormap, Gaussian rendering)', async () => {
+    const plain = (await get('/tiles/0/0/0.png')).body as Buffer
+    const grey = (await get('/tiles/0/0/0.png?colormap=grayscale')).body as Buffer
+    const gaussian = (await get('/tiles/0/0/0.png?method=gaussian')).body as Buffer
+    expect(Buffer.compare(plain, grey)).not.toBe(0)
+    expect(Buffer.compare(plain, gaussian)).not.toBe(0)
+  })
+
+  it('refuses unknown options and tiles outside the pyramid as problems', async () => {
+    const unknown = await request(t.app)
+      .get(`${base()}/tiles/0/0/0.png?colormap=rainbow`)
+      .set(bearer(tokens.member!))
+    expect(unknown.status).toBe(400)
+    expect(unknown.headers['content-type']).toContain('problem+json')
+    const extra = await request(t.app)
+      .get(`${base()}/tiles/0/0/0.png?shine=1`)
+      .set(bearer(tokens.member!))
+    expect(extra.status).toBe(400)
+    const outside = await request(t.app)
+      .get(`${base()}/tiles/0/5/0.png`)
+      .set(bearer(tokens.member!))
+    expect(outside.status).toBe(404)
+    expect(outside.headers['content-type']).toContain('problem+json')
+    const tooDeep = await request(t.app)
+      .get(`${base()}/tiles/${info.levels}/0/0.png`)
+      .set(bearer(tokens.member!))
+    expect(tooDeep.status).toBe(404)
+  })
+
+  it('authorises every tile by the preview right', async () => {
+    expect((await get('/tiles/0/0/0.png', 'reader')).status).toBe(403)
+    expect((await get('/tiles/0/0/0.png', 'outsider')).status).toBe(404)
+    expect((await request(t.app).get(`${base()}/tiles/0/0/0.png`)).status).toBe(404)
+  })
+
+  it('drops its cached tiles when the table is read again with another mapping', async () => {
+    const tiles = join(new LocalStorage(t.config.dataDir).derivedDir, String(fileId), 'tiles')
+    expect(readdirSync(tiles).length).toBeGreaterThan(0)
+    const file = await t.em().findOneOrFail(DatasetFile, { id: fileId })
+    const res = await request(t.app)
+      .put(`${base()}/mapping`)
+      .set(bearer(tokens.member!))
+      .send(file.mapping)
+    expect(res.status).toBe(202)
+    const end = Date.now() + 60_000
+    while (
+      existsSync(tiles) ||
+      (await t.em().findOneOrFail(DatasetFile, { id: fileId })).status !== 'ready'
+    ) {
+      if (Date.now() > end) throw new Error('not re-ingested')
+      await new Promise((r) => setTimeout(r, 100))
+    }
+    expect(existsSync(tiles)).toBe(false)
+  })
+})
