@@ -43,6 +43,16 @@ export const routes: RouteRecordRaw[] = [
     meta: { title: 'Describe dataset' },
   },
   {
+    path: '/datasets/:idOrAccession/files/:fileId(\\d+)',
+    name: 'file-quality',
+    component: () => import('@/views/FileQualityView.vue'),
+    props: (route) => ({
+      idOrAccession: String(route.params.idOrAccession),
+      fileId: Number(route.params.fileId),
+    }),
+    meta: { title: 'Quality and preview' },
+  },
+  {
     path: '/projects',
     name: 'projects',
     component: () => import('@/views/ProjectsView.vue'),
