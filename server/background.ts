@@ -15,6 +15,7 @@ import { OrmSessionStore } from './modules/sessions/session-store'
 import type { Uploads } from './modules/uploads/uploads'
 import { DEMO_DIR } from './paths'
 import { seedDemo } from './seeders/demo.seeder'
+import { seedDemoTables } from './seeders/demo-tables'
 import type { LocalStorage } from './storage/local-storage'
 
 export interface Background {
@@ -41,6 +42,8 @@ export async function openBackground(deps: {
   if (config.demo) {
     const { created } = await seedDemo(orm.em.fork(), DEMO_DIR)
     if (created) logger.info({ created }, 'demo data seeded')
+    const tables = await seedDemoTables(orm.em.fork(), storage)
+    if (tables) logger.info({ tables }, 'demo localization tables deposited; their reports follow')
   }
   const mailCatcher = config.demo ? await startMailCatcher() : null
   const jobs = new JobRunner({

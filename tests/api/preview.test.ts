@@ -167,7 +167,7 @@ describe('the preview of a table', () => {
     const res = await request(t.app)
       .put(`${base()}/mapping`)
       .set(bearer(tokens.member!))
-      .send(file.mapping)
+      .send(file.mapping ?? {})
     expect(res.status).toBe(202)
     const end = Date.now() + 60_000
     while (
