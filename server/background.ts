@@ -42,8 +42,6 @@ export async function openBackground(deps: {
   if (config.demo) {
     const { created } = await seedDemo(orm.em.fork(), DEMO_DIR)
     if (created) logger.info({ created }, 'demo data seeded')
-    const tables = await seedDemoTables(orm.em.fork(), storage)
-    if (tables) logger.info({ tables }, 'demo localization tables deposited; their reports follow')
   }
   const mailCatcher = config.demo ? await startMailCatcher() : null
   const jobs = new JobRunner({
@@ -72,6 +70,12 @@ export async function openBackground(deps: {
         })
       await sweep()
       jobs.start()
+      // Demo tables are simulated after the server is up, one at a time, then read like uploads.
+      if (config.demo)
+        void seedDemoTables(orm.em.fork(), storage, () => jobs.notify()).then(
+          (tables) => tables && logger.info({ tables }, 'demo localization tables deposited'),
+          (err: unknown) => logger.error({ err }, 'demo localization tables failed'),
+        )
       const sessions = new OrmSessionStore(orm)
       const hourly = () =>
         Promise.all([

@@ -154,9 +154,15 @@ const DEMO_TABLES: { dataset: string; file: string; simulation: SimulationOption
  * storage key, the file row and its first job; the job runner then reads them and computes their
  * reports. A table already there is left alone, so running it again changes nothing.
  */
-export async function seedDemoTables(em: EntityManager, storage: LocalStorage): Promise<number> {
+export async function seedDemoTables(
+  em: EntityManager,
+  storage: LocalStorage,
+  onQueued: () => void = () => {},
+): Promise<number> {
   let created = 0
   for (const spec of DEMO_TABLES) {
+    // Each simulation holds the thread for about a second: let requests in between.
+    await new Promise((resolve) => setImmediate(resolve))
     const dataset = await em.findOne(Dataset, { title: spec.dataset })
     if (!dataset || (await em.count(DatasetFile, { dataset: dataset.id, name: spec.file })))
       continue
@@ -180,6 +186,7 @@ export async function seedDemoTables(em: EntityManager, storage: LocalStorage): 
       await tem.flush()
       await queueFirstJob(tem, file)
     })
+    onQueued()
     created++
   }
   return created
