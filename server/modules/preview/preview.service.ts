@@ -48,6 +48,7 @@ export class PreviewService {
 
   async info(file: IDatasetFile): Promise<PreviewInfo> {
     const arrowPath = this.storePath(file)
+    this.pool.warm()
     const index = await readTileIndex(arrowPath)
     const pyramid = pyramidFor(index.boundsNm ?? { xMin: 0, xMax: 1, yMin: 0, yMax: 1 })
     const report = (file.report ?? {}) as TableReport

@@ -14,12 +14,25 @@ export class TilePool {
     idleTimeout: 60_000,
   })
 
+  private warmed = false
+
   tile(task: Omit<Extract<TileWorkerTask, { kind: 'tile' }>, 'kind'>): Promise<Uint8Array> {
     return this.pool.run({ kind: 'tile', ...task }) as Promise<Uint8Array>
   }
 
   scale(task: Omit<Extract<TileWorkerTask, { kind: 'scale' }>, 'kind'>): Promise<number | null> {
     return this.pool.run({ kind: 'scale', ...task }) as Promise<number | null>
+  }
+
+  /**
+   * Starts the threads (each loads the render modules, a few seconds under tsx) when a preview is
+   * about to be looked at, so its first tiles do not wait for that.
+   */
+  warm(): void {
+    if (this.warmed) return
+    this.warmed = true
+    for (let i = 0; i < this.pool.options.maxThreads; i++)
+      void this.pool.run({ kind: 'warm' }).catch(() => (this.warmed = false))
   }
 
   close(): Promise<void> {
