@@ -1,7 +1,7 @@
 /**
  * Plain-language verdicts on a table's quality metrics. Each compares one measured number with
  * what would be expected of it (photon statistics, the diffraction limit, the labelling density,
- * the table's own precision) and says what a difference usually means. Pure functions of numbers.
+ * the table’s own precision) and says what a difference usually means. Pure functions of numbers.
  */
 
 export type VerdictTone = 'good' | 'fair' | 'poor' | 'note'
@@ -156,7 +156,7 @@ export function nenaVerdict(n: {
   const stated =
     n.precisionSource === 'expected from photons'
       ? `the precision the photon counts predict (${lengthText(n.precisionNm)})`
-      : `the table's own precision (${lengthText(n.precisionNm)})`
+      : `the table’s own precision (${lengthText(n.precisionNm)})`
   const ratio = n.nenaNm / n.precisionNm
   if (ratio < 1 / AGREES)
     return { tone: 'note', text: `Finer than ${stated}: the stated precision may be cautious.` }

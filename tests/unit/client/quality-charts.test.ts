@@ -1,0 +1,73 @@
+import { describe, expect, it } from 'vitest'
+import { frcOption, frequencyLabel, stepPoints } from '@/utils/qualityCharts'
+import { qualityPlots } from '@/utils/qualityPlots'
+import { frcValue } from '@/utils/qualityReport'
+import { colourByChoices, channelChoices } from '@/utils/previewOptions'
+import { doneReport, previewInfo } from './quality-fixtures'
+
+describe('the quality plots', () => {
+  // A histogram's bins are half-open [edge i, edge i+1): the step line holds each count from its
+  // left edge to the next, and closes at the last edge (definition of a histogram).
+  it('draws a histogram from its edges and counts', () => {
+    expect(stepPoints([0, 5, 10, 15], [2, 7, 1])).toEqual([
+      [0, 2],
+      [5, 7],
+      [10, 1],
+      [15, 1],
+    ])
+    expect(stepPoints([0], [])).toEqual([])
+  })
+
+  // DOMAIN.md §1.4 [S]: L = 1024, 5 nm pixels, ring 160 → q = 160/5120 = 0.03125 /nm, i.e. 32 nm.
+  it('reads a spatial frequency as the length it resolves', () => {
+    expect(frequencyLabel(160 / (1024 * 5))).toBe('0.031 /nm (32 nm)')
+  })
+
+  it('marks the 1/7 threshold and the resolution on the FRC curve', () => {
+    const frc = frcValue(doneReport.metrics.frc)!
+    const option = frcOption(frc, null)
+    const series = Array.isArray(option.series) ? option.series : []
+    expect(series.map((s) => s.name)).toEqual([
+      'FRC',
+      'smoothed',
+      'corrected for repeated localizations',
+    ])
+    const marks = series[1]?.markLine?.data ?? []
+    // FRC threshold 1/7 = 0.142857 (DOMAIN.md §5 [C]); 32 nm sits at 1/32 /nm.
+    expect(marks).toEqual([
+      expect.objectContaining({ yAxis: 1 / 7 }),
+      expect.objectContaining({ xAxis: 1 / 32 }),
+    ])
+  })
+
+  it('draws every curve the report has, with the drift-corrected FRC beside the FRC', () => {
+    const plots = qualityPlots(doneReport)
+    expect(plots.map((p) => p.key)).toEqual(['photons', 'precision', 'frc', 'drift'])
+    const frc = plots.find((p) => p.key === 'frc')!.option
+    const names = (Array.isArray(frc.series) ? frc.series : []).map((s) => s.name)
+    expect(names).toContain('after drift correction')
+    const withoutMetrics = qualityPlots({ ...doneReport, metrics: {}, drift: null })
+    expect(withoutMetrics).toEqual([])
+  })
+
+  it('leaves out a metric whose value has another shape', () => {
+    const odd = { ...doneReport.metrics.photons!, value: { edges: 'none' } }
+    const plots = qualityPlots({ ...doneReport, metrics: { ...doneReport.metrics, photons: odd } })
+    expect(plots.map((p) => p.key)).not.toContain('photons')
+  })
+})
+
+describe('the viewer’s choices a table allows', () => {
+  it('offers depth only with z, time with frames, the overlay with two channels', () => {
+    const titles = (info: typeof previewInfo) => colourByChoices(info).map((c) => c.title)
+    expect(titles(previewInfo)).toEqual(['Density', 'Time (frame)', 'Two channels overlaid'])
+    expect(
+      titles({ ...previewInfo, zRangeNm: { min: -300, max: 300 }, frames: null, channels: [0] }),
+    ).toEqual(['Density', 'Depth (z)'])
+    expect(channelChoices(previewInfo).map((c) => c.title)).toEqual([
+      'All channels',
+      'Channel 0',
+      'Channel 1',
+    ])
+  })
+})
