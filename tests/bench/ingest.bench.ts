@@ -5,7 +5,8 @@
  * read_csv time, peak RSS < 1 GB.
  */
 import { execFile } from 'node:child_process'
-import { existsSync, mkdirSync, renameSync, rmSync, statSync } from 'node:fs'
+import { rmSync, statSync } from 'node:fs'
+import { referenceTable, referenceTimes } from './reference-pipeline'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
 import { fileURLToPath } from 'node:url'
@@ -13,9 +14,6 @@ import { promisify } from 'node:util'
 
 const run = promisify(execFile)
 const repo = fileURLToPath(new URL('../..', import.meta.url))
-/** The reference scripts: STIPPLE_SHARED_DIR, else ../shared beside the repository. */
-const shared = process.env.STIPPLE_SHARED_DIR ?? join(repo, '..', 'shared')
-const ROWS = Number(process.env.BENCH_INGEST_ROWS ?? 10_000_000)
 const MAX_BUFFER = 64 << 20
 
 interface ChildResult {
@@ -30,18 +28,6 @@ interface ChildResult {
   phaseSeconds: Record<string, number>
 }
 
-async function referenceTable(): Promise<string> {
-  const dir = join(tmpdir(), 'stipple-bench')
-  const path = join(dir, `locs-${ROWS}.csv`)
-  if (existsSync(path)) return path
-  mkdirSync(dir, { recursive: true })
-  await run(join(shared, 'bench', 'gen_locs.py'), [String(ROWS), `${path}.part`], {
-    maxBuffer: MAX_BUFFER,
-  })
-  renameSync(`${path}.part`, path)
-  return path
-}
-
 async function ingestInChild(table: string, output: string): Promise<ChildResult> {
   const args = ['--import', 'tsx', join(repo, 'tests', 'bench', 'ingest-child.ts'), table, output]
   const { stdout } = await run(process.execPath, args, { cwd: repo, maxBuffer: MAX_BUFFER })
@@ -50,24 +36,13 @@ async function ingestInChild(table: string, output: string): Promise<ChildResult
   return JSON.parse(line.slice('RESULT '.length)) as ChildResult
 }
 
-/** The read_csv step of the reference pipeline, seconds. */
-async function pandasReadCsvSeconds(table: string): Promise<number> {
-  const { stdout } = await run(join(shared, 'bench', 'reference.py'), [table], {
-    maxBuffer: MAX_BUFFER,
-  })
-  const line = stdout.split('\n').find((l) => l.startsWith('JSON '))
-  if (!line) throw new Error(`reference.py printed no JSON line:\n${stdout}`)
-  return (JSON.parse(line.slice('JSON '.length)) as { times_s: { read_csv: number } }).times_s
-    .read_csv
-}
-
 export async function benchIngest(): Promise<Record<string, unknown>> {
   const table = await referenceTable()
   const fileMB = statSync(table).size / 1e6
   const output = join(tmpdir(), `stipple-bench-ingest-${process.pid}.arrow`)
   try {
     const ingest = await ingestInChild(table, output)
-    const readCsv = await pandasReadCsvSeconds(table)
+    const readCsv = (await referenceTimes(table)).read_csv!
     const ratio = ingest.seconds / readCsv
     return {
       rows: ingest.rowsAccepted,

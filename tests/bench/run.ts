@@ -4,6 +4,7 @@
  */
 import { benchDatasetList } from './datasets-list.bench'
 import { benchIngest } from './ingest.bench'
+import { benchQuality } from './quality.bench'
 import { benchRawStack } from './raw-stack.bench'
 import { benchUpload } from './upload.bench'
 
@@ -11,6 +12,7 @@ const only = process.argv[2]
 const benches: Record<string, () => Promise<Record<string, unknown>>> = {
   'datasets-list': benchDatasetList,
   ingest: benchIngest,
+  quality: benchQuality,
   'raw-stack': benchRawStack,
   upload: benchUpload,
 }
