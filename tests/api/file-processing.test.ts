@@ -9,13 +9,12 @@ import { join } from 'node:path'
 import { tableFromIPC } from 'apache-arrow'
 import request from 'supertest'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { JobRunner } from '@server/jobs/job-runner'
-import { createLogger } from '@server/logger'
-import { DatasetFile, type IDatasetFile } from '@server/modules/files/dataset-file.entity'
-import { fileJobCompletions } from '@server/modules/files/file-jobs.completions'
+import type { JobRunner } from '@server/jobs/job-runner'
+import { DatasetFile } from '@server/modules/files/dataset-file.entity'
 import { derivedPaths } from '@server/modules/files/file-jobs'
 import { LocalStorage } from '@server/storage/local-storage'
 import { bearer, buildDataset, buildMember, buildProject, tokenFor } from '../fixtures/builders'
+import { settledFile, startJobRunner } from '../fixtures/job-runner'
 import { listen } from '../fixtures/live-server'
 import { createTestApp, type TestApp } from '../fixtures/test-app'
 import { writeTiffStack } from '../fixtures/tiff-writer'
@@ -33,15 +32,7 @@ beforeAll(async () => {
   t = await createTestApp()
   live = await listen(t.app)
   storage = new LocalStorage(t.config.dataDir)
-  runner = new JobRunner({
-    orm: t.orm,
-    logger: createLogger('silent'),
-    dataDir: t.config.dataDir,
-    workers: 1,
-    pollMs: 50,
-    completions: fileJobCompletions(t.config),
-  })
-  runner.start()
+  runner = startJobRunner(t)
   const em = t.em()
   const member = await buildMember(em)
   const project = await buildProject(em, [{ user: member, role: 'member' }])
@@ -63,16 +54,7 @@ async function uploadText(name: string, text: string | Buffer) {
   return Number(res.fileId)
 }
 
-/** Waits until the file leaves 'processing' (jobs may chain: inspect → ingest). */
-async function settled(id: number): Promise<IDatasetFile> {
-  const end = Date.now() + 20_000
-  for (;;) {
-    const file = await t.em().findOneOrFail(DatasetFile, { id })
-    if (file.status !== 'processing') return file
-    if (Date.now() > end) throw new Error(`file ${id} still processing`)
-    await new Promise((r) => setTimeout(r, 50))
-  }
-}
+const settled = (id: number) => settledFile(t, id, 20_000)
 
 const validation = async (id: number) =>
   (await request(t.app).get(`/api/datasets/${accession}/files/${id}/validation`).set(bearer(token)))

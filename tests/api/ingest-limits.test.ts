@@ -5,14 +5,12 @@
  */
 import { gzipSync } from 'node:zlib'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { JobRunner } from '@server/jobs/job-runner'
+import type { JobRunner } from '@server/jobs/job-runner'
 import { Job } from '@server/jobs/job.entity'
-import { FRESH_THREAD_KINDS } from '@server/jobs/kinds'
-import { createLogger } from '@server/logger'
-import { DatasetFile, type IDatasetFile } from '@server/modules/files/dataset-file.entity'
-import { fileJobCompletions } from '@server/modules/files/file-jobs.completions'
+import type { IDatasetFile } from '@server/modules/files/dataset-file.entity'
 import type { IUser } from '@server/modules/users/user.entity'
 import { buildDataset, buildMember, buildProject, tokenFor } from '../fixtures/builders'
+import { startJobRunner, settledFile } from '../fixtures/job-runner'
 import { listen } from '../fixtures/live-server'
 import { createTestApp, type TestApp } from '../fixtures/test-app'
 import { tusUpload } from '../fixtures/tus-upload'
@@ -33,16 +31,7 @@ beforeAll(async () => {
     PROJECT_QUOTA_BYTES: String(QUOTA),
   })
   live = await listen(t.app)
-  runner = new JobRunner({
-    orm: t.orm,
-    logger: createLogger('silent'),
-    dataDir: t.config.dataDir,
-    workers: 1,
-    pollMs: 50,
-    completions: fileJobCompletions(t.config),
-    freshThreadKinds: FRESH_THREAD_KINDS,
-  })
-  runner.start()
+  runner = startJobRunner(t)
   const em = t.em()
   member = await buildMember(em)
   token = await tokenFor(em, member)
@@ -69,16 +58,7 @@ async function deposit(name: string, bytes: Buffer, project = projectId): Promis
     filename: name,
   })
   if (!res.fileId) throw new Error(`upload refused: ${res.status} ${res.body}`)
-  const end = Date.now() + 25_000
-  for (;;) {
-    const file = await t.em().findOneOrFail(DatasetFile, { id: Number(res.fileId) })
-    if (file.status !== 'processing') return file
-    if (Date.now() > end)
-      throw new Error(
-        `still processing: ${JSON.stringify(await t.em().find(Job, {}, { fields: ['kind', 'state', 'error', 'message', 'progress'] }))}`,
-      )
-    await new Promise((r) => setTimeout(r, 50))
-  }
+  return settledFile(t, Number(res.fileId), 25_000)
 }
 
 describe('limits of one table', () => {

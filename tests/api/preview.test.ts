@@ -11,10 +11,8 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { previewInfoSchema, type PreviewInfo } from '@shared/schemas/preview.schema'
 import { simulateLocalizations } from '@server/compute/simulate'
 import { localizationsToCsv } from '@server/compute/simulate/table-text'
-import { JobRunner } from '@server/jobs/job-runner'
-import { createLogger } from '@server/logger'
+import type { JobRunner } from '@server/jobs/job-runner'
 import { DatasetFile } from '@server/modules/files/dataset-file.entity'
-import { fileJobCompletions } from '@server/modules/files/file-jobs.completions'
 import { LocalStorage } from '@server/storage/local-storage'
 import {
   bearer,
@@ -25,6 +23,7 @@ import {
   buildUser,
   tokenFor,
 } from '../fixtures/builders'
+import { startJobRunner, settledFile } from '../fixtures/job-runner'
 import { listen } from '../fixtures/live-server'
 import { createTestApp, type TestApp } from '../fixtures/test-app'
 import { tusUpload } from '../fixtures/tus-upload'
@@ -39,15 +38,7 @@ let fileId: number
 beforeAll(async () => {
   t = await createTestApp()
   live = await listen(t.app)
-  runner = new JobRunner({
-    orm: t.orm,
-    logger: createLogger('silent'),
-    dataDir: t.config.dataDir,
-    workers: 1,
-    pollMs: 50,
-    completions: fileJobCompletions(t.config),
-  })
-  runner.start()
+  runner = startJobRunner(t)
   const em = t.em()
   const member = await buildMember(em)
   const project = await buildProject(em, [{ user: member, role: 'member' }])
@@ -71,11 +62,7 @@ beforeAll(async () => {
     { dataset: dataset.accession, filename: 'rings.csv' },
   )
   fileId = Number(res.fileId)
-  const end = Date.now() + 60_000
-  while ((await t.em().findOneOrFail(DatasetFile, { id: fileId })).status !== 'ready') {
-    if (Date.now() > end) throw new Error('table not ready')
-    await new Promise((r) => setTimeout(r, 100))
-  }
+  expect((await settledFile(t, fileId, 60_000)).status).toBe('ready')
 }, 90_000)
 afterAll(async () => {
   await runner.stop()

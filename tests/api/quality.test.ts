@@ -8,13 +8,9 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { qualityReportSchema, type QualityReportDto } from '@shared/schemas/quality.schema'
 import { simulateLocalizations } from '@server/compute/simulate'
 import { localizationsToCsv } from '@server/compute/simulate/table-text'
-import { JobRunner } from '@server/jobs/job-runner'
-import { FRESH_THREAD_KINDS } from '@server/jobs/kinds'
-import { createLogger } from '@server/logger'
+import type { JobRunner } from '@server/jobs/job-runner'
 import { Dataset } from '@server/modules/datasets/dataset.entity'
 import { DatasetMetadata } from '@server/modules/metadata/dataset-metadata.entity'
-import { fileJobCompletions } from '@server/modules/files/file-jobs.completions'
-import { qualityCompletions } from '@server/modules/quality/quality.completions'
 import {
   bearer,
   buildDataset,
@@ -24,6 +20,7 @@ import {
   buildUser,
   tokenFor,
 } from '../fixtures/builders'
+import { startJobRunner } from '../fixtures/job-runner'
 import { listen } from '../fixtures/live-server'
 import { createTestApp, type TestApp } from '../fixtures/test-app'
 import { tusUpload } from '../fixtures/tus-upload'
@@ -37,16 +34,7 @@ let dataset: { id: number; accession: string }
 beforeAll(async () => {
   t = await createTestApp()
   live = await listen(t.app)
-  runner = new JobRunner({
-    orm: t.orm,
-    logger: createLogger('silent'),
-    dataDir: t.config.dataDir,
-    workers: 1,
-    pollMs: 50,
-    completions: { ...fileJobCompletions(t.config), ...qualityCompletions() },
-    freshThreadKinds: FRESH_THREAD_KINDS,
-  })
-  runner.start()
+  runner = startJobRunner(t)
   const em = t.em()
   const member = await buildMember(em)
   const project = await buildProject(em, [{ user: member, role: 'member' }])

@@ -7,11 +7,8 @@
 import request from 'supertest'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { fileValidationSchema } from '@shared/schemas/file-report.schema'
-import { JobRunner } from '@server/jobs/job-runner'
-import { createLogger } from '@server/logger'
+import type { JobRunner } from '@server/jobs/job-runner'
 import { Dataset } from '@server/modules/datasets/dataset.entity'
-import { DatasetFile } from '@server/modules/files/dataset-file.entity'
-import { fileJobCompletions } from '@server/modules/files/file-jobs.completions'
 import {
   bearer,
   buildDataset,
@@ -21,6 +18,7 @@ import {
   buildUser,
   tokenFor,
 } from '../fixtures/builders'
+import { startJobRunner, settledFile } from '../fixtures/job-runner'
 import { listen } from '../fixtures/live-server'
 import { createTestApp, type TestApp } from '../fixtures/test-app'
 import { tusUpload } from '../fixtures/tus-upload'
@@ -36,15 +34,7 @@ const SECRET_ROW = '7,4242.5,9191.25,1234'
 beforeAll(async () => {
   t = await createTestApp()
   live = await listen(t.app)
-  runner = new JobRunner({
-    orm: t.orm,
-    logger: createLogger('silent'),
-    dataDir: t.config.dataDir,
-    workers: 1,
-    pollMs: 50,
-    completions: fileJobCompletions(t.config),
-  })
-  runner.start()
+  runner = startJobRunner(t)
   const em = t.em()
   const member = await buildMember(em)
   const project = await buildProject(em, [{ user: member, role: 'member' }])
@@ -63,11 +53,7 @@ beforeAll(async () => {
     filename: 'secret.csv',
   })
   fileId = Number(res.fileId)
-  const end = Date.now() + 20_000
-  while ((await t.em().findOneOrFail(DatasetFile, { id: fileId })).status === 'processing') {
-    if (Date.now() > end) throw new Error('still processing')
-    await new Promise((r) => setTimeout(r, 50))
-  }
+  await settledFile(t, fileId)
 })
 afterAll(async () => {
   await runner.stop()
