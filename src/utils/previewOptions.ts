@@ -79,8 +79,10 @@ export function tileQueryOf(c: PreviewChoices, info: PreviewInfo): TileOptions {
   if (c.brightnessStep !== 0) query.brightness = brightnessOf(c.brightnessStep)
   const run = info.frames
   if (run && c.frames) {
-    if (c.frames[0] > run.first) query.frameMin = c.frames[0]
-    if (c.frames[1] < run.last) query.frameMax = c.frames[1]
+    // The server takes whole frames; a partly included frame counts as included.
+    const [first, last] = [Math.floor(c.frames[0]), Math.ceil(c.frames[1])]
+    if (first > run.first) query.frameMin = first
+    if (last < run.last) query.frameMax = last
   }
   if (info.hasUncertainty && c.maxUncertaintyNm !== null && c.maxUncertaintyNm > 0)
     query.maxUncertaintyNm = c.maxUncertaintyNm

@@ -125,4 +125,10 @@ describe('tile queries from the viewer’s choices', () => {
     const noColumn = tileQueryOf(choices, { ...previewInfo, hasUncertainty: false })
     expect(noColumn.maxUncertaintyNm).toBeUndefined()
   })
+
+  // The server's schema takes whole frames only (frameMin, frameMax are integers).
+  it('asks for whole frames, keeping a partly chosen frame', () => {
+    const query = tileQueryOf({ ...defaultChoices(), frames: [1999.9, 18_000.2] }, previewInfo)
+    expect([query.frameMin, query.frameMax]).toEqual([1999, 18_001])
+  })
 })
