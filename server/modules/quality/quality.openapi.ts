@@ -38,7 +38,8 @@ export function registerPreviewPaths(registry: OpenAPIRegistry) {
   registry.registerPath({
     method: 'get',
     path: '/api/datasets/{idOrAccession}/files/{fileId}/tiles/{z}/{x}/{y}.png',
-    summary: 'One 256 × 256 preview tile, rendered from the localization store with the options given',
+    summary:
+      'One 256 × 256 preview tile, rendered from the localization store with the options given',
     description:
       'Follows the preview right. Unknown options answer 400, a tile outside the pyramid 404 (problem+json).',
     tags: ['Quality'],
