@@ -1,6 +1,7 @@
 import type { EntityManager } from '@mikro-orm/better-sqlite'
 import type { z } from 'zod'
 import { dedupeKeyOf, type JobKind } from './job-kind'
+import { recordingJob } from './job-context'
 import { Job, type IJob } from './job.entity'
 
 /**
@@ -12,6 +13,7 @@ export async function enqueue<S extends z.ZodType>(
   em: EntityManager,
   kind: JobKind<S>,
   input: z.input<S>,
+  options: { priority?: number } = {},
 ): Promise<IJob> {
   const payload = kind.payload.parse(input) as z.output<S> & Record<string, unknown>
   const subject = kind.subject(payload)
@@ -30,6 +32,7 @@ export async function enqueue<S extends z.ZodType>(
     subjectId: subject.id,
     dedupeKey,
     afterKinds: kind.after?.length ? `,${kind.after.join(',')},` : '',
+    priority: options.priority ?? recordingJob.getStore()?.priority ?? 0,
     file: subject.type === 'file' ? subject.id : null,
   })
   // Written now (inside the caller's transaction, if any), so that work queued next in the same
@@ -46,7 +49,7 @@ const NEXT_READY_JOB = `select j.id from job j where j.state = 'queued' and not 
   select 1 from job w where w.subject_type = j.subject_type and w.subject_id = j.subject_id
     and w.state in ('queued', 'running') and w.id <> j.id
     and instr(j.after_kinds, ',' || w.kind || ',') > 0
-) order by j.id limit 1`
+) order by j.priority desc, j.id limit 1`
 
 /**
  * Takes the oldest queued job in one statement, so two processes never take the same one.

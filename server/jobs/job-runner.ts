@@ -4,6 +4,7 @@ import type { Orm } from '../db'
 import type { Logger } from '../logger'
 import { Job, type IJob } from './job.entity'
 import type { JobMessage } from './job-protocol'
+import { recordingJob } from './job-context'
 import { claimNextJob, hasClaimableJobs, requeueAbandonedJobs } from './job-queue'
 
 /** What the main thread does with a job's outcome (database updates), per kind. */
@@ -201,7 +202,9 @@ export class JobRunner {
         }
         const completion = this.o.completions[job.kind]
         if (outcome.type === 'done') {
-          await completion?.done(tem, job, outcome.result)
+          await recordingJob.run({ priority: job.priority }, () =>
+            completion?.done(tem, job, outcome.result),
+          )
           Object.assign(job, { state: 'done', progress: 1, message: null, finishedAt: new Date() })
         } else {
           await completion?.failed?.(tem, job, outcome.error)

@@ -13,7 +13,7 @@ export type JobState = (typeof JOB_STATES)[number]
 export const Job = defineEntity({
   name: 'Job',
   indexes: [
-    { properties: ['state', 'id'] },
+    { properties: ['state', 'priority', 'id'] },
     { properties: ['subjectType', 'subjectId'] },
     { properties: ['kind', 'dedupeKey'] },
   ],
@@ -28,6 +28,8 @@ export const Job = defineEntity({
     /** `,kind,kind,`: kinds on the same subject that must finish first (matched with instr()). */
     afterKinds: p.string().default(''),
     state: p.string().$type<JobState>().default('queued'),
+    /** Higher runs first; background work (demo tables) is queued below 0. */
+    priority: p.integer().default(0),
     /** Set when newer work replaced this running job; the runner stops it. */
     cancelRequested: p.boolean().default(false),
     progress: p.float().default(0),

@@ -7,6 +7,7 @@ import { Migration20261202022156 } from './Migration20261202022156'
 import { Migration20261204133522 } from './Migration20261204133522'
 import { Migration20261204141630 } from './Migration20261204141630'
 import { Migration20261204143704 } from './Migration20261204143704'
+import { Migration20261204151610 } from './Migration20261204151610'
 
 /**
  * Migrations in the order they run. `npm run db -- migration:create` writes new files here;
@@ -22,4 +23,5 @@ export const migrationsList = [
   { name: 'Migration20261204133522', class: Migration20261204133522 },
   { name: 'Migration20261204141630', class: Migration20261204141630 },
   { name: 'Migration20261204143704', class: Migration20261204143704 },
+  { name: 'Migration20261204151610', class: Migration20261204151610 },
 ]

@@ -184,7 +184,8 @@ export async function seedDemoTables(
         createdBy: dataset.createdBy ?? null,
       })
       await tem.flush()
-      await queueFirstJob(tem, file)
+      // Behind anything people upload, all the way to the report.
+      await queueFirstJob(tem, file, { priority: -10 })
     })
     onQueued()
     created++

@@ -3,6 +3,7 @@ import { openDatabase, type Orm } from '@server/db'
 import { Job } from '@server/jobs/job.entity'
 import { z } from 'zod'
 import { defineJobKind } from '@server/jobs/job-kind'
+import { recordingJob } from '@server/jobs/job-context'
 import { claimNextJob, enqueue, hasClaimableJobs } from '@server/jobs/job-queue'
 import { queueProbeJob } from '@server/jobs/queue-probe.job'
 import { JobRunner } from '@server/jobs/job-runner'
@@ -176,5 +177,18 @@ describe('the job queue', () => {
     expect(await jobState(replaced.id)).toBe('cancelled')
     expect(await jobState(queued.id)).not.toBe('cancelled')
     expect(outcomes.some((o) => o.startsWith(`done ${running.id} `))).toBe(false)
+  })
+
+  it('runs higher priority first, and work queued while recording a job takes its priority', async () => {
+    const em = orm.em.fork()
+    await em.nativeDelete(Job, {})
+    const background = await enqueue(em, queueProbeJob, { subjectId: 1 }, { priority: -10 })
+    const upload = await enqueue(em, queueProbeJob, { subjectId: 2 })
+    expect(await claimNextJob(em)).toBe(upload.id)
+    expect(await claimNextJob(em)).toBe(background.id)
+    const followUp = await recordingJob.run({ priority: -10 }, () =>
+      enqueue(em, queueProbeJob, { subjectId: 1 }),
+    )
+    expect(followUp.priority).toBe(-10)
   })
 })

@@ -81,10 +81,14 @@ export function derivedPaths(storage: LocalStorage, fileId: number) {
 }
 
 /** Queues the first job a newly registered file needs, if any. */
-export async function queueFirstJob(em: EntityManager, file: IDatasetFile): Promise<void> {
+export async function queueFirstJob(
+  em: EntityManager,
+  file: IDatasetFile,
+  options: { priority?: number } = {},
+): Promise<void> {
   const payload = { fileId: file.id, sourceKey: file.storageKey }
-  if (file.kind === 'localization_table') await enqueue(em, inspectTableJob, payload)
-  if (file.kind === 'raw_stack') await enqueue(em, scanRawStackJob, payload)
+  if (file.kind === 'localization_table') await enqueue(em, inspectTableJob, payload, options)
+  if (file.kind === 'raw_stack') await enqueue(em, scanRawStackJob, payload, options)
 }
 
 /**
