@@ -82,8 +82,8 @@ const DEMO_TABLES: { dataset: string; file: string; simulation: SimulationOption
     },
   },
   {
-    dataset: 'Test acquisition with new EMCCD gain settings',
-    file: 'emccd_gain_test_locs.csv',
+    dataset: 'Microtubule reference sample, dSTORM without drift correction',
+    file: 'tubulin_reference_uncorrected_locs.csv',
     simulation: {
       seed: 105,
       fieldNm: 10_000,
