@@ -71,7 +71,7 @@ export async function openBackground(deps: {
       await sweep()
       jobs.start()
       // Demo tables are simulated after the server is up, one at a time, then read like uploads.
-      if (config.demo)
+      if (config.demoTables)
         void seedDemoTables(orm.em.fork(), storage, () => jobs.notify()).then(
           (tables) => tables && logger.info({ tables }, 'demo localization tables deposited'),
           (err: unknown) => logger.error({ err }, 'demo localization tables failed'),

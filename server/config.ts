@@ -15,6 +15,8 @@ const envSchema = z.object({
   PUBLIC_URL: z.url().optional(),
   DATA_DIR: z.string().default('./data'),
   DEMO: bool.optional(),
+  /** Demo mode only: deposit the simulated demo tables at start (default true). */
+  DEMO_TABLES: bool.optional(),
   OIDC_ISSUER: z.url().optional(),
   OIDC_CLIENT_ID: z.string().optional(),
   OIDC_CLIENT_SECRET: z.string().optional(),
@@ -65,6 +67,8 @@ export interface AppConfig {
   sessionSecrets: string[]
   smtpUrl: string | null
   mailFrom: string
+  /** Demo mode deposits simulated localization tables at start. */
+  demoTables: boolean
   trustProxy: number
   /** The session cookie is always Secure when users reach Stipple over https. */
   secureCookies: boolean
@@ -146,6 +150,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): AppConfig {
     dataDir,
     dbPath: join(dataDir, 'stipple.sqlite'),
     demo,
+    demoTables: demo && (e.DEMO_TABLES ?? true),
     oidc: local
       ? { issuer: null, clientId: 'stipple-web', clientSecret: secrets.localClientSecret, local }
       : {

@@ -17,8 +17,12 @@ export interface E2eSession {
   close(): Promise<void>
 }
 
-/** The real server with the demo data and the built client, and a headless chromium page on it. */
-export async function startE2eSession(): Promise<E2eSession> {
+/**
+ * The real server with the demo data and the built client, and a headless chromium page on it.
+ * The simulated demo tables (and the jobs that read them) only when a test asks for them: they
+ * keep both cores busy for a minute or two.
+ */
+export async function startE2eSession(options: { demoTables?: boolean } = {}): Promise<E2eSession> {
   const dataDir = mkdtempSync(join(tmpdir(), 'stipple-e2e-'))
   const config = loadConfig({
     NODE_ENV: 'test',
@@ -26,6 +30,7 @@ export async function startE2eSession(): Promise<E2eSession> {
     PORT: '0',
     HOST: '127.0.0.1',
     LOG_LEVEL: 'error',
+    DEMO_TABLES: options.demoTables ? 'true' : 'false',
   })
   const stipple = await startStipple(config, { clientDir: CLIENT_DIR })
   const browser = await launchBrowser()
