@@ -43,6 +43,7 @@ export const qualityReportSchema = z
     nenaPrecisionNm: z.number().nullable(),
     frcResolutionNm: z.number().nullable(),
     frcResolutionUncorrectedNm: z.number().nullable(),
+    /** FRC after drift correction, without the repeat correction: compare with frcResolutionUncorrectedNm. */
     frcDriftCorrectedNm: z.number().nullable(),
     localizationsPerEmitter: z.number().nullable(),
     nyquistResolutionNm: z.number().nullable(),

@@ -115,7 +115,8 @@ function driftCard(r: QualityReportDto): QualityCard {
   const verdict = driftVerdict({
     totalDriftNm: r.driftNm,
     precisionNm: r.precisionMedianNm,
-    frcNm: r.frcResolutionNm,
+    // Both without the repeat correction (see frcDriftCorrectedNm), so they compare like for like.
+    frcNm: r.frcResolutionUncorrectedNm,
     frcCorrectedNm: r.frcDriftCorrectedNm,
   })
   return {

@@ -71,7 +71,9 @@ export function computeQuality(
     nenaPrecisionNm: nena.precisionNm,
     frcResolutionNm: frc.resolutionNm,
     frcResolutionUncorrectedNm: frc.resolutionUncorrectedNm,
-    frcDriftCorrectedNm: frcCorrected?.resolutionNm ?? null,
+    // Like for like with frcResolutionUncorrectedNm: the repeat correction's Q is unreliable on
+    // drifting data (drift blurs the plateau it is read from), so the comparison leaves it out.
+    frcDriftCorrectedNm: frcCorrected?.resolutionUncorrectedNm ?? null,
     localizationsPerEmitter: frc.localizationsPerEmitter,
     nyquistResolutionNm: densityValue?.nyquistResolutionNm ?? null,
     diffractionLimitNm: diffraction.value,

@@ -122,7 +122,7 @@ describe('the quality page of a table', () => {
     expect(frc.text()).toContain('Labelling density, not precision, limits the resolution')
     expect(frc.text()).toContain('Even after merging, molecules that blink again later')
     expect(cards.find('[data-metric="drift"]').text()).toContain(
-      'Corrected for this drift, the FRC resolution is 25 nm (32 nm as deposited).',
+      'Corrected for this drift, the FRC resolution is 25 nm (28 nm as deposited).',
     )
     // The method and its parameters open from a button.
     const toggle = frc.findAll('button').find((b) => b.text().includes('How it was measured'))!
