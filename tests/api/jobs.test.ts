@@ -1,3 +1,6 @@
+import { mkdtempSync } from 'node:fs'
+import { tmpdir } from 'node:os'
+import { join } from 'node:path'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { openDatabase, type Orm } from '@server/db'
 import { Job } from '@server/jobs/job.entity'
@@ -20,7 +23,7 @@ function runner() {
   return new JobRunner({
     orm,
     logger: createLogger('silent'),
-    dataDir: ':memory:',
+    dataDir: mkdtempSync(join(tmpdir(), 'stipple-jobs-')),
     workers: 2,
     pollMs: 50,
     heartbeatMs: 100,
