@@ -1,3 +1,4 @@
+import { stat } from 'node:fs/promises'
 import { readTilesInBox } from '../../modules/files/localizations/tile.reader'
 import { readTileIndex, type TileIndex } from '../../modules/files/localizations/tile.index'
 import type { Localizations, NumericColumn } from '../localizations.types'
@@ -14,14 +15,26 @@ const ROLE_FIELDS: Record<string, keyof Omit<Localizations, 'count'>> = {
   channel: 'channel',
 }
 
-/** The localizations of a store inside a box, read from the tiles of the store that meet it. */
-export async function localizationsInBox(
-  arrowPath: string,
-  box: BoundsNm,
-  index?: TileIndex,
-): Promise<Localizations> {
-  const columns = (index ?? (await readTileIndex(arrowPath))).columns
-  const rows = await readTilesInBox(arrowPath, box)
+/** Indexes of the stores this thread reads, by path and write time (a new ingest rewrites it). */
+const indexes = new Map<string, { mtimeMs: number; index: TileIndex }>()
+
+async function indexOf(arrowPath: string): Promise<TileIndex> {
+  const { mtimeMs } = await stat(arrowPath)
+  const known = indexes.get(arrowPath)
+  if (known?.mtimeMs === mtimeMs) return known.index
+  const index = await readTileIndex(arrowPath)
+  indexes.set(arrowPath, { mtimeMs, index })
+  return index
+}
+
+/**
+ * The localizations of a store inside a box, read from the tiles of the store that meet it. The
+ * store's index (a JSON file listing every tile) is parsed once per store, not once per tile.
+ */
+export async function localizationsInBox(arrowPath: string, box: BoundsNm): Promise<Localizations> {
+  const index = await indexOf(arrowPath)
+  const columns = index.columns
+  const rows = await readTilesInBox(arrowPath, box, index)
   const locs: Partial<Record<keyof Localizations, NumericColumn | number>> = {
     count: rows.rowCount,
   }

@@ -40,6 +40,8 @@ const GAUSSIAN_MARGIN_PX = 3 * 32
  */
 export class PreviewService {
   private readonly scales = new Map<string, Promise<number>>()
+  /** Each table's description, by store write time: tiles ask for it on every request. */
+  private readonly infos = new Map<number, { mtimeMs: number; info: PreviewInfo }>()
 
   constructor(
     private readonly storage: LocalStorage,
@@ -49,28 +51,12 @@ export class PreviewService {
   async info(file: IDatasetFile): Promise<PreviewInfo> {
     const arrowPath = this.storePath(file)
     this.pool.warm()
-    const index = await readTileIndex(arrowPath)
-    const pyramid = pyramidFor(index.boundsNm ?? { xMin: 0, xMax: 1, yMin: 0, yMax: 1 })
-    const report = (file.report ?? {}) as TableReport
-    const column = (role: string) => report.columns?.find((c) => c.role === role)
-    const z = column('z')
-    const channel = column('channel')
-    return {
-      tileSize: pyramid.tileSize,
-      levels: pyramid.levels,
-      originNm: pyramid.originNm,
-      extentNm: pyramid.extentNm,
-      resolutionsNm: pyramid.resolutionsNm,
-      boundsNm: pyramid.boundsNm,
-      localizations: index.rowCount,
-      frames: report.frames ? { first: report.frames.first, last: report.frames.last } : null,
-      zRangeNm: z?.min != null && z.max != null ? { min: z.min, max: z.max } : null,
-      channels:
-        channel?.min != null && channel.max != null
-          ? Array.from({ length: channel.max - channel.min + 1 }, (_, i) => channel.min! + i)
-          : null,
-      hasUncertainty: index.columns.some((c) => c.role?.startsWith('uncertainty')),
-    }
+    const { mtimeMs } = await stat(arrowPath)
+    const known = this.infos.get(file.id)
+    if (known?.mtimeMs === mtimeMs) return known.info
+    const info = await describe(file, arrowPath)
+    this.infos.set(file.id, { mtimeMs, info })
+    return info
   }
 
   /** The PNG of one tile: from the disk cache, or rendered now and kept. */
@@ -184,4 +170,30 @@ async function writeAtomically(path: string, bytes: Uint8Array) {
   const temporary = `${path}.${process.pid}.${Math.random().toString(36).slice(2)}.tmp`
   await writeFile(temporary, bytes)
   await rename(temporary, path)
+}
+
+/** A table's preview description from its store's index and its ingest report. */
+async function describe(file: IDatasetFile, arrowPath: string): Promise<PreviewInfo> {
+  const index = await readTileIndex(arrowPath)
+  const pyramid = pyramidFor(index.boundsNm ?? { xMin: 0, xMax: 1, yMin: 0, yMax: 1 })
+  const report = (file.report ?? {}) as TableReport
+  const column = (role: string) => report.columns?.find((c) => c.role === role)
+  const z = column('z')
+  const channel = column('channel')
+  return {
+    tileSize: pyramid.tileSize,
+    levels: pyramid.levels,
+    originNm: pyramid.originNm,
+    extentNm: pyramid.extentNm,
+    resolutionsNm: pyramid.resolutionsNm,
+    boundsNm: pyramid.boundsNm,
+    localizations: index.rowCount,
+    frames: report.frames ? { first: report.frames.first, last: report.frames.last } : null,
+    zRangeNm: z?.min != null && z.max != null ? { min: z.min, max: z.max } : null,
+    channels:
+      channel?.min != null && channel.max != null
+        ? Array.from({ length: channel.max - channel.min + 1 }, (_, i) => channel.min! + i)
+        : null,
+    hasUncertainty: index.columns.some((c) => c.role?.startsWith('uncertainty')),
+  }
 }

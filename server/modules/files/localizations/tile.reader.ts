@@ -2,7 +2,7 @@
 import { open } from 'node:fs/promises'
 import { join, dirname } from 'node:path'
 import { AsyncRecordBatchFileReader, RecordBatchReader, type RecordBatch } from 'apache-arrow'
-import { meets, readTileIndex } from './tile.index'
+import { meets, readTileIndex, type TileIndex } from './tile.index'
 import type { Bounds } from './tile.grid'
 
 type ColumnArray = Float32Array | Float64Array | Uint32Array | Uint16Array | Uint8Array
@@ -16,8 +16,13 @@ export interface BoxRows {
 }
 
 /** Rows with xMin ≤ x ≤ xMax and yMin ≤ y ≤ yMax (nm, as stored), in file order. */
-export async function readTilesInBox(outputPath: string, box: Bounds): Promise<BoxRows> {
-  const index = await readTileIndex(outputPath)
+export async function readTilesInBox(
+  outputPath: string,
+  box: Bounds,
+  /** The store's index when the caller holds it already (it is read otherwise). */
+  known?: TileIndex,
+): Promise<BoxRows> {
+  const index = known ?? (await readTileIndex(outputPath))
   const wanted = index.tiles.filter((t) => meets(t.boundsNm, box))
   const names = index.columns.map((c) => c.name)
   const parts: ColumnArray[][] = names.map(() => [])
