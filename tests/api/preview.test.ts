@@ -14,15 +14,7 @@ import { localizationsToCsv } from '@server/compute/simulate/table-text'
 import type { JobRunner } from '@server/jobs/job-runner'
 import { DatasetFile } from '@server/modules/files/dataset-file.entity'
 import { LocalStorage } from '@server/storage/local-storage'
-import {
-  bearer,
-  buildDataset,
-  buildMember,
-  buildProject,
-  buildShare,
-  buildUser,
-  tokenFor,
-} from '../fixtures/builders'
+import { bearer, buildSharedDraft } from '../fixtures/builders'
 import { startJobRunner, settledFile } from '../fixtures/job-runner'
 import { listen } from '../fixtures/live-server'
 import { createTestApp, type TestApp } from '../fixtures/test-app'
@@ -39,15 +31,9 @@ beforeAll(async () => {
   t = await createTestApp()
   live = await listen(t.app)
   runner = startJobRunner(t)
-  const em = t.em()
-  const member = await buildMember(em)
-  const project = await buildProject(em, [{ user: member, role: 'member' }])
-  dataset = await buildDataset(em, project.id)
-  const reader = await buildUser(em)
-  await buildShare(em, dataset.id, project.id, reader, [])
-  const outsider = await buildUser(em)
-  for (const [name, user] of Object.entries({ member, reader, outsider }))
-    tokens[name] = await tokenFor(em, user)
+  const built = await buildSharedDraft(t.em(), { reader: [] })
+  dataset = built.dataset
+  Object.assign(tokens, built.tokens)
   const { localizations } = simulateLocalizations({
     seed: 3,
     fieldNm: 4000,

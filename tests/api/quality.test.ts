@@ -11,15 +11,7 @@ import { localizationsToCsv } from '@server/compute/simulate/table-text'
 import type { JobRunner } from '@server/jobs/job-runner'
 import { Dataset } from '@server/modules/datasets/dataset.entity'
 import { DatasetMetadata } from '@server/modules/metadata/dataset-metadata.entity'
-import {
-  bearer,
-  buildDataset,
-  buildMember,
-  buildProject,
-  buildShare,
-  buildUser,
-  tokenFor,
-} from '../fixtures/builders'
+import { bearer, buildSharedDraft } from '../fixtures/builders'
 import { startJobRunner } from '../fixtures/job-runner'
 import { listen } from '../fixtures/live-server'
 import { createTestApp, type TestApp } from '../fixtures/test-app'
@@ -35,17 +27,9 @@ beforeAll(async () => {
   t = await createTestApp()
   live = await listen(t.app)
   runner = startJobRunner(t)
-  const em = t.em()
-  const member = await buildMember(em)
-  const project = await buildProject(em, [{ user: member, role: 'member' }])
-  dataset = await buildDataset(em, project.id)
-  const previewer = await buildUser(em)
-  const reader = await buildUser(em)
-  await buildShare(em, dataset.id, project.id, previewer, ['preview'])
-  await buildShare(em, dataset.id, project.id, reader, [])
-  const outsider = await buildUser(em)
-  for (const [name, user] of Object.entries({ member, previewer, reader, outsider }))
-    tokens[name] = await tokenFor(em, user)
+  const built = await buildSharedDraft(t.em(), { previewer: ['preview'], reader: [] })
+  dataset = built.dataset
+  Object.assign(tokens, built.tokens)
 })
 afterAll(async () => {
   await runner.stop()

@@ -9,15 +9,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { fileValidationSchema } from '@shared/schemas/file-report.schema'
 import type { JobRunner } from '@server/jobs/job-runner'
 import { Dataset } from '@server/modules/datasets/dataset.entity'
-import {
-  bearer,
-  buildDataset,
-  buildMember,
-  buildProject,
-  buildShare,
-  buildUser,
-  tokenFor,
-} from '../fixtures/builders'
+import { bearer, buildSharedDraft } from '../fixtures/builders'
 import { startJobRunner, settledFile } from '../fixtures/job-runner'
 import { listen } from '../fixtures/live-server'
 import { createTestApp, type TestApp } from '../fixtures/test-app'
@@ -35,17 +27,12 @@ beforeAll(async () => {
   t = await createTestApp()
   live = await listen(t.app)
   runner = startJobRunner(t)
-  const em = t.em()
-  const member = await buildMember(em)
-  const project = await buildProject(em, [{ user: member, role: 'member' }])
-  dataset = await buildDataset(em, project.id)
-  const previewer = await buildUser(em)
-  const downloader = await buildUser(em)
-  await buildShare(em, dataset.id, project.id, previewer, ['preview'])
-  await buildShare(em, dataset.id, project.id, downloader, ['preview', 'download'])
-  const outsider = await buildUser(em)
-  for (const [name, user] of Object.entries({ member, previewer, downloader, outsider }))
-    tokens[name] = await tokenFor(em, user)
+  const built = await buildSharedDraft(t.em(), {
+    previewer: ['preview'],
+    downloader: ['preview', 'download'],
+  })
+  dataset = built.dataset
+  Object.assign(tokens, built.tokens)
 
   const table = `frame,x [nm],y [nm],photons\n${SECRET_ROW}\n8,not-a-number,10,5\n9,100,200,300\n`
   const res = await tusUpload(`${live.url}/api/uploads`, tokens.member!, Buffer.from(table), {
