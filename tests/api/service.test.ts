@@ -72,6 +72,17 @@ describe('security headers', () => {
   })
 })
 
+/** A production environment with a real provider, mail server and https address. */
+const production = (): Record<string, string> => ({
+  NODE_ENV: 'production',
+  DATA_DIR: t.config.dataDir,
+  PUBLIC_URL: 'https://hub.example.org',
+  OIDC_ISSUER: 'https://login.example.org/realms/lab',
+  OIDC_CLIENT_ID: 'stipple',
+  OIDC_CLIENT_SECRET: 'from-the-environment',
+  SMTP_URL: 'smtp://mail.example.org:587',
+})
+
 describe('configuration', () => {
   it('refuses to start in production with demo settings', () => {
     const attempt = () => loadConfig({ NODE_ENV: 'production', DATA_DIR: t.config.dataDir })
@@ -84,16 +95,7 @@ describe('configuration', () => {
   })
 
   it('starts in production with a real provider, mail server and https address', () => {
-    const config = loadConfig({
-      NODE_ENV: 'production',
-      DATA_DIR: t.config.dataDir,
-      PUBLIC_URL: 'https://hub.example.org',
-      OIDC_ISSUER: 'https://login.example.org/realms/lab',
-      OIDC_CLIENT_ID: 'stipple',
-      OIDC_CLIENT_SECRET: 'from-the-environment',
-      SMTP_URL: 'smtp://mail.example.org:587',
-      TRUST_PROXY: '1',
-    })
+    const config = loadConfig({ ...production(), TRUST_PROXY: '1' })
     expect(config).toMatchObject({
       demo: false,
       secureCookies: true,
@@ -102,18 +104,9 @@ describe('configuration', () => {
   })
 
   it('in production over https, the session cookie is Secure, and a server that trusts no proxy refuses to start', () => {
-    const production = {
-      NODE_ENV: 'production',
-      DATA_DIR: t.config.dataDir,
-      PUBLIC_URL: 'https://hub.example.org',
-      OIDC_ISSUER: 'https://login.example.org/realms/lab',
-      OIDC_CLIENT_ID: 'stipple',
-      OIDC_CLIENT_SECRET: 'from-the-environment',
-      SMTP_URL: 'smtp://mail.example.org:587',
-    }
-    expect(() => loadConfig(production)).toThrow(/TRUST_PROXY must be at least 1/)
+    expect(() => loadConfig(production())).toThrow(/TRUST_PROXY must be at least 1/)
     for (const trust of ['1', '2'])
-      expect(sessionCookieOptions(loadConfig({ ...production, TRUST_PROXY: trust })).secure).toBe(
+      expect(sessionCookieOptions(loadConfig({ ...production(), TRUST_PROXY: trust })).secure).toBe(
         true,
       )
     // Plain http in development: Secure only when the request itself came over https.
