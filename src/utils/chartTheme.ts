@@ -1,4 +1,5 @@
 import { SHELL, lightTheme } from '@/plugins/theme'
+import type { ChartInk } from '@shared/domain/quality-charts'
 
 /**
  * The charts' colours: the slate of the app's bar behind light ink, the app's amber first, then
@@ -16,6 +17,9 @@ export const CHART_COLORS = {
   tertiary: '#9bd39f',
   quiet: 'rgba(255, 255, 255, 0.45)',
 }
+
+/** What the shared chart options draw themselves, light on the page's dark charts. */
+export const CHART_INK: ChartInk = { quiet: CHART_COLORS.quiet, label: INK }
 
 const axis = {
   axisLine: { lineStyle: { color: RULE } },

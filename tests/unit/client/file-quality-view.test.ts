@@ -15,7 +15,7 @@ import {
   previewInfo,
   queuedReport,
   runningReport,
-} from './quality-fixtures'
+} from '../shared/quality-fixtures'
 
 const api = vi.hoisted(() => ({
   getQuality: vi.fn(),

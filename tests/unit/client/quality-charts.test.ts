@@ -1,9 +1,11 @@
 import { describe, expect, it } from 'vitest'
-import { frcOption, frequencyLabel, stepPoints } from '@/utils/qualityCharts'
-import { qualityPlots } from '@/utils/qualityPlots'
-import { frcValue } from '@/utils/qualityReport'
+import { frcOption, frequencyLabel, stepPoints, type ChartInk } from '@shared/domain/quality-charts'
+import { qualityPlots } from '@shared/domain/quality-plots'
+import { frcValue } from '@shared/domain/quality-values'
 import { colourByChoices, channelChoices } from '@/utils/previewOptions'
-import { doneReport, previewInfo } from './quality-fixtures'
+import { doneReport, previewInfo } from '../shared/quality-fixtures'
+
+const ink: ChartInk = { quiet: '#888888', label: '#111111' }
 
 describe('the quality plots', () => {
   // A histogram's bins are half-open [edge i, edge i+1): the step line holds each count from its
@@ -25,7 +27,7 @@ describe('the quality plots', () => {
 
   it('marks the 1/7 threshold and the resolution on the FRC curve', () => {
     const frc = frcValue(doneReport.metrics.frc)!
-    const option = frcOption(frc, null)
+    const option = frcOption(ink, frc, null)
     const series = Array.isArray(option.series) ? option.series : []
     expect(series.map((s) => s.name)).toEqual([
       'FRC',
@@ -38,21 +40,28 @@ describe('the quality plots', () => {
       expect.objectContaining({ yAxis: 1 / 7 }),
       expect.objectContaining({ xAxis: 1 / 32 }),
     ])
+    // The reference lines take the caller's ink: light on the page, dark in the printed report.
+    expect(series[1]?.markLine?.lineStyle?.color).toBe('#888888')
+    expect(series[1]?.markLine?.label?.color).toBe('#111111')
+    expect(series[0]?.color).toBe('#888888')
   })
 
   it('draws every curve the report has, with the drift-corrected FRC beside the FRC', () => {
-    const plots = qualityPlots(doneReport)
+    const plots = qualityPlots(doneReport, ink)
     expect(plots.map((p) => p.key)).toEqual(['photons', 'precision', 'frc', 'drift'])
     const frc = plots.find((p) => p.key === 'frc')!.option
     const names = (Array.isArray(frc.series) ? frc.series : []).map((s) => s.name)
     expect(names).toContain('after drift correction')
-    const withoutMetrics = qualityPlots({ ...doneReport, metrics: {}, drift: null })
+    const withoutMetrics = qualityPlots({ ...doneReport, metrics: {}, drift: null }, ink)
     expect(withoutMetrics).toEqual([])
   })
 
   it('leaves out a metric whose value has another shape', () => {
     const odd = { ...doneReport.metrics.photons!, value: { edges: 'none' } }
-    const plots = qualityPlots({ ...doneReport, metrics: { ...doneReport.metrics, photons: odd } })
+    const plots = qualityPlots(
+      { ...doneReport, metrics: { ...doneReport.metrics, photons: odd } },
+      ink,
+    )
     expect(plots.map((p) => p.key)).not.toContain('photons')
   })
 })

@@ -1,4 +1,5 @@
-import type { PreviewInfo, QualityReportDto } from '@/api/quality'
+import type { PreviewInfo } from '@shared/schemas/preview.schema'
+import type { QualityReportDto } from '@shared/schemas/quality.schema'
 
 /** Made-up API answers shaped like the server's quality report and preview description. */
 

@@ -6,11 +6,13 @@ import type {
   TooltipComponentOption,
 } from 'echarts/components'
 import type { ComposeOption } from 'echarts/core'
-import { CHART_COLORS } from './chartTheme'
-import type { DistributionValue, DriftTrace, FrcValue, PerFrameValue } from './qualityReport'
-import { lengthText } from './qualityVerdicts'
+import type { DistributionValue, DriftTrace, FrcValue, PerFrameValue } from './quality-values'
+import { lengthText } from './quality-verdicts'
 
-/** The options of the quality page's charts: line series only, so one chart type is bundled. */
+/**
+ * The options of the quality charts, drawn by the browser's page and by the server's HTML report:
+ * line series only, so one chart type is bundled.
+ */
 export type ChartOption = ComposeOption<
   | LineSeriesOption
   | GridComponentOption
@@ -18,6 +20,17 @@ export type ChartOption = ComposeOption<
   | MarkLineComponentOption
   | TooltipComponentOption
 >
+
+/**
+ * The few colours the options set themselves (the rest comes from the renderer's theme): the
+ * page draws light on dark, the printable report dark on white.
+ */
+export interface ChartInk {
+  /** Reference lines and the raw, unsmoothed curve. */
+  quiet: string
+  /** Labels on reference lines. */
+  label: string
+}
 
 const fmt = new Intl.NumberFormat(undefined, { maximumFractionDigits: 3 })
 
@@ -32,11 +45,11 @@ const yAxis = (name: string) => valueAxis(name, { nameGap: 48, scale: false })
 const grid = { left: 64, right: 24, top: 36, bottom: 52 }
 const line = (name: string, data: [number, number][], extra: LineSeriesOption = {}) =>
   ({ type: 'line', name, data, symbol: 'none', ...extra }) satisfies LineSeriesOption
-const markLine = (data: NonNullable<MarkLineComponentOption['data']>) => ({
+const markLine = (ink: ChartInk, data: NonNullable<MarkLineComponentOption['data']>) => ({
   symbol: 'none',
   silent: true,
-  lineStyle: { type: 'dashed' as const, color: CHART_COLORS.quiet },
-  label: { color: 'rgba(255, 255, 255, 0.87)' },
+  lineStyle: { type: 'dashed' as const, color: ink.quiet },
+  label: { color: ink.label },
   data,
 })
 
@@ -53,7 +66,12 @@ export function stepPoints(edges: number[], counts: number[]): [number, number][
   return points
 }
 
-export function histogramOption(d: DistributionValue, axisTitle: string, unit = ''): ChartOption {
+export function histogramOption(
+  ink: ChartInk,
+  d: DistributionValue,
+  axisTitle: string,
+  unit = '',
+): ChartOption {
   const median = `median ${fmt.format(d.median)}${unit ? ` ${unit}` : ''}`
   return {
     grid,
@@ -65,7 +83,7 @@ export function histogramOption(d: DistributionValue, axisTitle: string, unit = 
         step: 'end',
         areaStyle: { opacity: 0.4 },
         lineStyle: { width: 1 },
-        markLine: markLine([{ xAxis: d.median, label: { formatter: median } }]),
+        markLine: markLine(ink, [{ xAxis: d.median, label: { formatter: median } }]),
       }),
     ],
   }
@@ -75,7 +93,11 @@ const zip = (x: number[], y: number[]): [number, number][] =>
   y.map((value, i) => [x[i] ?? 0, value])
 
 /** FRC against spatial frequency, with the threshold and the resolution where it is crossed. */
-export function frcOption(frc: FrcValue, driftCorrected: FrcValue | null): ChartOption {
+export function frcOption(
+  ink: ChartInk,
+  frc: FrcValue,
+  driftCorrected: FrcValue | null,
+): ChartOption {
   const q = frc.curve.frequencyPerNm
   const marks: NonNullable<MarkLineComponentOption['data']> = [
     { yAxis: frc.threshold, label: { formatter: '1/7 threshold', position: 'insideEndTop' } },
@@ -88,9 +110,9 @@ export function frcOption(frc: FrcValue, driftCorrected: FrcValue | null): Chart
   const series: LineSeriesOption[] = [
     line('FRC', zip(q, frc.curve.frc), {
       lineStyle: { width: 1, opacity: 0.45 },
-      color: CHART_COLORS.quiet,
+      color: ink.quiet,
     }),
-    line('smoothed', zip(q, frc.curve.smoothed), { markLine: markLine(marks) }),
+    line('smoothed', zip(q, frc.curve.smoothed), { markLine: markLine(ink, marks) }),
   ]
   if (frc.curve.corrected)
     series.push(line('corrected for repeated localizations', zip(q, frc.curve.corrected)))

@@ -1,4 +1,4 @@
-import type { QualityMetric, QualityReportDto } from '@/api/quality'
+import type { QualityMetric, QualityReportDto } from '../schemas/quality.schema'
 
 /**
  * The parts of a quality report's metric values the page reads. The server sends each value as

@@ -1,4 +1,4 @@
-import type { QualityMetric, QualityReportDto } from '@/api/quality'
+import type { QualityMetric, QualityReportDto } from '../schemas/quality.schema'
 import {
   frcValue,
   labellingDensity,
@@ -6,7 +6,7 @@ import {
   metricOf,
   precisionValue,
   type DensityValue,
-} from './qualityReport'
+} from './quality-values'
 import {
   driftVerdict,
   lengthText,
@@ -14,7 +14,7 @@ import {
   precisionVerdict,
   resolutionVerdicts,
   type Verdict,
-} from './qualityVerdicts'
+} from './quality-verdicts'
 
 /** One card of the quality page: a headline value, facts beside it, verdicts and its method. */
 export interface QualityCard {

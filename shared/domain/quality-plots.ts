@@ -1,11 +1,12 @@
-import type { QualityReportDto } from '@/api/quality'
+import type { QualityReportDto } from '../schemas/quality.schema'
 import {
   driftOption,
   frcOption,
   histogramOption,
   perFrameOption,
+  type ChartInk,
   type ChartOption,
-} from './qualityCharts'
+} from './quality-charts'
 import {
   distributionValue,
   driftValue,
@@ -14,8 +15,8 @@ import {
   perFrameValue,
   precisionValue,
   type DistributionValue,
-} from './qualityReport'
-import { lengthText } from './qualityVerdicts'
+} from './quality-values'
+import { lengthText } from './quality-verdicts'
 
 /** One plot of the quality page, with a caption that says what it shows in words. */
 export interface QualityPlot {
@@ -43,7 +44,7 @@ function quartiles(d: DistributionValue, unit: string): string {
   )
 }
 
-function histogramPlots(report: QualityReportDto): QualityPlot[] {
+function histogramPlots(report: QualityReportDto, ink: ChartInk): QualityPlot[] {
   const plots: QualityPlot[] = []
   for (const h of HISTOGRAMS) {
     const d = distributionValue(metricOf(report, h.key))
@@ -51,7 +52,7 @@ function histogramPlots(report: QualityReportDto): QualityPlot[] {
       plots.push({
         key: h.key,
         title: h.title,
-        option: histogramOption(d, h.axis, h.unit),
+        option: histogramOption(ink, d, h.axis, h.unit),
         caption: `${h.title}: ${quartiles(d, h.unit)}.`,
       })
   }
@@ -60,7 +61,7 @@ function histogramPlots(report: QualityReportDto): QualityPlot[] {
     plots.splice(1, 0, {
       key: 'precision',
       title: 'Localization precision',
-      option: histogramOption(precision.distribution, 'localization precision (nm)', 'nm'),
+      option: histogramOption(ink, precision.distribution, 'localization precision (nm)', 'nm'),
       caption:
         `Localization precision ${precision.source === 'expected from photons' ? 'expected from the photon counts' : 'from the uncertainty column'}: ` +
         `${quartiles(precision.distribution, 'nm')}.`,
@@ -68,7 +69,7 @@ function histogramPlots(report: QualityReportDto): QualityPlot[] {
   return plots
 }
 
-function frcPlot(report: QualityReportDto): QualityPlot | null {
+function frcPlot(report: QualityReportDto, ink: ChartInk): QualityPlot | null {
   const frc = frcValue(metricOf(report, 'frc'))
   if (!frc) return null
   const corrected = frcValue(metricOf(report, 'frcDriftCorrected'))
@@ -81,15 +82,15 @@ function frcPlot(report: QualityReportDto): QualityPlot | null {
   return {
     key: 'frc',
     title: 'Fourier ring correlation',
-    option: frcOption(frc, corrected),
+    option: frcOption(ink, frc, corrected),
     caption: `The FRC of two halves of the acquisition ${crossing}.${after}`,
   }
 }
 
 /** Every plot the report has data for, histograms first, then the curves over the run. */
-export function qualityPlots(report: QualityReportDto): QualityPlot[] {
-  const plots = histogramPlots(report)
-  const frc = frcPlot(report)
+export function qualityPlots(report: QualityReportDto, ink: ChartInk): QualityPlot[] {
+  const plots = histogramPlots(report, ink)
+  const frc = frcPlot(report, ink)
   if (frc) plots.push(frc)
   const perFrame = perFrameValue(metricOf(report, 'perFrame'))
   if (perFrame)

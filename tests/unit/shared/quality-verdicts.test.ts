@@ -1,12 +1,12 @@
 import { describe, expect, it } from 'vitest'
-import { qualityCards } from '@/utils/qualityCards'
+import { qualityCards } from '@shared/domain/quality-cards'
 import {
   driftVerdict,
   lengthText,
   nenaVerdict,
   precisionVerdict,
   resolutionVerdicts,
-} from '@/utils/qualityVerdicts'
+} from '@shared/domain/quality-verdicts'
 import { doneReport } from './quality-fixtures'
 
 // The bands (≤ 1.3 as good as photon statistics allow, ≤ 2 somewhat worse, beyond much worse)
