@@ -1,7 +1,8 @@
-import { Worker } from 'node:worker_threads'
+import type { Worker } from 'node:worker_threads'
 import type { EntityManager } from '@mikro-orm/better-sqlite'
 import type { Orm } from '../db'
 import type { Logger } from '../logger'
+import { startThread } from '../threads'
 import { Job, type IJob } from './job.entity'
 import type { JobMessage } from './job-protocol'
 import { recordingJob } from './job-context'
@@ -28,7 +29,7 @@ export interface JobRunnerOptions {
   freshThreadKinds?: ReadonlySet<string>
 }
 
-const WORKER_URL = new URL('./worker-bootstrap.mjs', import.meta.url)
+const WORKER_URL = new URL('./worker.ts', import.meta.url)
 
 /**
  * Runs queued jobs in worker threads, a few at a time, off the request thread. Progress and
@@ -133,8 +134,7 @@ export class JobRunner {
   private worker(): Worker {
     const idle = this.idle.pop()
     if (idle) return idle
-    // workerData must be an object: geotiff's web-worker shim reads fields of it when loaded in a thread.
-    const worker = new Worker(WORKER_URL, {
+    const worker = startThread(WORKER_URL, {
       workerData: { role: 'job-worker', dataDir: this.o.dataDir },
     })
     worker.on('message', (m: JobMessage & { id?: number }) => {

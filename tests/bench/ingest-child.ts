@@ -4,7 +4,7 @@
  * RSS (taken before a second, warm ingest).
  * usage: tsx tests/bench/ingest-child.ts <table> <output.arrow>
  */
-import { ingestLocalizationTable, sniffTable } from '@server/modules/files/localizations'
+import { ingestLocalizationTable, sniffTable } from '@server/compute/ingest'
 import { suggestMapping } from '@shared/domain/localization-columns'
 import { mappingFromSuggestion } from '@shared/schemas/localization-mapping.schema'
 

@@ -9,7 +9,7 @@ import { computeFrc } from '@server/compute/frc'
 import { computeQuality } from '@server/compute/quality'
 import { renderHistogram } from '@server/compute/render'
 import { tableStatistics } from '@server/compute/statistics'
-import { readLocalizations } from '@server/compute/store/read-localizations'
+import { readLocalizations } from '@server/compute/store'
 
 const [store] = process.argv.slice(2)
 if (!store) throw new Error('usage: quality-child.ts <store.arrow>')

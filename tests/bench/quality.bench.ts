@@ -12,7 +12,7 @@ import { fileURLToPath } from 'node:url'
 import { promisify } from 'node:util'
 import { suggestMapping } from '@shared/domain/localization-columns'
 import { mappingFromSuggestion } from '@shared/schemas/localization-mapping.schema'
-import { ingestLocalizationTable, sniffTable } from '@server/modules/files/localizations'
+import { ingestLocalizationTable, sniffTable } from '@server/compute/ingest'
 import { referenceTable, referenceTimes } from './reference-pipeline'
 
 const run = promisify(execFile)

@@ -9,7 +9,7 @@ import { closeSync, fsyncSync, mkdtempSync, openSync, rmSync } from 'node:fs'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
 import { fromFile } from 'geotiff'
-import { readStackHeader, scanStack } from '@server/modules/files/raw-stacks'
+import { readStackHeader, scanStack } from '@server/compute/raw-stacks'
 import { writeTiffStack } from '../fixtures/tiff-writer'
 
 const SIDE = 512

@@ -1,6 +1,5 @@
 import { stat } from 'node:fs/promises'
-import { readTilesInBox } from '../../modules/files/localizations/tile.reader'
-import { readTileIndex, type TileIndex } from '../../modules/files/localizations/tile.index'
+import { readTileIndex, readTilesInBox, type TileIndex } from '../store'
 import type { Localizations, NumericColumn } from '../localizations.types'
 import type { BoundsNm } from '../render'
 

@@ -10,8 +10,15 @@ import {
   type Structure,
 } from './options'
 import type { Random } from './random'
-import type { EmitterPositions } from './rows'
 import { placeStructure } from './structures'
+
+/** Where the emitters are: nm, with z and channel where the structure has them. */
+export interface EmitterPositions {
+  x: Float64Array
+  y: Float64Array
+  z: Float64Array | null
+  channel: Uint8Array | null
+}
 
 export interface EmitterTruth extends EmitterPositions {
   /** Target sites before the linkage offset (equal to x, y, z when there is none). */

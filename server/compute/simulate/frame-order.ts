@@ -4,7 +4,7 @@
  * memory; each emitter's true position is read once per burst and copied into the position columns.
  */
 import type { Bursts } from './blinking'
-import type { EmitterPositions } from './rows'
+import type { EmitterPositions } from './emitters'
 
 export interface FrameOrder {
   rowBurst: Uint32Array

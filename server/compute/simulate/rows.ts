@@ -7,14 +7,8 @@ import { thompsonPrecisionNm } from '@shared/domain/optics'
 import type { Localizations } from '../localizations.types'
 import type { FrameOrder } from './frame-order'
 import type { DriftTrack } from './drift'
+import type { EmitterPositions } from './emitters'
 import type { Random } from './random'
-
-export interface EmitterPositions {
-  x: Float64Array
-  y: Float64Array
-  z: Float64Array | null
-  channel: Uint8Array | null
-}
 
 export interface RowSettings {
   photonsMedian: number

@@ -1,7 +1,7 @@
 import { writeFile } from 'node:fs/promises'
 import type { JobWork } from '../../jobs/job-protocol'
 import { derivedPaths, scanRawStackJob } from './file-jobs'
-import { readStackHeader, resolveOmeFileSet, scanStack } from './raw-stacks'
+import { readStackHeader, resolveOmeFileSet, scanStack } from '../../compute/raw-stacks'
 
 export interface RawStackReport {
   format: string

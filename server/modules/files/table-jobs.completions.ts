@@ -14,7 +14,7 @@ import { DatasetFile, type IDatasetFile } from './dataset-file.entity'
 import { rejectOnFailure } from './file-job-failure'
 import type { AppConfig } from '../../config'
 import { ingestLimitsFor, ingestTableJob, inspectTableJob } from './file-jobs'
-import type { IngestReport, TableSniff } from './localizations'
+import type { IngestReport, TableSniff } from '../../compute/ingest'
 
 /** The pixel size from the dataset's description, for tables in camera pixels. */
 async function pixelSizeOf(em: EntityManager, datasetId: number): Promise<number | undefined> {

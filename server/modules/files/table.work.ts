@@ -1,7 +1,7 @@
 import { suggestMapping } from '@shared/domain/localization-columns'
 import type { JobWork } from '../../jobs/job-protocol'
 import { derivedPaths, ingestTableJob, inspectTableJob } from './file-jobs'
-import { ingestLocalizationTable, sniffTable, TableFormatError } from './localizations'
+import { ingestLocalizationTable, sniffTable, TableFormatError } from '../../compute/ingest'
 
 /** Reads the table's format and header and proposes a column mapping. Runs in a worker thread. */
 export const inspectTableWork: JobWork = async (input, { storage, progress }) => {

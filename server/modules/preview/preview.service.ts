@@ -15,7 +15,7 @@ import { ConflictError, NotFoundError } from '../../errors/http-error'
 import type { LocalStorage } from '../../storage/local-storage'
 import type { IDatasetFile } from '../files/dataset-file.entity'
 import { derivedPaths } from '../files/file-jobs'
-import { readTileIndex } from '../files/localizations/tile.index'
+import { readTileIndex } from '../../compute/store'
 import type { TilePool } from './tile-pool'
 
 interface ColumnReport {

@@ -1,5 +1,6 @@
 import { availableParallelism } from 'node:os'
 import { Piscina } from 'piscina'
+import { poolEntry } from '../../threads'
 import type { TileWorkerTask } from './tile.worker'
 
 /**
@@ -8,7 +9,7 @@ import type { TileWorkerTask } from './tile.worker'
  */
 export class TilePool {
   private readonly pool = new Piscina({
-    filename: new URL('./tile-worker-bootstrap.mjs', import.meta.url).href,
+    ...poolEntry(new URL('./tile.worker.ts', import.meta.url)),
     minThreads: 0,
     maxThreads: Math.max(1, Math.min(2, availableParallelism())),
     idleTimeout: 60_000,

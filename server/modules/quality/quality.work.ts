@@ -1,5 +1,5 @@
 import { computeQuality } from '../../compute/quality'
-import { readLocalizations } from '../../compute/store/read-localizations'
+import { readLocalizations } from '../../compute/store'
 import type { JobWork } from '../../jobs/job-protocol'
 import { derivedPaths } from '../files/file-jobs'
 import { computeQualityJob } from './quality-jobs'

@@ -1,5 +1,6 @@
 import { Writable } from 'node:stream'
-import { Worker } from 'node:worker_threads'
+import type { Worker } from 'node:worker_threads'
+import { startThread } from '../../threads'
 
 interface Reply {
   seq: number
@@ -8,7 +9,7 @@ interface Reply {
   error?: string
 }
 
-// Kept apart from `new Worker(...)`: bundlers rewrite that pattern as a web worker import.
+// Plain JavaScript: the thread starts without loading tsx.
 const WRITER_THREAD_URL = new URL('./upload-writer.worker.mjs', import.meta.url)
 
 /** The network delivers packets of up to 64 KiB; the thread gets them gathered into blocks of this size. */
@@ -67,7 +68,7 @@ export class UploadWriterThread {
 
   private send(message: Record<string, unknown>): Promise<Reply> {
     if (!this.worker) {
-      this.worker = new Worker(WRITER_THREAD_URL)
+      this.worker = startThread(WRITER_THREAD_URL)
       this.worker.unref()
       this.worker.on('message', (r: Reply) => this.reply(r))
       this.worker.on('error', (err) => this.failAll(err))

@@ -2,13 +2,8 @@
 import { readFileSync } from 'node:fs'
 import { tableFromIPC, type Table } from 'apache-arrow'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import {
-  ingestLocalizationTable,
-  readTileIndex,
-  readTilesInBox,
-  type IngestReport,
-  type TileIndex,
-} from '@server/modules/files/localizations'
+import { ingestLocalizationTable, type IngestReport } from '@server/compute/ingest'
+import { readTileIndex, readTilesInBox, type TileIndex } from '@server/compute/store'
 import { numbers, seeded, tempDir } from './ingest-fixtures'
 
 const tmp = tempDir()

@@ -11,7 +11,7 @@ import { tableFromIPC } from 'apache-arrow'
 import { parse } from 'csv-parse/sync'
 import { afterAll, describe, expect, it } from 'vitest'
 import type { ColumnMappingInput } from '@shared/schemas/localization-mapping.schema'
-import { ingestLocalizationTable } from '@server/modules/files/localizations'
+import { ingestLocalizationTable } from '@server/compute/ingest'
 import { numbers, seeded, tempDir } from './ingest-fixtures'
 
 const tmp = tempDir()

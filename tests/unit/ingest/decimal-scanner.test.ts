@@ -2,8 +2,8 @@
 import { readFileSync } from 'node:fs'
 import { tableFromIPC } from 'apache-arrow'
 import { describe, expect, it } from 'vitest'
-import { ingestLocalizationTable } from '@server/modules/files/localizations'
-import { scanDecimal, scannedValue } from '@server/modules/files/localizations/decimal.scanner'
+import { ingestLocalizationTable } from '@server/compute/ingest'
+import { scanDecimal, scannedValue } from '@server/compute/ingest/decimal.scanner'
 import { numbers, seeded, tempDir } from './ingest-fixtures'
 
 const encoder = new TextEncoder()

@@ -9,7 +9,7 @@ import {
   prestartParseWorkers,
   TableFormatError,
   type IngestOptions,
-} from '@server/modules/files/localizations'
+} from '@server/compute/ingest'
 import { FXYP, numbers, tempDir } from './ingest-fixtures'
 
 const tmp = tempDir()

@@ -1,7 +1,7 @@
 // @vitest-environment node
 import { describe, expect, it } from 'vitest'
-import { lastRecordEnd } from '@server/modules/files/localizations/record.boundary'
-import { splitRecord } from '@server/modules/files/localizations/record.splitter'
+import { lastRecordEnd } from '@server/compute/ingest/record.boundary'
+import { splitRecord } from '@server/compute/ingest/record.splitter'
 
 const bytes = (text: string) => new TextEncoder().encode(text)
 

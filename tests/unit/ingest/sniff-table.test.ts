@@ -1,7 +1,7 @@
 // @vitest-environment node
 import { gzipSync } from 'node:zlib'
 import { afterAll, describe, expect, it } from 'vitest'
-import { sniffTable, TableFormatError } from '@server/modules/files/localizations'
+import { sniffTable, TableFormatError } from '@server/compute/ingest'
 import { tempDir } from './ingest-fixtures'
 
 const tmp = tempDir()

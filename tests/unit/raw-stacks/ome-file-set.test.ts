@@ -1,7 +1,7 @@
 // @vitest-environment node
 import { readFileSync } from 'node:fs'
 import { describe, expect, it } from 'vitest'
-import { isOmeXml, resolveOmeFileSet } from '@server/modules/files/raw-stacks'
+import { isOmeXml, resolveOmeFileSet } from '@server/compute/raw-stacks'
 import { MINIMUM_OME_XML } from './stack-fixtures'
 
 /** Hand-written beside this file; it validates against the OME 2016-06 schema (xmllint --schema). */

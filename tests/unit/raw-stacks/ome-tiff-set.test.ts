@@ -1,6 +1,6 @@
 // @vitest-environment node
 import { afterAll, describe, expect, it } from 'vitest'
-import { readStackHeader, resolveOmeFileSet, scanStack } from '@server/modules/files/raw-stacks'
+import { readStackHeader, resolveOmeFileSet, scanStack } from '@server/compute/raw-stacks'
 import { writeTiffStack } from '../../fixtures/tiff-writer'
 import { ramp, temporaryFolder } from './stack-fixtures'
 

@@ -1,7 +1,7 @@
 // @vitest-environment node
 import { describe, expect, it } from 'vitest'
-import { ProjectionAccumulator } from '@server/modules/files/raw-stacks/projection.accumulator'
-import { sampleTypeOf } from '@server/modules/files/raw-stacks/strip-samples.decoder'
+import { ProjectionAccumulator } from '@server/compute/raw-stacks/projection.accumulator'
+import { sampleTypeOf } from '@server/compute/raw-stacks/strip-samples.decoder'
 
 const uint16 = sampleTypeOf('uint', 16, true, 0)
 

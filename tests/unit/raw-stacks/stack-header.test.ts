@@ -3,7 +3,7 @@ import { truncateSync, writeFileSync } from 'node:fs'
 import { fromFile, writeArrayBuffer } from 'geotiff'
 import sharp from 'sharp'
 import { afterAll, describe, expect, it } from 'vitest'
-import { RawStackError, readStackHeader } from '@server/modules/files/raw-stacks'
+import { RawStackError, readStackHeader } from '@server/compute/raw-stacks'
 import { patchUint, writeTiffStack } from '../../fixtures/tiff-writer'
 import { MINIMUM_OME_XML, classicValueField, ramp, temporaryFolder } from './stack-fixtures'
 

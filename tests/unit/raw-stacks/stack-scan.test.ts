@@ -3,7 +3,7 @@ import { truncateSync, writeFileSync } from 'node:fs'
 import { writeArrayBuffer } from 'geotiff'
 import sharp from 'sharp'
 import { afterAll, describe, expect, it } from 'vitest'
-import { readStackHeader, scanStack } from '@server/modules/files/raw-stacks'
+import { readStackHeader, scanStack } from '@server/compute/raw-stacks'
 import { patchUint, writeTiffStack, type TiffStackSpec } from '../../fixtures/tiff-writer'
 import { classicValueField, ramp, temporaryFolder } from './stack-fixtures'
 

@@ -5,7 +5,7 @@ import {
   contrastLimits,
   quantileOfSorted,
   renderThumbnail,
-} from '@server/modules/files/raw-stacks/thumbnail.renderer'
+} from '@server/compute/raw-stacks/thumbnail.renderer'
 
 const range = (n: number) => Float64Array.from({ length: n }, (_, i) => i)
 

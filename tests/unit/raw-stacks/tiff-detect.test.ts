@@ -2,7 +2,7 @@
 import { writeFileSync } from 'node:fs'
 import sharp from 'sharp'
 import { afterAll, describe, expect, it } from 'vitest'
-import { detectTiff, detectTiffBytes } from '@server/modules/files/raw-stacks'
+import { detectTiff, detectTiffBytes } from '@server/compute/raw-stacks'
 import { writeTiffStack } from '../../fixtures/tiff-writer'
 import { ramp, temporaryFolder } from './stack-fixtures'
 

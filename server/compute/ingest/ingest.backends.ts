@@ -9,7 +9,7 @@ import {
   type GroupedChunk,
 } from './chunk.processor'
 import type { ParsePlan } from './parse-plan'
-import type { TileGrid } from './tile.grid'
+import type { TileGrid } from '../store/tile.grid'
 
 export type ToWorker =
   | { type: 'begin'; plan: ParsePlan }

@@ -7,7 +7,7 @@
  */
 import type { FileHandle } from 'node:fs/promises'
 import { makeData, RecordBatch, RecordBatchFileWriter, Struct, type Schema } from 'apache-arrow'
-import { viewOf, BYTES_PER_VALUE, type OutputArray, type OutputKind } from './output.columns'
+import { viewOf, BYTES_PER_VALUE, type OutputArray, type OutputKind } from './store-columns'
 
 export interface ArrowSkeleton {
   /** holes[column][batch]: file offset of that column's values in that batch. */

@@ -8,7 +8,7 @@ import type { BufferPool } from './buffer.pool'
 import type { TableChunk } from './chunk.reader'
 import type { GridRule } from './chunk.processor'
 import type { ChunkBackend, InlineBackend, Processed } from './ingest.backends'
-import type { TileGrid } from './tile.grid'
+import type { TileGrid } from '../store/tile.grid'
 
 const MAX_IN_FLIGHT = 2
 

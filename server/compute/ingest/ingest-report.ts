@@ -12,7 +12,7 @@ import {
   type RejectReason,
 } from './rejections'
 import type { TableFormat } from './table-format.types'
-import type { Bounds, TileGrid } from './tile.grid'
+import type { Bounds, TileGrid } from '../store/tile.grid'
 
 export interface ColumnReport {
   name: string

@@ -6,10 +6,7 @@
  */
 import { availableParallelism } from 'node:os'
 import { stat } from 'node:fs/promises'
-import {
-  columnMappingSchema,
-  type ColumnMappingInput,
-} from '@shared/schemas/localization-mapping.schema'
+import { columnMappingSchema } from '@shared/schemas/localization-mapping.schema'
 import { BufferPool } from './buffer.pool'
 import { readRecordChunks } from './chunk.reader'
 import { processChunks } from './chunk.dispatcher'
@@ -23,31 +20,8 @@ import { BYTES_PER_VALUE } from './output.columns'
 import { buildReport } from './report.builder'
 import { sniffTable } from './sniff.service'
 import { TableFormatError } from './table-format.types'
-import type { FormatOverrides } from './table.sniffer'
-import { planGrid, type Bounds, type TileGrid } from './tile.grid'
-
-export interface IngestOptions {
-  sourcePath: string
-  /** The Arrow file to write; its index goes to `<outputPath>.index.json`. */
-  outputPath: string
-  mapping: ColumnMappingInput
-  /** Called with 0…1, at least every ~2 % of the input bytes. */
-  onProgress?: (fraction: number) => void
-  /** What the depositor declared, over what the sniffer finds. */
-  format?: FormatOverrides
-  /** What one table may cost; an ingest past any of them stops with a TableFormatError. */
-  limits?: IngestLimits
-  /** For tests and benchmarks: worker count (0 = this thread), chunk size, rows per tile. */
-  tuning?: { workers?: number; chunkBytes?: number; rowsPerTile?: number }
-}
-
-export interface IngestLimits {
-  /** Gzip: text bytes per compressed byte. */
-  maxExpansion?: number
-  maxRows?: number
-  /** Bytes the localization store may take (the project's remaining quota). */
-  maxOutputBytes?: number
-}
+import type { IngestLimits, IngestOptions } from './ingest-options'
+import { planGrid, type Bounds, type TileGrid } from '../store/tile.grid'
 
 const INLINE_BELOW_BYTES = 8 << 20
 

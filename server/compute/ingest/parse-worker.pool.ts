@@ -3,31 +3,14 @@
  * tsx to read our TypeScript), more than parsing a small table. Idle workers are unreferenced, so
  * they never keep the process alive, and stop after five idle minutes.
  */
-import { createRequire } from 'node:module'
-import { pathToFileURL } from 'node:url'
-import { Worker } from 'node:worker_threads'
+import type { Worker } from 'node:worker_threads'
+import { startThread } from '../../threads'
 import type { ChunkBackend, FromWorker, Processed, ToWorker } from './ingest.backends'
 import type { ParsePlan } from './parse-plan'
-import type { TileGrid } from './tile.grid'
+import type { TileGrid } from '../store/tile.grid'
 
 const IDLE_MS = 5 * 60_000
-
-/** Node 20 does not pass module hooks to workers: a TypeScript entry registers tsx first. */
-const BOOTSTRAP = `
-const { workerData } = require('node:worker_threads')
-const ready = workerData.tsxApi ? import(workerData.tsxApi).then((tsx) => tsx.register()) : Promise.resolve()
-ready.then(() => import(workerData.entry))`
-const entry = new URL(
-  `./parse.worker${import.meta.url.endsWith('.ts') ? '.ts' : '.js'}`,
-  import.meta.url,
-).href
-const tsxApi = entry.endsWith('.ts')
-  ? pathToFileURL(
-      createRequire(import.meta.url)
-        .resolve('tsx/esm/api')
-        .replace(/\.cjs$/, '.mjs'),
-    ).href
-  : null
+const ENTRY = new URL('./parse.worker.ts', import.meta.url)
 
 interface Pending {
   resolve: (value: Processed) => void
@@ -37,7 +20,7 @@ interface Pending {
 export class ParseWorker implements ChunkBackend {
   ready = false
   failure: Error | null = null
-  private readonly worker = new Worker(BOOTSTRAP, { eval: true, workerData: { entry, tsxApi } })
+  private readonly worker: Worker = startThread(ENTRY)
   private readonly pending = new Map<number, Pending>()
   private idleTimer: NodeJS.Timeout | null = null
 

@@ -1,8 +1,8 @@
-/** Localization tables: sniff, ingest into a tile-ordered Arrow file, read regions back. */
+/** Localization tables: sniff, and ingest into the localization store (see ../store). */
 export { sniffTable } from './sniff.service'
-export { ingestLocalizationTable, type IngestOptions } from './ingest.service'
+export { ingestLocalizationTable } from './ingest.service'
+export type { IngestLimits, IngestOptions } from './ingest-options'
 export { prestartParseWorkers } from './parse-worker.pool'
-export { readTilesInBox, type BoxRows } from './tile.reader'
 export type { IngestReport, ColumnReport } from './ingest-report'
 export type { FormatOverrides } from './table.sniffer'
 export {
@@ -13,5 +13,3 @@ export {
   type TableSniff,
 } from './table-format.types'
 export { REJECT_REASONS, REJECT_DESCRIPTIONS, type RejectReason } from './rejections'
-export { indexPathFor, readTileIndex, type TileIndex } from './tile.index'
-export type { Bounds, TileGrid } from './tile.grid'

@@ -4,7 +4,7 @@
  * column of a batch is one gathered write of those slices: no copy of the table is made.
  */
 import type { FileHandle } from 'node:fs/promises'
-import type { ArrowSkeleton } from './arrow-skeleton.writer'
+import type { ArrowSkeleton } from '../store/arrow-skeleton.writer'
 import type { GroupedChunk } from './chunk.processor'
 import type { OutputKind } from './output.columns'
 

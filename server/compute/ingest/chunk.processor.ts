@@ -7,7 +7,7 @@ import { ChunkParser } from './chunk.parser'
 import type { ParsePlan } from './parse-plan'
 import type { RejectionTallies } from './rejections'
 import type { StoredArray } from './slot.columns'
-import type { TileGrid } from './tile.grid'
+import type { TileGrid } from '../store/tile.grid'
 import {
   emptyLike,
   newTally,

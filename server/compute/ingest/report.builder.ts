@@ -8,8 +8,8 @@ import {
 } from './ingest-report'
 import type { ParsePlan } from './parse-plan'
 import type { TableSniff } from './table-format.types'
-import type { Bounds, TileGrid } from './tile.grid'
-import { indexPathFor } from './tile.index'
+import type { Bounds, TileGrid } from '../store/tile.grid'
+import { indexPathFor } from '../store/tile.index'
 
 export interface Outcome {
   sniff: TableSniff

@@ -4,18 +4,18 @@
  */
 import { open } from 'node:fs/promises'
 import type { Schema } from 'apache-arrow'
-import { writeArrowSkeleton } from './arrow-skeleton.writer'
+import { writeArrowSkeleton } from '../store/arrow-skeleton.writer'
 import { writeBatches, type TileBatch } from './batch.writer'
 import type { GroupedChunk } from './chunk.processor'
-import type { IngestOptions } from './ingest.service'
+import type { IngestOptions } from './ingest-options'
 import { boundsOf, type Totals } from './ingest-report'
 import { outputKinds, type OutputKind } from './output.columns'
 import { outputSchema } from './output.schema'
 import { slotOf, type ParsePlan } from './parse-plan'
 import type { Outcome } from './report.builder'
 import type { TableSniff } from './table-format.types'
-import type { TileGrid } from './tile.grid'
-import { buildTileIndex, writeTileIndex, type WrittenTile } from './tile.index'
+import type { TileGrid } from '../store/tile.grid'
+import { buildTileIndex, writeTileIndex, type WrittenTile } from '../store/tile.index'
 
 /** Share of the progress bar for reading and parsing; the rest is writing. */
 export const PARSED_SHARE = 0.9
