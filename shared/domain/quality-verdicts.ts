@@ -4,7 +4,17 @@
  * the table’s own precision) and says what a difference usually means. Pure functions of numbers.
  */
 
-export type VerdictTone = 'good' | 'fair' | 'poor' | 'note'
+/** From the best to the worst; 'note' says something is unusual without judging it. */
+export const VERDICT_TONES = ['good', 'note', 'fair', 'poor'] as const
+export type VerdictTone = (typeof VERDICT_TONES)[number]
+
+/** What each tone is called beside its verdict, on the page and in the printed report. */
+export const VERDICT_TONE_LABELS: Record<VerdictTone, string> = {
+  good: 'Good',
+  note: 'Note',
+  fair: 'Worth a look',
+  poor: 'A problem',
+}
 
 export interface Verdict {
   tone: VerdictTone

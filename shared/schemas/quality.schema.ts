@@ -1,4 +1,5 @@
 import { z } from 'zod'
+import { VERDICT_TONES } from '../domain/quality-verdicts'
 
 /**
  * `GET /api/datasets/:id/files/:fileId/quality`: the quality report of one localization table.
@@ -65,3 +66,41 @@ export type QualityFindings = Omit<
   QualityReportDto,
   'status' | 'progress' | 'message' | 'computedAt' | 'error'
 >
+
+/** One aspect of a table's quality judged in words: the worst of its verdicts sets its tone. */
+export const qualityVerdictChipSchema = z.object({
+  /** The card it sums up: precision, nena, frc, drift. */
+  key: z.string(),
+  title: z.string(),
+  tone: z.enum(VERDICT_TONES),
+  /** The verdicts' sentences, for a tooltip or a screen reader. */
+  text: z.string(),
+})
+export type QualityVerdictChip = z.output<typeof qualityVerdictChipSchema>
+
+/**
+ * `GET /api/datasets/:id/quality`: one row per localization table of the dataset, with the
+ * state of its report and the few numbers a reader compares tables by.
+ */
+export const datasetQualityItemSchema = z
+  .object({
+    fileId: z.number().int(),
+    fileName: z.string(),
+    status: z.enum(QUALITY_STATUSES),
+    progress: z.number(),
+    /** What the work waits for or does, in words; why it failed (status 'failed'). */
+    message: z.string().nullable(),
+    computedAt: z.string().nullable(),
+    localizations: z.number().nullable(),
+    precisionMedianNm: z.number().nullable(),
+    frcResolutionNm: z.number().nullable(),
+    driftNm: z.number().nullable(),
+    verdicts: z.array(qualityVerdictChipSchema),
+  })
+  .meta({ id: 'DatasetQualityItem' })
+export type DatasetQualityItem = z.output<typeof datasetQualityItemSchema>
+
+export const datasetQualitySchema = z
+  .object({ items: z.array(datasetQualityItemSchema) })
+  .meta({ id: 'DatasetQuality' })
+export type DatasetQualityDto = z.output<typeof datasetQualitySchema>

@@ -108,7 +108,7 @@ export function datasetsRouter(deps: AppDeps): Router {
   router.use('/:id/comments', commentsRouter())
   router.use('/:id', datasetMetadataRouter(deps))
   router.use('/:id', filesRouter(deps))
-  router.use('/:id', qualityRouter())
+  router.use('/:id', qualityRouter(deps))
   if (deps.previews) router.use('/:id', previewRouter(deps.previews))
 
   return router

@@ -5,8 +5,9 @@ import {
   tileParamsSchema,
   tileQuerySchema,
 } from '@shared/schemas/preview.schema'
-import { qualityReportSchema } from '@shared/schemas/quality.schema'
-import { registerJsonRoute } from '../../openapi/registry'
+import { datasetQualitySchema, qualityReportSchema } from '@shared/schemas/quality.schema'
+import { PROBLEM_CONTENT_TYPE } from '@shared/api/problem'
+import { problemSchema, registerJsonRoute } from '../../openapi/registry'
 
 export function registerQualityPaths(registry: OpenAPIRegistry) {
   registerJsonRoute(registry, {
@@ -20,6 +21,38 @@ export function registerQualityPaths(registry: OpenAPIRegistry) {
     params: z.object({ idOrAccession: z.string(), fileId: z.number().int() }),
     response: qualityReportSchema,
     errors: [403, 404, 409],
+  })
+  registerJsonRoute(registry, {
+    method: 'get',
+    path: '/api/datasets/{idOrAccession}/quality',
+    summary:
+      'The quality of every localization table of a dataset: report state, headline numbers and verdicts',
+    description:
+      'Follows the preview right. One item per localization table; numbers are null until a report was computed, `verdicts` names each judged aspect with its worst tone.',
+    tags: ['Quality'],
+    params: z.object({ idOrAccession: z.string() }),
+    response: datasetQualitySchema,
+    errors: [403, 404],
+  })
+  const problem = (description: string) => ({
+    description,
+    content: { [PROBLEM_CONTENT_TYPE]: { schema: problemSchema } },
+  })
+  registry.registerPath({
+    method: 'get',
+    path: '/api/datasets/{idOrAccession}/files/{fileId}/quality/report.html',
+    summary:
+      'The quality report as one standalone HTML file (opens offline, prints): metrics, verdicts, plots as SVG and the whole field as a picture',
+    description:
+      'Follows the preview right. Sent as an attachment named after the accession and the table. A report that is not done answers 404.',
+    tags: ['Quality'],
+    request: { params: z.object({ idOrAccession: z.string(), fileId: z.number().int() }) },
+    responses: {
+      200: { description: 'HTML', content: { 'text/html': { schema: z.string() } } },
+      403: problem('Not allowed'),
+      404: problem('No such dataset or file, not visible to you, or the report is not done'),
+      409: problem('Not a localization table'),
+    },
   })
 }
 

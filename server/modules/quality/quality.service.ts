@@ -1,10 +1,10 @@
 import type { EntityManager } from '@mikro-orm/better-sqlite'
 import type { QualityFindings, QualityReportDto } from '@shared/schemas/quality.schema'
 import { ConflictError } from '../../errors/http-error'
-import { Job } from '../../jobs/job.entity'
+import { Job, type IJob } from '../../jobs/job.entity'
 import type { IDatasetFile } from '../files/dataset-file.entity'
 import { computeQualityJob } from './quality-jobs'
-import { QualityReport } from './quality-report.entity'
+import { QualityReport, type IQualityReport } from './quality-report.entity'
 
 const NOTHING_YET: QualityFindings = {
   localizations: null,
@@ -44,6 +44,15 @@ export async function qualityReportOf(
       { orderBy: { id: 'desc' } },
     ),
   ])
+  return reportAsRead(file, report, job)
+}
+
+/** The report a reader sees, from the stored findings and the latest quality job of the table. */
+export function reportAsRead(
+  file: IDatasetFile,
+  report: IQualityReport | null,
+  job: IJob | null,
+): QualityReportDto {
   const base = {
     ...(report?.findings ?? NOTHING_YET),
     computedAt: report?.computedAt.toISOString() ?? null,
