@@ -1,12 +1,13 @@
 /**
  * The quality computations on one localization store in a process of their own (for the peak
  * RSS), each step timed as the reference pipeline times its own: statistics, a 10 nm render of
- * the whole field, one FRC split at 5 nm over 4096², then the whole report (every metric).
+ * the whole field, one FRC split at 5 nm over 4096², then the whole report (every metric) as the
+ * job computes it, on two threads.
  * Prints `RESULT {json}`.
  * usage: tsx tests/bench/quality-child.ts <store.arrow>
  */
 import { computeFrc } from '@server/compute/frc'
-import { computeQuality } from '@server/compute/quality'
+import { computeQualityOnTwoThreads } from '@server/compute/quality'
 import { renderHistogram } from '@server/compute/render'
 import { tableStatistics } from '@server/compute/statistics'
 import { readLocalizations } from '@server/compute/store'
@@ -37,7 +38,7 @@ const steps: Record<string, number> = {}
 let last = performance.now()
 let lastStep = 'start'
 const [reportSeconds, report] = await seconds(() =>
-  computeQuality(locs, {}, (_f, step) => {
+  computeQualityOnTwoThreads(locs, {}, (_f, step) => {
     const now = performance.now()
     steps[lastStep] = (now - last) / 1000
     last = now

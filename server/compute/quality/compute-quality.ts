@@ -1,6 +1,6 @@
 import { abbeLimitNm } from '@shared/domain/optics'
 import type { QualityFindings, QualityMetric } from '@shared/schemas/quality.schema'
-import { applyDriftCorrection, estimateDrift } from '../drift'
+import { applyDriftCorrection, estimateDrift, type DriftTrajectory } from '../drift'
 import { computeFrc } from '../frc'
 import type { Localizations } from '../localizations.types'
 import { mergeLocalizations } from '../merge'
@@ -20,7 +20,7 @@ export interface QualityInputs {
 
 /** The steps of a report and the share of the work each stands for (progress). */
 const STEPS = { statistics: 0.1, merge: 0.1, nena: 0.1, frc: 0.3, drift: 0.2, frcCorrected: 0.2 }
-type Step = keyof typeof STEPS
+export type Step = keyof typeof STEPS
 
 /**
  * Every quality metric of one localization table, in the order a reader judges a dataset by:
@@ -33,30 +33,62 @@ export function computeQuality(
   inputs: QualityInputs = {},
   onProgress: (fraction: number, step: string) => void = () => {},
 ): QualityFindings {
+  const steps = stepTracker(onProgress)
+  const stats = steps.run('statistics', () => statisticsOf(locs, inputs))
+  const merge = steps.run('merge', () => mergeLocalizations(locs))
+  const nena = steps.run('nena', () => estimateNenaPrecision(locs))
+  const frc = steps.run('frc', () => computeFrc(locs))
+  const drift = steps.run('drift', () => estimateDrift(locs))
+  const frcCorrected = steps.run('frcCorrected', () => driftCorrectedFrc(locs, drift.trajectory))
+  onProgress(1, 'done')
+  return assembleFindings(locs, inputs, { stats, merge, nena, frc, drift, frcCorrected })
+}
+
+export type QualityParts = {
+  stats: ReturnType<typeof tableStatistics>
+  merge: ReturnType<typeof mergeLocalizations>
+  nena: ReturnType<typeof estimateNenaPrecision>
+  frc: ReturnType<typeof computeFrc>
+  drift: ReturnType<typeof estimateDrift>
+  frcCorrected: ReturnType<typeof computeFrc> | null
+}
+
+export const statisticsOf = (locs: Localizations, inputs: QualityInputs) =>
+  tableStatistics(locs, { precision: { pixelNm: inputs.pixelNm, detector: inputs.detector } })
+
+/** FRC of the table after subtracting the drift trajectory; null without one. */
+export function driftCorrectedFrc(locs: Localizations, trajectory: DriftTrajectory | null) {
+  return trajectory ? computeFrc({ ...locs, ...applyDriftCorrection(locs, trajectory) }) : null
+}
+
+/** Progress over the steps, each weighted by the share of the work it stands for. */
+export function stepTracker(onProgress: (fraction: number, step: string) => void) {
   let done = 0
-  const run = <T>(step: Step, work: () => T): T => {
-    onProgress(done, step)
-    const result = work()
-    done += STEPS[step]
-    return result
+  return {
+    run<T>(step: Step, work: () => T): T {
+      onProgress(done, step)
+      const result = work()
+      done += STEPS[step]
+      return result
+    },
+    started(step: Step) {
+      onProgress(done, step)
+    },
+    finished(step: Step) {
+      done += STEPS[step]
+    },
   }
-  const stats = run('statistics', () =>
-    tableStatistics(locs, { precision: { pixelNm: inputs.pixelNm, detector: inputs.detector } }),
-  )
-  const merge = run('merge', () => mergeLocalizations(locs))
-  const nena = run('nena', () => estimateNenaPrecision(locs))
-  const frc = run('frc', () => computeFrc(locs))
-  const drift = run('drift', () => estimateDrift(locs))
-  const frcCorrected = run('frcCorrected', () =>
-    drift.trajectory
-      ? computeFrc({ ...locs, ...applyDriftCorrection(locs, drift.trajectory) })
-      : null,
-  )
+}
+
+/** The report from its computed parts (the same whichever thread computed which part). */
+export function assembleFindings(
+  locs: Localizations,
+  inputs: QualityInputs,
+  { stats, merge, nena, frc, drift, frcCorrected }: QualityParts,
+): QualityFindings {
   const mergedDensity = merge.reason
     ? null
     : densityStatistics(locs, { mergedEvents: merge.events })
-  onProgress(1, 'done')
-
   const diffraction = diffractionMetric(inputs)
   const precision = stats.precision.value
   const densityValue = (mergedDensity?.value ?? stats.density.value) as {

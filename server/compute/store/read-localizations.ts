@@ -1,6 +1,7 @@
 import { readFile } from 'node:fs/promises'
 import { tableFromIPC } from 'apache-arrow'
 import type { Localizations, NumericColumn } from '../localizations.types'
+import { readStoreColumns } from './column-reader'
 
 /** Roles of the store whose column feeds a field of `Localizations` (first present wins). */
 const FIELDS: [keyof Omit<Localizations, 'count'>, string[]][] = [
@@ -28,14 +29,27 @@ const isNumeric = (v: unknown): v is NumericColumn =>
  * frames already. A table without frames gets frame 0 everywhere.
  */
 export async function readLocalizations(arrowPath: string): Promise<Localizations> {
-  const table = tableFromIPC(await readFile(arrowPath))
+  const wanted = new Set(FIELDS.flatMap(([, roles]) => roles))
+  const direct = await readStoreColumns(arrowPath, (field) =>
+    wanted.has(field.metadata.get('role') ?? ''),
+  )
   const byRole = new Map<string, NumericColumn>()
-  for (const field of table.schema.fields) {
-    const role = field.metadata.get('role')
-    const values: unknown = table.getChild(field.name)?.toArray()
-    if (role && !byRole.has(role) && isNumeric(values)) byRole.set(role, values)
+  let count: number
+  if (direct) {
+    count = direct.count
+    for (const [field, values] of direct.columns) {
+      const role = field.metadata.get('role')!
+      if (!byRole.has(role)) byRole.set(role, values)
+    }
+  } else {
+    const table = tableFromIPC(await readFile(arrowPath))
+    count = table.numRows
+    for (const field of table.schema.fields) {
+      const role = field.metadata.get('role')
+      const values: unknown = table.getChild(field.name)?.toArray()
+      if (role && !byRole.has(role) && isNumeric(values)) byRole.set(role, values)
+    }
   }
-  const count = table.numRows
   const locs: Partial<Localizations> = { count }
   for (const [key, roles] of FIELDS) {
     const column = roles.map((r) => byRole.get(r)).find(Boolean)

@@ -1,8 +1,11 @@
-import { computeQuality } from '../../compute/quality'
+import { availableParallelism } from 'node:os'
+import { computeQuality, computeQualityOnTwoThreads } from '../../compute/quality'
 import { readLocalizations } from '../../compute/store'
 import type { JobWork } from '../../jobs/job-protocol'
 import { derivedPaths } from '../files/file-jobs'
 import { computeQualityJob } from './quality-jobs'
+
+const TWO_THREADS_FROM_ROWS = 200_000
 
 const STEP_WORDS: Record<string, string> = {
   statistics: 'counting and distributions',
@@ -18,8 +21,12 @@ const STEP_WORDS: Record<string, string> = {
 export const computeQualityWork: JobWork = async (input, { storage, progress }) => {
   const payload = computeQualityJob.payload.parse(input)
   progress(0, 'reading the localizations')
+  const twoThreads = availableParallelism() > 1
   const locs = await readLocalizations(derivedPaths(storage, payload.fileId).columnar)
-  return computeQuality(locs, payload.inputs, (fraction, step) =>
-    progress(0.05 + 0.95 * fraction, STEP_WORDS[step] ?? step),
-  )
+  const onProgress = (fraction: number, step: string) =>
+    progress(0.05 + 0.95 * fraction, STEP_WORDS[step] ?? step)
+  // A second thread costs about a second to start (it loads the engines): worth it past small tables.
+  return twoThreads && locs.count >= TWO_THREADS_FROM_ROWS
+    ? computeQualityOnTwoThreads(locs, payload.inputs, onProgress)
+    : computeQuality(locs, payload.inputs, onProgress)
 }

@@ -1,0 +1,118 @@
+/**
+ * Reads whole columns of a store's Arrow file straight from disk into one array per column.
+ *
+ * Building an Arrow table first (read the file, then concatenate each column's batches) touches
+ * every byte twice in freshly allocated memory, and first touches of memory are what a large read
+ * costs here (≈3 ms per MB, against ≈0.04 ms to copy). So this reads the footer and each batch's
+ * metadata (small) with apache-arrow's own decoders, then reads each column's values of each batch
+ * into its place in the result. It handles what our writer writes (uncompressed primitive
+ * columns without nulls) and answers null for anything else, so the caller can take the general
+ * path.
+ */
+import { open, type FileHandle } from 'node:fs/promises'
+import { Message, MessageHeader, type Field, type Schema } from 'apache-arrow'
+import { Footer } from 'apache-arrow/ipc/metadata/file'
+import type { RecordBatch as BatchMetadata } from 'apache-arrow/ipc/metadata/message'
+
+/** The file's last bytes: footer length (int32), then the magic "ARROW1". */
+const TRAILER_BYTES = 10
+/** A message starts with the continuation marker and its metadata length, 4 bytes each. */
+const MESSAGE_PREFIX_BYTES = 8
+
+export type ColumnArray = Float64Array | Float32Array | Uint32Array | Uint16Array | Uint8Array
+
+interface ColumnPlan {
+  field: Field
+  bytesPerValue: number
+  make: (buffer: ArrayBufferLike, length: number) => ColumnArray
+}
+
+const PRIMITIVES: Record<string, ColumnPlan['make']> = {
+  Float64: (b, n) => new Float64Array(b, 0, n),
+  Float32: (b, n) => new Float32Array(b, 0, n),
+  Uint32: (b, n) => new Uint32Array(b, 0, n),
+  Uint16: (b, n) => new Uint16Array(b, 0, n),
+  Uint8: (b, n) => new Uint8Array(b, 0, n),
+}
+const BYTES: Record<string, number> = { Float64: 8, Float32: 4, Uint32: 4, Uint16: 2, Uint8: 1 }
+
+async function readAt(file: FileHandle, position: number, length: number): Promise<Uint8Array> {
+  const bytes = new Uint8Array(length)
+  for (let done = 0; done < length;) {
+    const { bytesRead } = await file.read(bytes, done, length - done, position + done)
+    if (bytesRead === 0) throw new Error('The localization store ends early.')
+    done += bytesRead
+  }
+  return bytes
+}
+
+async function readFooter(file: FileHandle) {
+  const { size } = await file.stat()
+  const trailer = await readAt(file, size - TRAILER_BYTES, 4)
+  const footerLength = new DataView(trailer.buffer).getInt32(0, true)
+  return Footer.decode(await readAt(file, size - TRAILER_BYTES - footerLength, footerLength))
+}
+
+function planColumns(schema: Schema, wanted: (field: Field) => boolean): ColumnPlan[] | null {
+  const plans: ColumnPlan[] = []
+  for (const field of schema.fields) {
+    const make = PRIMITIVES[String(field.type)]
+    if (!make) return null
+    plans.push({ field, bytesPerValue: BYTES[String(field.type)]!, make })
+  }
+  return plans.filter((p) => wanted(p.field))
+}
+
+/**
+ * The columns `wanted` picks, whole, each in one array; null when the file holds something this
+ * reader does not handle. (Not on SharedArrayBuffers: V8 reads those markedly slower, ≈30 % over
+ * a whole report here.)
+ */
+export async function readStoreColumns(
+  arrowPath: string,
+  wanted: (field: Field) => boolean,
+): Promise<{ count: number; columns: Map<Field, ColumnArray> } | null> {
+  const file = await open(arrowPath, 'r')
+  try {
+    const footer = await readFooter(file)
+    const fields = footer.schema.fields
+    const plans = planColumns(footer.schema, wanted)
+    if (!plans) return null
+    const batches: { body: number; metadata: BatchMetadata }[] = []
+    for (const block of footer.recordBatches()) {
+      const prefix = MESSAGE_PREFIX_BYTES
+      const bytes = await readAt(file, block.offset + prefix, block.metaDataLength - prefix)
+      const message = Message.decode(bytes)
+      if (message.headerType !== MessageHeader.RecordBatch) return null
+      const metadata = message.header() as BatchMetadata
+      const plain = !metadata.compression && metadata.buffers.length === fields.length * 2
+      if (!plain || metadata.nodes.some((n) => n.nullCount > 0)) return null
+      batches.push({ body: block.offset + block.metaDataLength, metadata })
+    }
+    const count = batches.reduce((n, b) => n + b.metadata.length, 0)
+    const columns = new Map<Field, ColumnArray>()
+    for (const plan of plans) {
+      const bytes = count * plan.bytesPerValue
+      const memory = new ArrayBuffer(bytes)
+      const target = new Uint8Array(memory)
+      const c = fields.indexOf(plan.field)
+      let offset = 0
+      for (const { body, metadata } of batches) {
+        const length = metadata.length * plan.bytesPerValue
+        const region = metadata.buffers[2 * c + 1]!
+        if (region.length < length) return null
+        for (let done = 0; done < length;) {
+          const at = body + region.offset + done
+          const { bytesRead } = await file.read(target, offset + done, length - done, at)
+          if (bytesRead === 0) throw new Error('The localization store ends early.')
+          done += bytesRead
+        }
+        offset += length
+      }
+      columns.set(plan.field, plan.make(memory, count))
+    }
+    return { count, columns }
+  } finally {
+    await file.close()
+  }
+}
