@@ -1,9 +1,15 @@
 import type { PreviewInfo, TileQuery } from '@shared/schemas/preview.schema'
-import type { QualityReportDto } from '@shared/schemas/quality.schema'
+import type { DatasetQualityDto, QualityReportDto } from '@shared/schemas/quality.schema'
 import { api } from './client'
 
 export type { PreviewInfo, TileQuery } from '@shared/schemas/preview.schema'
-export type { QualityMetric, QualityReportDto } from '@shared/schemas/quality.schema'
+export type {
+  DatasetQualityDto,
+  DatasetQualityItem,
+  QualityMetric,
+  QualityReportDto,
+  QualityVerdictChip,
+} from '@shared/schemas/quality.schema'
 
 /** The options of a tile; the server fills in a default for every one left out. */
 export type TileOptions = Partial<TileQuery>
@@ -16,6 +22,14 @@ const one = (datasetId: DatasetRef, fileId: number) =>
 
 export const getQuality = (datasetId: DatasetRef, fileId: number) =>
   api.get<QualityReportDto>(`${one(datasetId, fileId)}/quality`)
+
+/** The standalone HTML report of a finished table: a download, so a plain link, not a fetch. */
+export const qualityReportHtmlUrl = (datasetId: DatasetRef, fileId: number) =>
+  `${one(datasetId, fileId)}/quality/report.html`
+
+/** Every localization table of a dataset with its report's state, headline numbers and verdicts. */
+export const getDatasetQuality = (datasetId: DatasetRef) =>
+  api.get<DatasetQualityDto>(`/api/datasets/${encodeURIComponent(String(datasetId))}/quality`)
 
 export const getPreviewInfo = (datasetId: DatasetRef, fileId: number) =>
   api.get<PreviewInfo>(`${one(datasetId, fileId)}/preview`)

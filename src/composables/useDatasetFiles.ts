@@ -1,20 +1,16 @@
-import {
-  computed,
-  onScopeDispose,
-  ref,
-  shallowRef,
-  toValue,
-  watch,
-  type MaybeRefOrGetter,
-} from 'vue'
+import { computed, toValue, watch, type MaybeRefOrGetter } from 'vue'
 import { errorMessage } from '@/api/client'
 import * as api from '@/api/files'
 import type {
   ColumnMappingInput,
   TableFormatChoice,
 } from '@shared/schemas/localization-mapping.schema'
+import { usePolledRequest } from './usePolledRequest'
 
 export const POLL_MS = 1_500
+
+const anyProcessing = (answer: api.FilesAnswer | null) =>
+  !!answer?.items.some((f) => f.status === 'processing')
 
 /**
  * A dataset's files, loaded while `enabled` (the Files tab is open). While any file is being
@@ -25,48 +21,22 @@ export function useDatasetFiles(
   datasetId: MaybeRefOrGetter<number | null>,
   enabled: MaybeRefOrGetter<boolean>,
 ) {
-  const answer = shallowRef<api.FilesAnswer | null>(null)
-  const loading = ref(false)
-  const error = ref<string | null>(null)
-  let timer: ReturnType<typeof setTimeout> | null = null
-  let latest = 0
-
-  const files = computed(() => answer.value?.items ?? [])
-  const uploadsInProgress = computed(() => answer.value?.uploadsInProgress ?? [])
-  const processing = computed(() => files.value.some((f) => f.status === 'processing'))
-
-  function stopPolling() {
-    if (timer !== null) clearTimeout(timer)
-    timer = null
-  }
-
-  async function reload(): Promise<void> {
-    const id = toValue(datasetId)
-    stopPolling()
-    if (id === null || !toValue(enabled)) return
-    const mine = ++latest
-    loading.value = true
-    try {
-      const next = await api.listFiles(id)
-      if (mine !== latest) return
-      answer.value = next
-      error.value = null
-    } catch (e) {
-      if (mine === latest) error.value = errorMessage(e)
-    } finally {
-      if (mine === latest) loading.value = false
-    }
-    if (mine === latest && processing.value && toValue(enabled)) {
-      timer = setTimeout(() => void reload(), POLL_MS)
-    }
-  }
+  const request = usePolledRequest(
+    () => {
+      const id = toValue(datasetId)
+      return id === null || !toValue(enabled) ? null : api.listFiles(id)
+    },
+    // A failed request keeps polling while the last answer still had files in processing.
+    { everyMs: POLL_MS, again: (answer) => anyProcessing(answer) && toValue(enabled) },
+  )
+  const { loading, reload } = request
+  const error = computed(() => (request.error.value ? errorMessage(request.error.value) : null))
+  const files = computed(() => request.data.value?.items ?? [])
+  const uploadsInProgress = computed(() => request.data.value?.uploadsInProgress ?? [])
+  const processing = computed(() => anyProcessing(request.data.value))
 
   watch([() => toValue(datasetId), () => toValue(enabled)], () => void reload(), {
     immediate: true,
-  })
-  onScopeDispose(() => {
-    latest++
-    stopPolling()
   })
 
   const need = () => {

@@ -1,15 +1,10 @@
-import {
-  computed,
-  onScopeDispose,
-  ref,
-  shallowRef,
-  toValue,
-  watch,
-  type MaybeRefOrGetter,
-} from 'vue'
+import { computed, toValue, watch, type MaybeRefOrGetter } from 'vue'
 import { getQuality, type DatasetRef, type QualityReportDto } from '@/api/quality'
+import { usePolledRequest } from './usePolledRequest'
 
 export const QUALITY_POLL_MS = 1_500
+
+const computing = (r: QualityReportDto | null) => r?.status === 'queued' || r?.status === 'running'
 
 /**
  * The quality report of one table. While the report is queued or being computed it is asked
@@ -20,53 +15,21 @@ export function useQualityReport(
   datasetId: MaybeRefOrGetter<DatasetRef>,
   fileId: MaybeRefOrGetter<number>,
 ) {
-  const report = shallowRef<QualityReportDto | null>(null)
-  /** The last request's failure as thrown (an ApiError carries the status). */
-  const error = shallowRef<unknown>(null)
-  const loading = ref(false)
-  let timer: ReturnType<typeof setTimeout> | null = null
-  let latest = 0
-
-  const pending = computed(
-    () => report.value?.status === 'queued' || report.value?.status === 'running',
-  )
-
-  function stop() {
-    if (timer !== null) clearTimeout(timer)
-    timer = null
-  }
-
-  async function reload(): Promise<void> {
-    stop()
-    const mine = ++latest
-    loading.value = true
-    try {
-      const next = await getQuality(toValue(datasetId), toValue(fileId))
-      if (mine !== latest) return
-      report.value = next
-      error.value = null
-    } catch (e) {
-      if (mine === latest) error.value = e
-    } finally {
-      if (mine === latest) loading.value = false
-    }
-    if (mine === latest && !error.value && pending.value)
-      timer = setTimeout(() => void reload(), QUALITY_POLL_MS)
-  }
+  const request = usePolledRequest(() => getQuality(toValue(datasetId), toValue(fileId)), {
+    everyMs: QUALITY_POLL_MS,
+    again: (report, failed) => !failed && computing(report),
+  })
+  const pending = computed(() => computing(request.data.value))
 
   watch(
     [() => toValue(datasetId), () => toValue(fileId)],
     () => {
-      report.value = null
-      error.value = null
-      void reload()
+      request.clear()
+      void request.reload()
     },
     { immediate: true },
   )
-  onScopeDispose(() => {
-    latest++
-    stop()
-  })
 
+  const { data: report, error, loading, reload } = request
   return { report, error, loading, pending, reload }
 }

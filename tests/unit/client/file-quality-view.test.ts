@@ -23,7 +23,8 @@ const api = vi.hoisted(() => ({
   getDataset: vi.fn(),
   listFiles: vi.fn(),
 }))
-vi.mock('@/api/quality', () => ({
+vi.mock('@/api/quality', async (actual) => ({
+  ...(await actual<typeof import('@/api/quality')>()),
   getQuality: api.getQuality,
   getPreviewInfo: api.getPreviewInfo,
 }))
@@ -91,6 +92,11 @@ describe('the quality page of a table', () => {
     const progress = wrapper.find('[data-testid="quality-progress"]')
     expect(progress.text()).toContain('Computing the quality report: frc · 42 %')
     expect(progress.find('[role="progressbar"]').attributes('aria-valuenow')).toBe('42')
+    // No HTML report before the report is done: the button is there, but disabled.
+    const download = wrapper.find('[data-testid="download-report"]')
+    expect(download.text()).toBe('Download report (HTML)')
+    expect(download.attributes('disabled')).toBeDefined()
+    expect(download.attributes('href')).toBeUndefined()
     // The preview does not wait for the report.
     expect(wrapper.find('[data-testid="preview-map"]').exists()).toBe(true)
     for (const label of ['Colour by', 'Colormap', 'Brightness', 'Render mode', 'Frames'])
@@ -136,6 +142,14 @@ describe('the quality page of a table', () => {
     expect(method.text()).toContain('frames per segment')
     const captions = wrapper.findAll('[data-testid="chart"]').map((c) => c.text())
     expect(captions).toHaveLength(4)
+    // A finished report downloads as one HTML file from the server's report route.
+    const download = wrapper.find('[data-testid="download-report"]')
+    expect(download.element.tagName).toBe('A')
+    expect(download.attributes('href')).toBe(
+      '/api/datasets/STPL-000001/files/8/quality/report.html',
+    )
+    expect(download.attributes('download')).toBeDefined()
+    expect(download.attributes('disabled')).toBeUndefined()
     expect(captions).toContain(
       'The FRC of two halves of the acquisition crosses the 1/7 threshold at 32 nm. After drift correction it crosses at 25 nm.',
     )
@@ -161,6 +175,7 @@ describe('the quality page of a table', () => {
       'The previews of this dataset are not open to you',
     )
     expect(wrapper.find('[data-testid="preview-map"]').exists()).toBe(false)
+    expect(wrapper.find('[data-testid="download-report"]').exists()).toBe(false)
     wrapper.unmount()
   })
 
