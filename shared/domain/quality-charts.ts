@@ -76,7 +76,12 @@ export function histogramOption(
   return {
     grid,
     tooltip: { trigger: 'axis' },
-    xAxis: valueAxis(axisTitle, { min: d.edges[0], max: d.edges[d.edges.length - 1] }),
+    // The axis ends at the last bin edge, whatever its digits: labels are rounded like the rest.
+    xAxis: valueAxis(axisTitle, {
+      min: d.edges[0],
+      max: d.edges[d.edges.length - 1],
+      axisLabel: { formatter: (value: number) => fmt.format(value) },
+    }),
     yAxis: yAxis('localizations'),
     series: [
       line('localizations', stepPoints(d.edges, d.counts), {

@@ -160,19 +160,38 @@ describe('the downloadable HTML report', () => {
       expect(squash(textOf(v))).toMatch(/^(Good|Note|Worth a look|A problem) \w/)
   })
 
-  it('draws the plots as inline SVG and the whole field as an embedded 256 px PNG', async () => {
+  it('draws the plots as inline SVG and the whole field as an embedded PNG', async () => {
     expect(page).toContain('<svg')
     const plots = find((e) => e.name === 'figure' && e.attribs.class === 'plot')
     expect(plots.map((p) => p.attribs['data-plot'])).toEqual(
       expect.arrayContaining(['photons', 'precision', 'frc', 'drift']),
     )
-    for (const plot of plots)
-      expect(elements(plot.children).some((e) => e.name === 'svg')).toBe(true)
+    for (const plot of plots) {
+      const svg = elements(plot.children).filter((e) => e.name === 'svg')
+      expect(svg).toHaveLength(1)
+      // Well-formed markup: a quote inside a style would leave stray attribute names behind.
+      for (const e of elements(svg))
+        for (const name of Object.keys(e.attribs)) expect(name).toMatch(/^[a-z][\w:-]*$/i)
+    }
     const [img] = find((e) => e.name === 'img')
     const match = /^data:image\/png;base64,(.+)$/.exec(img!.attribs.src ?? '')
     expect(match).not.toBeNull()
-    const meta = await sharp(Buffer.from(match![1]!, 'base64')).metadata()
-    expect([meta.format, meta.width, meta.height]).toEqual(['png', 256, 256])
+    const png = Buffer.from(match![1]!, 'base64')
+    const meta = await sharp(png).metadata()
+    expect(meta.format).toBe('png')
+    expect([String(meta.width), String(meta.height)]).toEqual([
+      img!.attribs.width,
+      img!.attribs.height,
+    ])
+    // The data's bounding box (the preview's description), not the pyramid's larger square, and
+    // big enough to see: at least 256 px across.
+    const { boundsNm } = (await get('/preview', 'member')).body
+    const aspect = (boundsNm.xMax - boundsNm.xMin) / (boundsNm.yMax - boundsNm.yMin)
+    expect(meta.width! / meta.height!).toBeCloseTo(aspect, 1)
+    expect(Math.max(meta.width!, meta.height!)).toBeGreaterThanOrEqual(256)
+    // Localizations were drawn: some pixels are not black.
+    const { channels } = await sharp(png).stats()
+    expect(Math.max(...channels.slice(0, 3).map((c) => c.max))).toBeGreaterThan(0)
   })
 
   it('asks for nothing from elsewhere: no http(s) address in src, href or url()', () => {

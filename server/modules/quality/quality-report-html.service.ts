@@ -5,7 +5,8 @@ import type { Logger } from '../../logger'
 import type { IDataset } from '../datasets/dataset.entity'
 import type { IDatasetFile } from '../files/dataset-file.entity'
 import type { PreviewService } from '../preview/preview.service'
-import { reportPage, type FieldPicture } from './report-html/report-page'
+import { fieldPicture, type FieldPicture } from './report-html/field-picture'
+import { reportPage } from './report-html/report-page'
 import { qualityReportOf } from './quality.service'
 
 export interface QualityReportFile {
@@ -34,7 +35,7 @@ export async function qualityReportHtml(
   let field: FieldPicture | null = null
   if (deps.previews)
     // A report without its picture is still worth having: say so in the page, log why.
-    field = await fieldPicture(deps.previews, file).catch((err: unknown) => {
+    field = await pictureOf(deps.previews, file).catch((err: unknown) => {
       deps.logger?.error({ err, file: file.id }, 'quality report: the field picture failed')
       return null
     })
@@ -50,11 +51,12 @@ export async function qualityReportHtml(
   }
 }
 
-/** Level 0 of the preview (the whole field in one tile) with the default rendering options. */
-async function fieldPicture(previews: PreviewService, file: IDatasetFile): Promise<FieldPicture> {
-  const info = await previews.info(file)
-  const png = await previews.tile(file, 0, 0, 0, tileQuerySchema.parse({}))
-  return { png, extentNm: info.extentNm, pixelNm: info.resolutionsNm[0] ?? info.extentNm / 256 }
+/** The whole field from the preview's tiles, drawn with the default options (as the page opens). */
+async function pictureOf(previews: PreviewService, file: IDatasetFile): Promise<FieldPicture> {
+  const defaults = tileQuerySchema.parse({})
+  return fieldPicture(await previews.info(file), (z, x, y) =>
+    previews.tile(file, z, x, y, defaults),
+  )
 }
 
 /**

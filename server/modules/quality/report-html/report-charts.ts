@@ -30,7 +30,10 @@ registerTheme(PRINT_THEME, {
   // The app's amber, darkened to read on white, then an azure that stays apart from it.
   color: ['#c0661a', '#2f7fc1', '#3f8f4a', '#a8558c'],
   backgroundColor: '#ffffff',
-  textStyle: { color: INK, fontFamily: 'system-ui, -apple-system, "Segoe UI", sans-serif' },
+  // Without a canvas, ECharts lays text out with Arial's widths: draw it in Arial or a font of
+  // the same metrics (Liberation Sans), so legends and labels do not run into each other. No
+  // quotes: ECharts writes the family into a double-quoted style attribute as it is.
+  textStyle: { color: INK, fontFamily: 'Arial, Helvetica, Liberation Sans, sans-serif' },
   legend: { textStyle: { color: INK } },
   valueAxis: axis,
 })

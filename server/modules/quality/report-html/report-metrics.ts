@@ -7,6 +7,7 @@ const METRIC_TITLES: Record<string, string> = {
   photons: 'Photons per localization',
   background: 'Background',
   sigma: 'PSF width',
+  uncertainty: 'Uncertainty column',
   z: 'Depth',
   perFrame: 'Localizations per frame',
   precision: 'Localization precision',
@@ -38,6 +39,7 @@ export function fieldLabel(path: string): string {
     .map((key) =>
       key
         .replace(/PerUm2$/, ' per µm²')
+        .replace(/PerNm$/, ' per nm')
         .replace(/Um2$/, ' (µm²)')
         .replace(/Nm$/, ' (nm)')
         .replace(/([a-z])([A-Z])/g, '$1 $2')
@@ -84,6 +86,7 @@ function metricSection(key: string, metric: QualityMetric): SafeHtml {
   const parameters = Object.entries(metric.parameters)
   return html`<article class="metric" data-metric="${key}">
     <h3>${METRIC_TITLES[key] ?? key}</h3>
+    <p class="method"><span class="label">Method:</span> ${metric.method}</p>
     ${
       metric.value === null
         ? html`<p class="reason" data-reason>
@@ -98,7 +101,6 @@ function metricSection(key: string, metric: QualityMetric): SafeHtml {
             </table>`
           : html`<p class="quiet">Its values are drawn in the plots above.</p>`
     }
-    <p class="method"><span class="label">Method</span> ${metric.method}</p>
     ${
       parameters.length
         ? html`<table class="parameters">

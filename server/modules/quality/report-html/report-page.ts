@@ -2,17 +2,10 @@ import { qualityCards, type QualityCard } from '@shared/domain/quality-cards'
 import { lengthText, VERDICT_TONE_LABELS } from '@shared/domain/quality-verdicts'
 import type { QualityReportDto } from '@shared/schemas/quality.schema'
 import { html, trusted, type SafeHtml } from './escape'
+import type { FieldPicture } from './field-picture'
 import { renderedPlots } from './report-charts'
 import { metricsSection } from './report-metrics'
 import { REPORT_STYLES } from './report-styles'
-
-/** The whole field as the preview's level-0 tile draws it. */
-export interface FieldPicture {
-  png: Uint8Array
-  /** Side of the tile in the sample, nm, and one pixel of it. */
-  extentNm: number
-  pixelNm: number
-}
 
 export interface ReportPageInput {
   dataset: { accession: string; title: string }
@@ -65,17 +58,15 @@ function fieldHtml(field: FieldPicture | null): SafeHtml {
   if (!field)
     return html`<p class="quiet">The picture of the field could not be made for this report.</p>`
   const src = `data:image/png;base64,${Buffer.from(field.png).toString('base64')}`
+  const size = `${lengthText(field.widthNm)} × ${lengthText(field.heightNm)}`
   return html`<figure class="field">
     <img
       src="${src}"
-      width="256"
-      height="256"
+      width="${field.widthPx}"
+      height="${field.heightPx}"
       alt="The whole field of localizations, rendered as a density image"
     />
-    <figcaption>
-      The whole field, ${lengthText(field.extentNm)} across (${lengthText(field.pixelNm)} per
-      pixel).
-    </figcaption>
+    <figcaption>The whole field, ${size}, ${lengthText(field.pixelNm)} per pixel.</figcaption>
   </figure>`
 }
 

@@ -19,10 +19,9 @@ p { margin: 0 0 8px; }
 .facts { display: grid; grid-template-columns: max-content 1fr; gap: 2px 16px; margin: 0; }
 .facts dt { color: var(--quiet); }
 .facts dd { margin: 0; overflow-wrap: anywhere; }
-.overview { display: flex; gap: 24px; align-items: flex-start; flex-wrap: wrap; }
-.overview > div { flex: 1 1 260px; }
+.overview { display: grid; grid-template-columns: minmax(0, 1fr) 300px; gap: 24px; align-items: start; }
 .field { margin: 0; }
-.field img { display: block; width: 256px; height: 256px; background: #000; border-radius: 4px; image-rendering: auto; }
+.field img { display: block; max-width: 100%; height: auto; background: #000; border-radius: 4px; }
 .field figcaption, figure figcaption, .quiet { color: var(--quiet); font-size: .875rem; }
 .cards { display: grid; grid-template-columns: repeat(2, minmax(0, 1fr)); gap: 12px; }
 .card { border: 1px solid var(--rule); border-radius: 8px; padding: 12px 14px; break-inside: avoid; }
@@ -36,16 +35,19 @@ p { margin: 0 0 8px; }
 .plot { margin: 0 0 20px; break-inside: avoid; }
 .plot svg { display: block; width: 100%; height: auto; border: 1px solid var(--rule); border-radius: 4px; }
 .metrics { display: grid; gap: 12px; }
-.metric { border-top: 1px solid var(--rule); padding-top: 10px; break-inside: avoid; }
-.method .label { display: inline-block; min-width: 5.5em; color: var(--quiet); }
+.metric { border-top: 1px solid var(--rule); padding-top: 10px; break-inside: avoid;
+  display: grid; grid-template-columns: repeat(2, minmax(0, 1fr)); gap: 0 24px; align-items: start; }
+.metric > h3, .metric > p { grid-column: 1 / -1; }
+.method { font-size: .9rem; }
+.method .label { color: var(--quiet); }
 table { border-collapse: collapse; margin: 0 0 8px; font-size: .875rem; }
 caption { text-align: left; color: var(--quiet); font-size: .8rem; }
 th, td { text-align: left; padding: 1px 16px 1px 0; vertical-align: top; }
 th { font-weight: 400; color: var(--quiet); }
 td { font-variant-numeric: tabular-nums; overflow-wrap: anywhere; }
-.reason { color: var(--poor); }
+.reason { color: var(--quiet); font-style: italic; }
 footer { margin-top: 40px; color: var(--quiet); font-size: .8rem; }
-@media (max-width: 640px) { main { padding: 20px; } .cards { grid-template-columns: 1fr; } }
+@media (max-width: 640px) { main { padding: 20px; } .cards, .overview, .metric { grid-template-columns: 1fr; } }
 @media print {
   @page { margin: 16mm; }
   html { background: #fff; font-size: 11pt; }
