@@ -6,6 +6,7 @@ import { benchDatasetList } from './datasets-list.bench'
 import { benchIngest } from './ingest.bench'
 import { benchQuality } from './quality.bench'
 import { benchRawStack } from './raw-stack.bench'
+import { benchTiles } from './tiles.bench'
 import { benchUpload } from './upload.bench'
 
 const only = process.argv[2]
@@ -14,6 +15,7 @@ const benches: Record<string, () => Promise<Record<string, unknown>>> = {
   ingest: benchIngest,
   quality: benchQuality,
   'raw-stack': benchRawStack,
+  tiles: benchTiles,
   upload: benchUpload,
 }
 

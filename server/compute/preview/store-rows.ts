@@ -1,5 +1,5 @@
 import { stat } from 'node:fs/promises'
-import { readTileIndex, readTilesInBox, type TileIndex } from '../store'
+import { readTileIndex, readTilesInBox, StoreBoxReader, type TileIndex } from '../store'
 import type { Localizations, NumericColumn } from '../localizations.types'
 import type { BoundsNm } from '../render'
 
@@ -26,14 +26,20 @@ async function indexOf(arrowPath: string): Promise<TileIndex> {
   return index
 }
 
+/** This thread's reader: stores stay open and scratch memory is reused from tile to tile. */
+const boxReader = new StoreBoxReader()
+
 /**
- * The localizations of a store inside a box, read from the tiles of the store that meet it. The
- * store's index (a JSON file listing every tile) is parsed once per store, not once per tile.
+ * The localizations of a store inside a box (the columns rendering reads), from the store tiles
+ * that meet it. The store's index is parsed once per store, not once per tile.
  */
 export async function localizationsInBox(arrowPath: string, box: BoundsNm): Promise<Localizations> {
   const index = await indexOf(arrowPath)
   const columns = index.columns
-  const rows = await readTilesInBox(arrowPath, box, index)
+  const rendered = new Set(columns.filter((c) => c.role && ROLE_FIELDS[c.role]).map((c) => c.name))
+  const rows =
+    (await boxReader.rowsInBox(arrowPath, box, (name) => rendered.has(name))) ??
+    (await readTilesInBox(arrowPath, box, index))
   const locs: Partial<Record<keyof Localizations, NumericColumn | number>> = {
     count: rows.rowCount,
   }

@@ -10,7 +10,7 @@
  * path.
  */
 import { open, type FileHandle } from 'node:fs/promises'
-import { Message, MessageHeader, type Field, type Schema } from 'apache-arrow'
+import { Message, MessageHeader, type Field } from 'apache-arrow'
 import { Footer } from 'apache-arrow/ipc/metadata/file'
 import type { RecordBatch as BatchMetadata } from 'apache-arrow/ipc/metadata/message'
 
@@ -21,13 +21,9 @@ const MESSAGE_PREFIX_BYTES = 8
 
 export type ColumnArray = Float64Array | Float32Array | Uint32Array | Uint16Array | Uint8Array
 
-interface ColumnPlan {
-  field: Field
-  bytesPerValue: number
-  make: (buffer: ArrayBufferLike, length: number) => ColumnArray
-}
+type MakeColumn = (buffer: ArrayBufferLike, length: number) => ColumnArray
 
-const PRIMITIVES: Record<string, ColumnPlan['make']> = {
+const PRIMITIVES: Record<string, MakeColumn> = {
   Float64: (b, n) => new Float64Array(b, 0, n),
   Float32: (b, n) => new Float32Array(b, 0, n),
   Uint32: (b, n) => new Uint32Array(b, 0, n),
@@ -38,11 +34,7 @@ const BYTES: Record<string, number> = { Float64: 8, Float32: 4, Uint32: 4, Uint1
 
 async function readAt(file: FileHandle, position: number, length: number): Promise<Uint8Array> {
   const bytes = new Uint8Array(length)
-  for (let done = 0; done < length;) {
-    const { bytesRead } = await file.read(bytes, done, length - done, position + done)
-    if (bytesRead === 0) throw new Error('The localization store ends early.')
-    done += bytesRead
-  }
+  await readInto(file, bytes, 0, length, position)
   return bytes
 }
 
@@ -53,14 +45,61 @@ async function readFooter(file: FileHandle) {
   return Footer.decode(await readAt(file, size - TRAILER_BYTES - footerLength, footerLength))
 }
 
-function planColumns(schema: Schema, wanted: (field: Field) => boolean): ColumnPlan[] | null {
-  const plans: ColumnPlan[] = []
-  for (const field of schema.fields) {
-    const make = PRIMITIVES[String(field.type)]
-    if (!make) return null
-    plans.push({ field, bytesPerValue: BYTES[String(field.type)]!, make })
+/** Where each record batch's column values lie in the file, decoded once from its metadata. */
+export interface StoreLayout {
+  fields: Field[]
+  bytesPerValue: number[]
+  make: MakeColumn[]
+  batches: { rows: number; valuesAt: number[] }[]
+}
+
+/**
+ * The layout of a store file written as our writer writes it (uncompressed primitive columns
+ * without nulls); null for anything else.
+ */
+export async function readStoreLayout(file: FileHandle): Promise<StoreLayout | null> {
+  const footer = await readFooter(file)
+  const fields = footer.schema.fields
+  if (fields.some((f) => !PRIMITIVES[String(f.type)])) return null
+  const batches: StoreLayout['batches'] = []
+  for (const block of footer.recordBatches()) {
+    const prefix = MESSAGE_PREFIX_BYTES
+    const bytes = await readAt(file, block.offset + prefix, block.metaDataLength - prefix)
+    const message = Message.decode(bytes)
+    if (message.headerType !== MessageHeader.RecordBatch) return null
+    const metadata = message.header() as BatchMetadata
+    const plain = !metadata.compression && metadata.buffers.length === fields.length * 2
+    if (!plain || metadata.nodes.some((n) => n.nullCount > 0)) return null
+    const body = block.offset + block.metaDataLength
+    const valuesAt = fields.map((field, c) => {
+      const region = metadata.buffers[2 * c + 1]!
+      const needed = metadata.length * BYTES[String(field.type)]!
+      return region.length < needed ? -1 : body + region.offset
+    })
+    if (valuesAt.includes(-1)) return null
+    batches.push({ rows: metadata.length, valuesAt })
   }
-  return plans.filter((p) => wanted(p.field))
+  return {
+    fields,
+    bytesPerValue: fields.map((f) => BYTES[String(f.type)]!),
+    make: fields.map((f) => PRIMITIVES[String(f.type)]!),
+    batches,
+  }
+}
+
+/** Reads `length` bytes at `position` into `target` from `offset` on. */
+export async function readInto(
+  file: FileHandle,
+  target: Uint8Array,
+  offset: number,
+  length: number,
+  position: number,
+) {
+  for (let done = 0; done < length;) {
+    const { bytesRead } = await file.read(target, offset + done, length - done, position + done)
+    if (bytesRead === 0) throw new Error('The localization store ends early.')
+    done += bytesRead
+  }
 }
 
 /**
@@ -68,48 +107,24 @@ function planColumns(schema: Schema, wanted: (field: Field) => boolean): ColumnP
  * reader does not handle. (Not on SharedArrayBuffers: V8 reads those markedly slower, ≈30 % over
  * a whole report here.)
  */
-export async function readStoreColumns(
-  arrowPath: string,
-  wanted: (field: Field) => boolean,
-): Promise<{ count: number; columns: Map<Field, ColumnArray> } | null> {
+export async function readStoreColumns(arrowPath: string, wanted: (field: Field) => boolean) {
   const file = await open(arrowPath, 'r')
   try {
-    const footer = await readFooter(file)
-    const fields = footer.schema.fields
-    const plans = planColumns(footer.schema, wanted)
-    if (!plans) return null
-    const batches: { body: number; metadata: BatchMetadata }[] = []
-    for (const block of footer.recordBatches()) {
-      const prefix = MESSAGE_PREFIX_BYTES
-      const bytes = await readAt(file, block.offset + prefix, block.metaDataLength - prefix)
-      const message = Message.decode(bytes)
-      if (message.headerType !== MessageHeader.RecordBatch) return null
-      const metadata = message.header() as BatchMetadata
-      const plain = !metadata.compression && metadata.buffers.length === fields.length * 2
-      if (!plain || metadata.nodes.some((n) => n.nullCount > 0)) return null
-      batches.push({ body: block.offset + block.metaDataLength, metadata })
-    }
-    const count = batches.reduce((n, b) => n + b.metadata.length, 0)
+    const layout = await readStoreLayout(file)
+    if (!layout) return null
+    const count = layout.batches.reduce((n, b) => n + b.rows, 0)
     const columns = new Map<Field, ColumnArray>()
-    for (const plan of plans) {
-      const bytes = count * plan.bytesPerValue
-      const memory = new ArrayBuffer(bytes)
+    for (const [c, field] of layout.fields.entries()) {
+      if (!wanted(field)) continue
+      const memory = new ArrayBuffer(count * layout.bytesPerValue[c]!)
       const target = new Uint8Array(memory)
-      const c = fields.indexOf(plan.field)
       let offset = 0
-      for (const { body, metadata } of batches) {
-        const length = metadata.length * plan.bytesPerValue
-        const region = metadata.buffers[2 * c + 1]!
-        if (region.length < length) return null
-        for (let done = 0; done < length;) {
-          const at = body + region.offset + done
-          const { bytesRead } = await file.read(target, offset + done, length - done, at)
-          if (bytesRead === 0) throw new Error('The localization store ends early.')
-          done += bytesRead
-        }
+      for (const batch of layout.batches) {
+        const length = batch.rows * layout.bytesPerValue[c]!
+        await readInto(file, target, offset, length, batch.valuesAt[c]!)
         offset += length
       }
-      columns.set(plan.field, plan.make(memory, count))
+      columns.set(field, layout.make[c]!(memory, count))
     }
     return { count, columns }
   } finally {

@@ -4,5 +4,6 @@
  */
 export { readLocalizations } from './read-localizations'
 export { readTilesInBox, type BoxRows } from './tile.reader'
+export { StoreBoxReader } from './box-reader'
 export { indexPathFor, readTileIndex, type TileIndex } from './tile.index'
 export type { Bounds, TileGrid } from './tile.grid'

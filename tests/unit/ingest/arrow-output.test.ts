@@ -3,7 +3,13 @@ import { readFileSync } from 'node:fs'
 import { tableFromIPC, type Table } from 'apache-arrow'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { ingestLocalizationTable, type IngestReport } from '@server/compute/ingest'
-import { readTileIndex, readTilesInBox, type TileIndex } from '@server/compute/store'
+import {
+  readTileIndex,
+  readTilesInBox,
+  StoreBoxReader,
+  type BoxRows,
+  type TileIndex,
+} from '@server/compute/store'
 import { numbers, seeded, tempDir } from './ingest-fixtures'
 
 const tmp = tempDir()
@@ -116,7 +122,18 @@ describe('the Arrow output', () => {
   })
 })
 
-describe('readTilesInBox', () => {
+/** The two readers of a box: the general one, and the one previews keep per thread. */
+const boxReader = new StoreBoxReader()
+afterAll(() => boxReader.close())
+const readers: [
+  string,
+  (path: string, box: Parameters<typeof readTilesInBox>[1]) => Promise<BoxRows>,
+][] = [
+  ['readTilesInBox', (path, box) => readTilesInBox(path, box)],
+  ['StoreBoxReader', async (path, box) => (await boxReader.rowsInBox(path, box, () => true))!],
+]
+
+describe.each(readers)('%s', (_name, readBox) => {
   /** The reference: every row of the whole table inside the box. */
   function bruteForce(box: { xMin: number; xMax: number; yMin: number; yMax: number }) {
     const [x, y, id] = ['x', 'y', 'id'].map(column)
@@ -132,7 +149,7 @@ describe('readTilesInBox', () => {
       const yMin = -1000 + random() * 32_000
       const side = 100 + random() * 15_000
       const box = { xMin, xMax: xMin + side, yMin, yMax: yMin + side * (0.3 + random()) }
-      const found = await readTilesInBox(outputPath, box)
+      const found = await readBox(outputPath, box)
       expect(Array.from(found.columns.id!).sort((a, b) => a - b)).toEqual(
         bruteForce(box).sort((a, b) => a - b),
       )
@@ -144,9 +161,9 @@ describe('readTilesInBox', () => {
   it('includes rows on the edges of the box and reads nothing for a box outside', async () => {
     const x = column('x')[0]!
     const y = column('y')[0]!
-    const edge = await readTilesInBox(outputPath, { xMin: x, xMax: x, yMin: y, yMax: y })
+    const edge = await readBox(outputPath, { xMin: x, xMax: x, yMin: y, yMax: y })
     expect(Array.from(edge.columns.x!)).toContain(x)
-    const outside = await readTilesInBox(outputPath, { xMin: 1e6, xMax: 2e6, yMin: 0, yMax: 1 })
+    const outside = await readBox(outputPath, { xMin: 1e6, xMax: 2e6, yMin: 0, yMax: 1 })
     expect(outside).toMatchObject({ rowCount: 0, tilesRead: 0 })
   })
 })
