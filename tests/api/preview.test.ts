@@ -7,7 +7,7 @@ import { existsSync, readdirSync } from 'node:fs'
 import { join } from 'node:path'
 import request from 'supertest'
 import sharp from 'sharp'
-import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest'
 import { previewInfoSchema, type PreviewInfo } from '@shared/schemas/preview.schema'
 import { simulateLocalizations } from '@server/compute/simulate'
 import { localizationsToCsv } from '@server/compute/simulate/table-text'
@@ -93,7 +93,8 @@ describe('the preview of a table', () => {
     expect([png.width, png.height]).toEqual([256, 256])
     expect(data.some((v) => v > 0)).toBe(true)
     const tiles = join(new LocalStorage(t.config.dataDir).derivedDir, String(fileId), 'tiles')
-    expect(existsSync(tiles)).toBe(true)
+    // The copy is written after the answer has gone.
+    await vi.waitFor(() => expect(existsSync(tiles)).toBe(true))
     const again = await get('/tiles/0/0/0.png')
     expect(Buffer.compare(again.body as Buffer, res.body as Buffer)).toBe(0)
   })

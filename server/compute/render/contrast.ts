@@ -116,18 +116,30 @@ const LEVEL_STEPS = 16384
  * Maps a pixel value to a colormap entry 0…255: t = (v − low)/(high − low) clamped to [0, 1],
  * then t^gamma (gamma < 1 lifts faint structure). The power is tabulated over 16 384 steps of t.
  */
+/** The gamma curve as a table, per gamma: building one costs more than colouring a small tile. */
+const gammaTables = new Map<number, Uint8Array>()
+
+function gammaLevels(gamma: number): Uint8Array {
+  let levels = gammaTables.get(gamma)
+  if (!levels) {
+    levels = new Uint8Array(LEVEL_STEPS + 1)
+    for (let q = 0; q <= LEVEL_STEPS; q++)
+      levels[q] = Math.round(Math.pow(q / LEVEL_STEPS, gamma) * 255)
+    if (gammaTables.size >= 32) gammaTables.clear()
+    gammaTables.set(gamma, levels)
+  }
+  return levels
+}
+
 export class LevelMap {
   private readonly low: number
   private readonly scale: number
-  private readonly levels = new Uint8Array(LEVEL_STEPS + 1)
+  private readonly levels: Uint8Array
 
   constructor(contrast: ResolvedContrast, gamma = 1) {
     this.low = contrast.low
     this.scale = LEVEL_STEPS / (contrast.high - contrast.low)
-    const g = Number.isFinite(gamma) && gamma > 0 ? gamma : 1
-    for (let q = 0; q <= LEVEL_STEPS; q++) {
-      this.levels[q] = Math.round(Math.pow(q / LEVEL_STEPS, g) * 255)
-    }
+    this.levels = gammaLevels(Number.isFinite(gamma) && gamma > 0 ? gamma : 1)
   }
 
   /** Entry 0…255; NaN maps to 0. */

@@ -71,10 +71,12 @@ export class PreviewService {
       .digest('hex')
       .slice(0, 24)
     const cached = this.storage.derivedPath(file.id, join('tiles', key, `${z}-${x}-${y}.png`))
-    if (existsSync(cached)) return readFile(cached)
-    const high = await this.levelScale(file, pyramid, view, options)
+    const hit = await readFile(cached).catch(() => null)
+    if (hit) return hit
+    const arrowPath = this.storePath(file)
+    const high = await this.levelScale(file, arrowPath, pyramid, view, options)
     const png = await this.pool.tile({
-      arrowPath: this.storePath(file),
+      arrowPath,
       view,
       options: {
         ...options,
@@ -82,8 +84,9 @@ export class PreviewService {
       },
       marginNm: options.method === 'gaussian' ? GAUSSIAN_MARGIN_PX * view.pixelNm : 0,
     })
-    await writeAtomically(cached, png)
-    return Buffer.from(png)
+    // The answer need not wait for the cache copy; a failed copy only means a later re-render.
+    void writeAtomically(cached, png).catch(() => {})
+    return Buffer.from(png.buffer, png.byteOffset, png.byteLength)
   }
 
   private storePath(file: IDatasetFile): string {
@@ -123,17 +126,19 @@ export class PreviewService {
    */
   private async levelScale(
     file: IDatasetFile,
+    arrowPath: string,
     pyramid: TilePyramid,
     view: RenderView,
     options: RenderOptions,
   ): Promise<number> {
     const reference = referenceView(pyramid)
-    const key = `${file.id}|${(await stat(this.storePath(file))).mtimeMs}|${JSON.stringify(options.filter)}`
+    const mtimeMs = this.infos.get(file.id)?.mtimeMs ?? (await stat(arrowPath)).mtimeMs
+    const key = `${file.id}|${mtimeMs}|${JSON.stringify(options.filter)}`
     let scale = this.scales.get(key)
     if (!scale) {
       scale = this.pool
         .scale({
-          arrowPath: this.storePath(file),
+          arrowPath,
           view: reference,
           options,
           percentile: CONTRAST_PERCENTILE,
@@ -166,9 +171,13 @@ function referenceView(pyramid: TilePyramid): RenderView {
 }
 
 async function writeAtomically(path: string, bytes: Uint8Array) {
-  await mkdir(dirname(path), { recursive: true })
   const temporary = `${path}.${process.pid}.${Math.random().toString(36).slice(2)}.tmp`
-  await writeFile(temporary, bytes)
+  // The folder exists for all but a view's first tile: create it only when missing.
+  await writeFile(temporary, bytes).catch(async (error: NodeJS.ErrnoException) => {
+    if (error.code !== 'ENOENT') throw error
+    await mkdir(dirname(path), { recursive: true })
+    await writeFile(temporary, bytes)
+  })
   await rename(temporary, path)
 }
 
