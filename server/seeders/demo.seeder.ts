@@ -4,10 +4,12 @@ import type { EntityManager } from '@mikro-orm/better-sqlite'
 import { z } from 'zod'
 import { DATASET_STATES, formatAccession } from '@shared/domain/dataset-state'
 import { PROJECT_ROLES, SHARE_CAPABILITIES, SITE_ROLES, type SiteRole } from '@shared/domain/roles'
+import { metadataSchema } from '@shared/metadata/metadata.schema'
 import { licenceSchema } from '@shared/schemas/dataset.schema'
 import { nextSequenceValue } from '../modules/common/sequence.service'
 import { Dataset, DatasetShare } from '../modules/datasets/dataset.entity'
 import { loadAccounts } from '../modules/idp/accounts'
+import { DatasetMetadata } from '../modules/metadata/dataset-metadata.entity'
 import { Organization } from '../modules/organizations/organization.entity'
 import { Membership, Project } from '../modules/projects/project.entity'
 import { User } from '../modules/users/user.entity'
@@ -37,6 +39,8 @@ const consortiumSchema = z.object({
       shares: z
         .array(z.object({ email: z.string(), capabilities: z.array(z.enum(SHARE_CAPABILITIES)) }))
         .optional(),
+      /** The description (metadata document); datasets past submission carry a complete one. */
+      metadata: metadataSchema.optional(),
     }),
   ),
 })
@@ -145,6 +149,12 @@ export async function seedDemo(
     })
     created++
     await em.flush()
+    if (d.metadata)
+      em.create(DatasetMetadata, {
+        dataset: dataset.id,
+        document: d.metadata,
+        updatedBy: userId(d.createdBy),
+      })
     for (const s of d.shares ?? []) {
       const user = userId(s.email)
       em.create(DatasetShare, {

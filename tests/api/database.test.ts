@@ -8,6 +8,8 @@ import { Dataset } from '@server/modules/datasets/dataset.entity'
 import { Organization } from '@server/modules/organizations/organization.entity'
 import { DEMO_DIR } from '@server/paths'
 import { seedDemo } from '@server/seeders/demo.seeder'
+import { completenessOf } from '@server/modules/metadata/metadata.service'
+import { qualityInputsFor } from '@server/modules/quality/quality-jobs'
 
 describe('database', () => {
   it('the committed migrations build exactly the schema the entities describe', async () => {
@@ -32,6 +34,33 @@ describe('database', () => {
       const datasets = await em.find(Dataset, {})
       expect(datasets.length).toBeGreaterThanOrEqual(10)
       expect(new Set(datasets.map((d) => accessPhase(d)))).toEqual(new Set(ACCESS_PHASES))
+    } finally {
+      await orm.close()
+    }
+  })
+
+  it('gives every demo dataset past submission a description with every required field', async () => {
+    const orm = await openDatabase(':memory:')
+    try {
+      await seedDemo(orm.em.fork(), DEMO_DIR)
+      const em = orm.em.fork()
+      const past = await em.find(Dataset, { state: { $nin: ['draft'] } })
+      expect(past.length).toBeGreaterThanOrEqual(8)
+      for (const dataset of past) {
+        const completeness = await completenessOf(em, dataset)
+        const missing = completeness.sections.flatMap((s) =>
+          s.missing.filter((f) => f.tier === 'required').map((f) => f.path),
+        )
+        expect(completeness.readyToSubmit).toBe(true)
+        expect({ dataset: dataset.title, missing }).toEqual({ dataset: dataset.title, missing: [] })
+      }
+      // The report compares with the diffraction limit the description implies (λ/2NA).
+      const reference = past.find((d) => d.title.startsWith('Microtubule reference'))!
+      expect(await qualityInputsFor(em, reference.id)).toMatchObject({
+        pixelNm: 108,
+        emissionNm: 670,
+        numericalAperture: 1.49,
+      })
     } finally {
       await orm.close()
     }
