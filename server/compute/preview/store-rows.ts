@@ -1,5 +1,6 @@
 import { stat } from 'node:fs/promises'
 import { readTileIndex, readTilesInBox, StoreBoxReader, type TileIndex } from '../store'
+import { meets } from '../store/tile.index'
 import type { Localizations, NumericColumn } from '../localizations.types'
 import type { BoundsNm } from '../render'
 
@@ -50,4 +51,10 @@ export async function localizationsInBox(arrowPath: string, box: BoundsNm): Prom
   }
   if (!locs.frame) locs.frame = new Uint32Array(rows.rowCount)
   return locs as Localizations
+}
+
+/** Rows of the store tiles that meet the box (an upper bound of the rows inside it). */
+export async function rowsMeetingBox(arrowPath: string, box: BoundsNm): Promise<number> {
+  const index = await indexOf(arrowPath)
+  return index.tiles.reduce((n, t) => (meets(t.boundsNm, box) ? n + t.rowCount : n), 0)
 }

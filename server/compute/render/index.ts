@@ -53,4 +53,9 @@ export {
   type RenderOptions,
   type ResolvedRenderOptions,
 } from './render-options'
-export { finiteRange, renderImage, type RenderedImage } from './render-image'
+export {
+  finiteRange,
+  renderCountsImage,
+  renderImage,
+  type RenderedImage,
+} from './render-image'

@@ -36,6 +36,18 @@ export function renderImage(
   return image
 }
 
+/** An image from counts already binned for the view (an overview's blocks), coloured as density. */
+export function renderCountsImage(
+  counts: Float32Array,
+  view: RenderView,
+  options: RenderOptions = {},
+): RenderedImage {
+  const resolved = resolveRenderOptions(options)
+  const { contrast, gamma } = resolved
+  const rgb = colourize(counts, { colormap: resolved.colormap ?? undefined, contrast, gamma })
+  return { rgb, width: view.width, height: view.height, options: resolved }
+}
+
 function colouredImage(
   locs: Localizations,
   view: RenderView,

@@ -83,6 +83,7 @@ export class PreviewService {
         contrast: { mode: 'manual', low: 0, high: high / query.brightness },
       },
       marginNm: options.method === 'gaussian' ? GAUSSIAN_MARGIN_PX * view.pixelNm : 0,
+      pyramid,
     })
     // The answer need not wait for the cache copy; a failed copy only means a later re-render.
     void writeAtomically(cached, png).catch(() => {})
