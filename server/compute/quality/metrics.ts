@@ -22,9 +22,29 @@ export function statisticMetric<T>(result: StatisticResult<T>): QualityMetric<T>
 export function frcMetric(frc: FrcResult): QualityMetric {
   const { method, parameters, reason, ...value } = frc
   return withReason(
-    { value: value.curve.frc.length ? value : null, method, parameters: { ...parameters } },
+    {
+      value: value.curve.frc.length ? { ...value, curve: compactCurve(value.curve) } : null,
+      method,
+      parameters: { ...parameters },
+    },
     reason,
   )
+}
+
+/**
+ * The curve as the report keeps it: correlations to 4 decimals (a ring's own noise is ≥ 1/√pixels,
+ * ≈ 0.01 at the largest rings) and frequencies to 7 significant digits. It halves a 4096² FRC's
+ * share of the report (≈ 170 kB of 2049 rings), which every poll of the quality page reads.
+ */
+function compactCurve(curve: FrcResult['curve']): FrcResult['curve'] {
+  const correlation = (values: number[]) => values.map((v) => Math.round(v * 1e4) / 1e4)
+  return {
+    ...curve,
+    frequencyPerNm: curve.frequencyPerNm.map((f) => Number(f.toPrecision(7))),
+    frc: correlation(curve.frc),
+    smoothed: correlation(curve.smoothed),
+    corrected: curve.corrected ? correlation(curve.corrected) : curve.corrected,
+  }
 }
 
 export function mergeMetric(merge: MergeResult): QualityMetric {
