@@ -124,7 +124,7 @@ export function frcOption(
   const after = driftCorrected?.curve
   if (after)
     series.push(
-      line('after drift correction', zip(after.frequencyPerNm, after.corrected ?? after.smoothed), {
+      line('after drift correction', zip(after.frequencyPerNm, after.smoothed), {
         lineStyle: { type: 'dashed' },
       }),
     )

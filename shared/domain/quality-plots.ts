@@ -76,9 +76,11 @@ function frcPlot(report: QualityReportDto, ink: ChartInk): QualityPlot | null {
   const crossing = frc.resolutionNm
     ? `crosses the 1/7 threshold at ${lengthText(frc.resolutionNm)}`
     : 'does not cross the 1/7 threshold'
-  const after = corrected?.resolutionNm
-    ? ` After drift correction it crosses at ${lengthText(corrected.resolutionNm)}.`
-    : ''
+  // Like for like with the drift card: both before the repeat correction, whose Q drift spoils.
+  const after =
+    frc.resolutionUncorrectedNm && corrected?.resolutionUncorrectedNm
+      ? ` Before the correction for repeated localizations: ${lengthText(frc.resolutionUncorrectedNm)} as deposited, ${lengthText(corrected.resolutionUncorrectedNm)} after drift correction.`
+      : ''
   return {
     key: 'frc',
     title: 'Fourier ring correlation',

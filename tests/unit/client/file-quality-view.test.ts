@@ -151,7 +151,7 @@ describe('the quality page of a table', () => {
     expect(download.attributes('download')).toBeDefined()
     expect(download.attributes('disabled')).toBeUndefined()
     expect(captions).toContain(
-      'The FRC of two halves of the acquisition crosses the 1/7 threshold at 32 nm. After drift correction it crosses at 25 nm.',
+      'The FRC of two halves of the acquisition crosses the 1/7 threshold at 32 nm. Before the correction for repeated localizations: 28 nm as deposited, 24 nm after drift correction.',
     )
     expect(captions.some((c) => c.startsWith('Photons per localization: median 1,500'))).toBe(true)
     wrapper.unmount()

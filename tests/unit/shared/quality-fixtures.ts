@@ -21,9 +21,9 @@ const frcCurve = {
   pixelsInRing: [1, 6, 12, 18, 25, 31],
 }
 
-const frcValue = (resolutionNm: number) => ({
+const frcValue = (resolutionNm: number, resolutionUncorrectedNm = 28) => ({
   resolutionNm,
-  resolutionUncorrectedNm: 28,
+  resolutionUncorrectedNm,
   spreadNm: 1.5,
   localizationsPerEmitter: 4.2,
   threshold: 1 / 7,
@@ -82,7 +82,7 @@ export const doneReport: QualityReportDto = {
       parameters: { pixelNm: 5, blocks: 50, framesPerSegment: 1000 },
     },
     frcDriftCorrected: {
-      value: frcValue(25),
+      value: frcValue(25, 24),
       method: 'Fourier ring correlation of two halves of the acquisition',
       parameters: {},
     },
