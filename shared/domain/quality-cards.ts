@@ -98,8 +98,7 @@ function frcCard(r: QualityReportDto, density: DensityValue | null): QualityCard
       present(r.frcResolutionUncorrectedNm) &&
         present(r.frcResolutionNm) &&
         `${lengthText(r.frcResolutionUncorrectedNm)} before the correction for molecules localized repeatedly`,
-      present(r.localizationsPerEmitter) &&
-        `about ${smallFmt.format(r.localizationsPerEmitter)} localizations per molecule`,
+      present(r.localizationsPerEmitter) && repeatsText(r.localizationsPerEmitter),
     ),
     verdicts: resolutionVerdicts({
       frcNm: r.frcResolutionNm,
@@ -187,4 +186,14 @@ export function qualityCards(report: QualityReportDto): QualityCard[] {
     mergeCard(report),
     diffractionCard(report),
   ]
+}
+
+/**
+ * Q of the repeat correction read as localizations per molecule; below 1 it cannot be a count
+ * (drift or fine structure spoil the plateau it is read from), so it is given as Q and said so.
+ */
+function repeatsText(q: number): string {
+  return q >= 1
+    ? `about ${smallFmt.format(q)} localizations per molecule`
+    : `repeat factor Q ≈ ${smallFmt.format(q)}: too low to count localizations per molecule (drift or fine structure spoil its estimate)`
 }
