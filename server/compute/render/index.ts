@@ -53,9 +53,4 @@ export {
   type RenderOptions,
   type ResolvedRenderOptions,
 } from './render-options'
-export {
-  finiteRange,
-  renderCountsImage,
-  renderImage,
-  type RenderedImage,
-} from './render-image'
+export { finiteRange, renderCountsImage, renderImage, type RenderedImage } from './render-image'
