@@ -32,6 +32,7 @@ interface ChildResult {
   rows: number
   readSeconds: number
   statsSeconds: number
+  statsWarmSeconds: number
   renderSeconds: number
   frcSeconds: number
   frcNm: number | null
@@ -61,6 +62,7 @@ export async function benchQuality(): Promise<Record<string, unknown>> {
     rows: ours.rows,
     readStoreSeconds: r(ours.readSeconds),
     statsSeconds: r(ours.statsSeconds),
+    statsWarmSeconds: r(ours.statsWarmSeconds),
     renderSeconds: r(ours.renderSeconds),
     frcSeconds: r(ours.frcSeconds),
     reportSeconds: r(ours.reportSeconds),
