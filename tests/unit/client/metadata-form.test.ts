@@ -103,7 +103,14 @@ describe('the form generated from the schema', () => {
     const immersion = wrapper
       .findAllComponents(VSelect)
       .find((s) => s.props('label') === undefined && s.text().startsWith('Immersion'))
-    expect(immersion?.props('items')).toEqual([...OME_IMMERSIONS])
+    // Words on screen, the OME identifier as the value (it is what the exports write).
+    expect(immersion?.props('items')).toContainEqual({
+      title: 'Water dipping',
+      value: 'WaterDipping',
+    })
+    expect(immersion?.props('items').map((i: { value: string }) => i.value)).toEqual([
+      ...OME_IMMERSIONS,
+    ])
     wrapper.unmount()
   })
 
