@@ -108,7 +108,7 @@ describe('the form generated from the schema', () => {
       title: 'Water dipping',
       value: 'WaterDipping',
     })
-    expect(immersion?.props('items').map((i: { value: string }) => i.value)).toEqual([
+    expect(immersion?.props('items')?.map((i: { value: string }) => i.value)).toEqual([
       ...OME_IMMERSIONS,
     ])
     wrapper.unmount()

@@ -3,7 +3,7 @@ import * as omeTerms from '@shared/metadata/ome-terms'
 import { SMLM_TECHNIQUES, ILLUMINATIONS } from '@shared/metadata/acquisition.schema'
 import { termLabel } from '@shared/metadata/term-labels'
 
-const omeLists = Object.values(omeTerms).filter((v): v is readonly string[] => Array.isArray(v))
+const omeLists: (readonly string[])[] = Object.values(omeTerms).filter((v) => Array.isArray(v))
 
 describe('termLabel', () => {
   it('gives the words a person would use for the OME identifiers the form offers', () => {
