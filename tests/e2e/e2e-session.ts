@@ -37,7 +37,8 @@ export async function startE2eSession(options: { demoTables?: boolean } = {}): P
   const page = await browser.newPage()
   const consoleErrors: string[] = []
   page.on('console', (m) => {
-    if (m.type() === 'error') consoleErrors.push(m.text())
+    // With the resource's address: "Failed to load resource: … 404" alone does not say which.
+    if (m.type() === 'error') consoleErrors.push(`${m.text()} [${m.location().url}]`)
   })
   page.on('pageerror', (e) => consoleErrors.push(e.message))
   return {
