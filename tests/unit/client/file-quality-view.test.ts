@@ -15,7 +15,7 @@ import {
   previewInfo,
   queuedReport,
   runningReport,
-} from '../shared/quality-fixtures'
+} from '../../fixtures/quality-report'
 
 const api = vi.hoisted(() => ({
   getQuality: vi.fn(),

@@ -11,7 +11,7 @@ import {
   viewLimits,
 } from '@/utils/previewGrid'
 import { defaultChoices, tileQueryOf } from '@/utils/previewOptions'
-import { previewInfo } from '../shared/quality-fixtures'
+import { previewInfo } from '../../fixtures/quality-report'
 
 /** The PreviewInfo the server describes for a pyramid of its own making. */
 function infoFrom(pyramid: ReturnType<typeof pyramidFor>): PreviewInfo {

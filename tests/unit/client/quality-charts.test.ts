@@ -3,7 +3,7 @@ import { frcOption, frequencyLabel, stepPoints, type ChartInk } from '@shared/do
 import { qualityPlots } from '@shared/domain/quality-plots'
 import { frcValue } from '@shared/domain/quality-values'
 import { colourByChoices, channelChoices } from '@/utils/previewOptions'
-import { doneReport, previewInfo } from '../shared/quality-fixtures'
+import { doneReport, previewInfo } from '../../fixtures/quality-report'
 
 const ink: ChartInk = { quiet: '#888888', label: '#111111' }
 

@@ -2,7 +2,12 @@ import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest'
 import { effectScope, nextTick, ref } from 'vue'
 import { ApiError } from '@/api/client'
 import { QUALITY_POLL_MS, useQualityReport } from '@/composables/useQualityReport'
-import { doneReport, failedReport, queuedReport, runningReport } from '../shared/quality-fixtures'
+import {
+  doneReport,
+  failedReport,
+  queuedReport,
+  runningReport,
+} from '../../fixtures/quality-report'
 
 const api = vi.hoisted(() => ({ getQuality: vi.fn() }))
 vi.mock('@/api/quality', () => ({ getQuality: api.getQuality }))

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest'
 import { qualityCards } from '@shared/domain/quality-cards'
-import { doneReport } from './quality-fixtures'
+import { doneReport } from '../../fixtures/quality-report'
 
 const frcDetails = (localizationsPerEmitter: number) =>
   qualityCards({ ...doneReport, localizationsPerEmitter }).find(

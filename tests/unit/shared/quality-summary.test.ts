@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest'
 import { verdictChips, worstTone } from '@shared/domain/quality-summary'
-import { doneReport } from './quality-fixtures'
+import { doneReport } from '../../fixtures/quality-report'
 
 describe('the verdicts of a report in one line', () => {
   it('takes the worst tone of an aspect: a problem over worth a look over a note over good', () => {

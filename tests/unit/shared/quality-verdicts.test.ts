@@ -7,7 +7,7 @@ import {
   precisionVerdict,
   resolutionVerdicts,
 } from '@shared/domain/quality-verdicts'
-import { doneReport } from './quality-fixtures'
+import { doneReport } from '../../fixtures/quality-report'
 
 // The bands (≤ 1.3 as good as photon statistics allow, ≤ 2 somewhat worse, beyond much worse)
 // and the wording are the page's specification, not derived from the code under test.
