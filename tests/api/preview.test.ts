@@ -11,29 +11,17 @@ import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest'
 import { previewInfoSchema, type PreviewInfo } from '@shared/schemas/preview.schema'
 import { simulateLocalizations } from '@server/compute/simulate'
 import { localizationsToCsv } from '@server/compute/simulate/table-text'
-import type { JobRunner } from '@server/jobs/job-runner'
 import { DatasetFile } from '@server/modules/files/dataset-file.entity'
 import { LocalStorage } from '@server/storage/local-storage'
-import { bearer, buildSharedDraft } from '../fixtures/builders'
-import { startJobRunner, settledFile } from '../fixtures/job-runner'
-import { listen } from '../fixtures/live-server'
-import { createTestApp, type TestApp } from '../fixtures/test-app'
-import { tusUpload } from '../fixtures/tus-upload'
+import { bearer } from '../fixtures/builders'
+import { settledFile } from '../fixtures/job-runner'
+import { startSharedDraftApp, type SharedDraftApp } from '../fixtures/shared-draft-app'
 
-let t: TestApp
-let live: Awaited<ReturnType<typeof listen>>
-let runner: JobRunner
-const tokens: Record<string, string> = {}
-let dataset: { id: number; accession: string }
+let app: SharedDraftApp
 let fileId: number
 
 beforeAll(async () => {
-  t = await createTestApp()
-  live = await listen(t.app)
-  runner = startJobRunner(t)
-  const built = await buildSharedDraft(t.em(), { reader: [] })
-  dataset = built.dataset
-  Object.assign(tokens, built.tokens)
+  app = await startSharedDraftApp({ reader: [] })
   const { localizations } = simulateLocalizations({
     seed: 3,
     fieldNm: 4000,
@@ -41,26 +29,16 @@ beforeAll(async () => {
     frames: 1000,
     structure: { kind: 'rings' },
   })
-  const res = await tusUpload(
-    `${live.url}/api/uploads`,
-    tokens.member!,
-    Buffer.from(localizationsToCsv(localizations)),
-    { dataset: dataset.accession, filename: 'rings.csv' },
-  )
-  fileId = Number(res.fileId)
-  expect((await settledFile(t, fileId, 60_000)).status).toBe('ready')
+  fileId = await app.upload('rings.csv', Buffer.from(localizationsToCsv(localizations)))
+  expect((await settledFile(app.t, fileId, 60_000)).status).toBe('ready')
 }, 90_000)
-afterAll(async () => {
-  await runner.stop()
-  await live.close()
-  await t.close()
-})
+afterAll(() => app.close())
 
-const base = () => `/api/datasets/${dataset.accession}/files/${fileId}`
+const base = () => `/api/datasets/${app.dataset.accession}/files/${fileId}`
 const get = (path: string, who = 'member') =>
-  request(t.app)
+  request(app.t.app)
     .get(`${base()}${path}`)
-    .set(bearer(tokens[who]!))
+    .set(bearer(app.tokens[who]!))
     .buffer(true)
     .parse((res, done) => {
       const chunks: Buffer[] = []
@@ -72,7 +50,7 @@ describe('the preview of a table', () => {
   let info: PreviewInfo
 
   it('describes its pyramid: the whole field at level 0, about 1 nm per pixel at the deepest', async () => {
-    const res = await request(t.app).get(`${base()}/preview`).set(bearer(tokens.member!))
+    const res = await request(app.t.app).get(`${base()}/preview`).set(bearer(app.tokens.member!))
     expect(res.status).toBe(200)
     info = previewInfoSchema.parse(res.body)
     expect(info.tileSize).toBe(256)
@@ -92,7 +70,7 @@ describe('the preview of a table', () => {
       .toBuffer({ resolveWithObject: true })
     expect([png.width, png.height]).toEqual([256, 256])
     expect(data.some((v) => v > 0)).toBe(true)
-    const tiles = join(new LocalStorage(t.config.dataDir).derivedDir, String(fileId), 'tiles')
+    const tiles = join(new LocalStorage(app.t.config.dataDir).derivedDir, String(fileId), 'tiles')
     // The copy is written after the answer has gone.
     await vi.waitFor(() => expect(existsSync(tiles)).toBe(true))
     const again = await get('/tiles/0/0/0.png')
@@ -108,45 +86,45 @@ describe('the preview of a table', () => {
   })
 
   it('refuses unknown options and tiles outside the pyramid as problems', async () => {
-    const unknown = await request(t.app)
+    const unknown = await request(app.t.app)
       .get(`${base()}/tiles/0/0/0.png?colormap=rainbow`)
-      .set(bearer(tokens.member!))
+      .set(bearer(app.tokens.member!))
     expect(unknown.status).toBe(400)
     expect(unknown.headers['content-type']).toContain('problem+json')
-    const extra = await request(t.app)
+    const extra = await request(app.t.app)
       .get(`${base()}/tiles/0/0/0.png?shine=1`)
-      .set(bearer(tokens.member!))
+      .set(bearer(app.tokens.member!))
     expect(extra.status).toBe(400)
-    const outside = await request(t.app)
+    const outside = await request(app.t.app)
       .get(`${base()}/tiles/0/5/0.png`)
-      .set(bearer(tokens.member!))
+      .set(bearer(app.tokens.member!))
     expect(outside.status).toBe(404)
     expect(outside.headers['content-type']).toContain('problem+json')
-    const tooDeep = await request(t.app)
+    const tooDeep = await request(app.t.app)
       .get(`${base()}/tiles/${info.levels}/0/0.png`)
-      .set(bearer(tokens.member!))
+      .set(bearer(app.tokens.member!))
     expect(tooDeep.status).toBe(404)
   })
 
   it('authorises every tile by the preview right', async () => {
     expect((await get('/tiles/0/0/0.png', 'reader')).status).toBe(403)
     expect((await get('/tiles/0/0/0.png', 'outsider')).status).toBe(404)
-    expect((await request(t.app).get(`${base()}/tiles/0/0/0.png`)).status).toBe(404)
+    expect((await request(app.t.app).get(`${base()}/tiles/0/0/0.png`)).status).toBe(404)
   })
 
   it('drops its cached tiles when the table is read again with another mapping', async () => {
-    const tiles = join(new LocalStorage(t.config.dataDir).derivedDir, String(fileId), 'tiles')
+    const tiles = join(new LocalStorage(app.t.config.dataDir).derivedDir, String(fileId), 'tiles')
     expect(readdirSync(tiles).length).toBeGreaterThan(0)
-    const file = await t.em().findOneOrFail(DatasetFile, { id: fileId })
-    const res = await request(t.app)
+    const file = await app.t.em().findOneOrFail(DatasetFile, { id: fileId })
+    const res = await request(app.t.app)
       .put(`${base()}/mapping`)
-      .set(bearer(tokens.member!))
+      .set(bearer(app.tokens.member!))
       .send(file.mapping ?? {})
     expect(res.status).toBe(202)
     const end = Date.now() + 60_000
     while (
       existsSync(tiles) ||
-      (await t.em().findOneOrFail(DatasetFile, { id: fileId })).status !== 'ready'
+      (await app.t.em().findOneOrFail(DatasetFile, { id: fileId })).status !== 'ready'
     ) {
       if (Date.now() > end) throw new Error('not re-ingested')
       await new Promise((r) => setTimeout(r, 100))

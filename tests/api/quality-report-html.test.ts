@@ -12,38 +12,25 @@ import { PROBLEM_CONTENT_TYPE } from '@shared/api/problem'
 import type { QualityReportDto } from '@shared/schemas/quality.schema'
 import { simulateLocalizations } from '@server/compute/simulate'
 import { localizationsToCsv } from '@server/compute/simulate/table-text'
-import type { JobRunner } from '@server/jobs/job-runner'
 import { Dataset } from '@server/modules/datasets/dataset.entity'
 import { QualityReport } from '@server/modules/quality/quality-report.entity'
-import { bearer, buildSharedDraft } from '../fixtures/builders'
-import { startJobRunner } from '../fixtures/job-runner'
-import { listen } from '../fixtures/live-server'
-import { createTestApp, type TestApp } from '../fixtures/test-app'
-import { tusUpload } from '../fixtures/tus-upload'
+import { bearer } from '../fixtures/builders'
+import { startSharedDraftApp, type SharedDraftApp } from '../fixtures/shared-draft-app'
 
-let t: TestApp
-let live: Awaited<ReturnType<typeof listen>>
-let runner: JobRunner
-const tokens: Record<string, string> = {}
-let dataset: { id: number; accession: string }
+let app: SharedDraftApp
 let fileId: number
 let report: QualityReportDto
 const HOSTILE_TITLE = 'Actin <script>alert("owned")</script> & <img src=x onerror=alert(1)>'
 
-const base = () => `/api/datasets/${dataset.accession}/files/${fileId}`
+const base = () => `/api/datasets/${app.dataset.accession}/files/${fileId}`
 const get = (path: string, who?: string) => {
-  const req = request(t.app).get(`${base()}${path}`)
-  return who ? req.set(bearer(tokens[who]!)) : req
+  const req = request(app.t.app).get(`${base()}${path}`)
+  return who ? req.set(bearer(app.tokens[who]!)) : req
 }
 
 beforeAll(async () => {
-  t = await createTestApp()
-  live = await listen(t.app)
-  runner = startJobRunner(t)
-  const built = await buildSharedDraft(t.em(), { previewer: ['preview'], reader: [] })
-  dataset = built.dataset
-  Object.assign(tokens, built.tokens)
-  await t.em().nativeUpdate(Dataset, { id: dataset.id }, { title: HOSTILE_TITLE })
+  app = await startSharedDraftApp({ previewer: ['preview'], reader: [] })
+  await app.t.em().nativeUpdate(Dataset, { id: app.dataset.id }, { title: HOSTILE_TITLE })
   const { localizations } = simulateLocalizations({
     seed: 11,
     fieldNm: 4000,
@@ -53,13 +40,7 @@ beforeAll(async () => {
     blinking: { mode: 'bursts', meanBursts: 2, meanBurstFrames: 2 },
     precision: { mode: 'fixed', sigmaNm: 10 },
   })
-  const upload = await tusUpload(
-    `${live.url}/api/uploads`,
-    tokens.member!,
-    Buffer.from(localizationsToCsv(localizations)),
-    { dataset: dataset.accession, filename: 'fibres.csv' },
-  )
-  fileId = Number(upload.fileId)
+  fileId = await app.upload('fibres.csv', Buffer.from(localizationsToCsv(localizations)))
   const end = Date.now() + 90_000
   for (;;) {
     report = (await get('/quality', 'member')).body
@@ -69,11 +50,7 @@ beforeAll(async () => {
   }
   expect(report.status).toBe('done')
 }, 120_000)
-afterAll(async () => {
-  await runner.stop()
-  await live.close()
-  await t.close()
-})
+afterAll(() => app.close())
 
 const isElement = (n: ChildNode): n is Element =>
   n.type === 'tag' || n.type === 'script' || n.type === 'style'
@@ -102,7 +79,7 @@ describe('the downloadable HTML report', () => {
     expect(res.headers['content-type']).toMatch(/^text\/html; charset=utf-8/)
     // A name of plain characters needs no quotes (RFC 6266); either form names the same file.
     expect(res.headers['content-disposition']).toMatch(
-      new RegExp(`^attachment; filename="?${dataset.accession}-fibres-quality\\.html"?$`),
+      new RegExp(`^attachment; filename="?${app.dataset.accession}-fibres-quality\\.html"?$`),
     )
     expect(page.startsWith('<!doctype html>')).toBe(true)
   })
@@ -112,7 +89,7 @@ describe('the downloadable HTML report', () => {
     expect(find((e) => e.name === 'img' && e.attribs.src === 'x')).toEqual([])
     expect(page).toContain('&lt;script&gt;alert(&quot;owned&quot;)&lt;/script&gt;')
     expect(squash(textOf(byAttr('data-fact', 'dataset')[0]!))).toBe(
-      `${dataset.accession} · ${HOSTILE_TITLE}`,
+      `${app.dataset.accession} · ${HOSTILE_TITLE}`,
     )
     expect(squash(textOf(byAttr('data-fact', 'file')[0]!))).toBe('fibres.csv')
   })
@@ -231,7 +208,7 @@ describe('who may download it', () => {
   })
 
   it('answers a problem, not a page, while the report is not done', async () => {
-    await t.em().nativeDelete(QualityReport, { file: fileId })
+    await app.t.em().nativeDelete(QualityReport, { file: fileId })
     expect((await get('/quality', 'member')).body.status).not.toBe('done')
     const res = await get('/quality/report.html', 'member')
     expect(res.status).toBe(404)

@@ -12,42 +12,21 @@ import {
 } from '@shared/schemas/quality.schema'
 import { simulateLocalizations } from '@server/compute/simulate'
 import { localizationsToCsv } from '@server/compute/simulate/table-text'
-import type { JobRunner } from '@server/jobs/job-runner'
 import { Dataset } from '@server/modules/datasets/dataset.entity'
 import { DatasetFile } from '@server/modules/files/dataset-file.entity'
-import { bearer, buildDataset, buildSharedDraft } from '../fixtures/builders'
-import { startJobRunner } from '../fixtures/job-runner'
-import { listen } from '../fixtures/live-server'
-import { createTestApp, type TestApp } from '../fixtures/test-app'
-import { tusUpload } from '../fixtures/tus-upload'
+import { bearer, buildDataset } from '../fixtures/builders'
+import { startSharedDraftApp, type SharedDraftApp } from '../fixtures/shared-draft-app'
 
-let t: TestApp
-let live: Awaited<ReturnType<typeof listen>>
-let runner: JobRunner
-const tokens: Record<string, string> = {}
-let dataset: { id: number; accession: string; project: number }
+let app: SharedDraftApp
 let tableId: number
 let blobId: number
 
-const summary = (who?: string, accession = dataset.accession) => {
-  const req = request(t.app).get(`/api/datasets/${accession}/quality`)
-  return who ? req.set(bearer(tokens[who]!)) : req
+const summary = (who?: string, accession = app.dataset.accession) => {
+  const req = request(app.t.app).get(`/api/datasets/${accession}/quality`)
+  return who ? req.set(bearer(app.tokens[who]!)) : req
 }
-async function upload(name: string, bytes: Buffer): Promise<number> {
-  const res = await tusUpload(`${live.url}/api/uploads`, tokens.member!, bytes, {
-    dataset: dataset.accession,
-    filename: name,
-  })
-  return Number(res.fileId)
-}
-
 beforeAll(async () => {
-  t = await createTestApp()
-  live = await listen(t.app)
-  runner = startJobRunner(t)
-  const built = await buildSharedDraft(t.em(), { previewer: ['preview'], reader: [] })
-  dataset = built.dataset
-  Object.assign(tokens, built.tokens)
+  app = await startSharedDraftApp({ previewer: ['preview'], reader: [] })
   const { localizations } = simulateLocalizations({
     seed: 5,
     fieldNm: 4000,
@@ -56,18 +35,14 @@ beforeAll(async () => {
     structure: { kind: 'rings' },
     precision: { mode: 'fixed', sigmaNm: 9 },
   })
-  tableId = await upload('rings.csv', Buffer.from(localizationsToCsv(localizations)))
+  tableId = await app.upload('rings.csv', Buffer.from(localizationsToCsv(localizations)))
   // Bytes that are no text at all: stored as an "other" file, which has no quality report.
-  blobId = await upload(
+  blobId = await app.upload(
     'blob.bin',
     Buffer.from(Array.from({ length: 512 }, (_, i) => (i * 131) % 256)),
   )
 }, 60_000)
-afterAll(async () => {
-  await runner.stop()
-  await live.close()
-  await t.close()
-})
+afterAll(() => app.close())
 
 async function settledSummary(): Promise<DatasetQualityItem[]> {
   const end = Date.now() + 90_000
@@ -91,9 +66,9 @@ describe('the quality summary of a dataset', () => {
     expect(items.map((i) => i.fileId)).toEqual([tableId])
     expect(items.map((i) => i.fileId)).not.toContain(blobId)
     const report: QualityReportDto = (
-      await request(t.app)
-        .get(`/api/datasets/${dataset.accession}/files/${tableId}/quality`)
-        .set(bearer(tokens.member!))
+      await request(app.t.app)
+        .get(`/api/datasets/${app.dataset.accession}/files/${tableId}/quality`)
+        .set(bearer(app.tokens.member!))
     ).body
     const [row] = items
     expect(row).toMatchObject({
@@ -119,9 +94,9 @@ describe('the quality summary of a dataset', () => {
     for (const chip of chips) expect(chip.text.length).toBeGreaterThan(10)
   })
 
-  it('lists only the tables of that dataset, and says what a table still waits for', async () => {
-    const em = t.em()
-    const other = await buildDataset(em, dataset.project)
+  it('lists only the tables of that app.dataset, and says what a table still waits for', async () => {
+    const em = app.t.em()
+    const other = await buildDataset(em, app.dataset.project)
     const waiting = em.create(DatasetFile, {
       dataset: other.id,
       name: 'later.csv',
@@ -158,14 +133,14 @@ describe('who may read it', () => {
 
   it('keeps an embargoed dataset closed to the public, and opens it once released', async () => {
     const future = new Date(Date.now() + 30 * 86_400_000)
-    await t
+    await app.t
       .em()
-      .nativeUpdate(Dataset, { id: dataset.id }, { state: 'approved', embargoUntil: future })
+      .nativeUpdate(Dataset, { id: app.dataset.id }, { state: 'approved', embargoUntil: future })
     expect((await summary()).status).toBe(403)
-    await t.em().nativeUpdate(Dataset, { id: dataset.id }, { embargoUntil: null })
+    await app.t.em().nativeUpdate(Dataset, { id: app.dataset.id }, { embargoUntil: null })
     const open = await summary()
     expect(open.status).toBe(200)
     expect(open.body.items).toHaveLength(1)
-    await t.em().nativeUpdate(Dataset, { id: dataset.id }, { state: 'draft' })
+    await app.t.em().nativeUpdate(Dataset, { id: app.dataset.id }, { state: 'draft' })
   })
 })

@@ -8,46 +8,24 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { qualityReportSchema, type QualityReportDto } from '@shared/schemas/quality.schema'
 import { simulateLocalizations } from '@server/compute/simulate'
 import { localizationsToCsv } from '@server/compute/simulate/table-text'
-import type { JobRunner } from '@server/jobs/job-runner'
 import { Dataset } from '@server/modules/datasets/dataset.entity'
 import { DatasetMetadata } from '@server/modules/metadata/dataset-metadata.entity'
-import { bearer, buildSharedDraft } from '../fixtures/builders'
-import { startJobRunner } from '../fixtures/job-runner'
-import { listen } from '../fixtures/live-server'
-import { createTestApp, type TestApp } from '../fixtures/test-app'
-import { tusUpload } from '../fixtures/tus-upload'
+import { bearer } from '../fixtures/builders'
+import { startSharedDraftApp, type SharedDraftApp } from '../fixtures/shared-draft-app'
 
-let t: TestApp
-let live: Awaited<ReturnType<typeof listen>>
-let runner: JobRunner
-const tokens: Record<string, string> = {}
-let dataset: { id: number; accession: string }
+let app: SharedDraftApp
 
 beforeAll(async () => {
-  t = await createTestApp()
-  live = await listen(t.app)
-  runner = startJobRunner(t)
-  const built = await buildSharedDraft(t.em(), { previewer: ['preview'], reader: [] })
-  dataset = built.dataset
-  Object.assign(tokens, built.tokens)
+  app = await startSharedDraftApp({ previewer: ['preview'], reader: [] })
 })
-afterAll(async () => {
-  await runner.stop()
-  await live.close()
-  await t.close()
-})
+afterAll(() => app.close())
 
-async function deposit(name: string, text: string): Promise<number> {
-  const res = await tusUpload(`${live.url}/api/uploads`, tokens.member!, Buffer.from(text), {
-    dataset: dataset.accession,
-    filename: name,
-  })
-  if (!res.fileId) throw new Error(`upload refused: ${res.status} ${res.body}`)
-  return Number(res.fileId)
-}
+const deposit = (name: string, text: string) => app.upload(name, Buffer.from(text))
 const quality = (fileId: number, who?: string) => {
-  const req = request(t.app).get(`/api/datasets/${dataset.accession}/files/${fileId}/quality`)
-  return who ? req.set(bearer(tokens[who]!)) : req
+  const req = request(app.t.app).get(
+    `/api/datasets/${app.dataset.accession}/files/${fileId}/quality`,
+  )
+  return who ? req.set(bearer(app.tokens[who]!)) : req
 }
 async function finished(fileId: number): Promise<QualityReportDto> {
   const end = Date.now() + 90_000
@@ -115,9 +93,9 @@ describe('the quality report of a localization table', () => {
     expect((await quality(fileId, 'reader')).status).toBe(403)
     expect((await quality(fileId, 'outsider')).status).toBe(404)
     expect((await quality(fileId)).status).toBe(404)
-    await t.em().nativeUpdate(Dataset, { id: dataset.id }, { state: 'approved' })
+    await app.t.em().nativeUpdate(Dataset, { id: app.dataset.id }, { state: 'approved' })
     expect((await quality(fileId)).status).toBe(200)
-    await t.em().nativeUpdate(Dataset, { id: dataset.id }, { state: 'draft' })
+    await app.t.em().nativeUpdate(Dataset, { id: app.dataset.id }, { state: 'draft' })
   })
 })
 
@@ -140,7 +118,7 @@ describe('tables the metrics cannot judge', () => {
   })
 
   it('a description without wavelength or NA: the diffraction limit says why it is missing', async () => {
-    await t.em().nativeUpdate(DatasetMetadata, { dataset: dataset.id }, { document: {} })
+    await app.t.em().nativeUpdate(DatasetMetadata, { dataset: app.dataset.id }, { document: {} })
     const rows = Array.from(
       { length: 300 },
       (_, i) => `${1 + (i % 30)},${(i * 37) % 3000},${(i * 91) % 3000}`,
@@ -157,11 +135,7 @@ describe('tables the metrics cannot judge', () => {
   it('a file that is not a localization table has no report (409, in words)', async () => {
     // Bytes that are no text at all: stored as an "other" file.
     const bytes = Buffer.from(Array.from({ length: 512 }, (_, i) => (i * 131) % 256))
-    const res0 = await tusUpload(`${live.url}/api/uploads`, tokens.member!, bytes, {
-      dataset: dataset.accession,
-      filename: 'blob.bin',
-    })
-    const id = Number(res0.fileId)
+    const id = await app.upload('blob.bin', bytes)
     const res = await quality(id, 'member')
     expect(res.status).toBe(409)
     expect(res.body.detail).toMatch(/not a localization table/)
