@@ -16,6 +16,7 @@ import autocannon from 'autocannon'
 import { loadConfig } from '@server/config'
 import { openDatabase } from '@server/db'
 import { seedDatasets } from './seed-datasets'
+import { runWrk } from './wrk'
 
 const DATASETS = 10_000
 const CONNECTIONS = 50
@@ -46,7 +47,7 @@ const hasWrk = () =>
 /** wrk (C, Debian package `wrk`) loads the server without competing much for the two cores. */
 async function wrkLoad(url: string, authorization: string, seconds: number): Promise<LoadResult> {
   const script = new URL('./wrk-percentiles.lua', import.meta.url).pathname
-  const { stdout } = await run('wrk', [
+  const w = await runWrk([
     '-t1',
     `-c${CONNECTIONS}`,
     `-d${seconds}s`,
@@ -56,17 +57,6 @@ async function wrkLoad(url: string, authorization: string, seconds: number): Pro
     script,
     url,
   ])
-  const line = stdout.split('\n').find((l) => l.startsWith('WRK '))
-  if (!line) throw new Error(`wrk printed no summary:\n${stdout}`)
-  const w = JSON.parse(line.slice(4)) as {
-    requests: number
-    durationUs: number
-    errors: number
-    non2xx: number
-    p50: number
-    p95: number
-    p99: number
-  }
   return {
     loadGenerator: 'wrk',
     requests: w.requests,

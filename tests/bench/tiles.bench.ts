@@ -18,6 +18,7 @@ import { promisify } from 'node:util'
 import type { PreviewInfo } from '@shared/schemas/preview.schema'
 import { freePort, ServerProcess } from '../fixtures/server-process'
 import { referenceTable } from './reference-pipeline'
+import { runWrk } from './wrk'
 
 const run = promisify(execFile)
 const repo = fileURLToPath(new URL('../..', import.meta.url))
@@ -107,41 +108,22 @@ function randomTilePaths(base: string, info: PreviewInfo, count: number, seed = 
   return paths
 }
 
-async function wrkTiles(url: string, token: string, pathsFile: string) {
-  const { stdout } = await run(
-    'wrk',
-    [
-      '-t1',
-      `-c${TILE_CONNECTIONS}`,
-      `-d${TILE_SECONDS}s`,
-      '--timeout',
-      '10s',
+function wrkTiles(url: string, token: string, pathsFile: string) {
+  const script = join(repo, 'tests', 'bench', 'wrk-paths.lua')
+  return runWrk(
+    ['-t1', `-c${TILE_CONNECTIONS}`, `-d${TILE_SECONDS}s`, '--timeout', '10s'].concat([
       '-H',
       `Authorization: Bearer ${token}`,
       '-s',
-      join(repo, 'tests', 'bench', 'wrk-paths.lua'),
+      script,
       url,
-    ],
+    ]),
     {
-      env: {
-        ...process.env,
-        WRK_PATHS: pathsFile,
-        WRK_SUMMARY: join(repo, 'tests', 'bench', 'wrk-percentiles.lua'),
-      },
+      ...process.env,
+      WRK_PATHS: pathsFile,
+      WRK_SUMMARY: join(repo, 'tests', 'bench', 'wrk-percentiles.lua'),
     },
   )
-  const line = stdout.split('\n').find((l) => l.startsWith('WRK '))
-  if (!line) throw new Error(`wrk printed no summary:\n${stdout}`)
-  return JSON.parse(line.slice(4)) as {
-    requests: number
-    durationUs: number
-    errors: number
-    non2xx: number
-    p50: number
-    p95: number
-    p99: number
-    max: number
-  }
 }
 
 export async function benchTiles(): Promise<Record<string, unknown>> {
