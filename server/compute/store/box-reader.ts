@@ -52,7 +52,11 @@ export class StoreBoxReader {
     for (const store of await Promise.all(stores)) await store?.file.close()
   }
 
-  private async read(arrowPath: string, box: Bounds, wanted: (name: string) => boolean) {
+  private async read(
+    arrowPath: string,
+    box: Bounds,
+    wanted: (name: string) => boolean,
+  ): Promise<BoxRows | null> {
     const store = await this.storeOf(arrowPath)
     if (!store) return null
     const { file, index, layout } = store
@@ -168,5 +172,3 @@ function concat(
   }
   return out
 }
-
-export type { BoxRows }
