@@ -1,6 +1,6 @@
 import { z } from 'zod'
 import { metadataSchema } from '../metadata/metadata.schema'
-import { COLUMN_ROLES, COLUMN_UNITS } from '../domain/localization-columns'
+import { COLUMN_ROLES, COLUMN_UNITS, FRAME_BASES } from '../domain/localization-columns'
 import { FILE_STATUSES } from '../domain/files'
 import { columnMappingSchema, tableFormatChoiceSchema } from './localization-mapping.schema'
 
@@ -48,9 +48,11 @@ export const mappingSuggestionSchema = z.object({
       unit: z.enum(COLUMN_UNITS).nullable(),
     }),
   ),
-  frameBase: z.literal([0, 1]),
+  frameBase: z.literal(FRAME_BASES),
   confident: z.boolean(),
   problems: z.array(z.string()),
+  /** What the suggestion chose where the header offered a choice (a drift-corrected x). */
+  notes: z.array(z.string()).optional(),
 })
 
 export const ingestedColumnSchema = z.object({

@@ -2,6 +2,8 @@ import { z } from 'zod'
 import {
   COLUMN_ROLES,
   COLUMN_UNITS,
+  FRAME_BASES,
+  PSF_WIDTH_ROLES,
   REPEATABLE_ROLES,
   unitFits,
   unitKindOf,
@@ -38,8 +40,8 @@ type MappingShape = {
 export const columnMappingSchema = z
   .object({
     columns: z.array(mappedColumnSchema).min(2).max(10_000),
-    /** Whether the table counts frames from 0 or from 1. */
-    frameBase: z.literal([0, 1]),
+    /** Whether the table counts frames from 0 or from 1; `auto`: from the lowest frame. */
+    frameBase: z.literal(FRAME_BASES),
     /** Camera pixel at the sample, nm; needed when any column is in px. */
     pixelSizeNm: z.number().positive().lt(10_000).optional(),
   })
@@ -75,6 +77,12 @@ function mappingIssues(mapping: MappingShape): Issue[] {
     const unitIssue = unitProblem(column)
     if (unitIssue) issues.push({ message: unitIssue, path: ['columns', i, 'unit'] })
   })
+  if (mapping.columns.filter((c) => PSF_WIDTH_ROLES.includes(c.role)).length > 1) {
+    issues.push({
+      message: 'Give the PSF width once: as sigma or as FWHM',
+      path: ['columns'],
+    })
+  }
   for (const axis of ['x', 'y'] as const) {
     if (!seenRole.has(axis))
       issues.push({ message: `Map one column to ${axis}`, path: ['columns'] })

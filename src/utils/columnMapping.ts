@@ -5,6 +5,7 @@ import {
   unitKindOf,
   type ColumnRole,
   type ColumnUnit,
+  type FrameBase,
 } from '@shared/domain/localization-columns'
 import {
   columnMappingSchema,
@@ -23,7 +24,7 @@ export interface MappingRow {
 
 export interface MappingDraft {
   rows: MappingRow[]
-  frameBase: 0 | 1
+  frameBase: FrameBase
   /** As typed. */
   pixelSize: string
 }
@@ -34,8 +35,10 @@ export const ROLE_LABELS: Record<ColumnRole, string> = {
   y: 'y',
   z: 'z',
   photons: 'photons',
-  background: 'background',
+  background: 'background level',
+  backgroundSd: 'background SD (noise)',
   sigma: 'sigma (PSF width)',
+  fwhm: 'FWHM (PSF width, stored as sigma)',
   sigmaX: 'sigma x',
   sigmaY: 'sigma y',
   uncertainty: 'uncertainty (precision)',
@@ -92,7 +95,7 @@ export function draftFrom(
     const from = mapped?.find((c) => c.index === index) ?? suggested.find((c) => c.index === index)
     return { index, name, role: from?.role ?? 'ignore', unit: from?.unit ?? null }
   })
-  const frameBase = validation.mapping?.frameBase ?? report?.suggestion?.frameBase ?? 1
+  const frameBase = validation.mapping?.frameBase ?? report?.suggestion?.frameBase ?? 'auto'
   const pixel = validation.mapping?.pixelSizeNm ?? describedPixelNm
   return { rows, frameBase, pixelSize: pixel ? String(pixel) : '' }
 }

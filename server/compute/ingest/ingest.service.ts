@@ -8,6 +8,7 @@ import { availableParallelism } from 'node:os'
 import { stat } from 'node:fs/promises'
 import { columnMappingSchema } from '@shared/schemas/localization-mapping.schema'
 import { BufferPool } from './buffer.pool'
+import { settleFrameBase } from './frame-base'
 import { readRecordChunks } from './chunk.reader'
 import { processChunks } from './chunk.dispatcher'
 import type { GridRule, GroupedChunk } from './chunk.processor'
@@ -77,6 +78,7 @@ export async function ingestLocalizationTable(options: IngestOptions): Promise<I
     clock.lap('parse')
     const grouped = processed.flatMap((p) => (p.grouped ? [p.grouped] : []))
     const layout = fitGrid(run, totals, grid, grouped, inline)
+    run.plan = settleFrameBase(plan, totals, layout.chunks)
     const outcome = await writeOutput(run, totals, layout.grid, layout.chunks)
     return buildReport(options.outputPath, outcome, clock.phases)
   } finally {

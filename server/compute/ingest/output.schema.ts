@@ -25,5 +25,7 @@ function fieldOf(slot: SlotSpec, kind: OutputKind) {
     ['source_column', slot.sourceName],
   ])
   if (slot.storedUnit) meta.set('unit', slot.storedUnit)
+  // A FWHM stored as sigma keeps a trace of what the table gave.
+  if (slot.mappedRole !== slot.role) meta.set('source_role', slot.mappedRole)
   return new Field(slot.name, ARROW_TYPES[kind](), false, meta)
 }

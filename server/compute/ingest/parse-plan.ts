@@ -2,7 +2,12 @@
  * What to read from each field and how to store it: the mapping turned into output columns
  * ("slots"), in a plain form that can be posted to worker threads.
  */
-import { COLUMN_ROLES, type ColumnRole, type ColumnUnit } from '@shared/domain/localization-columns'
+import {
+  COLUMN_ROLES,
+  FWHM_PER_SIGMA,
+  type ColumnRole,
+  type ColumnUnit,
+} from '@shared/domain/localization-columns'
 import type { ColumnMapping } from '@shared/schemas/localization-mapping.schema'
 import type { Delimiter, TableFormat } from './table-format.types'
 
@@ -22,6 +27,8 @@ export interface SlotSpec {
   /** Column name in the source table, for messages. */
   sourceName: string
   role: ColumnRole
+  /** The role the mapping gave, when the slot stores it as another (a FWHM stored as sigma). */
+  mappedRole: ColumnRole
   storage: StorageKind
   /** Source value × scale = stored value (unit conversion to nm). */
   scale: number
@@ -42,6 +49,8 @@ export interface ParsePlan {
   /** Fields every record must have. */
   fieldCount: number
   slots: SlotSpec[]
+  /** Frames are read as written, and the base (0 or 1) follows from their minimum afterwards. */
+  frameBaseFromData: boolean
   /** Expected mean bytes per record, to size buffers. */
   rowBytesHint: number
 }
@@ -55,12 +64,14 @@ export function buildParsePlan(mapping: ColumnMapping, format: TableFormat, rowB
   const names = new Set<string>()
   const slots = kept.map((column): SlotSpec => {
     const sourceName = format.header[column.index] ?? `column_${column.index + 1}`
-    const name = uniqueName(outputName(column.role, sourceName), names)
+    const role = storedRole(column.role)
+    const name = uniqueName(outputName(role, sourceName), names)
     return {
       field: column.index,
       name,
       sourceName,
-      role: column.role,
+      role,
+      mappedRole: column.role,
       ...storageFor(column, mapping),
     }
   })
@@ -70,34 +81,41 @@ export function buildParsePlan(mapping: ColumnMapping, format: TableFormat, rowB
     decimalMark: format.decimalMark,
     fieldCount: Math.max(format.columnCount, widest),
     slots,
+    frameBaseFromData: mapping.frameBase === 'auto',
     rowBytesHint: Math.max(8, rowBytesHint),
   }
   return plan
 }
 
-type Storage = Omit<SlotSpec, 'field' | 'name' | 'sourceName' | 'role'>
+type Storage = Omit<SlotSpec, 'field' | 'name' | 'sourceName' | 'role' | 'mappedRole'>
+
+/** A PSF width given as a FWHM is stored as its standard deviation, which the engines read. */
+const storedRole = (role: ColumnRole): ColumnRole => (role === 'fwhm' ? 'sigma' : role)
 
 function storageFor(column: ColumnMapping['columns'][number], mapping: ColumnMapping): Storage {
   const unit = column.unit ?? null
-  const base = { scale: 1, offset: 0, maxValue: Infinity, sourceUnit: unit, storedUnit: unit }
+  const width = column.role === 'fwhm' ? 1 / FWHM_PER_SIGMA : 1
+  const base = { scale: width, offset: 0, maxValue: Infinity, sourceUnit: unit, storedUnit: unit }
   const required = REQUIRED_ROLES.includes(column.role)
   if (column.role === 'frame') {
     return {
       ...base,
       storage: 'uint32',
-      offset: mapping.frameBase,
+      // With `auto`, frames are stored as written and shifted once their minimum is known.
+      offset: mapping.frameBase === 'auto' ? 0 : mapping.frameBase,
       maxValue: 2 ** 32 - 1,
       required,
     }
   }
   if (column.role === 'channel') return { ...base, storage: 'uint16', maxValue: 65_535, required }
   if (column.role === 'other') return { ...base, storage: 'float64', required }
-  if (unit === 'um') return { ...base, storage: 'float32', scale: 1000, storedUnit: 'nm', required }
+  if (unit === 'um')
+    return { ...base, storage: 'float32', scale: 1000 * width, storedUnit: 'nm', required }
   if (unit === 'px') {
     return {
       ...base,
       storage: 'float32',
-      scale: mapping.pixelSizeNm ?? NaN,
+      scale: (mapping.pixelSizeNm ?? NaN) * width,
       storedUnit: 'nm',
       required,
     }

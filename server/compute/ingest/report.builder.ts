@@ -68,6 +68,11 @@ function problemsOf(o: Outcome): string[] {
         'camera offset and conversion factor (e⁻/ADU)',
     )
   }
+  for (const slot of o.plan.slots.filter((s) => s.mappedRole === 'fwhm')) {
+    problems.push(
+      `"${slot.sourceName}" is a FWHM and is stored as the PSF's standard deviation (FWHM ÷ 2.3548)`,
+    )
+  }
   const frameZero = o.totals.rejections.negative_frame?.count ?? 0
   if (frameZero > 0 && o.plan.slots.some((s) => s.role === 'frame' && s.offset === 1)) {
     problems.push(`${frameZero} row(s) have frame 0 while frames are declared to count from 1`)

@@ -130,7 +130,8 @@ describe('the column mapping dialog', () => {
         { index: 2, role: 'y', unit: 'px' },
         { index: 3, role: 'photons', unit: 'photons' },
       ],
-      frameBase: 1,
+      // Decided by the ingest from the whole frame column, unless the depositor says otherwise.
+      frameBase: 'auto',
       pixelSizeNm: 108.3,
     })
     wrapper.unmount()
@@ -174,8 +175,20 @@ describe('judging a mapping with the shared schema', () => {
         { index: 1, role: 'x', unit: 'nm' },
         { index: 2, role: 'y', unit: 'nm' },
       ],
-      frameBase: 1,
+      frameBase: 'auto',
     })
+  })
+
+  it('says which of a raw and a drift-corrected x it chose', async () => {
+    const corrected = validationOf(
+      ['frame', 'x [nm]', 'y [nm]', 'xc [nm]'],
+      [['1', '100', '200', '98.5']],
+    )
+    const { wrapper } = await openDialog(corrected, null)
+    const notes = document.body.querySelector('[data-testid="mapping-notes"]')
+    expect(notes?.textContent).toContain('"xc [nm]" looks drift-corrected and is used as x')
+    expect(selections().slice(1, 4)).toEqual(['frame', 'other (kept)', 'y'])
+    wrapper.unmount()
   })
 
   it('keeps a fitting unit when the role changes and drops one the role does not take', () => {

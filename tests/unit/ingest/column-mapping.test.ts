@@ -19,7 +19,6 @@ describe('parseHeaderName', () => {
     ['xpos', 'x', null],
     ['frame', 'frame', null],
     ['Frames', 'frame', null],
-    ['t', 'frame', null],
     ['frame_number', 'frame', null],
     ['intensity [photon]', 'photons', 'photons'],
     ['n_photons', 'photons', null],
@@ -29,7 +28,6 @@ describe('parseHeaderName', () => {
     ['background_photons', 'background', null],
     ['psf_sigma [nm]', 'sigma', 'nm'],
     ['sigma_x [nm]', 'sigmaX', 'nm'],
-    ['width', 'sigma', null],
     ['uncertainty_xy [nm]', 'uncertainty', 'nm'],
     ['loc_precision', 'uncertainty', null],
     ['CRLB', 'uncertainty', null],
@@ -39,14 +37,15 @@ describe('parseHeaderName', () => {
     expect(parseHeaderName(name)).toMatchObject({ role, unit })
   })
 
-  it('does not read offset as background, time as frames, or glued units', () => {
-    for (const name of ['offset', 'time', 'xnano', 'xnm', 'amplitude']) {
+  it('does not read offset without a photon unit as background, time as frames, or amplitude', () => {
+    for (const name of ['offset', 'offset [px]', 'time', 'time [s]', 't [s]', 'amplitude']) {
       expect(parseHeaderName(name).role, name).toBeNull()
     }
+    expect(parseHeaderName('t (ms)').time).toBe(true)
   })
 
   it('reports a unit it does not read', () => {
-    expect(parseHeaderName('x [mm]')).toEqual({ role: 'x', unit: null, unknownUnit: 'mm' })
+    expect(parseHeaderName('x [mm]')).toMatchObject({ role: 'x', unit: null, unknownUnit: 'mm' })
   })
 })
 
@@ -71,20 +70,20 @@ describe('suggestMapping', () => {
       'y',
       'sigma',
       'photons',
-      'other',
-      'other',
+      'background',
+      'backgroundSd',
       'uncertainty',
     ])
-    expect(s.frameBase).toBe(1)
+    // The frame base is left to the ingest, which sees the whole column.
+    expect(s.frameBase).toBe('auto')
     expect(mappingFromSuggestion(s)).not.toBeNull()
   })
 
-  it('reads the frame base 0 from the sample and fills units of unitless widths from x', () => {
+  it('fills units of unitless widths from x', () => {
     const s = suggestMapping(
       ['frame', 'x_nm', 'y_nm', 'sigma', 'photons'],
       [['0', '1', '2', '130', '900']],
     )
-    expect(s.frameBase).toBe(0)
     expect(s.columns.find((c) => c.role === 'sigma')?.unit).toBe('nm')
     expect(s.columns.find((c) => c.role === 'photons')?.unit).toBe('photons')
   })
@@ -168,6 +167,18 @@ describe('columnMappingSchema', () => {
       'A frame column takes no unit',
     ],
     ['frame base 2', { columns: xy, frameBase: 2 }, null],
+    [
+      'sigma and FWHM both',
+      {
+        columns: [
+          ...xy,
+          { index: 2, role: 'sigma', unit: 'nm' },
+          { index: 3, role: 'fwhm', unit: 'nm' },
+        ],
+        frameBase: 1,
+      },
+      'Give the PSF width once: as sigma or as FWHM',
+    ],
     ['pixel size 10 000', { columns: xy, frameBase: 1, pixelSizeNm: 10_000 }, null],
   ])('refuses %s', (_name, body, message) => {
     const result = columnMappingSchema.safeParse(body)
