@@ -39,8 +39,9 @@ export function createOrmConfig(dbName: string) {
         }
       },
     },
-    // SQLite's own planner statistics (written by PRAGMA optimize) are not ours to diff.
-    schemaGenerator: { skipTables: ['sqlite_stat1', 'sqlite_stat4'] },
+    // SQLite's own planner statistics (written by PRAGMA optimize) are not ours to diff, nor are
+    // full-text indexes (virtual tables and their shadow tables, made by migrations: *_fts*).
+    schemaGenerator: { skipTables: ['sqlite_stat1', 'sqlite_stat4', /_fts(_\w+)?$/] },
     debug: false,
     allowGlobalContext: false,
   })

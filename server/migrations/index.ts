@@ -8,6 +8,7 @@ import { Migration20261204133522 } from './Migration20261204133522'
 import { Migration20261204141630 } from './Migration20261204141630'
 import { Migration20261204143704 } from './Migration20261204143704'
 import { Migration20261204151610 } from './Migration20261204151610'
+import { Migration20261204193454 } from './Migration20261204193454'
 
 /**
  * Migrations in the order they run. `npm run db -- migration:create` writes new files here;
@@ -24,4 +25,5 @@ export const migrationsList = [
   { name: 'Migration20261204141630', class: Migration20261204141630 },
   { name: 'Migration20261204143704', class: Migration20261204143704 },
   { name: 'Migration20261204151610', class: Migration20261204151610 },
+  { name: 'Migration20261204193454', class: Migration20261204193454 },
 ]

@@ -1,107 +1,123 @@
 /**
- * GET /api/datasets (page of 50, sorted) with 10,000 datasets, 50 concurrent connections on
- * loopback. The server runs as in production (server/main.ts), once with one HTTP process per core
- * (WEB_CONCURRENCY; the figures the target is judged on) and once as a single process, for
- * comparison; the load comes from wrk (or autocannon in this one). Prints p50/p95/p99 latency,
- * requests per second and the server's CPU time per request (all its processes). BENCH_PATH loads
- * another route the same way (e.g. /api/health, to see what the middleware alone costs);
- * BENCH_HTTP_WORKERS sets the worker count.
+ * GET /api/datasets under the load a browse page, its search box and paging scripts make: 50
+ * connections on loopback, each request a random offset, one of six sorts, a search term in about
+ * one in three (terms matching many datasets, few, or none), asked as one of several people (a
+ * member of one project, a member of four, a collaborator with a few shares, a steward, signed
+ * out). wrk (Debian's `wrk`, C, one thread) drives it with wrk-datasets-mixed.lua, so the load
+ * generator hardly competes for the two cores. The server runs as in production (server/main.ts,
+ * one HTTP process per core unless BENCH_HTTP_WORKERS says otherwise).
+ *
+ * Lines: the mixed load on 10 000 datasets (the figures the targets are judged on), the same on
+ * one HTTP process, the old repeated query (one person, one page, one sort: what the list's cache
+ * serves), and the mixed load on 100 000 datasets. Each gives p50/p95/p99, requests per second,
+ * the server's CPU time per request (all its processes, from /proc), the share of answers served
+ * from the list's cache and the database time per uncached answer (from Server-Timing).
+ * BENCH_DURATION_S sets the seconds per line; BENCH_LARGE=0 skips the 100 000 line.
  */
-import { execFile, spawn } from 'node:child_process'
-import { promisify } from 'node:util'
+import { spawn } from 'node:child_process'
 import { mkdtempSync, readFileSync, rmSync } from 'node:fs'
 import { availableParallelism, tmpdir } from 'node:os'
 import { join } from 'node:path'
-import autocannon from 'autocannon'
 import { loadConfig } from '@server/config'
 import { openDatabase } from '@server/db'
-import { seedDatasets } from './seed-datasets'
+import { seedDatasets, type BenchPeople } from './seed-datasets'
 import { runWrk } from './wrk'
 
-const DATASETS = 10_000
 const CONNECTIONS = 50
 const DURATION_S = Number(process.env.BENCH_DURATION_S ?? 15)
+const SORTS = ['-updatedAt', '-createdAt', 'title', '-title', 'accession', 'state']
+/** Search words: many matches (a tenth to all), few (one in 500, one, one in 30), none. */
+const TERMS = [
+  'tubulin',
+  'PAINT',
+  'series',
+  'HeLa',
+  'clath',
+  'cryo',
+  'STPL-000777',
+  'gephyrin mEos3.2',
+  'zebrafish',
+  'nanobody expansion',
+]
 
-function percentile(sorted: number[], p: number) {
-  return sorted[Math.min(sorted.length - 1, Math.floor((p / 100) * sorted.length))]!
+/** What one load asks for: whose tokens, which sorts and terms, how deep. */
+interface LoadMix {
+  tokens: string[]
+  sorts: string[]
+  terms: string[]
+  searchEvery: number
+  maxOffset: number
+  searchMaxOffset: number
 }
 
-interface LoadResult {
-  loadGenerator: string
-  requests: number
-  errors: number
-  non2xx: number
-  rps: number
-  p50ms: number
-  p95ms: number
-  p99ms: number
-}
-
-const run = promisify(execFile)
-const hasWrk = () =>
-  run('wrk', ['--version']).then(
-    () => true,
-    (err: { stdout?: string }) => Boolean(err.stdout?.includes('wrk')),
-  )
-
-/** wrk (C, Debian package `wrk`) loads the server without competing much for the two cores. */
-async function wrkLoad(url: string, authorization: string, seconds: number): Promise<LoadResult> {
-  const script = new URL('./wrk-percentiles.lua', import.meta.url).pathname
-  const w = await runWrk([
-    '-t1',
-    `-c${CONNECTIONS}`,
-    `-d${seconds}s`,
-    '-H',
-    `Authorization: ${authorization}`,
-    '-s',
-    script,
-    url,
-  ])
+function mixedLoad(people: BenchPeople): LoadMix {
   return {
-    loadGenerator: 'wrk',
-    requests: w.requests,
-    errors: w.errors,
-    non2xx: w.non2xx,
-    rps: Math.round(w.requests / (w.durationUs / 1e6)),
-    p50ms: w.p50 / 1000,
-    p95ms: w.p95 / 1000,
-    p99ms: w.p99 / 1000,
+    tokens: [people.member, people.depositor, people.collaborator, people.steward, '-'],
+    sorts: SORTS,
+    terms: TERMS.map(encodeURIComponent),
+    searchEvery: 3,
+    maxOffset: 5000,
+    // A search is read from its first pages; deeper offsets mostly fall past its end.
+    searchMaxOffset: 500,
   }
 }
 
-/** Fallback when wrk is not installed: autocannon in this process (it takes a core of its own). */
-async function autocannonLoad(
-  url: string,
-  authorization: string,
-  seconds: number,
-): Promise<LoadResult> {
-  const latencies: number[] = []
-  const result = await new Promise<autocannon.Result>((resolve, reject) => {
-    const instance = autocannon(
-      { url, headers: { authorization }, connections: CONNECTIONS, duration: seconds },
-      (err, res) => (err ? reject(err) : resolve(res)),
+/** The old benchmark: one person, one sort, the first page, again and again. */
+const repeatedLoad = (people: BenchPeople): LoadMix => ({
+  tokens: [people.depositor],
+  sorts: ['-updatedAt'],
+  terms: [],
+  searchEvery: 0,
+  maxOffset: 0,
+  searchMaxOffset: 0,
+})
+
+interface ListStats {
+  cached: number
+  fresh: number
+  searched: number
+  dbUs: number
+  /** Answers other than 2xx by status. */
+  refused: Record<string, number>
+}
+
+async function wrkLoad(url: string, mix: LoadMix, seconds: number) {
+  const dir = mkdtempSync(join(tmpdir(), 'stipple-bench-wrk-'))
+  const statsFile = join(dir, 'stats.json')
+  try {
+    const summary = await runWrk(
+      [
+        '-t1',
+        `-c${CONNECTIONS}`,
+        `-d${seconds}s`,
+        '--timeout',
+        '10s',
+        '-s',
+        new URL('./wrk-datasets-mixed.lua', import.meta.url).pathname,
+        url,
+      ],
+      {
+        ...process.env,
+        WRK_SUMMARY: new URL('./wrk-percentiles.lua', import.meta.url).pathname,
+        LIST_TOKENS: mix.tokens.join(','),
+        LIST_SORTS: mix.sorts.join(','),
+        LIST_TERMS: mix.terms.join(','),
+        LIST_SEARCH_EVERY: String(mix.searchEvery),
+        LIST_LIMIT: '50',
+        LIST_MAX_OFFSET: String(mix.maxOffset),
+        LIST_SEARCH_MAX_OFFSET: String(mix.searchMaxOffset),
+        LIST_SEED: '7',
+        LIST_STATS: statsFile,
+      },
     )
-    instance.on('response', (_client, _status, _bytes, responseTime) =>
-      latencies.push(responseTime),
-    )
-  })
-  latencies.sort((a, b) => a - b)
-  return {
-    loadGenerator: 'autocannon',
-    requests: result.requests.total,
-    errors: result.errors,
-    non2xx: result.non2xx,
-    rps: Math.round(result.requests.average),
-    p50ms: percentile(latencies, 50),
-    p95ms: percentile(latencies, 95),
-    p99ms: percentile(latencies, 99),
+    const stats = JSON.parse(readFileSync(statsFile, 'utf8')) as ListStats
+    return { ...summary, ...stats }
+  } finally {
+    rmSync(dir, { recursive: true, force: true })
   }
 }
 
-async function startServer(
-  dataDir: string,
-  httpWorkers: number,
-): Promise<{ url: string; pid: number | undefined; stop: () => Promise<void> }> {
+async function startServer(dataDir: string, httpWorkers: number) {
   const child = spawn(
     process.execPath,
     [
@@ -152,56 +168,97 @@ function cpuSeconds(pid: number | undefined): number | null {
   }
 }
 
-async function loadServer(dataDir: string, token: string, httpWorkers: number) {
+/** Every person gets a first page before the load: a wrong answer stops the benchmark. */
+async function probe(url: string, people: BenchPeople) {
+  const visible: Record<string, number> = {}
+  for (const [who, token] of Object.entries({ ...people, signedOut: '-' })) {
+    const headers: Record<string, string> =
+      token === '-' ? {} : { authorization: `Bearer ${token}` }
+    const res = await fetch(`${url}/api/datasets?limit=50&sort=title`, { headers })
+    const body = (await res.json()) as { total: number; items: unknown[] }
+    if (res.status !== 200 || body.items.length !== 50)
+      throw new Error(`${who}: unexpected answer ${res.status}`)
+    visible[who] = body.total
+  }
+  return visible
+}
+
+async function loadServer(dataDir: string, people: BenchPeople, httpWorkers: number, mix: LoadMix) {
   const server = await startServer(dataDir, httpWorkers)
   try {
-    const path = process.env.BENCH_PATH ?? '/api/datasets?limit=50&offset=0&sort=-updatedAt'
-    const headers = { authorization: `Bearer ${token}` }
-    const probe = await fetch(server.url + path, { headers })
-    const body = (await probe.json()) as { total: number; items: unknown[] }
-    if (probe.status !== 200 || (body.items?.length ?? 50) !== 50)
-      throw new Error(`unexpected answer ${probe.status}`)
-
-    const load = (await hasWrk()) ? wrkLoad : autocannonLoad
-    await load(server.url + path, headers.authorization, 3) // warm-up
+    const visible = await probe(server.url, people)
+    await wrkLoad(server.url, mix, 3) // warm-up
     const cpuBefore = cpuSeconds(server.pid)
-    const result = await load(server.url + path, headers.authorization, DURATION_S)
+    const w = await wrkLoad(server.url, mix, DURATION_S)
     const cpuAfter = cpuSeconds(server.pid)
-    // Latency swings with whatever else the machine runs; server CPU per request is steadier.
-    const serverCpuUsPerRequest =
-      cpuBefore === null || cpuAfter === null
-        ? null
-        : Math.round(((cpuAfter - cpuBefore) * 1e6) / result.requests)
-    return { visibleToUser: body.total, ...result, serverCpuUsPerRequest }
+    const cpuUs =
+      cpuBefore === null || cpuAfter === null ? null : ((cpuAfter - cpuBefore) * 1e6) / w.requests
+    return { visible, httpWorkers, ...w, cpuUs }
   } finally {
     await server.stop()
   }
 }
 
-export async function benchDatasetList() {
+type LoadResult = Awaited<ReturnType<typeof loadServer>>
+
+const ms = (us: number) => (us >= 10_000 ? (us / 1000).toFixed(0) : (us / 1000).toFixed(1))
+
+/** One printed line: latency, throughput, server CPU and the cache's share. */
+function line(r: LoadResult) {
+  const answered = r.cached + r.fresh
+  const parts = [
+    `p50 ${ms(r.p50)} ms`,
+    `p95 ${ms(r.p95)} ms`,
+    `p99 ${ms(r.p99)} ms`,
+    `${Math.round(r.requests / (r.durationUs / 1e6))} req/s`,
+    `CPU ${r.cpuUs === null ? '?' : (r.cpuUs / 1000).toFixed(2)} ms/req`,
+    `${answered ? Math.round((100 * r.cached) / answered) : 0} % from cache`,
+    `db ${r.fresh ? (r.dbUs / r.fresh / 1000).toFixed(2) : '0'} ms/uncached`,
+    `${r.httpWorkers} process${r.httpWorkers > 1 ? 'es' : ''}`,
+  ]
+  if (r.errors || r.non2xx)
+    parts.push(`${r.errors} socket errors, ${r.non2xx} non-2xx ${JSON.stringify(r.refused)}`)
+  return parts.join(' · ')
+}
+
+/** A database with `count` bench datasets, for as long as `use` runs. */
+async function withDatasets<T>(
+  count: number,
+  use: (dir: string, people: BenchPeople) => Promise<T>,
+) {
   const dataDir = mkdtempSync(join(tmpdir(), 'stipple-bench-list-'))
-  const httpWorkers = Number(process.env.BENCH_HTTP_WORKERS ?? availableParallelism())
   try {
     const orm = await openDatabase(loadConfig({ DATA_DIR: dataDir, LOG_LEVEL: 'silent' }).dbPath)
-    const token = await seedDatasets(orm.em.fork(), DATASETS)
+    const people = await seedDatasets(orm.em.fork(), count)
     await orm.close()
-    const single = await loadServer(dataDir, token, 1)
-    const { visibleToUser, ...result } = await loadServer(dataDir, token, httpWorkers)
-    return {
-      datasets: DATASETS,
-      visibleToUser,
-      connections: CONNECTIONS,
-      durationS: DURATION_S,
-      httpWorkers,
-      ...result,
-      targetP95ms: 30,
-      singleProcessRps: single.rps,
-      singleProcessP50ms: single.p50ms,
-      singleProcessP95ms: single.p95ms,
-      singleProcessP99ms: single.p99ms,
-      singleProcessCpuUs: single.serverCpuUsPerRequest,
-    }
+    return await use(dataDir, people)
   } finally {
     rmSync(dataDir, { recursive: true, force: true })
+  }
+}
+
+export async function benchDatasetList() {
+  const workers = Number(process.env.BENCH_HTTP_WORKERS ?? availableParallelism())
+  const small = await withDatasets(10_000, async (dir, people) => {
+    const mixed = await loadServer(dir, people, workers, mixedLoad(people))
+    const mixedOne = await loadServer(dir, people, 1, mixedLoad(people))
+    const repeated = await loadServer(dir, people, workers, repeatedLoad(people))
+    return { mixed, mixedOne, repeated }
+  })
+  const large =
+    process.env.BENCH_LARGE === '0'
+      ? null
+      : await withDatasets(100_000, (dir, people) =>
+          loadServer(dir, people, workers, mixedLoad(people)),
+        )
+  return {
+    connections: CONNECTIONS,
+    durationS: DURATION_S,
+    visible10k: JSON.stringify(small.mixed.visible),
+    'mixed 10k': line(small.mixed),
+    'mixed 10k, 1 proc': line(small.mixedOne),
+    'repeated 10k': line(small.repeated),
+    ...(large ? { 'mixed 100k': line(large), visible100k: JSON.stringify(large.visible) } : {}),
+    targets: 'mixed 10k: p95 < 30 ms, CPU < 0.5 ms/req; mixed 100k: p95 < 50 ms',
   }
 }

@@ -1,6 +1,7 @@
 import type { EntityManager } from '@mikro-orm/better-sqlite'
 import { formatAccession } from '@shared/domain/dataset-state'
 import { DATASET_STATES } from '@shared/domain/dataset-state'
+import { DatasetShare } from '@server/modules/datasets/dataset.entity'
 import { Organization } from '@server/modules/organizations/organization.entity'
 import { Membership, Project } from '@server/modules/projects/project.entity'
 import { createToken } from '@server/modules/tokens/tokens.service'
@@ -19,28 +20,70 @@ const WORDS = [
   'spectrin',
 ]
 const METHODS = ['dSTORM', 'PALM', 'DNA-PAINT', '3D STORM', 'Exchange-PAINT']
+const SAMPLES = ['U2OS', 'HeLa', 'COS-7', 'hippocampal neurons', 'HEK293', 'fibroblasts', 'Vero']
+const LABELS = ['Alexa Fluor 647', 'mEos3.2', 'CF568', 'Atto 655', 'PA-JF549', 'DY-654']
+/** One dataset in RARE_EVERY mentions cryo-fixation: a search word that matches few datasets. */
+export const RARE_EVERY = 499
+export const PROJECTS = 20
+
+/** The people the list benchmark asks as: personal access tokens, made before the run. */
+export interface BenchPeople {
+  /** Member of 4 projects (the repeated-query line asks as this person). */
+  depositor: string
+  /** Member of one project. */
+  member: string
+  /** No project; a few drafts shared with them. */
+  collaborator: string
+  /** Site steward: sees every dataset. */
+  steward: string
+}
+
+/** Title and description of bench dataset `i`, varied enough that search words match many or few. */
+function textOf(i: number) {
+  const word = WORDS[i % WORDS.length]!
+  const method = METHODS[i % METHODS.length]!
+  const sample = SAMPLES[i % SAMPLES.length]!
+  const label = LABELS[i % LABELS.length]!
+  const fixation = i % RARE_EVERY === 0 ? 'cryo-fixed' : 'chemically fixed'
+  return {
+    title: `${word} ${method} series ${i + 1}`,
+    description:
+      `${word} imaged by ${method} in ${fixation} ${sample}, labelled with ${label}. ` +
+      `Acquisition ${(i % 40) + 1} of a benchmark series; drift corrected with fiducials.`,
+  }
+}
+
+async function person(em: EntityManager, key: string, organization: number | null, extra = {}) {
+  const user = em.create(User, {
+    email: `${key}@bench.test`,
+    name: `Bench ${key}`,
+    subject: `bench-${key}`,
+    organization,
+    ...extra,
+  })
+  await em.flush()
+  return user
+}
 
 /**
  * Benchmark data: `count` datasets spread over 20 projects in every state, inserted in one
- * transaction with multi-row INSERTs, and a depositor who belongs to 4 of the projects.
- * Returns the depositor's personal access token.
+ * transaction with multi-row INSERTs (the full-text index follows through its triggers), and the
+ * people of BenchPeople with their tokens.
  */
-export async function seedDatasets(em: EntityManager, count: number): Promise<string> {
+export async function seedDatasets(em: EntityManager, count: number): Promise<BenchPeople> {
   const org = em.create(Organization, { name: 'Bench lab', emailDomain: 'bench.test' })
-  const user = em.create(User, {
-    email: 'depositor@bench.test',
-    name: 'Bench depositor',
-    subject: 'bench-1',
-    organization: null,
-  })
   await em.flush()
-  user.organization = org.id
-  const projects = Array.from({ length: 20 }, (_, i) =>
+  const depositor = await person(em, 'depositor', org.id)
+  const member = await person(em, 'member', org.id)
+  const collaborator = await person(em, 'collaborator', null)
+  const steward = await person(em, 'steward', org.id, { siteRole: 'steward' })
+  const projects = Array.from({ length: PROJECTS }, (_, i) =>
     em.create(Project, { name: `Bench project ${i + 1}`, description: '' }),
   )
   await em.flush()
   for (const p of projects.slice(0, 4))
-    em.create(Membership, { project: p.id, user: user.id, role: 'member' })
+    em.create(Membership, { project: p.id, user: depositor.id, role: 'member' })
+  em.create(Membership, { project: projects[5]!.id, user: member.id, role: 'member' })
   await em.flush()
 
   const base = Date.UTC(2024, 0, 1)
@@ -53,20 +96,32 @@ export async function seedDatasets(em: EntityManager, count: number): Promise<st
         const created = base + i * 3_600_000
         rows.push({
           accession: formatAccession(i + 1),
-          title: `${WORDS[i % WORDS.length]} ${METHODS[i % METHODS.length]} series ${i + 1}`,
-          description: 'Benchmark dataset',
+          ...textOf(i),
           project_id: projects[i % projects.length]!.id,
           state,
           embargo_until: state === 'approved' && i % 4 === 0 ? base + 5 * 365 * 86_400_000 : null,
           licence: 'CC-BY-4.0',
           version: 1,
           created_at: created,
-          updated_at: created,
+          // Updates interleave differently from creation, so the two sorts read different pages.
+          updated_at: created + ((i * 7919) % 1000) * 3_600_000,
         })
       }
       await trx('dataset').insert(rows)
     }
     await trx('sequence').insert({ name: 'accession', value: count })
   })
-  return (await createToken(em, user.id, { name: 'bench', expiresInDays: 1 })).token
+  // Eight drafts shared with the collaborator (ids are 1…count in insert order; i % 5 = 0 is a draft).
+  for (let k = 0; k < 8; k++)
+    em.create(DatasetShare, { dataset: 1 + k * 37 * 5, user: collaborator.id, capabilities: [] })
+  await em.flush()
+
+  const token = async (userId: number) =>
+    (await createToken(em, userId, { name: 'bench', expiresInDays: 1 })).token
+  return {
+    depositor: await token(depositor.id),
+    member: await token(member.id),
+    collaborator: await token(collaborator.id),
+    steward: await token(steward.id),
+  }
 }
