@@ -125,6 +125,16 @@ export const datasetShareSchema = z
   .meta({ id: 'DatasetShare' })
 export type DatasetShareDto = z.infer<typeof datasetShareSchema>
 
+/** The steward's last word on a dataset sent back or withdrawn: what must change, or why it went. */
+export const stewardNoteSchema = z
+  .object({
+    decision: z.enum(['request_changes', 'withdraw']),
+    comment: z.string(),
+    at: z.string(),
+  })
+  .meta({ id: 'StewardNote' })
+export type StewardNoteDto = z.infer<typeof stewardNoteSchema>
+
 export const datasetSchema = z
   .object({
     id: z.number(),
@@ -142,6 +152,8 @@ export const datasetSchema = z
     updatedAt: z.string(),
     submittedAt: z.string().nullable(),
     approvedAt: z.string().nullable(),
+    /** Only on a single dataset's answer, while it is sent back for changes or withdrawn. */
+    stewardNote: stewardNoteSchema.nullable().optional(),
   })
   .meta({ id: 'Dataset' })
 export type DatasetDto = z.infer<typeof datasetSchema>

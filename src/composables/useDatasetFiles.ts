@@ -32,6 +32,8 @@ export function useDatasetFiles(
   const { loading, reload } = request
   const error = computed(() => (request.error.value ? errorMessage(request.error.value) : null))
   const files = computed(() => request.data.value?.items ?? [])
+  /** A list has arrived: an empty `files` then means "no files", not "not asked yet". */
+  const loaded = computed(() => request.data.value !== null)
   const uploadsInProgress = computed(() => request.data.value?.uploadsInProgress ?? [])
   const processing = computed(() => anyProcessing(request.data.value))
 
@@ -62,6 +64,7 @@ export function useDatasetFiles(
 
   return {
     files,
+    loaded,
     uploadsInProgress,
     processing,
     loading,

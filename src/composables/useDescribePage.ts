@@ -4,9 +4,15 @@ import { useAsync } from '@/composables/useAsync'
 import { useDatasetsStore } from '@/stores/datasets.store'
 import { useSessionStore } from '@/stores/session.store'
 import { subjectOf } from '@/utils/dataset'
+import { getAt } from '@/utils/metadataPaths'
+import { withShippedSuggestions } from '@/utils/suggestions'
+import { taxonIdOf } from '@shared/metadata/suggested-terms'
 import type { DatasetDto } from '@shared/schemas/dataset.schema'
 import { useMetadataAutosave } from './useMetadataAutosave'
 import { useMetadataDraft } from './useMetadataDraft'
+
+const ORGANISM = 'biosample.organism.name'
+const TAXON = 'biosample.organism.taxonId'
 
 /** The describe page: the dataset, its description as a live draft, autosave and suggestions. */
 export function useDescribePage(idOrAccession: MaybeRefOrGetter<string>) {
@@ -24,7 +30,8 @@ export function useDescribePage(idOrAccession: MaybeRefOrGetter<string>) {
 
   const draft = useMetadataDraft()
   const autosave = useMetadataAutosave(draft, () => dataset.value, store.update)
-  const suggestions = shallowRef<ProjectSuggestions>({})
+  const projectSuggestions = shallowRef<ProjectSuggestions>({})
+  const suggestions = computed(() => withShippedSuggestions(projectSuggestions.value))
 
   const loader = useAsync(async (d: DatasetDto) => {
     const answer = await getMetadata(d.id)
@@ -41,8 +48,8 @@ export function useDescribePage(idOrAccession: MaybeRefOrGetter<string>) {
       void loader.run(d)
       if (editable.value) {
         getProjectSuggestions(d.project.id).then(
-          (s) => (suggestions.value = s),
-          () => (suggestions.value = {}), // suggestions are a help; the form works without them
+          (s) => (projectSuggestions.value = s),
+          () => (projectSuggestions.value = {}), // a help; the shipped vocabulary still suggests
         )
       }
     },
@@ -52,6 +59,9 @@ export function useDescribePage(idOrAccession: MaybeRefOrGetter<string>) {
   function edit(path: string, value: unknown) {
     if (!editable.value) return
     draft.set(path, value)
+    // A listed organism brings its taxon id, unless one is typed already.
+    const taxonId = path === ORGANISM && typeof value === 'string' ? taxonIdOf(value) : null
+    if (taxonId !== null && getAt(draft.draft.value, TAXON) == null) draft.set(TAXON, taxonId)
     autosave.changed()
   }
 

@@ -7,7 +7,7 @@ import type {
   SetEmbargoInput,
   UpdateDatasetInput,
 } from '@shared/schemas/dataset.schema'
-import { errorMessage } from '@/api/client'
+import { ApiError, errorMessage } from '@/api/client'
 import * as datasets from '@/api/datasets'
 
 /** The dataset open on screen, and the actions that change it (each leaves it up to date). */
@@ -15,6 +15,8 @@ export const useDatasetsStore = defineStore('datasets', () => {
   const current = shallowRef<DatasetDto | null>(null)
   const loading = ref(false)
   const error = ref<string | null>(null)
+  /** The HTTP status of the failed load (0 without an answer): 404 and 403 mean "not found". */
+  const errorStatus = ref<number | null>(null)
   let wanted = ''
 
   async function open(idOrAccession: string): Promise<void> {
@@ -22,11 +24,15 @@ export const useDatasetsStore = defineStore('datasets', () => {
     if (!showing(wanted)) current.value = null
     loading.value = true
     error.value = null
+    errorStatus.value = null
     try {
       const dto = await datasets.getDataset(idOrAccession)
       if (wanted === idOrAccession) current.value = dto
     } catch (e) {
-      if (wanted === idOrAccession) error.value = errorMessage(e)
+      if (wanted === idOrAccession) {
+        error.value = errorMessage(e)
+        errorStatus.value = e instanceof ApiError ? e.status : null
+      }
     } finally {
       if (wanted === idOrAccession) loading.value = false
     }
@@ -63,5 +69,18 @@ export const useDatasetsStore = defineStore('datasets', () => {
     current.value = null
   }
 
-  return { current, loading, error, showing, open, create, update, submit, review, embargo, remove }
+  return {
+    current,
+    loading,
+    error,
+    errorStatus,
+    showing,
+    open,
+    create,
+    update,
+    submit,
+    review,
+    embargo,
+    remove,
+  }
 })

@@ -1,5 +1,6 @@
 import type { EntityManager } from '@mikro-orm/better-sqlite'
-import type { DatasetDto } from '@shared/schemas/dataset.schema'
+import type { DatasetDto, StewardNoteDto } from '@shared/schemas/dataset.schema'
+import { AuditEvent } from '../audit/audit-event.entity'
 import { Project } from '../projects/project.entity'
 import { User } from '../users/user.entity'
 import type { IDataset } from './dataset.entity'
@@ -53,3 +54,29 @@ export async function toDatasetDto(em: EntityManager, dataset: IDataset): Promis
 /** `YYYY-MM-DD` → that day at 00:00 UTC. */
 export const parseDay = (s: string | null | undefined): Date | null =>
   s ? new Date(`${s}T00:00:00Z`) : null
+
+const NOTE_ACTIONS = { changes_requested: 'dataset.request_changes', withdrawn: 'dataset.withdraw' }
+
+/**
+ * One dataset as its page shows it: with the steward's comment that sent it back or withdrew it
+ * (kept in the audit event of that decision), so the page can say what must change or why it went.
+ */
+export async function toDatasetPageDto(em: EntityManager, dataset: IDataset): Promise<DatasetDto> {
+  const dto = await toDatasetDto(em, dataset)
+  const action = NOTE_ACTIONS[dataset.state as keyof typeof NOTE_ACTIONS]
+  if (!action) return { ...dto, stewardNote: null }
+  const event = await em.findOne(
+    AuditEvent,
+    { targetType: 'Dataset', targetId: dataset.accession, action },
+    { orderBy: { time: 'desc', id: 'desc' } },
+  )
+  const comment = event?.details?.comment
+  const stewardNote: StewardNoteDto | null = event
+    ? {
+        decision: dataset.state === 'withdrawn' ? 'withdraw' : 'request_changes',
+        comment: typeof comment === 'string' ? comment : '',
+        at: event.time.toISOString(),
+      }
+    : null
+  return { ...dto, stewardNote }
+}

@@ -20,7 +20,7 @@ import { previewRouter } from '../preview/preview.routes'
 import { qualityRouter } from '../quality/quality.routes'
 import { datasetFor, datasetParams } from './dataset-access'
 import { reviewDataset, setEmbargo, submitDataset } from './dataset-lifecycle.service'
-import { toDatasetDto } from './dataset.mapper'
+import { toDatasetPageDto } from './dataset.mapper'
 import { listShares, revokeShare, shareDataset } from './dataset-shares.service'
 import { DatasetCatalogue } from './dataset-catalogue'
 import { createDataset, deleteDataset, updateDataset } from './datasets.service'
@@ -56,7 +56,7 @@ export function datasetsRouter(deps: AppDeps): Router {
   })
 
   router.get('/:id', async (req, res) => {
-    res.json(await toDatasetDto(em(), await target(req, 'read')))
+    res.json(await toDatasetPageDto(em(), await target(req, 'read')))
   })
 
   router.patch('/:id', requireUser, async (req, res) => {
@@ -75,7 +75,8 @@ export function datasetsRouter(deps: AppDeps): Router {
 
   router.post('/:id/review', requireUser, async (req, res) => {
     const dataset = await target(req, 'curate')
-    res.json(await reviewDataset(em(), req, deps, dataset, parseBody(reviewDatasetSchema, req)))
+    await reviewDataset(em(), req, deps, dataset, parseBody(reviewDatasetSchema, req))
+    res.json(await toDatasetPageDto(em(), dataset))
   })
 
   router.put('/:id/embargo', requireUser, async (req, res) => {

@@ -1,0 +1,37 @@
+/** The vocabulary shipped for organism and fluorophore suggestions (issue 16, point 9). */
+import { describe, expect, it } from 'vitest'
+import { FLUOROPHORES, ORGANISMS, taxonIdOf } from '@shared/metadata/suggested-terms'
+import { withShippedSuggestions } from '@/utils/suggestions'
+
+describe('shipped suggestions', () => {
+  it('name organisms by binomial scientific name, each once', () => {
+    for (const o of ORGANISMS) expect(o.name).toMatch(/^[A-Z][a-z]+ [a-z]+( [a-z]+)?$/)
+    expect(new Set(ORGANISMS.map((o) => o.name)).size).toBe(ORGANISMS.length)
+  })
+
+  it('know the taxon ids of the organisms the form names in its help (NCBI Taxonomy)', () => {
+    expect(taxonIdOf('Homo sapiens')).toBe(9606)
+    expect(taxonIdOf('  mus MUSCULUS ')).toBe(10090)
+    expect(taxonIdOf('Danio rerio')).toBe(7955)
+    expect(taxonIdOf('Homo')).toBeNull()
+  })
+
+  it('list fluorophores by generic name, not by product line', () => {
+    const brands = /alexa|atto|janelia|\bjf\d|\bcf\d|dylight|abberior|bodipy|qdot|texas red/i
+    expect(FLUOROPHORES.filter((f) => brands.test(f))).toEqual([])
+    expect(FLUOROPHORES).toEqual(expect.arrayContaining(['mEos3.2', 'Cyanine 5 (Cy5)']))
+  })
+
+  it('come after what the project used before, each value once whatever its case', () => {
+    const merged = withShippedSuggestions({
+      'biosample.organism.name': ['Nothobranchius furzeri', 'homo sapiens'],
+      'biosample.structure': ['nuclear pore complex'],
+    })
+    const organisms = merged['biosample.organism.name']!
+    expect(organisms.slice(0, 2)).toEqual(['Nothobranchius furzeri', 'homo sapiens'])
+    expect(organisms.filter((o) => o.toLowerCase() === 'homo sapiens')).toHaveLength(1)
+    expect(organisms).toContain('Mus musculus')
+    expect(merged['labelling.*.label']).toContain('Dendra2')
+    expect(merged['biosample.structure']).toEqual(['nuclear pore complex'])
+  })
+})
