@@ -234,8 +234,9 @@ function settleClaims(columns: Candidate[], problems: string[], notes: string[])
     losers.forEach((c) => demoted.add(c))
     const names = (cs: Candidate[]) => cs.map((c) => `"${c.name}"`).join(' and ')
     if (fixed.length === 1) {
+      const kept = losers.length > 1 ? 'are kept as other columns' : 'is kept as another column'
       notes.push(
-        `${names([first])} looks drift-corrected and is used as ${first.role}; ${names(losers)} ${losers.length > 1 ? 'are' : 'is'} kept as other columns`,
+        `${names([first])} looks drift-corrected and is used as ${first.role}; ${names(losers)} ${kept}`,
       )
     } else if (fixed.length > 1) {
       problems.push(
