@@ -5,7 +5,7 @@ import session from 'express-session'
 import type Provider from 'oidc-provider'
 import type { Locker } from '@tus/server'
 import swaggerUi from 'swagger-ui-express'
-import { authenticate, requireUser } from './http/authenticate'
+import { AcceptedTokens, authenticate, requireUser } from './http/authenticate'
 import { sameOriginWrites } from './http/csrf'
 import { apiNotFound, errorHandler } from './http/error-handler'
 import { refuseNulInUrl } from './http/nul-guard'
@@ -31,6 +31,8 @@ import type { AppConfig } from './config'
 import type { AppDeps } from './services'
 import { LocalStorage } from './storage/local-storage'
 import { PreviewService } from './modules/preview/preview.service'
+import { PreviewTables } from './modules/preview/preview-tables'
+import { ReadConnection } from './modules/common/read-connection'
 import { TilePool } from './modules/preview/tile-pool'
 import { createUploads, UPLOADS_PATH } from './modules/uploads/uploads'
 
@@ -63,10 +65,11 @@ export const sessionCookieOptions = (config: AppConfig) =>
 export function createApp(appOptions: CreateAppOptions): Express {
   const storage = appOptions.storage ?? new LocalStorage(appOptions.config.dataDir)
   const tilePool = new TilePool()
+  const readConnection = new ReadConnection(appOptions.orm)
   const options: AppDeps & CreateAppOptions = {
     ...appOptions,
     storage,
-    previews: new PreviewService(storage, tilePool),
+    previews: new PreviewService(storage, tilePool, new PreviewTables(readConnection)),
   }
   const { orm, config } = options
   const app = express()
@@ -116,10 +119,12 @@ export function createApp(appOptions: CreateAppOptions): Express {
   )
   app.locals.close = () => {
     accessVersion.close()
+    readConnection.close()
     void tilePool.close()
   }
-  app.use(failedTokenLimit(config.rateLimitSignIn))
-  app.use(authenticate(accessVersion))
+  const acceptedTokens = new AcceptedTokens()
+  app.use(failedTokenLimit(config.rateLimitSignIn, acceptedTokens))
+  app.use(authenticate(accessVersion, acceptedTokens))
   app.use(sameOriginWrites(new URL(config.publicUrl).origin))
 
   app.use('/auth', authRouter(options, options.relyingParty))

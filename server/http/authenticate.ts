@@ -102,19 +102,64 @@ const lastUseDue = (identity: Identity, now: number) =>
   now - (identity.lastUsedWrite ?? 0) > LAST_USED_RESOLUTION_MS
 
 /**
+ * Hashes of the bearer tokens this process accepted lately. The failed-token limiter exists for
+ * guesses; a token already accepted (its first use went through the limiter) need not pay for it
+ * on every request, so the limiter skips these. One that stops working is dropped at once.
+ */
+export class AcceptedTokens {
+  private readonly hashes = new Set<string>()
+
+  static hashOf(header: string): string | null {
+    const match = /^Bearer\s+(\S+)$/i.exec(header)
+    return match?.[1] ? hashToken(match[1]) : null
+  }
+
+  has(header: string | undefined): boolean {
+    const hash = header === undefined ? null : AcceptedTokens.hashOf(header)
+    return hash !== null && this.hashes.has(hash)
+  }
+
+  add(hash: string): void {
+    // Bounded: past this many distinct tokens, start over (they are re-added on their next use).
+    if (this.hashes.size >= 10_000) this.hashes.clear()
+    this.hashes.add(hash)
+  }
+
+  delete(hash: string): void {
+    this.hashes.delete(hash)
+  }
+}
+
+/**
  * Works out who is asking: a bearer token wins over the session cookie. Sets req.user, req.viewer
  * and req.ability (the shared CASL abilities); anonymous requests get the public abilities.
  * Identities are cached per access version, so a revoked token or a changed membership takes
  * effect on the very next request, whichever process made the change.
  */
-export function authenticate(accessVersion: AccessVersionReader): RequestHandler {
+export function authenticate(
+  accessVersion: AccessVersionReader,
+  accepted = new AcceptedTokens(),
+): RequestHandler {
   const cache = new VersionedCache<Identity | null>(5000)
   const publicAbility = { second: -1, value: defineAbilityFor(null) }
   const bearerKey = (header: string) => {
-    const match = /^Bearer\s+(\S+)$/i.exec(header)
-    if (!match?.[1])
-      throw new UnauthorizedError('The Authorization header must be "Bearer <token>".')
-    return `token:${hashToken(match[1])}`
+    const hash = AcceptedTokens.hashOf(header)
+    if (!hash) throw new UnauthorizedError('The Authorization header must be "Bearer <token>".')
+    return `token:${hash}`
+  }
+  /** assertUsable, keeping the accepted tokens in step with its verdict. */
+  function checkToken(
+    key: string,
+    identity: Identity | null,
+    now: number,
+  ): asserts identity is Identity {
+    try {
+      assertUsable(identity, now)
+    } catch (error) {
+      accepted.delete(key.slice(6))
+      throw error
+    }
+    accepted.add(key.slice(6))
   }
   const settle = (req: Request, identity: Identity | null, method: AuthMethod, now: number) => {
     req.authMethod = identity ? method : null
@@ -127,9 +172,10 @@ export function authenticate(accessVersion: AccessVersionReader): RequestHandler
   const fromCache = (req: Request, version: number, now: number) => {
     const header = req.get('authorization')
     if (header !== undefined) {
-      const identity = cache.get(bearerKey(header), version)
+      const key = bearerKey(header)
+      const identity = cache.get(key, version)
       if (!identity) return undefined
-      assertUsable(identity, now)
+      checkToken(key, identity, now)
       return lastUseDue(identity, now) ? undefined : { identity, method: 'token' as const }
     }
     const sessionUser = req.session?.userId
@@ -147,7 +193,7 @@ export function authenticate(accessVersion: AccessVersionReader): RequestHandler
         identity = await tokenIdentity(requestEm(), key.slice(6), now)
         if (identity) cache.set(key, version, identity)
       }
-      assertUsable(identity, now)
+      checkToken(key, identity, now)
       if (lastUseDue(identity, now)) {
         identity.lastUsedWrite = now
         await requestEm().nativeUpdate(

@@ -2,6 +2,7 @@ import cluster from 'node:cluster'
 import { ClusterMemoryStoreWorker } from '@express-rate-limit/cluster-memory-store'
 import { rateLimit, type Options, type RateLimitRequestHandler } from 'express-rate-limit'
 import { HttpError } from '../errors/http-error'
+import type { AcceptedTokens } from './authenticate'
 
 /**
  * A per-address limit of `limit` requests a minute, with the standard RateLimit headers. In an
@@ -36,10 +37,12 @@ export function perMinuteLimit(
 /**
  * Guessing tokens: requests with an Authorization header count against the sign-in limit only
  * when they are turned away as unauthenticated (401), so scripts with a good token are never slowed.
+ * Tokens this process already accepted skip the limiter's bookkeeping altogether (AcceptedTokens).
  */
-export const failedTokenLimit = (limit: number) =>
+export const failedTokenLimit = (limit: number, accepted: AcceptedTokens) =>
   perMinuteLimit('bearer-failures', limit, {
-    skip: (req) => req.headers.authorization === undefined,
+    skip: (req) =>
+      req.headers.authorization === undefined || accepted.has(req.headers.authorization),
     skipSuccessfulRequests: true,
     requestWasSuccessful: (_req, res) => res.statusCode !== 401,
   })

@@ -25,6 +25,14 @@ export class LocalStorage {
     return join(this.filesDir, storageKey)
   }
 
+  /**
+   * Where a file computed from a deposited one is, without creating its folder: for readers, and
+   * for writers that create the folder when a write finds it missing (tiles, on hot paths).
+   */
+  derivedLocation(fileId: number, name: string): string {
+    return join(this.derivedDir, String(fileId), name)
+  }
+
   /** Files computed from a deposited file (columnar store, thumbnails), one folder per file. */
   derivedPath(fileId: number, name: string): string {
     const dir = join(this.derivedDir, String(fileId))

@@ -13,7 +13,7 @@ import { simulateLocalizations } from '@server/compute/simulate'
 import { localizationsToCsv } from '@server/compute/simulate/table-text'
 import { DatasetFile } from '@server/modules/files/dataset-file.entity'
 import { LocalStorage } from '@server/storage/local-storage'
-import { bearer } from '../fixtures/builders'
+import { bearer, buildDataset } from '../fixtures/builders'
 import { settledFile } from '../fixtures/job-runner'
 import { startSharedDraftApp, type SharedDraftApp } from '../fixtures/shared-draft-app'
 
@@ -110,6 +110,24 @@ describe('the preview of a table', () => {
     expect((await get('/tiles/0/0/0.png', 'reader')).status).toBe(403)
     expect((await get('/tiles/0/0/0.png', 'outsider')).status).toBe(404)
     expect((await request(app.t.app).get(`${base()}/tiles/0/0/0.png`)).status).toBe(404)
+  })
+
+  it('finds the table by the dataset’s number or accession, and only in its own dataset', async () => {
+    const byNumber = await request(app.t.app)
+      .get(`/api/datasets/${app.dataset.id}/files/${fileId}/preview`)
+      .set(bearer(app.tokens.member!))
+    expect(byNumber.status).toBe(200)
+    const other = await buildDataset(app.t.em(), app.dataset.project)
+    const elsewhere = await request(app.t.app)
+      .get(`/api/datasets/${other.accession}/files/${fileId}/tiles/0/0/0.png`)
+      .set(bearer(app.tokens.member!))
+    expect(elsewhere.status).toBe(404)
+    expect(elsewhere.body.detail).toMatch(/file/i)
+    const missing = await request(app.t.app)
+      .get(`/api/datasets/STPL-999999/files/${fileId}/tiles/0/0/0.png`)
+      .set(bearer(app.tokens.member!))
+    expect(missing.status).toBe(404)
+    expect(missing.body.detail).toMatch(/dataset/i)
   })
 
   it('drops its cached tiles when the table is read again with another mapping', async () => {

@@ -18,19 +18,21 @@ export async function findDataset(
   return em.findOne(Dataset, { accession: idOrAccession.toUpperCase() })
 }
 
-export const subjectOf = (d: IDataset) => datasetSubject(d)
+export const subjectOf = (d: DatasetFacts) => datasetSubject(d)
+
+/** What an access decision needs of a dataset: the entity, or the same facts read without it. */
+export type DatasetFacts = Pick<IDataset, 'id' | 'accession' | 'project' | 'state' | 'embargoUntil'>
 
 /**
- * Loads a dataset and checks the action. Someone who may not even read it gets 404, so existence
- * does not leak; someone who may read it but not do this gets 403.
+ * Checks the action on a dataset found (or not) by `idOrAccession`. Someone who may not even read
+ * it gets 404, so existence does not leak; someone who may read it but not do this gets 403.
  */
-export async function datasetFor(
+export function authorise<T extends DatasetFacts>(
   req: Request,
-  em: EntityManager,
+  dataset: T | null | undefined,
   idOrAccession: string,
   action: DatasetAction,
-): Promise<IDataset> {
-  const dataset = await findDataset(em, idOrAccession)
+): T {
   if (!dataset || !req.ability.can('read', subjectOf(dataset))) {
     throw new NotFoundError('dataset', idOrAccession)
   }
@@ -40,7 +42,17 @@ export async function datasetFor(
   return dataset
 }
 
-function forbiddenDetail(action: DatasetAction, d: IDataset): string {
+/** Loads a dataset and checks the action (see authorise). */
+export async function datasetFor(
+  req: Request,
+  em: EntityManager,
+  idOrAccession: string,
+  action: DatasetAction,
+): Promise<IDataset> {
+  return authorise(req, await findDataset(em, idOrAccession), idOrAccession, action)
+}
+
+function forbiddenDetail(action: DatasetAction, d: DatasetFacts): string {
   const state = d.state.replace('_', ' ')
   switch (action) {
     case 'edit':

@@ -72,9 +72,15 @@ export async function ingestLimitsFor(
 }
 
 /** Where a file's derived outputs go; the same on both threads, from the file id alone. */
+const COLUMNAR_STORE = 'localizations.arrow'
+
+/** Where a table's localization store is, for readers (the folder is not created). */
+export const columnarStoreOf = (storage: LocalStorage, fileId: number) =>
+  storage.derivedLocation(fileId, COLUMNAR_STORE)
+
 export function derivedPaths(storage: LocalStorage, fileId: number) {
   return {
-    columnar: storage.derivedPath(fileId, 'localizations.arrow'),
+    columnar: storage.derivedPath(fileId, COLUMNAR_STORE),
     thumbnail: storage.derivedPath(fileId, 'projection.png'),
     trace: storage.derivedPath(fileId, 'frame-means.json'),
   }

@@ -2,10 +2,8 @@ import { Router, type Request } from 'express'
 import { idSchema } from '@shared/schemas/common.schema'
 import { tileParamsSchema, tileQuerySchema } from '@shared/schemas/preview.schema'
 import { NotFoundError } from '../../errors/http-error'
-import { requestEm as em } from '../../http/request-context'
 import { parseParams, parseQuery } from '../../http/validate'
-import { datasetFor, datasetParams } from '../datasets/dataset-access'
-import { DatasetFile } from '../files/dataset-file.entity'
+import { authorise, datasetParams } from '../datasets/dataset-access'
 import type { PreviewService } from './preview.service'
 
 const fileParams = datasetParams.extend({ fileId: idSchema })
@@ -17,10 +15,10 @@ export function previewRouter(previews: PreviewService): Router {
 
   async function tableOf(req: Request) {
     const { id, fileId } = parseParams(fileParams, req)
-    const dataset = await datasetFor(req, em(), id, 'preview')
-    const file = await em().findOne(DatasetFile, { id: fileId, dataset: dataset.id })
-    if (!file) throw new NotFoundError('file', fileId)
-    return file
+    const { dataset, table } = await previews.tables.find(id, fileId)
+    authorise(req, dataset, id, 'preview')
+    if (!table) throw new NotFoundError('file', fileId)
+    return table
   }
 
   router.get('/files/:fileId/preview', async (req, res) => {

@@ -1,7 +1,6 @@
 import { createHash } from 'node:crypto'
-import { existsSync } from 'node:fs'
-import { mkdir, readFile, rename, stat, writeFile } from 'node:fs/promises'
-import { dirname, join } from 'node:path'
+import { statSync } from 'node:fs'
+import { join } from 'node:path'
 import type { PreviewInfo, TileQuery } from '@shared/schemas/preview.schema'
 import {
   pyramidFor,
@@ -13,9 +12,9 @@ import {
 } from '../../compute/render'
 import { ConflictError, NotFoundError } from '../../errors/http-error'
 import type { LocalStorage } from '../../storage/local-storage'
-import type { IDatasetFile } from '../files/dataset-file.entity'
-import { derivedPaths } from '../files/file-jobs'
+import { columnarStoreOf } from '../files/file-jobs'
 import { readTileIndex } from '../../compute/store'
+import type { PreviewTable, PreviewTables } from './preview-tables'
 import type { TilePool } from './tile-pool'
 
 interface ColumnReport {
@@ -46,22 +45,31 @@ export class PreviewService {
   constructor(
     private readonly storage: LocalStorage,
     private readonly pool: TilePool,
+    /** Finds a dataset's table for the preview routes without the ORM (see PreviewTables). */
+    readonly tables: PreviewTables,
   ) {}
 
-  async info(file: IDatasetFile): Promise<PreviewInfo> {
-    const arrowPath = this.storePath(file)
-    this.pool.warm()
-    const { mtimeMs } = await stat(arrowPath)
-    const known = this.infos.get(file.id)
-    if (known?.mtimeMs === mtimeMs) return known.info
-    const info = await describe(file, arrowPath)
-    this.infos.set(file.id, { mtimeMs, info })
-    return info
+  async info(file: PreviewTable): Promise<PreviewInfo> {
+    return (await this.described(file)).info
   }
 
-  /** The PNG of one tile: from the disk cache, or rendered now and kept. */
-  async tile(file: IDatasetFile, z: number, x: number, y: number, query: TileQuery) {
-    const info = await this.info(file)
+  /** The description by the store's write time, which tells a re-ingested table apart. */
+  private async described(file: PreviewTable) {
+    const { arrowPath, mtimeMs } = this.storeOf(file)
+    this.pool.warm()
+    const known = this.infos.get(file.id)
+    if (known?.mtimeMs === mtimeMs) return { arrowPath, mtimeMs, info: known.info }
+    const info = await describe(file, arrowPath)
+    this.infos.set(file.id, { mtimeMs, info })
+    return { arrowPath, mtimeMs, info }
+  }
+
+  /**
+   * The PNG of one tile, from the disk cache or rendered now and kept. The tile thread does both
+   * (synchronous file calls are cheapest there), so the request thread only routes and checks.
+   */
+  async tile(file: PreviewTable, z: number, x: number, y: number, query: TileQuery) {
+    const { arrowPath, mtimeMs, info } = await this.described(file)
     const pyramid = pyramidFor(info.boundsNm)
     const view = tileView(pyramid, z, x, y)
     if (!view) throw new NotFoundError('tile', `${z}/${x}/${y}`)
@@ -70,12 +78,13 @@ export class PreviewService {
       .update(`${renderOptionsKey(options)}|${query.brightness}`)
       .digest('hex')
       .slice(0, 24)
-    const cached = this.storage.derivedPath(file.id, join('tiles', key, `${z}-${x}-${y}.png`))
-    const hit = await readFile(cached).catch(() => null)
-    if (hit) return hit
-    const arrowPath = this.storePath(file)
-    const high = await this.levelScale(file, arrowPath, pyramid, view, options)
+    const cachePath = this.storage.derivedLocation(
+      file.id,
+      join('tiles', key, `${z}-${x}-${y}.png`),
+    )
+    const high = await this.levelScale(file.id, arrowPath, mtimeMs, pyramid, view, options)
     const png = await this.pool.tile({
+      cachePath,
       arrowPath,
       view,
       options: {
@@ -85,18 +94,20 @@ export class PreviewService {
       marginNm: options.method === 'gaussian' ? GAUSSIAN_MARGIN_PX * view.pixelNm : 0,
       pyramid,
     })
-    // The answer need not wait for the cache copy; a failed copy only means a later re-render.
-    void writeAtomically(cached, png).catch(() => {})
     return Buffer.from(png.buffer, png.byteOffset, png.byteLength)
   }
 
-  private storePath(file: IDatasetFile): string {
+  /** The table's localization store and its write time; 409 while there is none to show. */
+  private storeOf(file: PreviewTable): { arrowPath: string; mtimeMs: number } {
     if (file.kind !== 'localization_table')
       throw new ConflictError(`"${file.name}" is not a localization table; it has no preview.`)
-    const path = derivedPaths(this.storage, file.id).columnar
-    if (file.status !== 'ready' || !existsSync(path))
+    const arrowPath = columnarStoreOf(this.storage, file.id)
+    // Synchronous: one inode lookup costs less than the thread-pool round trip of fs/promises.
+    const mtimeMs =
+      file.status === 'ready' ? statSync(arrowPath, { throwIfNoEntry: false })?.mtimeMs : undefined
+    if (mtimeMs === undefined)
       throw new ConflictError(`"${file.name}" has not been read yet; its preview follows.`)
-    return path
+    return { arrowPath, mtimeMs }
   }
 
   private renderOptions(info: PreviewInfo, q: TileQuery): RenderOptions {
@@ -126,15 +137,15 @@ export class PreviewService {
    * pixel area (counts grow with it), never below one localization for counted pixels.
    */
   private async levelScale(
-    file: IDatasetFile,
+    fileId: number,
     arrowPath: string,
+    mtimeMs: number,
     pyramid: TilePyramid,
     view: RenderView,
     options: RenderOptions,
   ): Promise<number> {
     const reference = referenceView(pyramid)
-    const mtimeMs = this.infos.get(file.id)?.mtimeMs ?? (await stat(arrowPath)).mtimeMs
-    const key = `${file.id}|${mtimeMs}|${JSON.stringify(options.filter)}`
+    const key = `${fileId}|${mtimeMs}|${JSON.stringify(options.filter)}`
     let scale = this.scales.get(key)
     if (!scale) {
       scale = this.pool
@@ -171,22 +182,11 @@ function referenceView(pyramid: TilePyramid): RenderView {
   }
 }
 
-async function writeAtomically(path: string, bytes: Uint8Array) {
-  const temporary = `${path}.${process.pid}.${Math.random().toString(36).slice(2)}.tmp`
-  // The folder exists for all but a view's first tile: create it only when missing.
-  await writeFile(temporary, bytes).catch(async (error: NodeJS.ErrnoException) => {
-    if (error.code !== 'ENOENT') throw error
-    await mkdir(dirname(path), { recursive: true })
-    await writeFile(temporary, bytes)
-  })
-  await rename(temporary, path)
-}
-
 /** A table's preview description from its store's index and its ingest report. */
-async function describe(file: IDatasetFile, arrowPath: string): Promise<PreviewInfo> {
+async function describe(file: PreviewTable, arrowPath: string): Promise<PreviewInfo> {
   const index = await readTileIndex(arrowPath)
   const pyramid = pyramidFor(index.boundsNm ?? { xMin: 0, xMax: 1, yMin: 0, yMax: 1 })
-  const report = (file.report ?? {}) as TableReport
+  const report = ((await file.report()) ?? {}) as TableReport
   const column = (role: string) => report.columns?.find((c) => c.role === role)
   const z = column('z')
   const channel = column('channel')

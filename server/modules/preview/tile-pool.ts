@@ -1,7 +1,7 @@
 import { availableParallelism } from 'node:os'
 import { Piscina } from 'piscina'
 import { poolEntry } from '../../threads'
-import type { TileWorkerTask } from './tile.worker'
+import type { CachedTileTask, TileWorkerTask } from './tile.worker'
 
 /**
  * Tiles are rendered off the request thread, by a small pool of threads (one per core, at most
@@ -17,7 +17,8 @@ export class TilePool {
 
   private warmed = false
 
-  tile(task: Omit<Extract<TileWorkerTask, { kind: 'tile' }>, 'kind'>): Promise<Uint8Array> {
+  /** The tile's PNG, from its cache file or drawn now (and then kept there). */
+  tile(task: CachedTileTask): Promise<Uint8Array> {
     return this.pool.run({ kind: 'tile', ...task }) as Promise<Uint8Array>
   }
 

@@ -5,6 +5,7 @@ import type { Logger } from '../../logger'
 import type { IDataset } from '../datasets/dataset.entity'
 import type { IDatasetFile } from '../files/dataset-file.entity'
 import type { PreviewService } from '../preview/preview.service'
+import { previewTableOf } from '../preview/preview-tables'
 import { fieldPicture, type FieldPicture } from './report-html/field-picture'
 import { reportPage } from './report-html/report-page'
 import { qualityReportOf } from './quality.service'
@@ -52,7 +53,8 @@ export async function qualityReportHtml(
 }
 
 /** The whole field from the preview's tiles, drawn with the default options (as the page opens). */
-async function pictureOf(previews: PreviewService, file: IDatasetFile): Promise<FieldPicture> {
+async function pictureOf(previews: PreviewService, entity: IDatasetFile): Promise<FieldPicture> {
+  const file = previewTableOf(entity)
   const defaults = tileQuerySchema.parse({})
   return fieldPicture(await previews.info(file), (z, x, y) =>
     previews.tile(file, z, x, y, defaults),
