@@ -54,15 +54,42 @@ export function gaussianPsfSigmaAiryFitNm(emissionNm: number, na: number): numbe
   return (1.323 * emissionNm) / (2 * Math.PI * na)
 }
 
+/**
+ * Axial diffraction limit 2nλ/NA² (textbook form; DOMAIN.md §6), n the immersion medium's
+ * refractive index. 670 nm, NA 1.49, n 1.518 → 916 nm.
+ */
+export function axialDiffractionLimitNm(emissionNm: number, na: number, n: number): number {
+  requireWavelengthAndAperture(emissionNm, na)
+  requirePositive('Refractive index', n)
+  if (na > n) throw new RangeError(`An NA of ${na} exceeds the refractive index ${n}`)
+  return (2 * n * emissionNm) / (na * na)
+}
+
 /** Full width at half maximum of a Gaussian of SD `sigma`: 2√(2 ln 2)·σ. */
 export function fwhmFromSigma(sigma: number): number {
   requirePositive('Sigma', sigma)
   return 2 * Math.sqrt(2 * Math.LN2) * sigma
 }
 
-/** F in the Mortensen formulas: EM gain's multiplication noise doubles the variance. */
+/**
+ * F in the Mortensen formulas, a *variance* factor: electron multiplication doubles the variance
+ * (the camera literature's excess-noise factor √2, squared; DOMAIN.md §6).
+ */
 export const EMCCD_EXCESS_NOISE = 2
 export const NO_EXCESS_NOISE = 1
+
+/**
+ * Cameras whose gain stage multiplies the noise: EMCCD, intensified and electron-bombarded CCDs
+ * (OME detector types). The factor for intensified and electron-bombarded CCDs is taken as the
+ * EMCCD's 2, which DOMAIN.md §6 states from memory; tubes vary.
+ */
+export const EXCESS_NOISE_DETECTORS = ['EMCCD', 'IntensifiedCCD', 'EBCCD'] as const
+
+export function excessNoiseForDetector(type: unknown): number {
+  return (EXCESS_NOISE_DETECTORS as readonly unknown[]).includes(type)
+    ? EMCCD_EXCESS_NOISE
+    : NO_EXCESS_NOISE
+}
 
 export interface SpotStatistics {
   /** PSF standard deviation in the sample plane, nm. */
@@ -267,10 +294,23 @@ export function maxNumericalAperture(immersion: Immersion): number | null {
   return IMMERSION_REFRACTIVE_INDEX[immersion]
 }
 
+/**
+ * The refractive index an NA is checked against: the medium's own when the description gives it
+ * (high-index media reach n ≈ 1.78, objectives NA 1.7), else the table above by immersion.
+ */
+export function immersionIndexOf(immersion: Immersion | undefined, n?: number): number | null {
+  if (n !== undefined && Number.isFinite(n) && n >= 1) return n
+  return immersion ? maxNumericalAperture(immersion) : null
+}
+
 /** A message when the NA is impossible for the immersion medium, else null. */
-export function numericalApertureProblem(na: number, immersion: Immersion): string | null {
+export function numericalApertureProblem(
+  na: number,
+  immersion: Immersion,
+  refractiveIndex?: number,
+): string | null {
   if (!Number.isFinite(na) || na <= 0) return 'The numerical aperture must be a positive number'
-  const max = maxNumericalAperture(immersion)
+  const max = immersionIndexOf(immersion, refractiveIndex)
   if (max !== null && na > max) {
     return `An NA of ${na} is impossible with immersion ${immersion} (n = ${max})`
   }

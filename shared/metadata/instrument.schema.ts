@@ -34,6 +34,18 @@ export const objectiveSchema = z.object({
     label: 'Immersion',
     term: 'OME Objective@Immersion',
   }),
+  immersionRefractiveIndex: field(quantity('Refractive index', '', 1, 2.5), {
+    tier: 'optional',
+    label: 'Refractive index of the immersion medium',
+    help: 'Checks the NA when it is not the usual medium (oil 1.518); high-index media reach 1.78',
+    term: 'OME ObjectiveSettings@RefractiveIndex',
+  }),
+  tubeLensMagnification: field(quantity('Tube or relay lens magnification', '×', 0.1, 10), {
+    tier: 'optional',
+    label: 'Tube or relay lens magnification',
+    unit: '×',
+    help: 'Extra magnification after the objective, e.g. 1.5×: total = objective × this',
+  }),
   correction: field(z.enum(OME_CORRECTIONS), {
     tier: 'optional',
     label: 'Correction',

@@ -1,5 +1,5 @@
 import { z } from 'zod'
-import { maxNumericalAperture } from '../domain/optics'
+import { immersionIndexOf } from '../domain/optics'
 import { acquisitionSchema } from './acquisition.schema'
 import { biosampleSchema } from './biosample.schema'
 import { field, group } from './field'
@@ -60,12 +60,16 @@ export const metadataSchema = metadataObjectSchema
   .superRefine((m, ctx) => {
     const objective = m.instrument?.objective
     if (objective?.lensNA !== undefined && objective.immersion) {
-      const max = maxNumericalAperture(objective.immersion)
+      const max = immersionIndexOf(objective.immersion, objective.immersionRefractiveIndex)
       if (max !== null && objective.lensNA > max) {
+        const medium =
+          objective.immersionRefractiveIndex === undefined
+            ? `${objective.immersion.toLowerCase()} immersion`
+            : 'the immersion medium'
         ctx.addIssue({
           code: 'custom',
           path: ['instrument', 'objective', 'lensNA'],
-          message: `An NA of ${objective.lensNA} is not possible with ${objective.immersion.toLowerCase()} immersion (refractive index ${max})`,
+          message: `An NA of ${objective.lensNA} is not possible with ${medium} (refractive index ${max})`,
         })
       }
     }

@@ -33,6 +33,12 @@ export const processingSchema = z.object({
   softwareVersion: field(text('Version', 50), { tier: 'required', label: 'Software version' }),
   fittingModel: field(z.enum(FITTING_MODELS), { tier: 'required', label: 'PSF model' }),
   estimator: field(z.enum(ESTIMATORS), { tier: 'required', label: 'Estimator' }),
+  fittedPsfSigmaNm: field(quantity('Fitted PSF width', 'nm', 0, 1000, { exclusiveMin: true }), {
+    tier: 'optional',
+    label: 'Fitted PSF width (σ)',
+    unit: 'nm',
+    help: 'Typical standard deviation of the fitted spots, at the sample; real PSFs are 100–150 nm',
+  }),
   driftCorrection: field(z.enum(DRIFT_METHODS), { tier: 'required', label: 'Drift correction' }),
   driftDetails: field(text('Drift details', 1000), {
     tier: 'optional',

@@ -1,14 +1,18 @@
 import {
   abbeLimitNm,
+  axialDiffractionLimitNm,
   countsToElectrons,
   electronsToPhotons,
-  EMCCD_EXCESS_NOISE,
+  excessNoiseForDetector,
   gaussianPsfSigmaNm,
+  IMMERSIONS,
+  immersionIndexOf,
   mortensenLsqPrecisionNm,
   mortensenMlePrecisionNm,
-  NO_EXCESS_NOISE,
+  pixelSizeAtSampleNm,
   rayleighLimitNm,
   thompsonPrecisionNm,
+  type Immersion,
 } from '@shared/domain/optics'
 
 /** A form value as a positive finite number, or null while it is missing or still being typed. */
@@ -31,43 +35,107 @@ export function diffractionLimits(emissionNm: unknown, na: unknown): Diffraction
 export interface PrecisionInputs {
   emissionNm: unknown
   na: unknown
+  /** Pixel at the sample as described (instrument.detector.pixelSizeNm). */
   pixelNm: unknown
   detectorType: unknown
   /** Detected photons in a typical spot. */
   photons: unknown
   /** Background photons per pixel, i.e. the variance b² (not its SD). */
   background: unknown
+  /** Median fitted PSF SD of a deposited table, nm. */
+  measuredPsfSigmaNm?: unknown
+  /** The description's fitted PSF SD (processing.fittedPsfSigmaNm), nm. */
+  fittedPsfSigmaNm?: unknown
+  /** Read noise, e⁻ RMS per pixel; added (squared) to b² unless EM gain hides it. */
+  readNoiseE?: unknown
+  /** Camera pixel on the chip (µm), objective and tube/relay magnification. */
+  chipPixelUm?: unknown
+  nominalMagnification?: unknown
+  tubeLensMagnification?: unknown
+  immersion?: unknown
+  refractiveIndex?: unknown
 }
+
+/** Where the PSF width comes from: a table, the description, or the ideal (a lower bound). */
+export type PsfSource = 'table' | 'description' | 'ideal'
 
 export interface ExpectedPrecision {
   psfSigmaNm: number
+  psfSource: PsfSource
   pixelNm: number
+  /** `total magnification`: chip pixel ÷ (objective × tube lens), when no pixel size is given. */
+  pixelSource: 'description' | 'total magnification' | 'objective magnification'
+  /** Variance factor F applied to every row: 2 with electron multiplication, else 1. */
   excessNoise: number
+  /** Read noise added to b² (e⁻ = photoelectrons), 0 when none applies. */
+  readNoiseE: number
   thompsonNm: number
   lsqNm: number
   mleNm: number
+  /** Axial diffraction limit 2nλ/NA², when the medium's index is known. */
+  axialLimitNm: number | null
 }
 
-/** Lateral precision of a typical spot by Thompson 2002 and Mortensen 2010 (LSQ and MLE). */
+function psfOf(inputs: PrecisionInputs, lambda: number, na: number) {
+  const measured = positive(inputs.measuredPsfSigmaNm)
+  if (measured !== null) return { psfSigmaNm: measured, psfSource: 'table' as const }
+  const fitted = positive(inputs.fittedPsfSigmaNm)
+  if (fitted !== null) return { psfSigmaNm: fitted, psfSource: 'description' as const }
+  return { psfSigmaNm: gaussianPsfSigmaNm(lambda, na), psfSource: 'ideal' as const }
+}
+
+/** The described pixel size, else the chip pixel over the total magnification (DOMAIN.md §6). */
+function pixelOf(inputs: PrecisionInputs) {
+  const described = positive(inputs.pixelNm)
+  if (described !== null) return { pixelNm: described, pixelSource: 'description' as const }
+  const chip = positive(inputs.chipPixelUm)
+  const objective = positive(inputs.nominalMagnification)
+  if (chip === null || objective === null) return null
+  const tube = positive(inputs.tubeLensMagnification)
+  return {
+    pixelNm: pixelSizeAtSampleNm(chip, objective * (tube ?? 1)),
+    pixelSource:
+      tube === null ? ('objective magnification' as const) : ('total magnification' as const),
+  }
+}
+
+function axialLimitOf(inputs: PrecisionInputs, lambda: number, na: number): number | null {
+  const immersion = (IMMERSIONS as readonly unknown[]).includes(inputs.immersion)
+    ? (inputs.immersion as Immersion)
+    : undefined
+  const n = immersionIndexOf(immersion, positive(inputs.refractiveIndex) ?? undefined)
+  return n !== null && na <= n ? axialDiffractionLimitNm(lambda, na, n) : null
+}
+
+/**
+ * Lateral precision of a typical spot by Thompson 2002 and Mortensen 2010 (LSQ and MLE), with
+ * the PSF width a table measured, else the described one, else the ideal 0.21 λ/NA (a lower
+ * bound: fitted PSFs are 100–150 nm where the ideal is ≈ 94, DOMAIN.md §6). Electron
+ * multiplication doubles every variance, Thompson's too; read noise adds to b² (CMOS, CCD).
+ */
 export function expectedPrecision(inputs: PrecisionInputs): ExpectedPrecision | null {
   const lambda = positive(inputs.emissionNm)
   const na = positive(inputs.na)
-  const a = positive(inputs.pixelNm)
+  const pixel = pixelOf(inputs)
   const n = positive(inputs.photons)
-  const b2 = inputs.background
-  if (lambda === null || na === null || a === null || n === null) return null
-  if (typeof b2 !== 'number' || !Number.isFinite(b2) || b2 < 0) return null
-  const s = gaussianPsfSigmaNm(lambda, na)
-  // Only EM gain multiplies the noise; sCMOS and CCD cameras count as ideal (Mortensen 2010).
-  const excessNoise = inputs.detectorType === 'EMCCD' ? EMCCD_EXCESS_NOISE : NO_EXCESS_NOISE
-  const spot = { s, a, n, b2, excessNoise }
+  const background = inputs.background
+  if (lambda === null || na === null || pixel === null || n === null) return null
+  if (typeof background !== 'number' || !Number.isFinite(background) || background < 0) return null
+  const psf = psfOf(inputs, lambda, na)
+  const excessNoise = excessNoiseForDetector(inputs.detectorType)
+  // Electron multiplication makes the read noise negligible; CMOS and CCD add it to b².
+  const readNoiseE = excessNoise === 1 ? (positive(inputs.readNoiseE) ?? 0) : 0
+  const b2 = background + readNoiseE ** 2
+  const spot = { s: psf.psfSigmaNm, a: pixel.pixelNm, n, b2, excessNoise }
   return {
-    psfSigmaNm: s,
-    pixelNm: a,
+    ...psf,
+    ...pixel,
     excessNoise,
-    thompsonNm: thompsonPrecisionNm(spot),
+    readNoiseE,
+    thompsonNm: thompsonPrecisionNm(spot) * Math.sqrt(excessNoise),
     lsqNm: mortensenLsqPrecisionNm(spot),
     mleNm: mortensenMlePrecisionNm(spot),
+    axialLimitNm: axialLimitOf(inputs, lambda, na),
   }
 }
 

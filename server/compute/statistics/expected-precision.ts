@@ -91,6 +91,9 @@ function cubicAt(table: Float64Array, position: number): number {
   )
 }
 
+/** Electron multiplication (EMCCD, intensified or electron-bombarded CCD) doubles the variance. */
 export function excessNoiseOf(detector: string | undefined): number {
-  return detector === 'emccd' ? EMCCD_EXCESS_NOISE : NO_EXCESS_NOISE
+  return detector === 'emccd' || detector === 'iccd' || detector === 'ebccd'
+    ? EMCCD_EXCESS_NOISE
+    : NO_EXCESS_NOISE
 }

@@ -11,25 +11,42 @@ import {
   linearCoefficients,
   type PrecisionFormula,
 } from './expected-precision'
+import { gaussianPsfSigmaNm } from '@shared/domain/optics'
 import type { ParameterValue } from './result'
 import { systematicSample } from './sampling'
 
 export interface PrecisionOptions {
   /** Camera pixel size at the sample, nm; needed for expected precision. */
   pixelNm?: number
-  /** PSF SD, nm (default: median of the sigma column). */
+  /** The description's fitted PSF SD, nm: used when the table has no sigma column. */
   psfSigmaNm?: number
+  /** Emission wavelength and NA: the ideal PSF 0.21 λ/NA when no width is known (a lower bound). */
+  emissionNm?: number
+  numericalAperture?: number
   /** Background photons per pixel when the table has no background column. */
   backgroundPhotons?: number
-  /** Read noise, photons RMS per pixel; its square is added to b² (sCMOS/CCD; DOMAIN.md §6). */
+  /** Read noise, photons RMS per pixel; its square is added to b² unless EM gain hides it (§6). */
   readNoisePhotons?: number
-  /** 'emccd' selects Mortensen with F = 2; anything else Thompson (default 'unknown'). */
-  detector?: 'emccd' | 'scmos' | 'ccd' | 'unknown'
+  /**
+   * Cameras with electron multiplication (EMCCD, intensified and electron-bombarded CCD) select
+   * Mortensen with F = 2; anything else Thompson (default 'unknown').
+   */
+  detector?: PrecisionDetector
   /** Estimator assumed for Mortensen (default 'mle'). */
   fit?: 'mle' | 'lsq'
   /** Rows sampled for the expected median when the table has its own column (default 65 536). */
   sampleSize?: number
   distribution?: DistributionOptions
+}
+
+export type PrecisionDetector = 'emccd' | 'iccd' | 'ebccd' | 'scmos' | 'ccd' | 'unknown'
+const MULTIPLYING: readonly PrecisionDetector[] = ['emccd', 'iccd', 'ebccd']
+
+export type PsfSigmaSource = 'sigma column' | 'description' | 'ideal'
+export const PSF_SOURCE_TEXT: Record<PsfSigmaSource, string> = {
+  'sigma column': 'median of the sigma column',
+  description: "the description's fitted PSF width",
+  ideal: 'ideal 0.21 λ/NA, a lower bound (fitted PSFs are wider, DOMAIN.md §6)',
 }
 
 export const FORMULA_NAMES: Record<PrecisionFormula, string> = {
@@ -41,6 +58,7 @@ export const FORMULA_NAMES: Record<PrecisionFormula, string> = {
 export interface PrecisionInputs {
   pixelNm: number
   psfSigmaNm: number
+  psfSigmaSource: PsfSigmaSource
   formula: PrecisionFormula
   excessNoise: number
   readNoise2: number
@@ -61,21 +79,43 @@ export function expectationInputs(
   if (!(pixelNm !== undefined && pixelNm > 0 && pixelNm < Infinity)) {
     return 'The camera pixel size is unknown.'
   }
-  const psfSigmaNm = options.psfSigmaNm ?? medianOf(table.sigma, table.count)
-  if (!(psfSigmaNm !== null && psfSigmaNm > 0 && psfSigmaNm < Infinity)) {
-    return 'The PSF width is unknown (no sigma column and none given).'
-  }
-  const emccd = options.detector === 'emccd'
-  const formula = emccd ? (options.fit === 'lsq' ? 'mortensen-lsq' : 'mortensen-mle') : 'thompson'
-  const readNoise = options.readNoisePhotons ?? 0
+  const psf = psfSigmaOf(table, options)
+  if (!psf)
+    return 'The PSF width is unknown (no sigma column, none described, no wavelength and NA).'
+  const multiplying = MULTIPLYING.includes(options.detector ?? 'unknown')
+  const formula = multiplying
+    ? options.fit === 'lsq'
+      ? 'mortensen-lsq'
+      : 'mortensen-mle'
+    : 'thompson'
+  // Electron multiplication makes the read noise negligible; sCMOS and CCD add it to b².
+  const readNoise = multiplying ? 0 : (options.readNoisePhotons ?? 0)
   return {
     pixelNm,
-    psfSigmaNm,
+    ...psf,
     formula,
     excessNoise: excessNoiseOf(options.detector),
     readNoise2: readNoise * readNoise,
     backgroundPhotons: options.backgroundPhotons ?? NaN,
   }
+}
+
+const usable = (v: number | null | undefined): v is number =>
+  v !== null && v !== undefined && v > 0 && v < Infinity
+
+/** The table's measured width, else the described one, else the ideal one (a lower bound). */
+function psfSigmaOf(table: Localizations, options: PrecisionOptions) {
+  const measured = medianOf(table.sigma, table.count)
+  if (usable(measured)) return { psfSigmaNm: measured, psfSigmaSource: 'sigma column' as const }
+  if (usable(options.psfSigmaNm))
+    return { psfSigmaNm: options.psfSigmaNm, psfSigmaSource: 'description' as const }
+  const { emissionNm, numericalAperture } = options
+  if (usable(emissionNm) && usable(numericalAperture))
+    return {
+      psfSigmaNm: gaussianPsfSigmaNm(emissionNm, numericalAperture),
+      psfSigmaSource: 'ideal' as const,
+    }
+  return null
 }
 
 /** Median (rank ⌈n/2⌉) of a systematic sample of up to 65 536 rows. */
@@ -137,16 +177,19 @@ export function expectedValues(table: Localizations, inputs: PrecisionInputs): V
 
 export function describePrecisionInputs(
   inputs: PrecisionInputs | string,
-  options: PrecisionOptions,
 ): Record<string, ParameterValue> {
   if (typeof inputs === 'string') return { expected: inputs }
   return {
     formula: FORMULA_NAMES[inputs.formula],
     pixelNm: inputs.pixelNm,
     psfSigmaNm: inputs.psfSigmaNm,
-    psfSigmaSource: options.psfSigmaNm === undefined ? 'median of the sigma column' : 'given',
+    psfSigmaSource: PSF_SOURCE_TEXT[inputs.psfSigmaSource],
     excessNoise: inputs.excessNoise,
-    readNoisePhotons: options.readNoisePhotons ?? 0,
+    excessNoiseMeaning:
+      inputs.excessNoise === 1
+        ? 'no electron multiplication: F = 1'
+        : 'electron multiplication: variance × F = 2 (excess-noise factor √2 squared)',
+    readNoisePhotons: Math.sqrt(inputs.readNoise2),
     backgroundSource: Number.isNaN(inputs.backgroundPhotons) ? 'background column' : 'given',
     backgroundPhotons: Number.isNaN(inputs.backgroundPhotons) ? null : inputs.backgroundPhotons,
     backgroundMeaning: 'background level in photons/pixel, used as b² (DOMAIN.md §1.1)',

@@ -91,7 +91,7 @@ export function precisionStatistics(
   uncertaintyDistribution?: StatisticResult<Distribution>,
 ): StatisticResult<PrecisionSummary> {
   const inputs = expectationInputs(table, options)
-  const parameters = describePrecisionInputs(inputs, options)
+  const parameters = describePrecisionInputs(inputs)
   if (table.count === 0) {
     return notComputable('The table has no localizations.', PRECISION_METHOD, parameters)
   }

@@ -87,9 +87,10 @@ describe('expected precision', () => {
       props: { ...optics, detectorType: 'EMCCD' },
     })
     const text = wrapper.text()
-    expect(text).toContain('PSF σ ≈ 0.21·λ/NA = 100.0 nm')
-    expect(text).toContain('excess noise F = 2 (EMCCD)')
-    expect(text).toMatch(/Thompson 2002\s*3\.7 nm/)
+    expect(text).toContain('PSF σ = 100.0 nm, ideal 0.21·λ/NA, a lower bound')
+    expect(text).toContain('excess noise applied: variance × F = 2')
+    // Thompson with the EMCCD's variance factor: 3.653 · √2 = 5.166 nm.
+    expect(text).toMatch(/Thompson 2002, variance × F\s*5\.2 nm/)
     expect(text).toMatch(/least squares\s*6\.7 nm/)
     expect(text).toMatch(/maximum likelihood\s*5\.8 nm/)
   })
@@ -105,6 +106,60 @@ describe('expected precision', () => {
     expect(wrapper.text()).toMatch(/Thompson 2002\s*3\.3 nm/)
     expect(wrapper.text()).toMatch(/least squares\s*4\.4 nm/)
     expect(wrapper.text()).toMatch(/maximum likelihood\s*3\.3 nm/)
+  })
+
+  it('prefers a table’s measured PSF width, then the described one, over the ideal', () => {
+    const base = { ...optics, detectorType: 'CMOS', photons: 1000, background: 10 }
+    // Ideal: 0.21·700/1.47 = 100 nm; a described 130 nm and a measured 150 nm override it.
+    expect(expectedPrecision(base)?.psfSource).toBe('ideal')
+    const described = expectedPrecision({ ...base, fittedPsfSigmaNm: 130 })
+    expect([described?.psfSigmaNm, described?.psfSource]).toEqual([130, 'description'])
+    const measured = expectedPrecision({ ...base, fittedPsfSigmaNm: 130, measuredPsfSigmaNm: 150 })
+    expect([measured?.psfSigmaNm, measured?.psfSource]).toEqual([150, 'table'])
+  })
+
+  it('intensified CCDs get F = 2; CMOS read noise adds to b² (DOMAIN.md §6)', () => {
+    const iccd = expectedPrecision({
+      ...optics,
+      detectorType: 'IntensifiedCCD',
+      photons: 1000,
+      background: 10,
+    })
+    expect(iccd?.excessNoise).toBe(2)
+    expect(iccd?.mleNm).toBeCloseTo(5.788, 2)
+    // b² 0 plus read noise √10 e⁻ squared = b² 10: Thompson 3.653 nm (§1.1 table).
+    const cmos = expectedPrecision({
+      ...optics,
+      detectorType: 'CMOS',
+      photons: 1000,
+      background: 0,
+      readNoiseE: Math.sqrt(10),
+    })
+    expect(cmos?.thompsonNm).toBeCloseTo(3.653, 2)
+  })
+
+  it('takes the pixel from the chip pixel and the total magnification when no pixel size is given', () => {
+    // DOMAIN.md §6: 16 µm / (100 × 1.5) = 106.7 nm.
+    const r = expectedPrecision({
+      ...optics,
+      pixelNm: undefined,
+      chipPixelUm: 16,
+      nominalMagnification: 100,
+      tubeLensMagnification: 1.5,
+      detectorType: 'CMOS',
+      photons: 1000,
+      background: 10,
+    })
+    expect(r?.pixelNm).toBeCloseTo(106.67, 2)
+    expect(r?.pixelSource).toBe('total magnification')
+  })
+
+  it('shows the axial limit 2nλ/NA² for the immersion medium (DOMAIN.md §6: 670 nm, 1.49, 1.518 → 916 nm)', () => {
+    const wrapper = mount(ExpectedPrecisionPanel, {
+      global,
+      props: { emissionNm: 670, na: 1.49, pixelNm: 100, detectorType: 'CMOS', immersion: 'Oil' },
+    })
+    expect(wrapper.get('[data-testid="axial-limit"]').text()).toBe('916.2 nm')
   })
 
   it('asks for the missing optics instead of guessing', () => {
