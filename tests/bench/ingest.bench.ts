@@ -1,12 +1,15 @@
 /**
  * Localization-table ingest of the 10-million-row reference table (../shared/bench/gen_locs.py,
- * cached under the OS temp dir), in a child process for its peak RSS, against pandas' read_csv
- * on the same file in the same run (../shared/bench/reference.py). Targets: ingest ≤ 0.5 × the
- * read_csv time, peak RSS < 1 GB.
+ * cached under the OS temp dir), in a child process for its peak RSS, beside the readers people
+ * would use instead, each on the same file in the same run and in a process of its own
+ * (csv_readers.py): pandas read_csv, pyarrow csv.read_csv and polars read_csv (skipped with a
+ * note where not installed). Stipple's cold ingest starts its parse workers; the warm one runs
+ * again in the same process, as in a running server. Targets (issue #13): cold ≤ 1.0 × and warm
+ * ≤ 0.7 × the faster of pyarrow and polars, peak RSS < 600 MB.
  */
 import { execFile } from 'node:child_process'
 import { rmSync, statSync } from 'node:fs'
-import { referenceTable, referenceTimes } from './reference-pipeline'
+import { referenceTable } from './reference-pipeline'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
 import { fileURLToPath } from 'node:url'
@@ -15,11 +18,13 @@ import { promisify } from 'node:util'
 const run = promisify(execFile)
 const repo = fileURLToPath(new URL('../..', import.meta.url))
 const MAX_BUFFER = 64 << 20
+const READERS = ['pandas', 'pyarrow', 'polars'] as const
 
 interface ChildResult {
   seconds: number
   cpuSeconds: number
   warmSeconds: number
+  warmCpuSeconds: number
   peakRssMB: number
   rowsAccepted: number
   rowsRejected: number
@@ -27,6 +32,10 @@ interface ChildResult {
   recordBatches: number
   phaseSeconds: Record<string, number>
 }
+
+type ReaderResult =
+  | { reader: string; seconds: number; cpu_seconds: number; peak_rss_mb: number; rows: number }
+  | { reader: string; skipped: string }
 
 async function ingestInChild(table: string, output: string): Promise<ChildResult> {
   const args = ['--import', 'tsx', join(repo, 'tests', 'bench', 'ingest-child.ts'), table, output]
@@ -36,35 +45,66 @@ async function ingestInChild(table: string, output: string): Promise<ChildResult
   return JSON.parse(line.slice('RESULT '.length)) as ChildResult
 }
 
+async function readWith(reader: string, table: string): Promise<ReaderResult> {
+  const script = join(repo, 'tests', 'bench', 'csv_readers.py')
+  try {
+    const { stdout } = await run('python3', [script, reader, table], { maxBuffer: MAX_BUFFER })
+    const line = stdout.split('\n').find((l) => l.startsWith('JSON '))
+    if (!line) return { reader, skipped: `printed no result: ${stdout.slice(0, 200)}` }
+    return JSON.parse(line.slice('JSON '.length)) as ReaderResult
+  } catch (error) {
+    return { reader, skipped: `python3 failed (${(error as Error).message.split('\n')[0]})` }
+  }
+}
+
 export async function benchIngest(): Promise<Record<string, unknown>> {
   const table = await referenceTable()
   const fileMB = statSync(table).size / 1e6
   const output = join(tmpdir(), `stipple-bench-ingest-${process.pid}.arrow`)
   try {
     const ingest = await ingestInChild(table, output)
-    const readCsv = (await referenceTimes(table)).read_csv!
-    const ratio = ingest.seconds / readCsv
-    return {
+    const readers: ReaderResult[] = []
+    for (const reader of READERS) readers.push(await readWith(reader, table))
+    const timed = readers.filter((r) => 'seconds' in r)
+    const fastest = timed
+      .filter((r) => r.reader !== 'pandas')
+      .reduce<(typeof timed)[number] | null>((a, b) => (!a || b.seconds < a.seconds ? b : a), null)
+    const figures: Record<string, unknown> = {
       rows: ingest.rowsAccepted,
       rejectedRows: ingest.rowsRejected,
       fileMB: round(fileMB, 1),
-      ingestSeconds: round(ingest.seconds, 3),
-      ingestCpuSeconds: round(ingest.cpuSeconds, 2),
-      warmIngestSeconds: round(ingest.warmSeconds, 3),
+      coldSeconds: round(ingest.seconds, 3),
+      coldMBPerSecondPerCore: round(fileMB / ingest.cpuSeconds, 1),
+      warmSeconds: round(ingest.warmSeconds, 3),
+      warmMBPerSecondPerCore: round(fileMB / ingest.warmCpuSeconds, 1),
+      peakRssMB: Math.round(ingest.peakRssMB),
       phases: Object.entries(ingest.phaseSeconds)
         .map(([k, v]) => `${k} ${round(v, 2)}`)
         .join(', '),
-      rowsPerSecond: Math.round(ingest.rowsAccepted / ingest.seconds),
-      mbPerSecond: round(fileMB / ingest.seconds, 1),
-      peakRssMB: Math.round(ingest.peakRssMB),
       outputMB: round(ingest.outputBytes / 1e6, 1),
-      recordBatches: ingest.recordBatches,
-      pandasReadCsvSeconds: round(readCsv, 3),
-      ratioToReadCsv: round(ratio, 3),
-      targetRatio: 0.5,
-      targetPeakRssMB: 1000,
-      targetsMet: ratio <= 0.5 && ingest.peakRssMB < 1000,
     }
+    for (const r of readers) {
+      if (!('seconds' in r)) {
+        figures[r.reader] = `skipped: ${r.skipped}`
+        continue
+      }
+      figures[r.reader] =
+        `${round(r.seconds, 3)} s, ${round(fileMB / r.cpu_seconds, 1)} MB/s per core, ` +
+        `peak RSS ${Math.round(r.peak_rss_mb)} MB, ${r.rows} rows; Stipple cold/this ` +
+        `${round(ingest.seconds / r.seconds, 3)}, warm/this ${round(ingest.warmSeconds / r.seconds, 3)}`
+    }
+    if (fastest) {
+      const cold = ingest.seconds / fastest.seconds
+      const warm = ingest.warmSeconds / fastest.seconds
+      Object.assign(figures, {
+        fasterOfArrowPolars: fastest.reader,
+        coldRatio: round(cold, 3),
+        warmRatio: round(warm, 3),
+        targets: 'cold ≤ 1.0, warm ≤ 0.7, peak RSS < 600 MB',
+        targetsMet: cold <= 1 && warm <= 0.7 && ingest.peakRssMB < 600,
+      })
+    } else figures.targets = 'not judged: neither pyarrow nor polars ran'
+    return figures
   } finally {
     for (const path of [output, `${output}.warm`]) {
       rmSync(path, { force: true })
