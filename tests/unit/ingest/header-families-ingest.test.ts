@@ -4,7 +4,7 @@
  * mapping suggested from its header (plus the pixel size where the depositor would give it),
  * ingested, and read back from the Arrow file.
  */
-import { readFileSync } from 'node:fs'
+import { existsSync, readFileSync } from 'node:fs'
 import { tableFromIPC } from 'apache-arrow'
 import { afterAll, describe, expect, it } from 'vitest'
 import { suggestMapping } from '@shared/domain/localization-columns'
@@ -135,5 +135,53 @@ describe('ingest by header family', () => {
     )
     expect(column('x')).toEqual([98.5, 107.5])
     expect(column('x_nm')).toEqual([100, 110])
+  })
+})
+
+describe('bad input: refused before anything is written', () => {
+  const rows = Array.from({ length: 2000 }, (_, i) => `${i},${i},${i}`)
+  const text = lines('frame,x_nm,y_nm', ...rows)
+
+  it('a table past the row limit stops with a rejection in words and leaves no store', async () => {
+    const sourcePath = tmp.file('limit.csv', text)
+    const outputPath = tmp.path('limit.arrow')
+    const mapping = {
+      frameBase: 'auto' as const,
+      columns: [
+        { index: 0, role: 'frame' as const },
+        { index: 1, role: 'x' as const, unit: 'nm' as const },
+        { index: 2, role: 'y' as const, unit: 'nm' as const },
+      ],
+    }
+    const run = ingestLocalizationTable({
+      sourcePath,
+      outputPath,
+      mapping,
+      limits: { maxRows: 100 },
+      tuning: { workers: 2, chunkBytes: 4096 },
+    })
+    await expect(run).rejects.toThrow(/more than 100 rows/)
+    expect(existsSync(outputPath)).toBe(false)
+    expect(existsSync(`${outputPath}.index.json`)).toBe(false)
+  })
+
+  it('a mapping with a PSF width twice (sigma and FWHM) is refused, nothing written', async () => {
+    const sourcePath = tmp.file('widths.csv', lines('x_nm,y_nm,sigma,fwhm', '1,2,120,280'))
+    const outputPath = tmp.path('widths.arrow')
+    const run = ingestLocalizationTable({
+      sourcePath,
+      outputPath,
+      mapping: {
+        frameBase: 'auto',
+        columns: [
+          { index: 0, role: 'x', unit: 'nm' },
+          { index: 1, role: 'y', unit: 'nm' },
+          { index: 2, role: 'sigma', unit: 'nm' },
+          { index: 3, role: 'fwhm', unit: 'nm' },
+        ],
+      },
+    })
+    await expect(run).rejects.toThrow(/PSF width once/)
+    expect(existsSync(outputPath)).toBe(false)
   })
 })
