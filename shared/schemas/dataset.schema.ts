@@ -57,16 +57,24 @@ export const DATASET_SORT_FIELDS = [
 export type DatasetSortField = (typeof DATASET_SORT_FIELDS)[number]
 const sortValues = DATASET_SORT_FIELDS.flatMap((f) => [f, `-${f}`] as const)
 
-export const listDatasetsQuerySchema = pageQuerySchema.extend({
-  sort: z
-    .enum(sortValues as [string, ...string[]], {
-      error: `sort must be one of ${sortValues.join(', ')}`,
-    })
-    .default('-createdAt'),
-  q: z.string().trim().max(200).optional(),
-  projectId: idSchema.optional(),
-  state: z.enum(DATASET_STATES).optional(),
-})
+export const listDatasetsQuerySchema = pageQuerySchema
+  .extend({
+    sort: z
+      .enum(sortValues as [string, ...string[]], {
+        error: `sort must be one of ${sortValues.join(', ')}`,
+      })
+      .default('-createdAt'),
+    /** Words to find in title, description or accession (each word, its end as a prefix). */
+    q: z.string().trim().max(200, 'A search can have at most 200 characters').optional(),
+    projectId: idSchema.optional(),
+    state: z.enum(DATASET_STATES).optional(),
+    /** The previous page's `nextCursor`: the next page at any depth, without an offset. */
+    cursor: z.string().max(500, 'Not a cursor this list gave out').optional(),
+  })
+  .refine((q) => !(q.cursor && q.offset > 0), {
+    error: 'Give either an offset or a cursor, not both',
+    path: ['cursor'],
+  })
 export type ListDatasetsQuery = z.input<typeof listDatasetsQuerySchema>
 export type ListDatasetsParams = z.output<typeof listDatasetsQuerySchema>
 
@@ -157,3 +165,15 @@ export const datasetSchema = z
   })
   .meta({ id: 'Dataset' })
 export type DatasetDto = z.infer<typeof datasetSchema>
+
+/** One page of the dataset list. */
+export const datasetPageSchema = z
+  .object({
+    items: z.array(datasetSchema),
+    /** Every dataset the filters select for this viewer, not only this page. */
+    total: z.number().int(),
+    /** Pass as `cursor` for the page after this one; null on the last page. */
+    nextCursor: z.string().nullable(),
+  })
+  .meta({ id: 'DatasetPage' })
+export type DatasetPage = z.infer<typeof datasetPageSchema>

@@ -38,6 +38,10 @@ export interface BenchPeople {
   steward: string
 }
 
+/** A hash of `i`: states and projects independent of the words in the title. */
+const spread = (i: number, salt: number) => (Math.imul(i + 1, 2654435761) >>> (salt * 4)) & 0xffff
+const stateOf = (i: number) => DATASET_STATES[spread(i, 1) % DATASET_STATES.length]!
+
 /** Title and description of bench dataset `i`, varied enough that search words match many or few. */
 function textOf(i: number) {
   const word = WORDS[i % WORDS.length]!
@@ -92,12 +96,12 @@ export async function seedDatasets(em: EntityManager, count: number): Promise<Be
     for (let start = 0; start < count; start += 500) {
       const rows = []
       for (let i = start; i < Math.min(count, start + 500); i++) {
-        const state = DATASET_STATES[i % DATASET_STATES.length]!
+        const state = stateOf(i)
         const created = base + i * 3_600_000
         rows.push({
           accession: formatAccession(i + 1),
           ...textOf(i),
-          project_id: projects[i % projects.length]!.id,
+          project_id: projects[spread(i, 2) % projects.length]!.id,
           state,
           embargo_until: state === 'approved' && i % 4 === 0 ? base + 5 * 365 * 86_400_000 : null,
           licence: 'CC-BY-4.0',
@@ -111,9 +115,14 @@ export async function seedDatasets(em: EntityManager, count: number): Promise<Be
     }
     await trx('sequence').insert({ name: 'accession', value: count })
   })
-  // Eight drafts shared with the collaborator (ids are 1…count in insert order; i % 5 = 0 is a draft).
+  // Eight drafts shared with the collaborator (ids are 1…count in insert order).
+  const drafts = Array.from({ length: count }, (_, i) => i).filter((i) => stateOf(i) === 'draft')
   for (let k = 0; k < 8; k++)
-    em.create(DatasetShare, { dataset: 1 + k * 37 * 5, user: collaborator.id, capabilities: [] })
+    em.create(DatasetShare, {
+      dataset: drafts[k * 37]! + 1,
+      user: collaborator.id,
+      capabilities: [],
+    })
   await em.flush()
 
   const token = async (userId: number) =>

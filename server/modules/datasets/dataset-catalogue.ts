@@ -1,190 +1,236 @@
 import type { EntityManager, FilterQuery, ObjectQuery } from '@mikro-orm/better-sqlite'
-import { raw } from '@mikro-orm/better-sqlite'
-import type { DatasetState } from '@shared/domain/dataset-state'
-import type { Page } from '@shared/schemas/common.schema'
-import type {
-  DatasetDto,
-  DatasetSortField,
-  ListDatasetsParams,
-} from '@shared/schemas/dataset.schema'
+import type { DatasetSortField, ListDatasetsParams } from '@shared/schemas/dataset.schema'
 import { accessibleWhere } from '../../http/access'
 import { VersionedCache } from '../../http/versioned-cache'
 import type { Actor } from '../../services'
 import { readAccessVersion } from '../common/access-version'
+import { decodeCursor, encodeCursor, type ListPosition } from './dataset-cursor'
 import { Dataset, type IDataset } from './dataset.entity'
+import { RenderedRows, sortValueOf, type PageRow, type RenderedRow } from './dataset-list-rows'
+import type { ListReader } from './dataset-list-reader'
+import {
+  SORT_COLUMNS,
+  countSql,
+  pageIdsSql,
+  type ListFilter,
+  type ListOrder,
+  type ListPlan,
+  type PageWindow,
+  type Sql,
+} from './dataset-list-sql'
+import { searchExpression } from './dataset-search'
 
-const COLUMN: Record<DatasetSortField, string> = {
-  createdAt: 'd.created_at',
-  updatedAt: 'd.updated_at',
-  title: 'd.title',
-  accession: 'd.accession',
-  state: 'd.state',
+/** A gather (filter first, then sort) is chosen only up to this many matching rows. */
+export const GATHER_MAX_ROWS = 2000
+/** From this offset on (and for every search) pages are sliced from the whole result. */
+export const WHOLE_RESULT_FROM = 200
+
+/** One page as the API sends it, encoded once. */
+export interface ListAnswer {
+  body: Buffer
+  /** Milliseconds spent in the database; null when the page came from the cache. */
+  dbMs: number | null
 }
 
-/** One row of the page query: dataset columns plus the joined names, as SQLite returns them. */
-interface CatalogueRow {
-  id: number
-  accession: string
-  title: string
-  description: string
-  project_id: number
-  project_name: string
-  state: DatasetState
-  embargo_until: number | null
-  proposed_embargo_until: number | null
-  licence: string
-  version: number
-  created_by_id: number | null
-  creator_name: string | null
-  created_at: number
-  updated_at: number
-  submitted_at: number | null
-  approved_at: number | null
-}
-
-const iso = (ms: number | null) => (ms === null ? null : new Date(ms).toISOString())
-const day = (ms: number | null) => (ms === null ? null : new Date(ms).toISOString().slice(0, 10))
-
-function toDto(r: CatalogueRow): DatasetDto {
-  return {
-    id: r.id,
-    accession: r.accession,
-    title: r.title,
-    description: r.description,
-    project: { id: r.project_id, name: r.project_name },
-    state: r.state,
-    embargoUntil: day(r.embargo_until),
-    proposedEmbargoUntil: day(r.proposed_embargo_until),
-    licence: r.licence,
-    version: r.version,
-    createdBy:
-      r.created_by_id === null ? null : { id: r.created_by_id, name: r.creator_name ?? '' },
-    createdAt: iso(r.created_at)!,
-    updatedAt: iso(r.updated_at)!,
-    submittedAt: iso(r.submitted_at),
-    approvedAt: iso(r.approved_at),
-  }
-}
-
-/**
- * `%` and `_` are LIKE's wildcards; searched for as text they are escaped, and SQLite honours an
- * escape only when the query names one, which MikroORM's $like does not: hence a raw fragment.
- * A fragment is good for one query only, so the search filter is built afresh for each use.
- */
-function searchFilter(text: string): FilterQuery<IDataset> {
-  const like = `%${text.replace(/[\\%_]/g, (c) => `\\${c}`)}%`
-  const columns = ['title', 'description', 'accession']
-  return {
-    [raw(
-      (alias: string) => `(${columns.map((c) => `${alias}.${c} like ? escape '\\'`).join(' or ')})`,
-      columns.map(() => like),
-    )]: [],
-  }
-}
-
-function filtersFor(allowed: FilterQuery<IDataset>, q: ListDatasetsParams): ObjectQuery<IDataset> {
-  const filters: FilterQuery<IDataset>[] = [structuredClone(allowed)]
-  if (q.projectId) filters.push({ project: q.projectId })
-  if (q.state) filters.push({ state: q.state })
-  if (q.q) filters.push(searchFilter(q.q))
-  return { $and: filters }
-}
-
-/** A list filter: `where()` gives a fresh copy for each query (MikroORM rewrites what it is given). */
-interface CatalogueFilter {
-  where(): ObjectQuery<IDataset>
+/** What someone may read, as CASL gives it, with its cache key. */
+interface Viewing {
+  allowed: FilterQuery<IDataset>
   key: string
 }
 
+/** Database time of one request. */
+interface Clock {
+  ms: number
+}
+
+interface ListRequest {
+  viewing: Viewing
+  match: string | undefined
+  filterKey: string
+  pageKey: string
+}
+
+const emptyBody = (total: number) =>
+  Buffer.from(JSON.stringify({ items: [], total, nextCursor: null }))
+const NOTHING = emptyBody(0)
+
+const ITEMS_START = Buffer.from('{"items":[')
+const COMMA = Buffer.from(',')
+
+/** The page's JSON from its rows' encoded bytes, copied once into one buffer. */
+function pageBody(rows: RenderedRow[], total: number, nextCursor: string | null): Buffer {
+  const parts: Buffer[] = [ITEMS_START]
+  rows.forEach((r, i) => parts.push(...(i ? [COMMA, r.json] : [r.json])))
+  parts.push(Buffer.from(`],"total":${total},"nextCursor":${JSON.stringify(nextCursor)}}`))
+  return Buffer.concat(parts)
+}
+
+const VISIBILITY_QUERY = 'select `d`.`id` from `dataset` as `d`'
+
 /**
- * The dataset list behind GET /api/datasets: narrowed in the database by the caller's abilities,
- * paged and sorted by SQLite over indexes. Counting everything someone may see grows with the
- * catalogue, and the same first pages are asked for again and again, so totals and pages are
- * kept per access version. That is exact, not a time-to-live: any change to datasets, projects,
- * shares, memberships or users raises the version in the same transaction, and the next request
- * reads afresh.
+ * The viewer's visibility as SQL over `d`, written by MikroORM from the CASL rules (values
+ * inlined and escaped by the ORM), once per set of rules; '' when every row is visible.
+ */
+function visibilitySql(em: EntityManager, allowed: FilterQuery<IDataset>): string {
+  const sql = em
+    .createQueryBuilder(Dataset, 'd')
+    .select('d.id')
+    .where(structuredClone(allowed) as ObjectQuery<IDataset>)
+    .getFormattedQuery()
+  if (!sql.startsWith(VISIBILITY_QUERY)) throw new Error(`Unexpected visibility query: ${sql}`)
+  const rest = sql.slice(VISIBILITY_QUERY.length)
+  return rest.startsWith(' where ') ? rest.slice(' where '.length) : ''
+}
+
+/**
+ * The dataset list behind GET /api/datasets: narrowed in SQL by the caller's abilities, sorted
+ * and paged over the indexes of dataset-list-sql.ts, searched through the full-text index.
+ * Totals, whole results (ids in order), encoded rows and pages are kept per access version:
+ * exact, not a time-to-live, as any change to datasets, projects, shares, memberships or users
+ * raises the version in the same transaction and the next request reads afresh. So a page costs
+ * at most one short index walk and a read of the rows not yet encoded, however deep it is.
  */
 export class DatasetCatalogue {
   private readonly totals = new VersionedCache<number>(2000)
-  private readonly pages = new VersionedCache<Page<DatasetDto>>(500)
-  /** The filter (and its cache key) per abilities object and query; abilities are reused for a second. */
-  private readonly filters = new WeakMap<object, Map<string, CatalogueFilter | null>>()
+  private readonly pages = new VersionedCache<Buffer>(500)
+  /** Whole results in order, as ids: a page at any depth is a slice (at most 0.4 MB each). */
+  private readonly results = new VersionedCache<Int32Array>(64)
+  private readonly rendered = new RenderedRows(20_000)
+  /** Per abilities object (each is reused for a second): what it may read. */
+  private readonly viewings = new WeakMap<object, Viewing | null>()
+  private readonly visibility = new Map<string, string>()
+
+  constructor(private readonly reader: ListReader) {}
 
   /** A page from the cache, without waiting for anything; undefined when it must be read. */
-  cached(actor: Actor, q: ListDatasetsParams): Page<DatasetDto> | undefined {
-    const filter = this.filterFor(actor, q)
-    if (filter === null) return { items: [], total: 0 }
+  cached(actor: Actor, q: ListDatasetsParams): Buffer | undefined {
+    const request = this.requestOf(actor, q)
+    if (request === null) return NOTHING
     if (actor.accessVersion === undefined) return undefined
-    return this.pages.get(this.pageKey(filter.key, q), actor.accessVersion)
+    return this.pages.get(request.pageKey, actor.accessVersion)
   }
 
-  /** `em` is asked for only when the page is not cached. */
-  async list(
-    em: () => EntityManager,
-    actor: Actor,
-    q: ListDatasetsParams,
-  ): Promise<Page<DatasetDto>> {
-    const filter = this.filterFor(actor, q)
-    if (filter === null) return { items: [], total: 0 }
+  /** `em` is asked for only when the database must be read through the ORM. */
+  async list(em: () => EntityManager, actor: Actor, q: ListDatasetsParams): Promise<ListAnswer> {
+    const request = this.requestOf(actor, q)
+    if (request === null) return { body: NOTHING, dbMs: 0 }
     const version = actor.accessVersion ?? (await readAccessVersion(em()))
-    const pageKey = this.pageKey(filter.key, q)
-    const cached = this.pages.get(pageKey, version)
-    if (cached) return cached
-    const page = await this.read(em(), filter, version, q)
-    this.pages.set(pageKey, version, page)
-    return page
+    const cached = this.pages.get(request.pageKey, version)
+    if (cached) return { body: cached, dbMs: null }
+    const clock = { ms: 0 }
+    const body = await this.read(em, clock, request, version, q)
+    // First pages are asked for again and again; deep ones are cheap to slice again.
+    if (q.offset < WHOLE_RESULT_FROM && !q.cursor) this.pages.set(request.pageKey, version, body)
+    return { body, dbMs: clock.ms }
   }
 
-  private pageKey(filterKey: string, q: ListDatasetsParams) {
-    return `${filterKey}|${q.sort}|${q.limit}|${q.offset}`
+  /** null: the caller sees nothing, or searched for nothing worth looking for. */
+  private requestOf(actor: Actor, q: ListDatasetsParams): ListRequest | null {
+    const viewing = this.viewingOf(actor)
+    const match = q.q ? searchExpression(q.q) : undefined
+    if (viewing === null || match === null) return null
+    const filterKey = `${viewing.key}|${q.projectId ?? ''}|${q.state ?? ''}|${match ?? ''}`
+    const pageKey = `${filterKey}|${q.sort}|${q.limit}|${q.offset}|${q.cursor ?? ''}`
+    return { viewing, match, filterKey, pageKey }
   }
 
-  private filterFor(actor: Actor, q: ListDatasetsParams) {
-    let perAbility = this.filters.get(actor.ability)
-    if (!perAbility) this.filters.set(actor.ability, (perAbility = new Map()))
-    const queryKey = `${q.projectId ?? ''}|${q.state ?? ''}|${q.q ?? ''}`
-    let filter = perAbility.get(queryKey)
-    if (filter === undefined) {
+  private viewingOf(actor: Actor): Viewing | null {
+    let viewing = this.viewings.get(actor.ability)
+    if (viewing === undefined) {
       const allowed = accessibleWhere<IDataset>(actor.ability, 'read', 'Dataset')
-      filter =
-        allowed === null
-          ? null
-          : {
-              where: () => filtersFor(allowed, q),
-              key: JSON.stringify({ allowed, queryKey }),
-            }
-      // Free-text searches are too varied to keep; the rest are a handful per person.
-      if (!q.q) perAbility.set(queryKey, filter)
+      viewing = allowed === null ? null : { allowed, key: JSON.stringify(allowed) }
+      this.viewings.set(actor.ability, viewing)
     }
-    return filter
+    return viewing
+  }
+
+  private visibilityOf(em: () => EntityManager, viewing: Viewing): string {
+    let sql = this.visibility.get(viewing.key)
+    if (sql === undefined) {
+      sql = visibilitySql(em(), viewing.allowed)
+      if (this.visibility.size >= 1000) this.visibility.clear()
+      this.visibility.set(viewing.key, sql)
+    }
+    return sql
+  }
+
+  /** Runs one statement, adding its time to the request's clock. */
+  private async rows<T extends unknown[]>(clock: Clock, sql: Sql) {
+    const started = performance.now()
+    const rows = (await this.reader.rows(sql.sql, sql.params)) as T[]
+    clock.ms += performance.now() - started
+    return rows
   }
 
   private async read(
-    em: EntityManager,
-    filter: CatalogueFilter,
+    em: () => EntityManager,
+    clock: Clock,
+    request: ListRequest,
     version: number,
     q: ListDatasetsParams,
-  ) {
-    let total = this.totals.get(filter.key, version)
-    if (total === undefined) {
-      total = await em.count(Dataset, filter.where())
-      this.totals.set(filter.key, version, total)
+  ): Promise<Buffer> {
+    const field = q.sort.replace(/^-/, '') as DatasetSortField
+    const order: ListOrder = { field, descending: q.sort.startsWith('-') }
+    const after = q.cursor
+      ? decodeCursor(q.cursor, q.sort, SORT_COLUMNS[field].valueType)
+      : undefined
+    const filter: ListFilter = {
+      visibility: this.visibilityOf(em, request.viewing),
+      projectId: q.projectId,
+      state: q.state,
+      match: request.match,
     }
-    if (total === 0 || q.offset >= total) return { items: [], total }
 
-    const descending = q.sort.startsWith('-')
-    const column = COLUMN[q.sort.replace(/^-/, '') as DatasetSortField]
-    const direction = descending ? 'desc' : 'asc'
-    const rows = await em
-      .createQueryBuilder(Dataset, 'd')
-      .select([raw('d.*'), raw('p.name as project_name'), raw('u.name as creator_name')])
-      .join('d.project', 'p')
-      .leftJoin('d.createdBy', 'u')
-      .where(filter.where())
-      .orderBy([{ [raw(column)]: direction }, { id: direction }])
-      .limit(q.limit)
-      .offset(q.offset)
-      .execute<CatalogueRow[]>('all', false)
-    return { items: rows.map(toDto), total }
+    let total = this.totals.get(request.filterKey, version)
+    if (total === undefined) {
+      total = Number((await this.rows<[number]>(clock, countSql(filter)))[0]![0])
+      this.totals.set(request.filterKey, version, total)
+    }
+    if (total === 0 || (!after && q.offset >= total)) return emptyBody(total)
+
+    const narrowed = filter.projectId !== undefined || filter.state || filter.match
+    const plan: ListPlan = narrowed && total <= GATHER_MAX_ROWS ? 'gather' : 'walk'
+    const ids = await this.pageIds(clock, request, version, filter, order, plan, q, after)
+    const page = await this.rendered.get(
+      Array.from(ids).slice(0, q.limit),
+      version,
+      (sql, params) => this.rows<PageRow>(clock, { sql, params }),
+    )
+    const last = page[page.length - 1]
+    const nextCursor =
+      ids.length > q.limit && last
+        ? encodeCursor(q.sort, { value: sortValueOf(last, field), id: last.row[0] })
+        : null
+    return pageBody(page, total, nextCursor)
+  }
+
+  /**
+   * The ids of the page and one more (which tells whether another page follows): after the
+   * cursor, or the first pages of a list, by one short query; deep pages and searches from the
+   * whole result, read once per filter, sort and access version and kept in order.
+   */
+  private async pageIds(
+    clock: Clock,
+    request: ListRequest,
+    version: number,
+    filter: ListFilter,
+    order: ListOrder,
+    plan: ListPlan,
+    q: ListDatasetsParams,
+    after: ListPosition | undefined,
+  ): Promise<ArrayLike<number>> {
+    const limit = q.limit + 1
+    const ids = async (window: PageWindow) =>
+      (await this.rows<[number]>(clock, pageIdsSql(filter, order, plan, window))).map(([id]) => id)
+    if (after) return ids({ limit, offset: 0, from: { at: after, inclusive: false } })
+    if (filter.match === undefined && q.offset < WHOLE_RESULT_FROM)
+      return ids({ limit, offset: q.offset })
+    const key = `${request.filterKey}|${q.sort}`
+    let result = this.results.get(key, version)
+    if (!result) {
+      result = Int32Array.from(await ids({ limit: -1, offset: 0 }))
+      this.results.set(key, version, result)
+    }
+    return result.subarray(q.offset, q.offset + limit)
   }
 }

@@ -2,6 +2,7 @@ import type { OpenAPIRegistry } from '@asteasolutions/zod-to-openapi'
 import { z } from 'zod'
 import {
   createDatasetSchema,
+  datasetPageSchema,
   datasetSchema,
   datasetShareSchema,
   listDatasetsQuerySchema,
@@ -10,7 +11,7 @@ import {
   shareDatasetSchema,
   updateDatasetSchema,
 } from '@shared/schemas/dataset.schema'
-import { listOf, pageOf, registerJsonRoute } from '../../openapi/registry'
+import { listOf, registerJsonRoute } from '../../openapi/registry'
 
 export function registerDatasetPaths(registry: OpenAPIRegistry) {
   const tags = ['Datasets']
@@ -24,7 +25,7 @@ export function registerDatasetPaths(registry: OpenAPIRegistry) {
     summary: 'Datasets I can see, paged and sorted on the server',
     tags,
     query: listDatasetsQuerySchema,
-    response: pageOf(datasetSchema),
+    response: datasetPageSchema,
     errors: [400],
   })
   registerJsonRoute(registry, {

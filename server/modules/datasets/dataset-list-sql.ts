@@ -1,0 +1,129 @@
+import type { DatasetState } from '@shared/domain/dataset-state'
+import type { DatasetSortField } from '@shared/schemas/dataset.schema'
+import type { ListPosition } from './dataset-cursor'
+
+/**
+ * The SQL of the dataset list, as plain text and positional parameters (no ORM on this path: the
+ * same statements run prepared on the list's own connection, or through the ORM in tests). Each
+ * sort has an index of its column, id, and the visibility columns (see dataset.entity.ts), and a
+ * page is read in one of two plans:
+ *
+ * - walk: the sort's index in order, checking each entry against the filters inside the index,
+ *   until the page is full. Cheap when the filters keep a fair share of the rows; deep pages
+ *   start from a cursor's position, or come from the whole result the catalogue keeps.
+ * - gather: the few rows the filters select through their own index (project, state) or the
+ *   full-text index, then sorted. Chosen only while the total is small (see the catalogue), so
+ *   the sort is of a bounded number of rows.
+ */
+
+interface SortColumn {
+  column: string
+  index: string
+  valueType: 'number' | 'string'
+}
+
+export const SORT_COLUMNS: Record<DatasetSortField, SortColumn> = {
+  createdAt: { column: 'created_at', index: 'dataset_list_created_at_index', valueType: 'number' },
+  updatedAt: { column: 'updated_at', index: 'dataset_list_updated_at_index', valueType: 'number' },
+  title: { column: 'title', index: 'dataset_list_title_index', valueType: 'string' },
+  accession: { column: 'accession', index: 'dataset_list_accession_index', valueType: 'string' },
+  state: { column: 'state', index: 'dataset_list_state_index', valueType: 'string' },
+}
+
+/** What narrows the list: the viewer's visibility (SQL over `d`, '' when they see every row) and filters. */
+export interface ListFilter {
+  visibility: string
+  projectId?: number
+  state?: DatasetState
+  /** An FTS5 expression (see searchExpression). */
+  match?: string
+}
+
+export interface ListOrder {
+  field: DatasetSortField
+  descending: boolean
+}
+
+export type ListPlan = 'walk' | 'gather'
+
+export interface Sql {
+  sql: string
+  params: unknown[]
+}
+
+const FTS_ROWIDS = 'select rowid from `dataset_fts` where `dataset_fts` match ?'
+
+/** The filter's conditions; a search as a membership test (walk) or left to the FROM (gather). */
+function conditions(filter: ListFilter, params: unknown[], searchInFrom: boolean): string[] {
+  const out: string[] = []
+  if (searchInFrom && filter.match !== undefined) {
+    out.push('f.`dataset_fts` match ?')
+    params.push(filter.match)
+  }
+  if (filter.visibility) out.push(`(${filter.visibility})`)
+  if (filter.projectId !== undefined) {
+    out.push('d.`project_id` = ?')
+    params.push(filter.projectId)
+  }
+  if (filter.state !== undefined) {
+    out.push('d.`state` = ?')
+    params.push(filter.state)
+  }
+  if (!searchInFrom && filter.match !== undefined) {
+    out.push(`d.\`id\` in (${FTS_ROWIDS})`)
+    params.push(filter.match)
+  }
+  return out
+}
+
+/** The search drives a gather from the full-text index; the table follows by primary key. */
+const gatherFrom = (filter: ListFilter) =>
+  filter.match === undefined
+    ? 'from `dataset` d'
+    : 'from `dataset_fts` f cross join `dataset` d on d.`id` = f.rowid'
+
+const whereOf = (parts: string[]) => (parts.length ? ` where ${parts.join(' and ')}` : '')
+
+/** How many rows the filter selects. */
+export function countSql(filter: ListFilter): Sql {
+  const params: unknown[] = []
+  const parts = conditions(filter, params, true)
+  return { sql: `select count(*) ${gatherFrom(filter)}${whereOf(parts)}`, params }
+}
+
+export interface PageWindow {
+  /** Rows to return, -1 for all (the catalogue asks one more than a page: do more follow?). */
+  limit: number
+  offset: number
+  /** Continue after (or from, when inclusive) this position in the sort. */
+  from?: { at: ListPosition; inclusive: boolean }
+}
+
+/** The ids of one page in order (limit -1: the whole result). */
+export function pageIdsSql(
+  filter: ListFilter,
+  order: ListOrder,
+  plan: ListPlan,
+  window: PageWindow,
+): Sql {
+  const { column, index } = SORT_COLUMNS[order.field]
+  const params: unknown[] = []
+  const gather = plan === 'gather'
+  const parts = conditions(filter, params, gather)
+  if (window.from) {
+    const op = (order.descending ? '<' : '>') + (window.from.inclusive ? '=' : '')
+    parts.push(`(d.\`${column}\`, d.\`id\`) ${op} (?, ?)`)
+    params.push(window.from.at.value, window.from.at.id)
+  }
+  const direction = order.descending ? 'desc' : 'asc'
+  // Unary + keeps a gather from walking the sort's index instead of using the filter's own.
+  const sorted = gather ? `+d.\`${column}\`` : `d.\`${column}\``
+  const from = gather ? gatherFrom(filter) : `from \`dataset\` d indexed by \`${index}\``
+  params.push(window.limit, window.offset)
+  return {
+    sql:
+      `select d.\`id\` ${from}${whereOf(parts)} ` +
+      `order by ${sorted} ${direction}, d.\`id\` ${direction} limit ? offset ?`,
+    params,
+  }
+}
