@@ -71,7 +71,7 @@ const VISIBILITY_QUERY = 'select `d`.`id` from `dataset` as `d`'
  * The viewer's visibility as SQL over `d`, written by MikroORM from the CASL rules (values
  * inlined and escaped by the ORM), once per set of rules; '' when every row is visible.
  */
-function visibilitySql(em: EntityManager, allowed: FilterQuery<IDataset>): string {
+export function visibilitySql(em: EntityManager, allowed: FilterQuery<IDataset>): string {
   const sql = em
     .createQueryBuilder(Dataset, 'd')
     .select('d.id')

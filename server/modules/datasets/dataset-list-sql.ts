@@ -53,14 +53,20 @@ export interface Sql {
 
 const FTS_ROWIDS = 'select rowid from `dataset_fts` where `dataset_fts` match ?'
 
-/** The filter's conditions; a search as a membership test (walk) or left to the FROM (gather). */
-function conditions(filter: ListFilter, params: unknown[], searchInFrom: boolean): string[] {
+/**
+ * The filter's conditions. In a gather (and a count) the search is the FROM's full-text index and
+ * the visibility may drive an index; in a walk the search is a membership test, and the
+ * visibility a plain test of each entry (unary +): used to pick rows through an index (an IN list
+ * of states or ids), it would undo the sort's order.
+ */
+function conditions(filter: ListFilter, params: unknown[], plan: ListPlan): string[] {
   const out: string[] = []
-  if (searchInFrom && filter.match !== undefined) {
+  if (plan === 'gather' && filter.match !== undefined) {
     out.push('f.`dataset_fts` match ?')
     params.push(filter.match)
   }
-  if (filter.visibility) out.push(`(${filter.visibility})`)
+  if (filter.visibility)
+    out.push(plan === 'walk' ? `+(${filter.visibility})` : `(${filter.visibility})`)
   if (filter.projectId !== undefined) {
     out.push('d.`project_id` = ?')
     params.push(filter.projectId)
@@ -69,7 +75,7 @@ function conditions(filter: ListFilter, params: unknown[], searchInFrom: boolean
     out.push('d.`state` = ?')
     params.push(filter.state)
   }
-  if (!searchInFrom && filter.match !== undefined) {
+  if (plan === 'walk' && filter.match !== undefined) {
     out.push(`d.\`id\` in (${FTS_ROWIDS})`)
     params.push(filter.match)
   }
@@ -87,7 +93,7 @@ const whereOf = (parts: string[]) => (parts.length ? ` where ${parts.join(' and 
 /** How many rows the filter selects. */
 export function countSql(filter: ListFilter): Sql {
   const params: unknown[] = []
-  const parts = conditions(filter, params, true)
+  const parts = conditions(filter, params, 'gather')
   return { sql: `select count(*) ${gatherFrom(filter)}${whereOf(parts)}`, params }
 }
 
@@ -109,7 +115,7 @@ export function pageIdsSql(
   const { column, index } = SORT_COLUMNS[order.field]
   const params: unknown[] = []
   const gather = plan === 'gather'
-  const parts = conditions(filter, params, gather)
+  const parts = conditions(filter, params, plan)
   if (window.from) {
     const op = (order.descending ? '<' : '>') + (window.from.inclusive ? '=' : '')
     parts.push(`(d.\`${column}\`, d.\`id\`) ${op} (?, ?)`)
