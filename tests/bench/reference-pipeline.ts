@@ -26,12 +26,29 @@ export async function referenceTable(): Promise<string> {
   return path
 }
 
-/** Seconds per step of the reference pipeline on the table (read_csv, stats, render_10nm, …). */
-export async function referenceTimes(table: string): Promise<Record<string, number>> {
+/** What the reference pipeline printed: seconds per step (read_csv, stats, …) and its statistics. */
+export interface ReferenceRun {
+  times: Record<string, number>
+  stats: {
+    count: number
+    frames: number
+    frame_range: [number, number]
+    median_photons: number
+    median_uncertainty_nm: number
+    bbox_nm: [number, number, number, number]
+  }
+}
+
+/** Runs the reference pipeline on the table. */
+export async function referenceRun(table: string): Promise<ReferenceRun> {
   const { stdout } = await run(join(shared, 'bench', 'reference.py'), [table], {
     maxBuffer: MAX_BUFFER,
   })
   const line = stdout.split('\n').find((l) => l.startsWith('JSON '))
   if (!line) throw new Error(`reference.py printed no JSON line:\n${stdout}`)
-  return (JSON.parse(line.slice('JSON '.length)) as { times_s: Record<string, number> }).times_s
+  const printed = JSON.parse(line.slice('JSON '.length)) as {
+    times_s: ReferenceRun['times']
+    stats: ReferenceRun['stats']
+  }
+  return { times: printed.times_s, stats: printed.stats }
 }

@@ -6,10 +6,10 @@
  * the read). For each store tile that meets the box it reads x and y, then the other wanted
  * columns only where some rows fall inside (all of a tile that lies inside the box).
  */
-import { readSync, statSync } from 'node:fs'
+import { statSync } from 'node:fs'
 import { open, type FileHandle } from 'node:fs/promises'
 import { dirname, join } from 'node:path'
-import { readStoreLayout, type ColumnArray, type StoreLayout } from './column-reader'
+import { readIntoSync, readStoreLayout, type ColumnArray, type StoreLayout } from './column-reader'
 import type { Bounds } from './tile.grid'
 import { meets, readTileIndex, type TileIndex } from './tile.index'
 import type { BoxRows } from './tile.reader'
@@ -112,7 +112,7 @@ export class StoreBoxReader {
     if ((this.scratch[c]?.length ?? 0) < bytes) this.scratch[c] = new Uint8Array(bytes)
     // Synchronous: a tile thread has nothing else to do meanwhile, and a read from the page cache
     // is quicker than the round trip through libuv's thread pool.
-    readIntoSync(file.fd, this.scratch[c]!, bytes, batch.valuesAt[c]!)
+    readIntoSync(file.fd, this.scratch[c]!, 0, bytes, batch.valuesAt[c]!)
   }
 
   private async storeOf(arrowPath: string): Promise<OpenStore | null> {
@@ -141,14 +141,6 @@ export class StoreBoxReader {
       void store.then((s) => s?.file.close())
     }
     return opening
-  }
-}
-
-function readIntoSync(fd: number, target: Uint8Array, length: number, position: number) {
-  for (let done = 0; done < length;) {
-    const read = readSync(fd, target, done, length - done, position + done)
-    if (read === 0) throw new Error('The localization store ends early.')
-    done += read
   }
 }
 
