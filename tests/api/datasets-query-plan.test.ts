@@ -13,6 +13,7 @@ import { DATASET_SORT_FIELDS } from '@shared/schemas/dataset.schema'
 import { openDatabase, type Orm } from '@server/db'
 import { accessibleWhere } from '@server/http/access'
 import { visibilitySql } from '@server/modules/datasets/dataset-catalogue'
+import type { IDataset } from '@server/modules/datasets/dataset.entity'
 import { PAGE_ROWS_SQL } from '@server/modules/datasets/dataset-list-rows'
 import {
   countSql,
@@ -83,7 +84,7 @@ const VIEWERS: Record<string, Viewer | null> = {
 }
 
 function visibilityOf(v: Viewer | null): string {
-  const allowed = accessibleWhere(defineAbilityFor(v), 'read', 'Dataset')
+  const allowed = accessibleWhere<IDataset>(defineAbilityFor(v), 'read', 'Dataset')
   if (allowed === null) throw new Error('every viewer here may read something')
   return visibilitySql(orm.em.fork(), allowed)
 }
