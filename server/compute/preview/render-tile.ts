@@ -5,6 +5,7 @@ import {
   renderImage,
   percentileOfPositive,
   type BoundsNm,
+  type ImageScratch,
   type RenderOptions,
   type RenderView,
   type TilePyramid,
@@ -28,6 +29,18 @@ export interface TileTask {
 
 const OVERVIEW_FROM_ROWS = 250_000
 
+/**
+ * This thread's buffers for the images of its tiles (all of one size), lent to each render: fresh
+ * memory costs more to touch than to clear (≈0.3–0.6 ms a tile measured, against 7 µs).
+ */
+let scratch: ImageScratch | null = null
+function scratchFor(view: RenderView): ImageScratch {
+  const pixels = view.width * view.height
+  if (scratch?.density.length !== pixels)
+    scratch = { density: new Float32Array(pixels), rgb: new Uint8Array(pixels * 3) }
+  return scratch
+}
+
 /** One tile as a PNG, from the store rows in and around its view. */
 export async function renderTilePng(task: TileTask): Promise<Uint8Array> {
   const { view, marginNm } = task
@@ -39,7 +52,7 @@ export async function renderTilePng(task: TileTask): Promise<Uint8Array> {
   }
   const image =
     (await fromOverview(task, box)) ??
-    renderImage(await localizationsInBox(task.arrowPath, box), view, task.options)
+    renderImage(await localizationsInBox(task.arrowPath, box), view, task.options, scratchFor(view))
   // Fast deflate: a tile twice the bytes (≈10 kB) for a third of the encoding time, which on a
   // busy server decides how many tiles a second it can draw.
   return encodePng(image.rgb, image.width, image.height, TILE_PNG_COMPRESSION)
@@ -54,7 +67,7 @@ async function fromOverview(task: TileTask, box: BoundsNm) {
   const rows = await rowsMeetingBox(task.arrowPath, box)
   if (rows < (task.overviewFromRows ?? OVERVIEW_FROM_ROWS)) return null
   const overview = await overviewOf(task.arrowPath, pyramid)
-  return renderCountsImage(countsFromOverview(overview, view, k), view, options)
+  return renderCountsImage(countsFromOverview(overview, view, k), view, options, scratchFor(view))
 }
 
 export interface ScaleTask {

@@ -16,12 +16,20 @@ export interface ColourOptions {
 
 export const COLOUR_DEFAULTS = { colormap: 'inferno', gamma: 1 } as const
 
-export function colourize(image: Float32Array, options: ColourOptions = {}): Uint8Array {
+/** Through the colormap; into `into` when it has the image's size (3 bytes a pixel). */
+export function colourize(
+  image: Float32Array,
+  options: ColourOptions = {},
+  into?: Uint8Array,
+): Uint8Array {
   const table = colormapTable(options.colormap ?? COLOUR_DEFAULTS.colormap)
   const levels = new LevelMap(resolveContrast(image, options.contrast), options.gamma)
-  const rgb = new Uint8Array(image.length * 3)
+  const rgb = into?.length === image.length * 3 ? into : new Uint8Array(image.length * 3)
+  // Empty pixels (most of a deep tile) reuse the colour of 0, looked up once.
+  const empty = 3 * levels.level(0)
   for (let p = 0; p < image.length; p++) {
-    const k = 3 * levels.level(image[p]!)
+    const v = image[p]!
+    const k = v === 0 ? empty : 3 * levels.level(v)
     rgb[3 * p] = table[k]!
     rgb[3 * p + 1] = table[k + 1]!
     rgb[3 * p + 2] = table[k + 2]!

@@ -12,13 +12,17 @@ import {
   type RenderView,
 } from './render-view'
 
-/** Localizations per pixel; rows with a non-finite position or outside the view are skipped. */
+/**
+ * Localizations per pixel; rows with a non-finite position or outside the view are skipped.
+ * `into`, when it has the view's size, is cleared and drawn into instead of a new image.
+ */
 export function renderHistogram(
   locs: Localizations,
   view: RenderView,
   filter?: RenderFilter,
+  into?: Float32Array,
 ): Float32Array {
-  const counts = blankImage(view)
+  const counts = into?.length === view.width * view.height ? into.fill(0) : blankImage(view)
   if (counts.length > 0) accumulateCounts(locs, view, new RowFilter(locs, filter), counts)
   return counts
 }

@@ -53,4 +53,10 @@ export {
   type RenderOptions,
   type ResolvedRenderOptions,
 } from './render-options'
-export { finiteRange, renderCountsImage, renderImage, type RenderedImage } from './render-image'
+export {
+  finiteRange,
+  renderCountsImage,
+  renderImage,
+  type ImageScratch,
+  type RenderedImage,
+} from './render-image'

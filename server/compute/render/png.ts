@@ -6,6 +6,13 @@
  */
 import { crc32, deflateSync } from 'node:zlib'
 
+/**
+ * Scanlines reused from one encode to the next (encodes are synchronous; tiles are all of one
+ * size, and fresh memory costs more to touch than to fill here). Only small images share it.
+ */
+let scanlineScratch = new Uint8Array(0)
+const SCRATCH_MAX_BYTES = 1 << 20
+
 const SIGNATURE = Uint8Array.of(0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a)
 const COLOUR_TYPE_RGB = 2
 
@@ -30,10 +37,16 @@ export function encodePng(
     throw new RangeError(`RGB data holds ${rgb.length} bytes, not ${width}·${height}·3`)
   }
   const stride = width * 3
-  // Each scanline is preceded by its filter byte (0: none; zero-filled by alloc).
-  const scanlines = new Uint8Array((stride + 1) * height)
-  for (let row = 0; row < height; row++)
+  // Each scanline is preceded by its filter byte (0: none).
+  const size = (stride + 1) * height
+  if (size <= SCRATCH_MAX_BYTES && scanlineScratch.length < size)
+    scanlineScratch = new Uint8Array(size)
+  const scanlines =
+    size <= SCRATCH_MAX_BYTES ? scanlineScratch.subarray(0, size) : new Uint8Array(size)
+  for (let row = 0; row < height; row++) {
+    scanlines[row * (stride + 1)] = 0
     scanlines.set(rgb.subarray(row * stride, (row + 1) * stride), row * (stride + 1) + 1)
+  }
   const header = Buffer.alloc(13)
   header.writeUInt32BE(width, 0)
   header.writeUInt32BE(height, 4)

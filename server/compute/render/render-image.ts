@@ -20,17 +20,28 @@ export interface RenderedImage {
   reason?: string
 }
 
+/**
+ * Buffers a caller drawing many images of one size (a tile thread) lends to the density path, so
+ * each image does not allocate (and first-touch) fresh memory. The result's rgb is then `rgb`:
+ * it is valid until the next call that lends the same scratch.
+ */
+export interface ImageScratch {
+  density: Float32Array
+  rgb: Uint8Array
+}
+
 export function renderImage(
   locs: Localizations,
   view: RenderView,
   options: RenderOptions = {},
+  scratch?: ImageScratch,
 ): RenderedImage {
   const resolved = resolveRenderOptions(options)
   if (!isDrawableView(view)) {
     const reason = 'the view has no usable pixel size, origin or dimensions'
     return { rgb: new Uint8Array(0), width: 0, height: 0, options: resolved, reason }
   }
-  const { rgb, reason } = colouredImage(locs, view, resolved)
+  const { rgb, reason } = colouredImage(locs, view, resolved, scratch)
   const image: RenderedImage = { rgb, width: view.width, height: view.height, options: resolved }
   if (reason !== undefined) image.reason = reason
   return image
@@ -41,10 +52,12 @@ export function renderCountsImage(
   counts: Float32Array,
   view: RenderView,
   options: RenderOptions = {},
+  scratch?: ImageScratch,
 ): RenderedImage {
   const resolved = resolveRenderOptions(options)
   const { contrast, gamma } = resolved
-  const rgb = colourize(counts, { colormap: resolved.colormap ?? undefined, contrast, gamma })
+  const colour = { colormap: resolved.colormap ?? undefined, contrast, gamma }
+  const rgb = colourize(counts, colour, scratch?.rgb)
   return { rgb, width: view.width, height: view.height, options: resolved }
 }
 
@@ -52,6 +65,7 @@ function colouredImage(
   locs: Localizations,
   view: RenderView,
   resolved: ResolvedRenderOptions,
+  scratch?: ImageScratch,
 ): { rgb: Uint8Array; reason?: string } {
   const { contrast, gamma } = resolved
   const colour = { colormap: resolved.colormap ?? undefined, contrast, gamma }
@@ -65,7 +79,8 @@ function colouredImage(
   }
   const column = resolved.colourBy === 'z' ? locs.z : locs.frame
   if (resolved.colourBy === 'density' || !column) {
-    const rgb = colourize(density(locs, view, resolved, resolved.filter), colour)
+    const counts = density(locs, view, resolved, resolved.filter, scratch?.density)
+    const rgb = colourize(counts, colour, scratch?.rgb)
     if (column || resolved.colourBy === 'density') return { rgb }
     return { rgb, reason: 'the table has no z column: coloured by density' }
   }
@@ -79,8 +94,9 @@ function density(
   view: RenderView,
   resolved: ResolvedRenderOptions,
   filter: RenderFilter,
+  into?: Float32Array,
 ): Float32Array {
-  if (resolved.gaussian === null) return renderHistogram(locs, view, filter)
+  if (resolved.gaussian === null) return renderHistogram(locs, view, filter, into)
   return renderGaussian(locs, view, { ...resolved.gaussian, filter })
 }
 

@@ -61,6 +61,25 @@ describe('coarse tiles from the overview', () => {
     expect(compared).toBe(12)
   })
 
+  it('draws each tile alike whatever the thread drew before (its buffers are reused)', async () => {
+    const options = { contrast: { mode: 'manual' as const, low: 0, high: 40 } }
+    const task = (z: number, x: number, y: number) => ({
+      arrowPath: store,
+      view: tileView(pyramid, z, x, y)!,
+      options,
+      marginNm: 0,
+      pyramid,
+      overviewFromRows: Infinity,
+    })
+    const deep = pyramid.levels - 1
+    const first = await renderTilePng(task(deep, 3, 4))
+    await renderTilePng(task(2, 1, 1)) // a busy tile in between
+    await renderTilePng(task(deep, 0, 0))
+    expect(
+      Buffer.compare(Buffer.from(await renderTilePng(task(deep, 3, 4))), Buffer.from(first)),
+    ).toBe(0)
+  })
+
   it('is not used where it cannot stand in: filters, Gaussian rendering, the overview level itself', async () => {
     const view = tileView(pyramid, 1, 0, 0)!
     const base = { arrowPath: store, view, marginNm: 0, pyramid, overviewFromRows: 0 }

@@ -96,6 +96,18 @@ describe('colouring', () => {
     expect(lifted[3 * 4]).toBe(128) // √0.25 = 0.5
   })
 
+  it('gives empty pixels the colour of 0 even when the range starts below 0, into a lent buffer too', () => {
+    // low −10, high 10: 0 sits mid-range, 5/20 · 255 → 128 for 0 and 191 for 5 (linear map).
+    const image = Float32Array.from([0, 5, -10, 0])
+    const below = { mode: 'manual', low: -10, high: 10 } as const
+    const grey = colourize(image, { colormap: 'grayscale', contrast: below })
+    expect(Array.from(grey.filter((_, i) => i % 3 === 0))).toEqual([128, 191, 0, 128])
+    const lent = new Uint8Array(12).fill(7)
+    const into = colourize(image, { colormap: 'grayscale', contrast: below }, lent)
+    expect(into).toBe(lent)
+    expect(Array.from(into)).toEqual(Array.from(grey))
+  })
+
   it('colour by value: hue from the mean, brightness from the density', () => {
     const density = Float32Array.from([10, 5, 10, 0])
     const mean = Float32Array.from([0, 100, 100, 50])
