@@ -19,6 +19,7 @@ import {
   type Sql,
 } from './dataset-list-sql'
 import { searchExpression } from './dataset-search'
+import { ResultCache } from './result-cache'
 
 /** A gather (filter first, then sort) is chosen only up to this many matching rows. */
 export const GATHER_MAX_ROWS = 2000
@@ -93,8 +94,8 @@ export function visibilitySql(em: EntityManager, allowed: FilterQuery<IDataset>)
 export class DatasetCatalogue {
   private readonly totals = new VersionedCache<number>(2000)
   private readonly pages = new VersionedCache<Buffer>(500)
-  /** Whole results in order, as ids: a page at any depth is a slice (at most 0.4 MB each). */
-  private readonly results = new VersionedCache<Int32Array>(64)
+  /** Whole results in order, as ids: a page at any depth is a slice. 8 M ids: 32 MB at most. */
+  private readonly results = new ResultCache(8_000_000)
   private readonly rendered = new RenderedRows(20_000)
   /** Per abilities object (each is reused for a second): what it may read. */
   private readonly viewings = new WeakMap<object, Viewing | null>()
