@@ -236,11 +236,54 @@ export function electronsToPhotons(electrons: number, quantumEfficiency: number)
   return electrons / quantumEfficiency
 }
 
+/**
+ * Objective × tube or relay lens (DOMAIN.md §6: 100× with a 1.5× tube lens is 150×); the
+ * objective's nominal magnification alone when no tube lens is given.
+ */
+export function totalMagnification(objective: number, tubeLens?: number | null): number {
+  requirePositive('Objective magnification', objective)
+  if (tubeLens === undefined || tubeLens === null) return objective
+  requirePositive('Tube or relay lens magnification', tubeLens)
+  return objective * tubeLens
+}
+
 /** Camera pixel projected onto the sample: physical pixel (µm) / total magnification, in nm. */
 export function pixelSizeAtSampleNm(cameraPixelUm: number, totalMagnification: number): number {
   requirePositive('Camera pixel size', cameraPixelUm)
   requirePositive('Total magnification', totalMagnification)
   return (cameraPixelUm * 1000) / totalMagnification
+}
+
+/** Where a pixel size at the sample came from. */
+export type PixelSource = 'description' | 'total magnification' | 'objective magnification'
+
+export interface PixelDescription {
+  /** The pixel at the sample as described, nm. */
+  pixelNm?: number | null
+  /** The camera pixel on the chip, µm, and the objective's and tube lens's magnifications. */
+  chipPixelUm?: number | null
+  objective?: number | null
+  tubeLens?: number | null
+}
+
+const given = (v: number | null | undefined): v is number =>
+  typeof v === 'number' && Number.isFinite(v) && v > 0
+
+/**
+ * The pixel at the sample: as described, else the chip pixel over the total magnification
+ * (objective × tube lens, DOMAIN.md §6), else over the objective alone; null when unknown.
+ */
+export function pixelAtSample(d: PixelDescription): {
+  pixelNm: number
+  pixelSource: PixelSource
+} | null {
+  if (given(d.pixelNm)) return { pixelNm: d.pixelNm, pixelSource: 'description' }
+  if (!given(d.chipPixelUm) || !given(d.objective)) return null
+  const tube = given(d.tubeLens) ? d.tubeLens : null
+  return {
+    pixelNm: pixelSizeAtSampleNm(d.chipPixelUm, totalMagnification(d.objective, tube)),
+    pixelSource: tube === null ? 'objective magnification' : 'total magnification',
+  }
 }
 
 export type Dimensions = 1 | 2 | 3

@@ -1,5 +1,6 @@
 import type { QualityReportDto, QualityVerdictChip } from '../schemas/quality.schema'
 import { qualityCards } from './quality-cards'
+import { distributionValue, metricOf } from './quality-values'
 import { VERDICT_TONES, type Verdict, type VerdictTone } from './quality-verdicts'
 
 /** Short names of the judged aspects, for chips side by side; other cards keep their title. */
@@ -30,4 +31,25 @@ export function verdictChips(report: QualityReportDto): QualityVerdictChip[] {
       tone: worstTone(card.verdicts),
       text: card.verdicts.map((v) => v.text).join(' '),
     }))
+}
+
+/** The median of a finished report's sigma column (its fitted PSF SD, nm), or null. */
+export function fittedPsfSigmaOf(report: QualityReportDto): number | null {
+  if (!report.computedAt) return null
+  const median = distributionValue(metricOf(report, 'sigma'))?.median
+  return median !== undefined && Number.isFinite(median) && median > 0 ? median : null
+}
+
+/**
+ * The measured PSF width of a dataset: the median over its tables of each table's median fitted
+ * sigma (the middle two averaged), so one odd table does not set it; null when no table has one.
+ */
+export function datasetPsfSigmaNm(reports: QualityReportDto[]): number | null {
+  const widths = reports
+    .map(fittedPsfSigmaOf)
+    .filter((w): w is number => w !== null)
+    .sort((a, b) => a - b)
+  if (!widths.length) return null
+  const upper = widths[widths.length >> 1]!
+  return widths.length % 2 ? upper : (widths[(widths.length >> 1) - 1]! + upper) / 2
 }

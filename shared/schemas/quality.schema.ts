@@ -101,6 +101,10 @@ export const datasetQualityItemSchema = z
 export type DatasetQualityItem = z.output<typeof datasetQualityItemSchema>
 
 export const datasetQualitySchema = z
-  .object({ items: z.array(datasetQualityItemSchema) })
+  .object({
+    items: z.array(datasetQualityItemSchema),
+    /** Median fitted PSF SD (nm) over the tables with a sigma column; null when none has one. */
+    psfSigmaMedianNm: z.number().nullable(),
+  })
   .meta({ id: 'DatasetQuality' })
 export type DatasetQualityDto = z.output<typeof datasetQualitySchema>

@@ -1,10 +1,11 @@
-import { pixelSizeAtSampleNm } from '@shared/domain/optics'
+import { pixelAtSample } from '@shared/domain/optics'
 import { diffractionLimits, formatNm, positive } from './derivedOptics'
 import { getAt, type Draft } from './metadataPaths'
 
 const NA = 'instrument.objective.lensNA'
 const EMISSION = 'acquisition.emissionWavelengthNm'
 const MAGNIFICATION = 'instrument.objective.nominalMagnification'
+const TUBE_LENS = 'instrument.objective.tubeLensMagnification'
 const CHIP_PIXEL = 'instrument.detector.physicalPixelSizeUm'
 const PIXEL = 'instrument.detector.pixelSizeNm'
 
@@ -25,10 +26,14 @@ export function derivedNotes(doc: Draft): Record<string, string[]> {
     notes[EMISSION] = ['The diffraction limits show here once the objective NA is given']
   }
   const chip = positive(getAt(doc, CHIP_PIXEL))
-  const magnification = positive(getAt(doc, MAGNIFICATION))
-  if (chip !== null && magnification !== null) {
-    const atSample = pixelSizeAtSampleNm(chip, magnification)
-    notes[PIXEL] = [`${chip} µm ÷ ${magnification}× = ${formatNm(atSample)} at the sample`]
+  const objective = positive(getAt(doc, MAGNIFICATION))
+  const tube = positive(getAt(doc, TUBE_LENS))
+  // The same total magnification (objective × tube lens) as the expected-precision panel uses.
+  const atSample = pixelAtSample({ chipPixelUm: chip, objective, tubeLens: tube })
+  if (atSample) {
+    const magnification =
+      tube === null ? `${objective}×` : `(${objective}× objective × ${tube}× tube lens)`
+    notes[PIXEL] = [`${chip} µm ÷ ${magnification} = ${formatNm(atSample.pixelNm)} at the sample`]
   }
   return notes
 }

@@ -9,10 +9,11 @@ import {
   immersionIndexOf,
   mortensenLsqPrecisionNm,
   mortensenMlePrecisionNm,
-  pixelSizeAtSampleNm,
+  pixelAtSample,
   rayleighLimitNm,
   thompsonPrecisionNm,
   type Immersion,
+  type PixelSource,
 } from '@shared/domain/optics'
 
 /** A form value as a positive finite number, or null while it is missing or still being typed. */
@@ -64,7 +65,7 @@ export interface ExpectedPrecision {
   psfSource: PsfSource
   pixelNm: number
   /** `total magnification`: chip pixel ÷ (objective × tube lens), when no pixel size is given. */
-  pixelSource: 'description' | 'total magnification' | 'objective magnification'
+  pixelSource: PixelSource
   /** Variance factor F applied to every row: 2 with electron multiplication, else 1. */
   excessNoise: number
   /** Read noise added to b² (e⁻ = photoelectrons), 0 when none applies. */
@@ -85,19 +86,13 @@ function psfOf(inputs: PrecisionInputs, lambda: number, na: number) {
 }
 
 /** The described pixel size, else the chip pixel over the total magnification (DOMAIN.md §6). */
-function pixelOf(inputs: PrecisionInputs) {
-  const described = positive(inputs.pixelNm)
-  if (described !== null) return { pixelNm: described, pixelSource: 'description' as const }
-  const chip = positive(inputs.chipPixelUm)
-  const objective = positive(inputs.nominalMagnification)
-  if (chip === null || objective === null) return null
-  const tube = positive(inputs.tubeLensMagnification)
-  return {
-    pixelNm: pixelSizeAtSampleNm(chip, objective * (tube ?? 1)),
-    pixelSource:
-      tube === null ? ('objective magnification' as const) : ('total magnification' as const),
-  }
-}
+const pixelOf = (inputs: PrecisionInputs) =>
+  pixelAtSample({
+    pixelNm: positive(inputs.pixelNm),
+    chipPixelUm: positive(inputs.chipPixelUm),
+    objective: positive(inputs.nominalMagnification),
+    tubeLens: positive(inputs.tubeLensMagnification),
+  })
 
 function axialLimitOf(inputs: PrecisionInputs, lambda: number, na: number): number | null {
   const immersion = (IMMERSIONS as readonly unknown[]).includes(inputs.immersion)

@@ -13,9 +13,16 @@ export interface QualityInputs {
   /** Camera pixel at the sample, nm. */
   pixelNm?: number
   detector?: PrecisionOptions['detector']
-  /** Emission wavelength, nm, and objective NA: the diffraction limit to compare with. */
+  /**
+   * Emission wavelength, nm, and objective NA: the diffraction limit to compare with, and the
+   * ideal PSF width (a lower bound) when neither the table nor the description gives one.
+   */
   emissionNm?: number
   numericalAperture?: number
+  /** The description's fitted PSF SD, nm: used when the table has no sigma column. */
+  psfSigmaNm?: number
+  /** Camera read noise, e⁻ RMS per pixel (= detected photons in a table's units). */
+  readNoisePhotons?: number
 }
 
 /** The steps of a report and the share of the work each stands for (progress). */
@@ -53,8 +60,18 @@ export type QualityParts = {
   frcCorrected: ReturnType<typeof computeFrc> | null
 }
 
+/** The table's statistics, its expected precision from everything the description gives. */
 export const statisticsOf = (locs: Localizations, inputs: QualityInputs) =>
-  tableStatistics(locs, { precision: { pixelNm: inputs.pixelNm, detector: inputs.detector } })
+  tableStatistics(locs, {
+    precision: {
+      pixelNm: inputs.pixelNm,
+      detector: inputs.detector,
+      psfSigmaNm: inputs.psfSigmaNm,
+      emissionNm: inputs.emissionNm,
+      numericalAperture: inputs.numericalAperture,
+      readNoisePhotons: inputs.readNoisePhotons,
+    },
+  })
 
 /** FRC of the table after subtracting the drift trajectory; null without one. */
 export function driftCorrectedFrc(locs: Localizations, trajectory: DriftTrajectory | null) {

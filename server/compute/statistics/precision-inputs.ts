@@ -39,7 +39,9 @@ export interface PrecisionOptions {
   distribution?: DistributionOptions
 }
 
-export type PrecisionDetector = 'emccd' | 'iccd' | 'ebccd' | 'scmos' | 'ccd' | 'unknown'
+/** The detector kinds the formulas tell apart (OME types map onto these in the quality job). */
+export const PRECISION_DETECTORS = ['emccd', 'iccd', 'ebccd', 'scmos', 'ccd', 'unknown'] as const
+export type PrecisionDetector = (typeof PRECISION_DETECTORS)[number]
 const MULTIPLYING: readonly PrecisionDetector[] = ['emccd', 'iccd', 'ebccd']
 
 export type PsfSigmaSource = 'sigma column' | 'description' | 'ideal'

@@ -1,5 +1,5 @@
 import type { EntityManager } from '@mikro-orm/better-sqlite'
-import { verdictChips } from '@shared/domain/quality-summary'
+import { datasetPsfSigmaNm, verdictChips } from '@shared/domain/quality-summary'
 import type {
   DatasetQualityDto,
   DatasetQualityItem,
@@ -13,7 +13,8 @@ import { reportAsRead } from './quality.service'
 
 /**
  * The quality of every localization table of one dataset, in three queries whatever the number
- * of tables: the tables, their reports, and their quality jobs (the latest one counts).
+ * of tables: the tables, their reports, and their quality jobs (the latest one counts), with the
+ * median fitted PSF width of the tables that have a sigma column.
  */
 export async function datasetQualityOf(
   em: EntityManager,
@@ -24,7 +25,7 @@ export async function datasetQualityOf(
     { dataset: datasetId, kind: 'localization_table' },
     { orderBy: { id: 'asc' } },
   )
-  if (!files.length) return { items: [] }
+  if (!files.length) return { items: [], psfSigmaMedianNm: null }
   const ids = files.map((f) => f.id)
   const [reports, jobs] = await Promise.all([
     em.find(QualityReport, { file: { $in: ids } }),
@@ -37,13 +38,13 @@ export async function datasetQualityOf(
   const reportOf = new Map(reports.map((r) => [r.file, r]))
   const latestJob = new Map<number, IJob>()
   for (const job of jobs) if (!latestJob.has(job.subjectId)) latestJob.set(job.subjectId, job)
+  const read = files.map((file) =>
+    reportAsRead(file, reportOf.get(file.id) ?? null, latestJob.get(file.id) ?? null),
+  )
   return {
-    items: files.map((file) =>
-      summaryOf(
-        file,
-        reportAsRead(file, reportOf.get(file.id) ?? null, latestJob.get(file.id) ?? null),
-      ),
-    ),
+    items: files.map((file, i) => summaryOf(file, read[i]!)),
+    // The expected-precision panel's measured PSF width (DOMAIN.md §6: prefer the measured one).
+    psfSigmaMedianNm: datasetPsfSigmaNm(read),
   }
 }
 

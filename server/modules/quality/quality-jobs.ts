@@ -1,5 +1,7 @@
 import type { EntityManager } from '@mikro-orm/better-sqlite'
 import { z } from 'zod'
+import { pixelAtSample } from '@shared/domain/optics'
+import { PRECISION_DETECTORS, type PrecisionDetector } from '../../compute/statistics'
 import { enqueue } from '../../jobs/job-queue'
 import { defineJobKind } from '../../jobs/job-kind'
 import { DatasetMetadata } from '../metadata/dataset-metadata.entity'
@@ -8,9 +10,11 @@ import type { IDatasetFile } from '../files/dataset-file.entity'
 /** Description values the report uses, copied into the payload when the job is queued. */
 const qualityInputs = z.object({
   pixelNm: z.number().positive().optional(),
-  detector: z.enum(['emccd', 'scmos', 'ccd', 'unknown']).optional(),
+  detector: z.enum(PRECISION_DETECTORS).optional(),
   emissionNm: z.number().positive().optional(),
   numericalAperture: z.number().positive().optional(),
+  psfSigmaNm: z.number().positive().optional(),
+  readNoisePhotons: z.number().nonnegative().optional(),
 })
 export type QualityJobInputs = z.output<typeof qualityInputs>
 
@@ -24,25 +28,46 @@ export const computeQualityJob = defineJobKind({
   freshThread: true,
 })
 
-/** The OME detector type as the precision formulas know it (EMCCD → Mortensen with F = 2). */
-function detectorOf(type: string | undefined): QualityJobInputs['detector'] {
-  if (type === 'EMCCD') return 'emccd'
-  if (type === 'CMOS') return 'scmos'
-  return type === 'CCD' ? 'ccd' : 'unknown'
-}
+/**
+ * The OME detector type as the precision formulas know it: electron multiplication (EMCCD,
+ * intensified and electron-bombarded CCD) selects Mortensen with F = 2; sCMOS is OME's CMOS.
+ */
+const DETECTOR_OF_OME: ReadonlyMap<unknown, PrecisionDetector> = new Map([
+  ['EMCCD', 'emccd'],
+  ['IntensifiedCCD', 'iccd'],
+  ['EBCCD', 'ebccd'],
+  ['CMOS', 'scmos'],
+  ['CCD', 'ccd'],
+])
 
-/** What the dataset's description says about the optics, for the report. */
+const positive = (v: unknown) =>
+  typeof v === 'number' && Number.isFinite(v) && v > 0 ? v : undefined
+
+/** What the dataset's description says about the optics and the camera, for the report. */
 export async function qualityInputsFor(
   em: EntityManager,
   datasetId: number,
 ): Promise<QualityJobInputs> {
   const doc = (await em.findOne(DatasetMetadata, { dataset: datasetId }))?.document
-  const positive = (v: unknown) => (typeof v === 'number' && v > 0 ? v : undefined)
+  const detector: Record<string, unknown> = doc?.instrument?.detector ?? {}
+  const objective: Record<string, unknown> = doc?.instrument?.objective ?? {}
+  const readNoise = detector.readNoiseE
   return {
-    pixelNm: positive(doc?.instrument?.detector?.pixelSizeNm),
-    detector: detectorOf(doc?.instrument?.detector?.type),
+    pixelNm: pixelAtSample({
+      pixelNm: positive(detector.pixelSizeNm),
+      chipPixelUm: positive(detector.physicalPixelSizeUm),
+      objective: positive(objective.nominalMagnification),
+      tubeLens: positive(objective.tubeLensMagnification),
+    })?.pixelNm,
+    detector: DETECTOR_OF_OME.get(detector.type) ?? 'unknown',
     emissionNm: positive(doc?.acquisition?.emissionWavelengthNm),
-    numericalAperture: positive(doc?.instrument?.objective?.lensNA),
+    numericalAperture: positive(objective.lensNA),
+    psfSigmaNm: positive(doc?.processing?.fittedPsfSigmaNm),
+    // Photoelectrons are what a table's photon counts are (DOMAIN.md §1.3), so e⁻ carry over.
+    readNoisePhotons:
+      typeof readNoise === 'number' && Number.isFinite(readNoise) && readNoise >= 0
+        ? readNoise
+        : undefined,
   }
 }
 

@@ -52,6 +52,29 @@ describe('diffraction limits beside NA and emission wavelength', () => {
       '16 µm ÷ 100× = 160.0 nm at the sample',
     ])
   })
+
+  it('divides by the total magnification when a tube or relay lens is given', () => {
+    // DOMAIN.md §6: 16 µm / (100 × 1.5) = 106.7 nm, not the objective's 160 nm.
+    const notes = derivedNotes({
+      instrument: {
+        objective: { nominalMagnification: 100, tubeLensMagnification: 1.5 },
+        detector: { physicalPixelSizeUm: 16 },
+      },
+    })
+    expect(notes['instrument.detector.pixelSizeNm']).toEqual([
+      '16 µm ÷ (100× objective × 1.5× tube lens) = 106.7 nm at the sample',
+    ])
+    // DOMAIN.md 1.3: 6.5 µm / 60× = 108.3 nm; a tube lens still being typed leaves the objective's.
+    const typing = derivedNotes({
+      instrument: {
+        objective: { nominalMagnification: 60, tubeLensMagnification: '1.' },
+        detector: { physicalPixelSizeUm: 6.5 },
+      },
+    })
+    expect(typing['instrument.detector.pixelSizeNm']).toEqual([
+      '6.5 µm ÷ 60× = 108.3 nm at the sample',
+    ])
+  })
 })
 
 // 0.21·700/1.47 = 100 nm exactly, so the PSF is the s = 100 nm of DOMAIN.md's precision table.

@@ -16,6 +16,7 @@ import {
   fwhmFromSigma,
   gaussianPsfSigmaAiryFitNm,
   gaussianPsfSigmaNm,
+  totalMagnification,
   IMMERSION_REFRACTIVE_INDEX,
   integrateGaussLegendre,
   maxNumericalAperture,
@@ -28,6 +29,7 @@ import {
   nyquistDensityPerUm,
   nyquistDensityPerUm2,
   nyquistDensityPerUm3,
+  pixelAtSample,
   pixelSizeAtSampleNm,
   rayleighLimitNm,
   thompsonPrecisionNm,
@@ -252,6 +254,22 @@ describe('camera counts to photons', () => {
   it('projects camera pixels onto the sample (DOMAIN.md 1.3 [S])', () => {
     expect(pixelSizeAtSampleNm(16, 100)).toBeCloseTo(160, 10)
     expect(pixelSizeAtSampleNm(6.5, 60)).toBeCloseTo(108.3, 1)
+  })
+
+  it('uses the total magnification, objective × tube lens (DOMAIN.md §6 [S])', () => {
+    expect(totalMagnification(100, 1.5)).toBe(150)
+    expect(totalMagnification(100)).toBe(100)
+    // 16 µm / (100 × 1.5) = 106.7 nm; a described pixel wins; nothing without chip and objective.
+    const chip = { chipPixelUm: 16, objective: 100 }
+    expect(pixelAtSample({ ...chip, tubeLens: 1.5 })?.pixelNm).toBeCloseTo(106.7, 1)
+    expect(pixelAtSample({ ...chip, tubeLens: 1.5 })?.pixelSource).toBe('total magnification')
+    expect(pixelAtSample(chip)).toEqual({ pixelNm: 160, pixelSource: 'objective magnification' })
+    expect(pixelAtSample({ ...chip, pixelNm: 108 })).toEqual({
+      pixelNm: 108,
+      pixelSource: 'description',
+    })
+    expect(pixelAtSample({ chipPixelUm: 16, tubeLens: 1.5 })).toBeNull()
+    expect(() => totalMagnification(100, 0)).toThrow(/Tube or relay lens/)
   })
 })
 
