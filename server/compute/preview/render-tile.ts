@@ -1,4 +1,5 @@
 import {
+  columnsDrawn,
   encodePng,
   renderCountsImage,
   renderHistogram,
@@ -52,7 +53,12 @@ export async function renderTilePng(task: TileTask): Promise<Uint8Array> {
   }
   const image =
     (await fromOverview(task, box)) ??
-    renderImage(await localizationsInBox(task.arrowPath, box), view, task.options, scratchFor(view))
+    renderImage(
+      await localizationsInBox(task.arrowPath, box, columnsDrawn(task.options)),
+      view,
+      task.options,
+      scratchFor(view),
+    )
   // Fast deflate: a tile twice the bytes (≈10 kB) for a third of the encoding time, which on a
   // busy server decides how many tiles a second it can draw.
   return encodePng(image.rgb, image.width, image.height, TILE_PNG_COMPRESSION)
@@ -84,12 +90,13 @@ export interface ScaleTask {
  */
 export async function referenceScale(task: ScaleTask): Promise<number | null> {
   const { view } = task
-  const locs = await localizationsInBox(task.arrowPath, {
+  const box = {
     xMin: view.xMinNm,
     xMax: view.xMinNm + view.width * view.pixelNm,
     yMin: view.yMinNm,
     yMax: view.yMinNm + view.height * view.pixelNm,
-  })
+  }
+  const locs = await localizationsInBox(task.arrowPath, box, columnsDrawn(task.options))
   const counts = renderHistogram(locs, view, task.options.filter)
   return percentileOfPositive(counts, task.percentile)
 }

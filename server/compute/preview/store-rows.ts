@@ -1,4 +1,4 @@
-import { stat } from 'node:fs/promises'
+import { statSync } from 'node:fs'
 import { readTileIndex, readTilesInBox, StoreBoxReader, type TileIndex } from '../store'
 import { meets } from '../store/tile.index'
 import type { Localizations, NumericColumn } from '../localizations.types'
@@ -19,7 +19,8 @@ const ROLE_FIELDS: Record<string, keyof Omit<Localizations, 'count'>> = {
 const indexes = new Map<string, { mtimeMs: number; index: TileIndex }>()
 
 async function indexOf(arrowPath: string): Promise<TileIndex> {
-  const { mtimeMs } = await stat(arrowPath)
+  // Synchronous: this runs in a tile thread, twice a tile; no thread-pool round trip for a stat.
+  const { mtimeMs } = statSync(arrowPath)
   const known = indexes.get(arrowPath)
   if (known?.mtimeMs === mtimeMs) return known.index
   const index = await readTileIndex(arrowPath)
@@ -30,14 +31,30 @@ async function indexOf(arrowPath: string): Promise<TileIndex> {
 /** This thread's reader: stores stay open and scratch memory is reused from tile to tile. */
 const boxReader = new StoreBoxReader()
 
+/** Frames for renders that do not read them (Localizations always has the column). */
+let noFrames = new Uint32Array(0)
+function zeroFrames(count: number): Uint32Array {
+  if (noFrames.length < count) noFrames = new Uint32Array(count)
+  return noFrames.subarray(0, count)
+}
+
 /**
- * The localizations of a store inside a box (the columns rendering reads), from the store tiles
- * that meet it. The store's index is parsed once per store, not once per tile.
+ * The localizations of a store inside a box, from the store tiles that meet it: x and y, and of
+ * the other columns rendering reads those in `drawn` (all of them when it is not given). The
+ * store's index is parsed once per store, not once per tile.
  */
-export async function localizationsInBox(arrowPath: string, box: BoundsNm): Promise<Localizations> {
+export async function localizationsInBox(
+  arrowPath: string,
+  box: BoundsNm,
+  drawn?: ReadonlySet<string>,
+): Promise<Localizations> {
   const index = await indexOf(arrowPath)
   const columns = index.columns
-  const rendered = new Set(columns.filter((c) => c.role && ROLE_FIELDS[c.role]).map((c) => c.name))
+  const wanted = (role: string | null | undefined) => {
+    const field = role ? ROLE_FIELDS[role] : undefined
+    return field !== undefined && (field === 'x' || field === 'y' || !drawn || drawn.has(field))
+  }
+  const rendered = new Set(columns.filter((c) => wanted(c.role)).map((c) => c.name))
   const rows =
     (await boxReader.rowsInBox(arrowPath, box, (name) => rendered.has(name))) ??
     (await readTilesInBox(arrowPath, box, index))
@@ -46,10 +63,11 @@ export async function localizationsInBox(arrowPath: string, box: BoundsNm): Prom
   }
   for (const column of columns) {
     const field = column.role ? ROLE_FIELDS[column.role] : undefined
-    const values = rows.columns[column.name]
+    const values = rendered.has(column.name) ? rows.columns[column.name] : undefined
     if (field && values && locs[field] === undefined) locs[field] = values
   }
-  if (!locs.frame) locs.frame = new Uint32Array(rows.rowCount)
+  // Shared zeros: only a render that does not read frames gets here without them.
+  if (!locs.frame) locs.frame = zeroFrames(rows.rowCount)
   return locs as Localizations
 }
 

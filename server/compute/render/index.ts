@@ -46,6 +46,7 @@ export {
 } from './pyramid'
 export { encodePng } from './png'
 export {
+  columnsDrawn,
   renderOptionsKey,
   resolveRenderOptions,
   type ColourBy,

@@ -114,3 +114,22 @@ function stableJson(value: unknown): string {
   }
   return JSON.stringify(value) ?? 'null'
 }
+
+/**
+ * The columns a render with these options reads (beside x and y), so a caller that fetches rows
+ * (a tile thread) fetches no more: a plain density tile needs positions only.
+ */
+export function columnsDrawn(
+  options: RenderOptions = {},
+): Set<'frame' | 'uncertainty' | 'z' | 'channel'> {
+  const resolved = resolveRenderOptions(options)
+  const { filter, colourBy } = resolved
+  const drawn = new Set<'frame' | 'uncertainty' | 'z' | 'channel'>()
+  if (filter.frameMin !== undefined || filter.frameMax !== undefined || colourBy === 'frame')
+    drawn.add('frame')
+  // Gaussian kernels take each row's own precision; a precision filter needs it too.
+  if (resolved.gaussian !== null || filter.maxUncertaintyNm !== undefined) drawn.add('uncertainty')
+  if (colourBy === 'z') drawn.add('z')
+  if (filter.channel !== undefined || colourBy === 'channels') drawn.add('channel')
+  return drawn
+}

@@ -1,4 +1,4 @@
-import { mkdirSync, readFileSync, renameSync, writeFileSync } from 'node:fs'
+import { mkdirSync, readFileSync, renameSync, statSync, writeFileSync } from 'node:fs'
 import { dirname } from 'node:path'
 import { referenceScale, renderTilePng, type ScaleTask, type TileTask } from '../../compute/preview'
 
@@ -21,10 +21,14 @@ export default async function run(task: TileWorkerTask): Promise<Uint8Array | nu
  * nothing else to do meanwhile, and they skip the round trip through libuv's thread pool.
  */
 async function cachedTile({ cachePath, ...task }: CachedTileTask): Promise<Uint8Array> {
-  try {
-    return readFileSync(cachePath)
-  } catch {
-    // Not drawn yet (or unreadable): draw it.
+  // Asked first, without an exception: most tiles of a new view are not drawn yet, and an error
+  // object (with its stack) per tile is garbage the collector then has to clear.
+  if (statSync(cachePath, { throwIfNoEntry: false })) {
+    try {
+      return readFileSync(cachePath)
+    } catch {
+      // Gone meanwhile (the table was read again) or unreadable: draw it.
+    }
   }
   const png = await renderTilePng(task)
   try {
