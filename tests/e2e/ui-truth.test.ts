@@ -108,6 +108,8 @@ async function walk(role: string) {
     await expectTidy(`${role} ${d.accession} overview`)
     await datasetPage.tab('Files')
     await expectTidy(`${role} ${d.accession} files`)
+    // The access tab and the description page look the same in every state: once per role.
+    if (seen.size > 1) continue
     await datasetPage.tab('Access and sharing')
     await expectTidy(`${role} ${d.accession} access`)
     await page.goto(`${stipple.url}/datasets/${d.accession}/describe`)
@@ -139,46 +141,25 @@ async function expectDialogFits(where: string, open: () => Promise<unknown>) {
   await page.setViewportSize(SMALL)
 }
 
-describe('every role walks its pages', () => {
-  for (const role of [
-    'public',
-    'admin',
-    'steward',
-    'editor',
-    'owner',
-    'depositor',
-    'collaborator',
-  ]) {
-    it(`${role}: no console error, nothing overflowing, words instead of identifiers`, async () => {
-      await become(role === 'public' ? null : role)
-      await walk(role)
-    })
-  }
-})
+const WALK = 'walks its pages: no console error, nothing overflowing, words instead of identifiers'
 
-describe('the points of the issue', () => {
-  it('a steward sends a dataset back; the depositor reads what must change (1)', async () => {
-    await become('steward')
-    const submitted = (await visible()).find((d) => d.state === 'submitted')!
-    await datasetPage.open(stipple.url, submitted.accession)
-    expect(await datasetPage.nextStep()).toContain('Waiting for a data steward')
-    await expectDialogFits('approve dialog', () => datasetPage.action('Approve'))
-    const dialog = await datasetPage.action('Request changes')
-    await dialog.getByLabel('What must change').fill('Name the drift correction method.')
-    await dialog.getByRole('button', { name: 'Request changes' }).click()
-    await dialog.waitFor({ state: 'hidden' })
-    expect(await datasetPage.nextStep()).toContain('“Name the drift correction method.”')
+/** A staff home: links to the role's work, no advice meant for people without a project (6). */
+async function expectStaffHome(role: string, link: string) {
+  await page.goto(stipple.url)
+  const home = page.getByTestId('staff-home')
+  await home.waitFor()
+  expect(await page.getByText(/Ask a project owner/).count(), role).toBe(0)
+  expect(await home.getByRole('link', { name: new RegExp(link) }).count(), role).toBe(1)
+}
 
-    await become('depositor')
-    await datasetPage.open(stipple.url, submitted.accession)
-    const step = await datasetPage.nextStep()
-    expect(step).toContain('Changes requested')
-    expect(step).toContain('“Name the drift correction method.”')
-    expect(step).not.toMatch(/ready to submit/i)
-  })
+/** Set by the steward, read by the depositor: the dataset sent back for changes. */
+let sentBack = ''
+
+describe('signed out', () => {
+  beforeAll(() => become(null))
+  it(WALK, () => walk('public'))
 
   it('approved datasets say when they are released or since when they are public (1)', async () => {
-    await become(null)
     const list = await visible()
     const embargoed = list.find((d) => d.state === 'approved' && d.embargoUntil)!
     await datasetPage.open(stipple.url, embargoed.accession)
@@ -189,16 +170,102 @@ describe('the points of the issue', () => {
   })
 
   it('the embargoed Files tab says until when and whom to ask (5)', async () => {
-    await become(null)
     const embargoed = (await visible()).find((d) => d.state === 'approved' && d.embargoUntil)!
     await datasetPage.open(stipple.url, embargoed.accession)
     await datasetPage.tab('Files')
     const note = page.getByTestId('files-access-note')
     expect(await note.textContent()).toMatch(/Files under embargo until .*ask the depositor/s)
   })
+})
+
+describe('site admin', () => {
+  beforeAll(() => become('admin'))
+  it(WALK, () => walk('admin'))
+  it('has a home for the role that leads to the audit log (6)', async () => {
+    await expectStaffHome('admin', 'Audit log')
+    await page
+      .getByTestId('staff-home')
+      .getByRole('link', { name: /Audit log/ })
+      .click()
+    await page.waitForURL(`${stipple.url}/admin/audit`)
+  })
+})
+
+describe('data steward', () => {
+  beforeAll(() => become('steward'))
+  it(WALK, () => walk('steward'))
+  it('has a home for the role with the datasets awaiting review (6)', () =>
+    expectStaffHome('steward', 'Awaiting your check'))
+
+  it('sends a dataset back with what must change (1); the review dialogs fit (10)', async () => {
+    const submitted = (await visible()).find((d) => d.state === 'submitted')!
+    await datasetPage.open(stipple.url, submitted.accession)
+    expect(await datasetPage.nextStep()).toContain('Waiting for a data steward')
+    await expectDialogFits('approve dialog', () => datasetPage.action('Approve'))
+    const dialog = await datasetPage.action('Request changes')
+    await dialog.getByLabel('What must change').fill('Name the drift correction method.')
+    await dialog.getByRole('button', { name: 'Request changes' }).click()
+    await dialog.waitFor({ state: 'hidden' })
+    expect(await datasetPage.nextStep()).toContain('“Name the drift correction method.”')
+    sentBack = submitted.accession
+  })
+
+  it('the embargo and withdraw dialogs fit (10)', async () => {
+    const embargoed = (await visible()).find((d) => d.state === 'approved' && d.embargoUntil)!
+    await datasetPage.open(stipple.url, embargoed.accession)
+    await expectDialogFits('embargo dialog', () => datasetPage.action('Set embargo'))
+    await expectDialogFits('withdraw dialog', () => datasetPage.action('Withdraw'))
+    expect(session.consoleErrors).toEqual([])
+  })
+})
+
+describe('journal editor', () => {
+  beforeAll(() => become('editor'))
+  it(WALK, () => walk('editor'))
+  it('has a home for the role with the submitted datasets (6)', () =>
+    expectStaffHome('editor', 'Submitted datasets'))
+})
+
+describe('project owner', () => {
+  beforeAll(() => become('owner'))
+  it(WALK, () => walk('owner'))
+
+  it('the members card and the add-member and token dialogs fit (10)', async () => {
+    const projects = await page.evaluate(() => fetch('/api/projects').then((r) => r.json()))
+    await page.goto(`${stipple.url}/projects/${projects.items[0].id}`)
+    await page.getByRole('table', { name: 'Members' }).waitFor()
+    for (const size of [SMALL, LARGE]) {
+      await page.setViewportSize(size)
+      await expectTidy(`project page at ${size.width}×${size.height}`)
+    }
+    await expectDialogFits('add member dialog', () =>
+      page.getByRole('button', { name: 'Add member' }).click(),
+    )
+    await page.goto(`${stipple.url}/profile`)
+    await expectDialogFits('create token dialog', () =>
+      page
+        .getByRole('region', { name: 'Personal access tokens' })
+        .getByRole('button', { name: 'Create token' })
+        .click(),
+    )
+    expect(session.consoleErrors).toEqual([])
+  })
+})
+
+describe('depositor', () => {
+  beforeAll(() => become('depositor'))
+  it(WALK, () => walk('depositor'))
+
+  it('reads what the steward asked to change (1)', async () => {
+    expect(sentBack).not.toBe('')
+    await datasetPage.open(stipple.url, sentBack)
+    const step = await datasetPage.nextStep()
+    expect(step).toContain('Changes requested')
+    expect(step).toContain('“Name the drift correction method.”')
+    expect(step).not.toMatch(/ready to submit/i)
+  })
 
   it('a missing dataset is "not found" with a way to the list, and no "Try again" (3)', async () => {
-    await become('depositor')
     const before = session.consoleErrors.length
     await datasetPage.open(stipple.url, 'STPL-999999')
     const missing = page.getByTestId('dataset-not-found')
@@ -212,33 +279,14 @@ describe('the points of the issue', () => {
     session.consoleErrors.splice(before)
   })
 
-  it('staff without projects get a home for their role, not advice to join a project (6)', async () => {
-    for (const [role, link] of [
-      ['steward', 'Awaiting your check'],
-      ['editor', 'Submitted datasets'],
-      ['admin', 'Audit log'],
-    ] as const) {
-      await become(role)
-      const home = page.getByTestId('staff-home')
-      await home.waitFor()
-      expect(await page.getByText(/Ask a project owner/).count(), role).toBe(0)
-      expect(await home.getByRole('link', { name: new RegExp(link) }).count(), role).toBe(1)
-    }
-    await page
-      .getByTestId('staff-home')
-      .getByRole('link', { name: /Audit log/ })
-      .click()
-    await page.waitForURL(`${stipple.url}/admin/audit`)
-  })
-
   it('files uploaded to a draft are counted on its overview and its description (2), dialogs fit (10)', async () => {
-    await become('depositor')
     const draft = (await visible()).find((d) => d.state === 'draft')!
     await datasetPage.open(stipple.url, draft.accession)
     const files = new FilesPage(page)
     await files.open()
     await files.upload('locs.csv', 'frame,x [nm],y [nm],photons\n1,100,200,900\n2,110,210,950\n')
     await expect.poll(() => files.status('locs.csv'), { timeout: 30_000 }).toBe('ready')
+    await expectTidy('files table of a draft')
     await expectDialogFits('file details dialog', () => files.openReport('locs.csv'))
     await datasetPage.tab('Overview')
     await expect
@@ -250,7 +298,10 @@ describe('the points of the issue', () => {
     await expectDialogFits('submit dialog', () => datasetPage.action('Submit for curation'))
     await datasetPage.tab('Access and sharing')
     await expectDialogFits('share dialog', () =>
-      page.getByRole('button', { name: 'Share', exact: true }).click(),
+      page
+        .getByRole('region', { name: 'Shared with' })
+        .getByRole('button', { name: 'Share', exact: true })
+        .click(),
     )
 
     await page.goto(`${stipple.url}/datasets/${draft.accession}/describe`)
@@ -261,7 +312,6 @@ describe('the points of the issue', () => {
   })
 
   it('organism and fluorophore suggest from the shipped vocabulary, free text still taken (9)', async () => {
-    await become('depositor')
     const draft = (await visible()).find((d) => d.state === 'draft')!
     await page.goto(`${stipple.url}/datasets/${draft.accession}/describe`)
     const form = new MetadataFormPage(page)
@@ -277,7 +327,7 @@ describe('the points of the issue', () => {
     }
     const label = page.getByLabel('Label (fluorophore)').first()
     await label.fill('mEos')
-    expect(await page.getByRole('option', { name: 'mEos3.2' }).count()).toBe(1)
+    await page.getByRole('option', { name: 'mEos3.2' }).waitFor()
     await label.fill('a dye of our own')
     await page.keyboard.press('Tab')
     expect(await label.inputValue()).toBe('a dye of our own')
@@ -289,32 +339,9 @@ describe('the points of the issue', () => {
     expect(raw, 'select options showing identifiers').toEqual([])
     expect(session.consoleErrors).toEqual([])
   })
+})
 
-  it('the owner’s members card and add-member dialog fit (10)', async () => {
-    await become('owner')
-    const projects = await page.evaluate(() => fetch('/api/projects').then((r) => r.json()))
-    await page.goto(`${stipple.url}/projects/${projects.items[0].id}`)
-    await page.getByRole('table', { name: 'Members' }).waitFor()
-    for (const size of [SMALL, LARGE]) {
-      await page.setViewportSize(size)
-      await expectTidy(`project page at ${size.width}×${size.height}`)
-    }
-    await expectDialogFits('add member dialog', () =>
-      page.getByRole('button', { name: 'Add member' }).click(),
-    )
-    await page.goto(`${stipple.url}/profile`)
-    await expectDialogFits('create token dialog', () =>
-      page.getByRole('button', { name: 'Create token' }).click(),
-    )
-    expect(session.consoleErrors).toEqual([])
-  })
-
-  it('a steward’s embargo and withdraw dialogs fit (10)', async () => {
-    await become('steward')
-    const embargoed = (await visible()).find((d) => d.state === 'approved' && d.embargoUntil)!
-    await datasetPage.open(stipple.url, embargoed.accession)
-    await expectDialogFits('embargo dialog', () => datasetPage.action('Set embargo'))
-    await expectDialogFits('withdraw dialog', () => datasetPage.action('Withdraw'))
-    expect(session.consoleErrors).toEqual([])
-  })
+describe('external collaborator', () => {
+  beforeAll(() => become('collaborator'))
+  it(WALK, () => walk('collaborator'))
 })

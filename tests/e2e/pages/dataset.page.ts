@@ -36,8 +36,9 @@ export class DatasetPage {
     return this.page.locator('.v-overlay--active .v-card').first()
   }
 
+  /** Closes the open dialog and waits until it has left the page (its closing transition too). */
   async closeDialog() {
     await this.page.keyboard.press('Escape')
-    await this.page.locator('.v-overlay--active .v-card').first().waitFor({ state: 'hidden' })
+    await this.page.locator('.v-dialog.v-overlay--active').waitFor({ state: 'detached' })
   }
 }

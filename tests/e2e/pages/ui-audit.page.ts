@@ -16,7 +16,13 @@ export class UiAudit {
   /** Waits until nothing is loading: no skeleton, no running progress bar, then a moment's rest. */
   async settled() {
     await this.page.waitForFunction(
-      () => !document.querySelector('.v-skeleton-loader, .v-progress-linear__indeterminate'),
+      () =>
+        ![...document.querySelectorAll('.v-skeleton-loader, .v-progress-linear--active')].some(
+          (e) =>
+            e.getBoundingClientRect().height > 0 &&
+            (e.matches('.v-skeleton-loader') ||
+              e.querySelector('.v-progress-linear__indeterminate')),
+        ),
       null,
       { timeout: 15_000 },
     )
