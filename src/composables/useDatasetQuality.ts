@@ -41,6 +41,8 @@ export function useDatasetQuality(
 
   return {
     items: computed(() => request.data.value?.items ?? []),
+    /** The tables' median fitted PSF SD (nm), for the expected precision; null without one. */
+    psfSigmaMedianNm: computed(() => request.data.value?.psfSigmaMedianNm ?? null),
     loaded: computed(() => request.data.value !== null),
     loading: request.loading,
     error: computed(() => (request.error.value ? errorMessage(request.error.value) : null)),

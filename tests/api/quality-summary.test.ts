@@ -34,6 +34,8 @@ beforeAll(async () => {
     frames: 1200,
     structure: { kind: 'rings' },
     precision: { mode: 'fixed', sigmaNm: 9 },
+    // The sigma column: log-normal around 125 nm (5 % spread), so its median is ≈ 125 nm.
+    psfSigmaNm: 125,
   })
   tableId = await app.upload('rings.csv', Buffer.from(localizationsToCsv(localizations)))
   // Bytes that are no text at all: stored as an "other" file, which has no quality report.
@@ -83,6 +85,13 @@ describe('the quality summary of a dataset', () => {
     expect(row!.localizations).toBeGreaterThan(0)
   })
 
+  it("carries the tables' median fitted PSF width, for the expected precision", async () => {
+    const body = datasetQualitySchema.parse((await summary('member')).body)
+    expect(body.psfSigmaMedianNm).not.toBeNull()
+    expect(Math.abs(body.psfSigmaMedianNm! - 125)).toBeLessThan(1)
+    // A dataset whose tables have no finished report has none (the waiting table below).
+  })
+
   it('carries the verdicts in words, one chip per judged aspect', () => {
     const chips = items[0]!.verdicts
     expect(chips.length).toBeGreaterThan(0)
@@ -108,6 +117,7 @@ describe('the quality summary of a dataset', () => {
     await em.flush()
     const res = await summary('member', other.accession)
     expect(res.status).toBe(200)
+    expect(res.body.psfSigmaMedianNm).toBeNull()
     expect(res.body.items).toEqual([
       expect.objectContaining({
         fileId: waiting.id,

@@ -147,6 +147,16 @@ describe('loading the summary', () => {
     scope.stop()
   })
 
+  it("hands on the tables' median fitted PSF width, null until one is known", async () => {
+    api.getDatasetQuality.mockResolvedValue({ items: [done], psfSigmaMedianNm: 128.5 })
+    const scope = effectScope()
+    const q = scope.run(() => useDatasetQuality(3, true))!
+    expect(q.psfSigmaMedianNm.value).toBeNull()
+    await flushPromises()
+    expect(q.psfSigmaMedianNm.value).toBe(128.5)
+    scope.stop()
+  })
+
   it('keeps the server’s words when a request fails', async () => {
     api.getDatasetQuality.mockRejectedValue(
       new ApiError({ status: 500, title: 'Server error', detail: 'The database is busy.' }),

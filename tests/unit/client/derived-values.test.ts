@@ -3,6 +3,7 @@ import { mount } from '@vue/test-utils'
 import { createVuetify } from 'vuetify'
 import CameraCountsPanel from '@/components/metadata/CameraCountsPanel.vue'
 import ExpectedPrecisionPanel from '@/components/metadata/ExpectedPrecisionPanel.vue'
+import MetadataOpticsPanels from '@/components/metadata/MetadataOpticsPanels.vue'
 import { derivedNotes } from '@/utils/derivedNotes'
 import { cameraReadout, expectedPrecision } from '@/utils/derivedOptics'
 
@@ -183,6 +184,31 @@ describe('expected precision', () => {
       props: { emissionNm: 670, na: 1.49, pixelNm: 100, detectorType: 'CMOS', immersion: 'Oil' },
     })
     expect(wrapper.get('[data-testid="axial-limit"]').text()).toBe('916.2 nm')
+  })
+
+  it("uses the deposited tables' measured PSF width handed down from the page", () => {
+    const document = {
+      acquisition: { emissionWavelengthNm: 700 },
+      instrument: { objective: { lensNA: 1.47 }, detector: { type: 'CMOS', pixelSizeNm: 100 } },
+      processing: { fittedPsfSigmaNm: 100 },
+    }
+    const measured = mount(MetadataOpticsPanels, {
+      global,
+      props: { document, measuredPsfSigmaNm: 130 },
+    })
+    const used = measured.get('[data-testid="precision-inputs"]').text()
+    expect(used).toContain('PSF σ = 130.0 nm, median fitted width of the deposited tables')
+    // DOMAIN.md §6: Thompson at s = 130, a = 100, N = 1000, b² = 10 (the panel's defaults) → 4.99.
+    expect(measured.text()).toMatch(/Thompson 2002\s*5\.0 nm/)
+    // No table width yet: the description's 100 nm, Thompson 3.653 (DOMAIN.md §1.1 table).
+    const described = mount(MetadataOpticsPanels, {
+      global,
+      props: { document, measuredPsfSigmaNm: null },
+    })
+    expect(described.get('[data-testid="precision-inputs"]').text()).toContain(
+      'PSF σ = 100.0 nm, fitted width from the description',
+    )
+    expect(described.text()).toMatch(/Thompson 2002\s*3\.7 nm/)
   })
 
   it('asks for the missing optics instead of guessing', () => {
