@@ -1,7 +1,6 @@
 /** The vocabulary shipped for organism and fluorophore suggestions (issue 16, point 9). */
 import { describe, expect, it } from 'vitest'
 import { FLUOROPHORES, ORGANISMS, taxonIdOf } from '@shared/metadata/suggested-terms'
-import { withShippedSuggestions } from '@/utils/suggestions'
 
 describe('shipped suggestions', () => {
   it('name organisms by binomial scientific name, each once', () => {
@@ -20,18 +19,5 @@ describe('shipped suggestions', () => {
     const brands = /alexa|atto|janelia|\bjf\d|\bcf\d|dylight|abberior|bodipy|qdot|texas red/i
     expect(FLUOROPHORES.filter((f) => brands.test(f))).toEqual([])
     expect(FLUOROPHORES).toEqual(expect.arrayContaining(['mEos3.2', 'Cyanine 5 (Cy5)']))
-  })
-
-  it('come after what the project used before, each value once whatever its case', () => {
-    const merged = withShippedSuggestions({
-      'biosample.organism.name': ['Nothobranchius furzeri', 'homo sapiens'],
-      'biosample.structure': ['nuclear pore complex'],
-    })
-    const organisms = merged['biosample.organism.name']!
-    expect(organisms.slice(0, 2)).toEqual(['Nothobranchius furzeri', 'homo sapiens'])
-    expect(organisms.filter((o) => o.toLowerCase() === 'homo sapiens')).toHaveLength(1)
-    expect(organisms).toContain('Mus musculus')
-    expect(merged['labelling.*.label']).toContain('Dendra2')
-    expect(merged['biosample.structure']).toEqual(['nuclear pore complex'])
   })
 })
