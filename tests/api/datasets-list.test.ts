@@ -183,6 +183,65 @@ describe('searching', () => {
   })
 })
 
+describe('a search matching more datasets than a sort of its own would be worth', () => {
+  const BROAD = 2100 // more than GATHER_MAX_ROWS: the result is the list filtered by the match set
+  let broadProject: number
+  let broadOwner: string
+
+  beforeAll(async () => {
+    const em = t.em()
+    const member = await buildMember(em)
+    broadProject = (await buildProject(em, [{ user: member, role: 'owner' }])).id
+    broadOwner = await tokenFor(em, member)
+    const knex = em.getKnex()
+    for (let start = 0; start < BROAD + 100; start += 500) {
+      const n = Math.min(500, BROAD + 100 - start)
+      await knex('dataset').insert(
+        Array.from({ length: n }, (_, k) => {
+          const i = start + k
+          return {
+            accession: `STPL-9${String(i).padStart(5, '0')}`,
+            // The last hundred do not match; every seventh is public, the rest drafts.
+            title: i < BROAD ? `Widefield ${i % 97} overview` : `Confocal ${i}`,
+            description: '',
+            project_id: broadProject,
+            state: i % 7 ? 'draft' : 'approved',
+            licence: 'CC-BY-4.0',
+            version: 1,
+            created_at: Date.UTC(2026, 1, 1) + (i % 300) * 1000,
+            updated_at: Date.UTC(2026, 1, 1) + i * 1000,
+          }
+        }),
+      )
+    }
+  })
+
+  it('pages and counts it as the keyset walk over the database does', async () => {
+    const all = (q: string, token: string) =>
+      request(t.app).get(`/api/datasets?q=widefield&${q}`).set(bearer(token))
+    // An outsider sees the public seventh; the project's owner every matching dataset.
+    for (const [token, expected] of [
+      [outsider, Math.ceil(BROAD / 7)],
+      [broadOwner, BROAD],
+    ] as const) {
+      const first = (await all('sort=-createdAt&limit=200', token)).body as ListPage
+      expect(first.total).toBe(expected)
+      const byOffset: number[] = []
+      for (let offset = 0; offset < first.total; offset += 200)
+        byOffset.push(...ids((await all(`sort=-createdAt&limit=200&offset=${offset}`, token)).body))
+      const byCursor: number[] = []
+      let p = first
+      for (;;) {
+        byCursor.push(...ids(p))
+        if (!p.nextCursor) break
+        p = (await all(`sort=-createdAt&limit=200&cursor=${p.nextCursor}`, token)).body
+      }
+      expect(byOffset).toHaveLength(first.total)
+      expect(byOffset).toEqual(byCursor)
+    }
+  })
+})
+
 describe('bad input', () => {
   const expectProblem = (res: request.Response, pointer: string, words: RegExp) => {
     expect(res.status).toBe(400)

@@ -16,6 +16,7 @@ import { visibilitySql } from '@server/modules/datasets/dataset-catalogue'
 import type { IDataset } from '@server/modules/datasets/dataset.entity'
 import { PAGE_ROWS_SQL } from '@server/modules/datasets/dataset-list-rows'
 import {
+  FTS_ROWIDS,
   countSql,
   pageIdsSql,
   type ListFilter,
@@ -176,6 +177,12 @@ describe.each([
       }
     })
   }
+
+  it("reads a search's matches through the full-text index", async () => {
+    const plan = await planOf({ sql: FTS_ROWIDS, params: [searchExpression('tubulin')] })
+    expect(plan).toHaveLength(1)
+    expect(ftsScans(plan)).toEqual([])
+  })
 
   it('reads the rows of a page by primary key', async () => {
     const plan = await planOf({ sql: PAGE_ROWS_SQL, params: ['[1,2,3]'] })

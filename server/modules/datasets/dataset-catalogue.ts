@@ -10,12 +10,12 @@ import { RenderedRows, sortValueOf, type PageRow, type RenderedRow } from './dat
 import type { ListReader } from './dataset-list-reader'
 import {
   SORT_COLUMNS,
+  FTS_ROWIDS,
   countSql,
   pageIdsSql,
   type ListFilter,
   type ListOrder,
   type ListPlan,
-  type PageWindow,
   type Sql,
 } from './dataset-list-sql'
 import { searchExpression } from './dataset-search'
@@ -39,6 +39,12 @@ interface Viewing {
   key: string
 }
 
+/** The datasets a search matches, as flags by id. */
+interface MatchSet {
+  count: number
+  has: Uint8Array
+}
+
 /** Database time of one request. */
 interface Clock {
   ms: number
@@ -47,6 +53,8 @@ interface Clock {
 interface ListRequest {
   viewing: Viewing
   match: string | undefined
+  /** The filter without the search. */
+  baseKey: string
   filterKey: string
   pageKey: string
 }
@@ -97,6 +105,8 @@ export class DatasetCatalogue {
   /** Whole results in order, as ids: a page at any depth is a slice. 8 M ids: 32 MB at most. */
   private readonly results = new ResultCache(8_000_000)
   private readonly rendered = new RenderedRows(20_000)
+  /** What each search matches, whoever may see it: one byte per dataset id. */
+  private readonly matches = new VersionedCache<MatchSet>(50)
   /** Per abilities object (each is reused for a second): what it may read. */
   private readonly viewings = new WeakMap<object, Viewing | null>()
   private readonly visibility = new Map<string, string>()
@@ -130,9 +140,10 @@ export class DatasetCatalogue {
     const viewing = this.viewingOf(actor)
     const match = q.q ? searchExpression(q.q) : undefined
     if (viewing === null || match === null) return null
-    const filterKey = `${viewing.key}|${q.projectId ?? ''}|${q.state ?? ''}|${match ?? ''}`
+    const baseKey = `${viewing.key}|${q.projectId ?? ''}|${q.state ?? ''}|`
+    const filterKey = `${baseKey}${match ?? ''}`
     const pageKey = `${filterKey}|${q.sort}|${q.limit}|${q.offset}|${q.cursor ?? ''}`
-    return { viewing, match, filterKey, pageKey }
+    return { viewing, match, baseKey, filterKey, pageKey }
   }
 
   private viewingOf(actor: Actor): Viewing | null {
@@ -153,6 +164,14 @@ export class DatasetCatalogue {
       this.visibility.set(viewing.key, sql)
     }
     return sql
+  }
+
+  /** The first column of a statement's rows, its time added to the request's clock. */
+  private async column(clock: Clock, sql: Sql) {
+    const started = performance.now()
+    const values = await this.reader.column(sql.sql, sql.params)
+    clock.ms += performance.now() - started
+    return values
   }
 
   /** Runs one statement, adding its time to the request's clock. */
@@ -182,7 +201,17 @@ export class DatasetCatalogue {
       match: request.match,
     }
 
-    let total = this.totals.get(request.filterKey, version)
+    // A search matching many datasets is the list without it, filtered by its match set (read
+    // once per version); a walk of the sort's index testing each entry would re-read the set.
+    let result: Int32Array | undefined
+    if (filter.match !== undefined && !after) {
+      const matches = await this.matchSetOf(clock, filter.match, version)
+      if (matches.count > GATHER_MAX_ROWS) {
+        result = await this.searchResult(clock, request, version, filter, order, q.sort, matches)
+        this.totals.set(request.filterKey, version, result.length)
+      }
+    }
+    let total = result?.length ?? this.totals.get(request.filterKey, version)
     if (total === undefined) {
       total = Number((await this.rows<[number]>(clock, countSql(filter)))[0]![0])
       this.totals.set(request.filterKey, version, total)
@@ -191,7 +220,9 @@ export class DatasetCatalogue {
 
     const narrowed = filter.projectId !== undefined || filter.state || filter.match
     const plan: ListPlan = narrowed && total <= GATHER_MAX_ROWS ? 'gather' : 'walk'
-    const ids = await this.pageIds(clock, request, version, filter, order, plan, q, after)
+    const ids = result
+      ? result.subarray(q.offset, q.offset + q.limit + 1)
+      : await this.pageIds(clock, request, version, filter, order, plan, q, after)
     const page = await this.rendered.get(
       Array.from(ids).slice(0, q.limit),
       version,
@@ -221,17 +252,76 @@ export class DatasetCatalogue {
     after: ListPosition | undefined,
   ): Promise<ArrayLike<number>> {
     const limit = q.limit + 1
-    const ids = async (window: PageWindow) =>
-      (await this.rows<[number]>(clock, pageIdsSql(filter, order, plan, window))).map(([id]) => id)
-    if (after) return ids({ limit, offset: 0, from: { at: after, inclusive: false } })
-    if (filter.match === undefined && q.offset < WHOLE_RESULT_FROM)
-      return ids({ limit, offset: q.offset })
+    if (after || (filter.match === undefined && q.offset < WHOLE_RESULT_FROM)) {
+      const from = after ? { at: after, inclusive: false } : undefined
+      const window = { limit, offset: after ? 0 : q.offset, from }
+      const rows = await this.rows<[number]>(clock, pageIdsSql(filter, order, plan, window))
+      return rows.map(([id]) => id)
+    }
     const key = `${request.filterKey}|${q.sort}`
+    const result = await this.wholeResult(clock, key, version, filter, order, plan)
+    return result.subarray(q.offset, q.offset + limit)
+  }
+
+  /** Every id the filter selects, in order; read once per filter, sort and access version. */
+  private async wholeResult(
+    clock: Clock,
+    key: string,
+    version: number,
+    filter: ListFilter,
+    order: ListOrder,
+    plan: ListPlan,
+  ): Promise<Int32Array> {
     let result = this.results.get(key, version)
     if (!result) {
-      result = Int32Array.from(await ids({ limit: -1, offset: 0 }))
+      const sql = pageIdsSql(filter, order, plan, { limit: -1, offset: 0 })
+      result = Int32Array.from(await this.column(clock, sql))
       this.results.set(key, version, result)
     }
-    return result.subarray(q.offset, q.offset + limit)
+    return result
+  }
+
+  private async matchSetOf(clock: Clock, match: string, version: number): Promise<MatchSet> {
+    let set = this.matches.get(match, version)
+    if (!set) {
+      const ids = await this.column(clock, { sql: FTS_ROWIDS, params: [match] })
+      const has = new Uint8Array(ids.reduce((max, id) => Math.max(max, id), 0) + 1)
+      for (const id of ids) has[id] = 1
+      set = { count: ids.length, has }
+      this.matches.set(match, version, set)
+    }
+    return set
+  }
+
+  /** A broad search's result: the list without the search, in order, kept where it matches. */
+  private async searchResult(
+    clock: Clock,
+    request: ListRequest,
+    version: number,
+    filter: ListFilter,
+    order: ListOrder,
+    sort: string,
+    matches: MatchSet,
+  ): Promise<Int32Array> {
+    const key = `${request.filterKey}|${sort}`
+    const cached = this.results.get(key, version)
+    if (cached) return cached
+    const unsearched = { ...filter, match: undefined }
+    // Without a project or state filter the list walks its index; with one, it gathers.
+    const plan: ListPlan = filter.projectId !== undefined || filter.state ? 'gather' : 'walk'
+    const base = await this.wholeResult(
+      clock,
+      `${request.baseKey}|${sort}`,
+      version,
+      unsearched,
+      order,
+      plan,
+    )
+    const kept = new Int32Array(base.length)
+    let n = 0
+    for (const id of base) if (matches.has[id]) kept[n++] = id
+    const result = kept.slice(0, n)
+    this.results.set(key, version, result)
+    return result
   }
 }

@@ -4,6 +4,8 @@ import Database from 'better-sqlite3'
 /** Runs the list's read-only statements and gives each row as an array of its columns. */
 export interface ListReader {
   rows(sql: string, params: unknown[]): unknown[][] | Promise<unknown[][]>
+  /** The first column of every row (for long lists of ids: no array per row). */
+  column(sql: string, params: unknown[]): number[] | Promise<number[]>
   close(): void
 }
 
@@ -24,25 +26,32 @@ export function listReader(dbPath: string, em: () => EntityManager): ListReader 
         const rows = await em().getConnection().execute<Record<string, unknown>[]>(sql, params)
         return rows.map((row) => Object.values(row))
       },
+      async column(sql, params) {
+        const rows = await em().getConnection().execute<Record<string, number>[]>(sql, params)
+        return rows.map((row) => Object.values(row)[0]!)
+      },
       close() {},
     }
   }
   let db: Database.Database | null = null
   const statements = new Map<string, Database.Statement<unknown[], unknown[]>>()
-  const prepared = (sql: string) => {
+  const prepared = (sql: string, pluck: boolean) => {
     db ??= new Database(dbPath, { readonly: true, fileMustExist: true })
-    let statement = statements.get(sql)
+    const key = pluck ? `pluck:${sql}` : sql
+    let statement = statements.get(key)
     if (statement) {
-      statements.delete(sql) // re-inserted below: the map's order is the least recently used first
+      statements.delete(key) // re-inserted below: the map's order is the least recently used first
     } else {
-      statement = db.prepare<unknown[], unknown[]>(sql).raw(true)
+      const fresh = db.prepare<unknown[], unknown[]>(sql)
+      statement = pluck ? fresh.pluck(true) : fresh.raw(true)
       if (statements.size >= MAX_STATEMENTS) statements.delete(statements.keys().next().value!)
     }
-    statements.set(sql, statement)
+    statements.set(key, statement)
     return statement
   }
   return {
-    rows: (sql, params) => prepared(sql).all(...params),
+    rows: (sql, params) => prepared(sql, false).all(...params),
+    column: (sql, params) => prepared(sql, true).all(...params) as unknown as number[],
     close() {
       statements.clear()
       db?.close()

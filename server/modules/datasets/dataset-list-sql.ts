@@ -51,7 +51,8 @@ export interface Sql {
   params: unknown[]
 }
 
-const FTS_ROWIDS = 'select rowid from `dataset_fts` where `dataset_fts` match ?'
+/** Every dataset a search matches, whoever may see it. */
+export const FTS_ROWIDS = 'select rowid from `dataset_fts` where `dataset_fts` match ?'
 
 /**
  * The filter's conditions. In a gather (and a count) the search is the FROM's full-text index and
