@@ -11,7 +11,9 @@
  * one HTTP process, the old repeated query (one person, one page, one sort: what the list's cache
  * serves), and the mixed load on 100 000 datasets. Each gives p50/p95/p99, requests per second,
  * the server's CPU time per request (all its processes, from /proc), the share of answers served
- * from the list's cache and the database time per uncached answer (from Server-Timing).
+ * whole from the list's page cache, and the database time per answer not served so (both from
+ * Server-Timing; results and encoded rows the list keeps per access version count as not cached,
+ * their effect is that database time).
  * BENCH_DURATION_S sets the seconds per line; BENCH_LARGE=0 skips the 100 000 line.
  */
 import { spawn } from 'node:child_process'

@@ -6,7 +6,6 @@ export interface ListReader {
   rows(sql: string, params: unknown[]): unknown[][] | Promise<unknown[][]>
   /** The first column of every row (for long lists of ids: no array per row). */
   column(sql: string, params: unknown[]): number[] | Promise<number[]>
-  close(): void
 }
 
 /** Prepared statements kept per SQL text; visibility is part of the text, so bound the count. */
@@ -16,8 +15,9 @@ const MAX_STATEMENTS = 500
  * On a database file the list reads through its own read-only connection with prepared
  * statements, without a promise or the ORM's query layer per query (they cost more than the
  * statements). It sees only committed changes, so nothing it reads is older than the access
- * version the request began with. An in-memory database (tests) has no second connection: there
- * the same SQL goes through the ORM.
+ * version the request began with. It opens on the first list request and lives as long as the
+ * process, like the app. An in-memory database (tests) has no second connection: there the same
+ * SQL goes through the ORM.
  */
 export function listReader(dbPath: string, em: () => EntityManager): ListReader {
   if (dbPath === ':memory:') {
@@ -30,10 +30,9 @@ export function listReader(dbPath: string, em: () => EntityManager): ListReader 
         const rows = await em().getConnection().execute<Record<string, number>[]>(sql, params)
         return rows.map((row) => Object.values(row)[0]!)
       },
-      close() {},
     }
   }
-  let db: Database.Database | null = null
+  let db: Database.Database | undefined
   const statements = new Map<string, Database.Statement<unknown[], unknown[]>>()
   const prepared = (sql: string, pluck: boolean) => {
     db ??= new Database(dbPath, { readonly: true, fileMustExist: true })
@@ -52,10 +51,5 @@ export function listReader(dbPath: string, em: () => EntityManager): ListReader 
   return {
     rows: (sql, params) => prepared(sql, false).all(...params),
     column: (sql, params) => prepared(sql, true).all(...params) as unknown as number[],
-    close() {
-      statements.clear()
-      db?.close()
-      db = null
-    },
   }
 }
