@@ -238,8 +238,9 @@ describe('project owner', () => {
       await page.setViewportSize(size)
       await expectTidy(`project page at ${size.width}×${size.height}`)
     }
+    // The page's button (the dialog's own submit button has the same name).
     await expectDialogFits('add member dialog', () =>
-      page.getByRole('button', { name: 'Add member' }).click(),
+      page.locator('#app').getByRole('button', { name: 'Add member' }).click(),
     )
     await page.goto(`${stipple.url}/profile`)
     await expectDialogFits('create token dialog', () =>

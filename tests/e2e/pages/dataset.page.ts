@@ -40,5 +40,9 @@ export class DatasetPage {
   async closeDialog() {
     await this.page.keyboard.press('Escape')
     await this.page.locator('.v-dialog.v-overlay--active').waitFor({ state: 'detached' })
+    // The overlay loses its active class at once; its content leaves after the transition.
+    await this.page.waitForFunction(() =>
+      [...document.querySelectorAll('[role="dialog"]')].every((d) => !d.checkVisibility()),
+    )
   }
 }
