@@ -70,6 +70,7 @@ export function createApp(appOptions: CreateAppOptions): Express {
     ...appOptions,
     storage,
     previews: new PreviewService(storage, tilePool, new PreviewTables(readConnection)),
+    reads: readConnection,
   }
   const { orm, config } = options
   const app = express()

@@ -4,6 +4,7 @@ import type { Orm } from './db'
 import type { Logger } from './logger'
 import type { Mailer } from './modules/mail/mailer'
 import type { PreviewService } from './modules/preview/preview.service'
+import type { ReadConnection } from './modules/common/read-connection'
 import type { LocalStorage } from './storage/local-storage'
 
 /** What services need from the outside, injected by createApp (tests pass their own). */
@@ -17,6 +18,8 @@ export interface AppDeps {
   jobs?: { notify(): void }
   /** Preview tiles of localization tables (createApp makes it). */
   previews?: PreviewService
+  /** Prepared read-only statements for the hottest reads (createApp makes it). */
+  reads?: ReadConnection
 }
 
 /** The part of a request services may use: who acts, with which abilities, from where. */

@@ -23,15 +23,14 @@ import { toDatasetPageDto } from './dataset.mapper'
 import { listShares, revokeShare, shareDataset } from './dataset-shares.service'
 import { DatasetCatalogue } from './dataset-catalogue'
 import { listReader } from './dataset-list-reader'
+import { ReadConnection } from '../common/read-connection'
 import { createDataset, deleteDataset, updateDataset } from './datasets.service'
 
 const shareParams = datasetParams.extend({ shareId: idSchema })
 
 export function datasetsRouter(deps: AppDeps): Router {
   const router = Router()
-  const catalogue = new DatasetCatalogue(
-    listReader(deps.orm.config.get('dbName') ?? ':memory:', em),
-  )
+  const catalogue = new DatasetCatalogue(listReader(deps.reads ?? new ReadConnection(deps.orm)))
   const target = (
     req: Parameters<typeof datasetFor>[0],
     action: Parameters<typeof datasetFor>[3],
