@@ -36,11 +36,11 @@ export const ORGANISMS: readonly { name: string; taxonId: number }[] = [
  */
 export const FLUOROPHORES: readonly string[] = [
   // Organic dyes
-  'Cyanine 5 (Cy5)',
-  'Cyanine 5.5 (Cy5.5)',
-  'Cyanine 7 (Cy7)',
-  'Cyanine 3B (Cy3B)',
-  'Cyanine 3 (Cy3)',
+  'Cyanine 5',
+  'Cyanine 5.5',
+  'Cyanine 7',
+  'Cyanine 3B',
+  'Cyanine 3',
   'Tetramethylrhodamine (TMR)',
   'Rhodamine 6G',
   'Silicon rhodamine (SiR)',

@@ -21,7 +21,14 @@ const WORDS = [
 ]
 const METHODS = ['dSTORM', 'PALM', 'DNA-PAINT', '3D STORM', 'Exchange-PAINT']
 const SAMPLES = ['U2OS', 'HeLa', 'COS-7', 'hippocampal neurons', 'HEK293', 'fibroblasts', 'Vero']
-const LABELS = ['Alexa Fluor 647', 'mEos3.2', 'CF568', 'Atto 655', 'PA-JF549', 'DY-654']
+const LABELS = [
+  'cyanine 5',
+  'mEos3.2',
+  'rhodamine',
+  'oxazine',
+  'photoactivatable rhodamine',
+  'carbopyronine',
+]
 /** One dataset in RARE_EVERY mentions cryo-fixation: a search word that matches few datasets. */
 export const RARE_EVERY = 499
 export const PROJECTS = 20
