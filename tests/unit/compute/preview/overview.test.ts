@@ -1,14 +1,10 @@
 // @vitest-environment node
 import sharp from 'sharp'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { suggestMapping } from '@shared/domain/localization-columns'
-import { mappingFromSuggestion } from '@shared/schemas/localization-mapping.schema'
-import { ingestLocalizationTable, sniffTable } from '@server/compute/ingest'
 import { renderTilePng, type TileTask } from '@server/compute/preview'
 import { pyramidFor, tileView, type TilePyramid } from '@server/compute/render'
-import { simulateLocalizations } from '@server/compute/simulate'
-import { localizationsToCsv } from '@server/compute/simulate/table-text'
 import { readTileIndex } from '@server/compute/store'
+import { simulatedStore } from '../../../fixtures/simulated-store'
 import { tempDir } from '../../ingest/ingest-fixtures'
 
 const tmp = tempDir()
@@ -17,16 +13,7 @@ let pyramid: TilePyramid
 
 beforeAll(async () => {
   // Filaments over a 10 µm field, several hundred thousand rows (seeded).
-  const { localizations } = simulateLocalizations({ seed: 21, frames: 4_000, emitters: 40_000 })
-  const source = tmp.file('field.csv', localizationsToCsv(localizations))
-  const sniff = await sniffTable(source)
-  store = tmp.path('field.arrow')
-  await ingestLocalizationTable({
-    sourcePath: source,
-    outputPath: store,
-    mapping: mappingFromSuggestion(suggestMapping(sniff.header, sniff.sampleRows))!,
-    tuning: { workers: 0 },
-  })
+  store = await simulatedStore(tmp, 'field', { seed: 21, frames: 4_000, emitters: 40_000 })
   pyramid = pyramidFor((await readTileIndex(store)).boundsNm!)
 }, 120_000)
 afterAll(() => tmp.remove())

@@ -7,9 +7,6 @@
  */
 import sharp from 'sharp'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { suggestMapping } from '@shared/domain/localization-columns'
-import { mappingFromSuggestion } from '@shared/schemas/localization-mapping.schema'
-import { ingestLocalizationTable, sniffTable } from '@server/compute/ingest'
 import type { Localizations } from '@server/compute/localizations.types'
 import { renderTilePng } from '@server/compute/preview'
 import {
@@ -20,9 +17,8 @@ import {
   type RenderOptions,
   type TilePyramid,
 } from '@server/compute/render'
-import { simulateLocalizations } from '@server/compute/simulate'
-import { localizationsToCsv } from '@server/compute/simulate/table-text'
 import { readLocalizations, readTileIndex } from '@server/compute/store'
+import { simulatedStore } from '../../../fixtures/simulated-store'
 import { tempDir } from '../../ingest/ingest-fixtures'
 
 const tmp = tempDir()
@@ -32,7 +28,7 @@ let table: Localizations
 
 beforeAll(async () => {
   // Two channels in 3D over 6 µm (seeded), so every column a render can read is there.
-  const { localizations } = simulateLocalizations({
+  store = await simulatedStore(tmp, 'two-colour-3d', {
     seed: 8,
     fieldNm: 6000,
     frames: 2000,
@@ -41,15 +37,6 @@ beforeAll(async () => {
       { structure: { kind: 'clusters' }, emitters: 4000 },
     ],
     axial: { rangeNm: [-300, 300] },
-  })
-  const source = tmp.file('two-colour-3d.csv', localizationsToCsv(localizations))
-  const sniff = await sniffTable(source)
-  store = tmp.path('two-colour-3d.arrow')
-  await ingestLocalizationTable({
-    sourcePath: source,
-    outputPath: store,
-    mapping: mappingFromSuggestion(suggestMapping(sniff.header, sniff.sampleRows))!,
-    tuning: { workers: 0 },
   })
   pyramid = pyramidFor((await readTileIndex(store)).boundsNm!)
   table = await readLocalizations(store)
