@@ -24,13 +24,24 @@ export const polygonGeometrySchema = z
     type: z.literal('Polygon'),
     /** One linear ring: at least four positions, the last equal to the first (RFC 7946 §3.1.6). */
     coordinates: z
-      .array(z.array(positionNmSchema).min(4).max(MAX_REGION_VERTICES + 1))
+      .array(
+        z
+          .array(positionNmSchema)
+          .min(4)
+          .max(MAX_REGION_VERTICES + 1),
+      )
       .length(1, 'A region polygon has one outer ring and no holes'),
   })
-  .refine((g) => samePosition(g.coordinates[0][0], g.coordinates[0].at(-1)!), {
-    error: 'A polygon ring must end where it starts',
-    path: ['coordinates'],
-  })
+  .refine(
+    (g) => {
+      const ring = g.coordinates[0] ?? []
+      return ring.length > 0 && samePosition(ring[0]!, ring[ring.length - 1]!)
+    },
+    {
+      error: 'A polygon ring must end where it starts',
+      path: ['coordinates'],
+    },
+  )
 
 export const pointGeometrySchema = z.object({
   type: z.literal('Point'),
