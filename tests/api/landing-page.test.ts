@@ -7,10 +7,7 @@
 import { parse as parseBibtex } from '@retorquere/bibtex-parser'
 import request from 'supertest'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import type { QualityFindings } from '@shared/schemas/quality.schema'
 import type { IDataset } from '@server/modules/datasets/dataset.entity'
-import { DatasetFile } from '@server/modules/files/dataset-file.entity'
-import { QualityReport } from '@server/modules/quality/quality-report.entity'
 import {
   bearer,
   buildDataset,
@@ -19,7 +16,7 @@ import {
   buildUser,
   tokenFor,
 } from '../fixtures/builders'
-import { doneReport } from '../fixtures/quality-report'
+import { buildReportedTable } from '../fixtures/reported-table'
 import { createTestApp, TEST_ORIGIN, type TestApp } from '../fixtures/test-app'
 
 let t: TestApp
@@ -34,35 +31,8 @@ const SHA = 'a'.repeat(64)
 const SHA_EMBARGOED = 'b'.repeat(64)
 const SHA_WITHDRAWN = 'c'.repeat(64)
 
-async function addFile(d: IDataset, name: string, sha256: string) {
-  const em = t.em()
-  const file = em.create(DatasetFile, {
-    dataset: d.id,
-    name,
-    size: 1_234_567,
-    sha256,
-    kind: 'localization_table',
-    status: 'ready',
-    storageKey: `k-${name}-${d.id}`,
-    mediaType: 'text/csv',
-  })
-  await em.flush()
-  const {
-    status: _s,
-    progress: _p,
-    message: _m,
-    computedAt: _c,
-    error: _e,
-    ...findings
-  } = doneReport
-  em.create(QualityReport, {
-    file: file.id,
-    findings: { ...findings, frcResolutionNm: 31.5 } as QualityFindings,
-    inputs: {},
-    computedAt: new Date('2026-01-02T00:00:00Z'),
-  })
-  await em.flush()
-}
+const addFile = (d: IDataset, name: string, sha256: string) =>
+  buildReportedTable(t.em(), d.id, { name, size: 1_234_567, sha256, frcResolutionNm: 31.5 })
 
 const get = (path: string) => request(t.app).get(path)
 
