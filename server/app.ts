@@ -17,6 +17,8 @@ import { AccessVersionReader } from './modules/common/access-version'
 import { authRouter } from './modules/auth/auth.routes'
 import type { RelyingParty } from './modules/auth/relying-party'
 import { datasetsRouter } from './modules/datasets/datasets.routes'
+import { landingRouter } from './modules/landing/landing.routes'
+import { searchRouter } from './modules/search/search.routes'
 import type { DemoAccount } from './modules/idp/accounts'
 import { interactionRouter } from './modules/idp/interaction.routes'
 import type { Mailbox } from './modules/mail/mail-catcher'
@@ -157,11 +159,13 @@ export function createApp(appOptions: CreateAppOptions): Express {
   api.use('/projects', projectsRouter(options))
   api.use('/datasets', datasetsRouter(options))
   api.use('/audit', auditRouter())
+  api.use('/search', searchRouter())
   api.use('/instrument-profiles', instrumentProfilesRouter())
   api.use(metadataRouter())
   if (config.demo && options.mailbox) api.use('/dev/mail', caughtMailRouter(options.mailbox))
   api.use(apiNotFound)
   app.use('/api', api)
+  app.use('/d', landingRouter(options))
 
   if (options.clientDir && existsSync(options.clientDir)) {
     const clientDir = options.clientDir
