@@ -13,6 +13,7 @@ import { failedTokenLimit } from './http/rate-limit'
 import { requestContext } from './http/request-context'
 import { securityHeaders } from './http/security-headers'
 import { auditRouter } from './modules/audit/audit.routes'
+import { adminUsersRouter } from './modules/users/admin-users.routes'
 import { AccessVersionReader } from './modules/common/access-version'
 import { authRouter } from './modules/auth/auth.routes'
 import type { RelyingParty } from './modules/auth/relying-party'
@@ -160,6 +161,7 @@ export function createApp(appOptions: CreateAppOptions): Express {
   api.use('/datasets', datasetsRouter(options))
   api.use('/audit', auditRouter())
   api.use('/search', searchRouter())
+  api.use('/users', adminUsersRouter())
   api.use('/instrument-profiles', instrumentProfilesRouter())
   api.use(metadataRouter())
   if (config.demo && options.mailbox) api.use('/dev/mail', caughtMailRouter(options.mailbox))

@@ -52,6 +52,10 @@ const envSchema = z.object({
   WEB_CONCURRENCY: z.coerce.number().int().min(1).max(64).default(1),
   /** Worker threads for heavy jobs (ingest, raw-stack scans). */
   JOB_WORKERS: z.coerce.number().int().min(1).max(16).default(1),
+  /** Owners and stewards are reminded this many days before an embargo ends (0: no reminder). */
+  EMBARGO_REMINDER_DAYS: z.coerce.number().int().min(0).max(365).default(7),
+  /** The longest embargo a steward may set, in years from the day it is set. */
+  EMBARGO_MAX_YEARS: z.coerce.number().int().min(1).max(50).default(3),
 })
 
 export interface AppConfig {
@@ -78,6 +82,7 @@ export interface AppConfig {
   ingest: { maxExpansion: number; maxRows: number }
   jobWorkers: number
   httpWorkers: number
+  embargo: { reminderDays: number; maxYears: number }
 }
 
 /** Secrets the server makes for itself on first start, kept in the data directory (never in git). */
@@ -174,5 +179,6 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): AppConfig {
     ingest: { maxExpansion: e.INGEST_MAX_EXPANSION, maxRows: e.INGEST_MAX_ROWS },
     jobWorkers: e.JOB_WORKERS,
     httpWorkers: e.WEB_CONCURRENCY,
+    embargo: { reminderDays: e.EMBARGO_REMINDER_DAYS, maxYears: e.EMBARGO_MAX_YEARS },
   }
 }

@@ -3,6 +3,7 @@ import { AuditEvent } from './modules/audit/audit-event.entity'
 import { Comment } from './modules/comments/comment.entity'
 import { Sequence } from './modules/common/sequence.entity'
 import { Dataset, DatasetShare } from './modules/datasets/dataset.entity'
+import { EmbargoNotice } from './modules/embargo/embargo-notice.entity'
 import { DatasetFile } from './modules/files/dataset-file.entity'
 import { DatasetMetadata, InstrumentProfile } from './modules/metadata/dataset-metadata.entity'
 import { OidcPayload } from './modules/idp/oidc-payload.entity'
@@ -31,6 +32,7 @@ export const entities = [
   UploadReservation,
   ApiToken,
   AuditEvent,
+  EmbargoNotice,
   Session,
   OidcPayload,
   Sequence,

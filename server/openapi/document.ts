@@ -1,5 +1,6 @@
 import { OpenAPIRegistry, OpenApiGeneratorV31 } from '@asteasolutions/zod-to-openapi'
 import { registerAuditPaths } from '../modules/audit/audit.openapi'
+import { registerAdminUserPaths } from '../modules/users/admin-users.openapi'
 import { registerCommentPaths } from '../modules/comments/comments.openapi'
 import { registerDatasetPaths } from '../modules/datasets/datasets.openapi'
 import { registerFilePaths } from '../modules/files/files.openapi'
@@ -46,6 +47,7 @@ export function buildOpenApiDocument(publicUrl: string) {
   registerMetadataPaths(registry)
   registerAuditPaths(registry)
   registerSearchPaths(registry)
+  registerAdminUserPaths(registry)
   return new OpenApiGeneratorV31(registry.definitions).generateDocument({
     openapi: '3.1.0',
     info: {

@@ -80,7 +80,9 @@ export function datasetsRouter(deps: AppDeps): Router {
 
   router.put('/:id/embargo', requireUser, async (req, res) => {
     const dataset = await target(req, 'embargo')
-    res.json(await setEmbargo(em(), req, dataset, parseBody(setEmbargoSchema, req)))
+    res.json(
+      await setEmbargo(em(), req, dataset, parseBody(setEmbargoSchema, req), deps.config.embargo),
+    )
   })
 
   router.get('/:id/shares', requireUser, async (req, res) => {
