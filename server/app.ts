@@ -17,6 +17,7 @@ import { AccessVersionReader } from './modules/common/access-version'
 import { authRouter } from './modules/auth/auth.routes'
 import type { RelyingParty } from './modules/auth/relying-party'
 import { datasetsRouter } from './modules/datasets/datasets.routes'
+import { curationQueueRouter } from './modules/curation/curation.routes'
 import type { DemoAccount } from './modules/idp/accounts'
 import { interactionRouter } from './modules/idp/interaction.routes'
 import type { Mailbox } from './modules/mail/mail-catcher'
@@ -157,6 +158,7 @@ export function createApp(appOptions: CreateAppOptions): Express {
   api.use('/projects', projectsRouter(options))
   api.use('/datasets', datasetsRouter(options))
   api.use('/audit', auditRouter())
+  api.use('/curation', curationQueueRouter())
   api.use('/instrument-profiles', instrumentProfilesRouter())
   api.use(metadataRouter())
   if (config.demo && options.mailbox) api.use('/dev/mail', caughtMailRouter(options.mailbox))

@@ -7,6 +7,7 @@ import { registerMetadataPaths } from '../modules/metadata/metadata.openapi'
 import { registerProjectPaths } from '../modules/projects/projects.openapi'
 import { registerPreviewPaths, registerQualityPaths } from '../modules/quality/quality.openapi'
 import { registerMePaths } from '../modules/users/me.openapi'
+import { registerVersionPaths } from '../modules/versions/versions.openapi'
 import { z } from 'zod'
 
 /** The OpenAPI 3.1 description of /api, generated from the same zod schemas the routes use. */
@@ -44,6 +45,7 @@ export function buildOpenApiDocument(publicUrl: string) {
   registerCommentPaths(registry)
   registerMetadataPaths(registry)
   registerAuditPaths(registry)
+  registerVersionPaths(registry)
   return new OpenApiGeneratorV31(registry.definitions).generateDocument({
     openapi: '3.1.0',
     info: {
