@@ -20,6 +20,7 @@ import type { RelyingParty } from './modules/auth/relying-party'
 import { datasetsRouter } from './modules/datasets/datasets.routes'
 import { landingRouter } from './modules/landing/landing.routes'
 import { searchRouter } from './modules/search/search.routes'
+import { curationQueueRouter } from './modules/curation/curation.routes'
 import type { DemoAccount } from './modules/idp/accounts'
 import { interactionRouter } from './modules/idp/interaction.routes'
 import type { Mailbox } from './modules/mail/mail-catcher'
@@ -162,6 +163,7 @@ export function createApp(appOptions: CreateAppOptions): Express {
   api.use('/audit', auditRouter())
   api.use('/search', searchRouter())
   api.use('/users', adminUsersRouter())
+  api.use('/curation', curationQueueRouter())
   api.use('/instrument-profiles', instrumentProfilesRouter())
   api.use(metadataRouter())
   if (config.demo && options.mailbox) api.use('/dev/mail', caughtMailRouter(options.mailbox))

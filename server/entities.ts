@@ -14,6 +14,8 @@ import { Session } from './modules/sessions/session.entity'
 import { ApiToken } from './modules/tokens/api-token.entity'
 import { UploadReservation } from './modules/uploads/upload-reservation.entity'
 import { User } from './modules/users/user.entity'
+import { CurationEntry } from './modules/curation/curation-entry.entity'
+import { DatasetVersion, VersionBlob, VersionFile } from './modules/versions/dataset-version.entity'
 
 /** Every entity, listed explicitly (no folder scanning), for the server, the CLI and the tests. */
 export const entities = [
@@ -36,6 +38,10 @@ export const entities = [
   Session,
   OidcPayload,
   Sequence,
+  CurationEntry,
+  DatasetVersion,
+  VersionBlob,
+  VersionFile,
 ]
 
 // Enumerated columns are plain text typed with $type<…>(): MikroORM 6.6's SQLite schema reader

@@ -9,6 +9,7 @@ import { registerProjectPaths } from '../modules/projects/projects.openapi'
 import { registerPreviewPaths, registerQualityPaths } from '../modules/quality/quality.openapi'
 import { registerMePaths } from '../modules/users/me.openapi'
 import { registerSearchPaths } from '../modules/search/search.openapi'
+import { registerVersionPaths } from '../modules/versions/versions.openapi'
 import { z } from 'zod'
 
 /** The OpenAPI 3.1 description of /api, generated from the same zod schemas the routes use. */
@@ -48,6 +49,7 @@ export function buildOpenApiDocument(publicUrl: string) {
   registerAuditPaths(registry)
   registerSearchPaths(registry)
   registerAdminUserPaths(registry)
+  registerVersionPaths(registry)
   return new OpenApiGeneratorV31(registry.definitions).generateDocument({
     openapi: '3.1.0',
     info: {

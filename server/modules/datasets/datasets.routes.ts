@@ -17,6 +17,8 @@ import { filesRouter } from '../files/files.routes'
 import { datasetMetadataRouter } from '../metadata/metadata.routes'
 import { previewRouter } from '../preview/preview.routes'
 import { qualityRouter } from '../quality/quality.routes'
+import { curationThreadRouter } from '../curation/curation.routes'
+import { versionsRouter } from '../versions/versions.routes'
 import { datasetFor, datasetParams } from './dataset-access'
 import { reviewDataset, setEmbargo, submitDataset } from './dataset-lifecycle.service'
 import { toDatasetPageDto } from './dataset.mapper'
@@ -111,6 +113,8 @@ export function datasetsRouter(deps: AppDeps): Router {
   router.use('/:id', datasetMetadataRouter(deps))
   router.use('/:id', filesRouter(deps))
   router.use('/:id', qualityRouter(deps))
+  router.use('/:id', versionsRouter(deps))
+  router.use('/:id', curationThreadRouter(deps))
   if (deps.previews) router.use('/:id', previewRouter(deps.previews))
 
   return router
