@@ -13,6 +13,13 @@ import { Session } from './modules/sessions/session.entity'
 import { ApiToken } from './modules/tokens/api-token.entity'
 import { UploadReservation } from './modules/uploads/upload-reservation.entity'
 import { User } from './modules/users/user.entity'
+import {
+  Journal,
+  JournalEditor,
+  Manuscript,
+  ManuscriptDataset,
+} from './modules/manuscripts/manuscript.entity'
+import { ReviewerLink } from './modules/reviewer-links/reviewer-link.entity'
 
 /** Every entity, listed explicitly (no folder scanning), for the server, the CLI and the tests. */
 export const entities = [
@@ -34,6 +41,11 @@ export const entities = [
   Session,
   OidcPayload,
   Sequence,
+  Journal,
+  JournalEditor,
+  Manuscript,
+  ManuscriptDataset,
+  ReviewerLink,
 ]
 
 // Enumerated columns are plain text typed with $type<…>(): MikroORM 6.6's SQLite schema reader
