@@ -39,6 +39,10 @@ import { PreviewTables } from './modules/preview/preview-tables'
 import { ReadConnection } from './modules/common/read-connection'
 import { TilePool } from './modules/preview/tile-pool'
 import { createUploads, UPLOADS_PATH } from './modules/uploads/uploads'
+import { reviewerLinkAccess } from './modules/reviewer-links/reviewer-access'
+import { reviewerEntryRouter } from './modules/reviewer-links/reviewer-entry.routes'
+import { linkCheckRouter } from './modules/link-check/link-check.routes'
+import { manuscriptsRouter } from './modules/manuscripts/manuscripts.routes'
 
 export interface CreateAppOptions extends Omit<AppDeps, 'storage'> {
   storage?: LocalStorage
@@ -130,9 +134,11 @@ export function createApp(appOptions: CreateAppOptions): Express {
   const acceptedTokens = new AcceptedTokens()
   app.use(failedTokenLimit(config.rateLimitSignIn, acceptedTokens))
   app.use(authenticate(accessVersion, acceptedTokens))
+  app.use(reviewerLinkAccess(options))
   app.use(sameOriginWrites(new URL(config.publicUrl).origin))
 
   app.use('/auth', authRouter(options, options.relyingParty))
+  app.use('/r', reviewerEntryRouter(options))
 
   // tus reads the raw request stream, so uploads are mounted before any body parser.
   const uploads = createUploads({
@@ -164,6 +170,8 @@ export function createApp(appOptions: CreateAppOptions): Express {
   api.use('/search', searchRouter())
   api.use('/users', adminUsersRouter())
   api.use('/curation', curationQueueRouter())
+  api.use(manuscriptsRouter(options))
+  api.use('/link-check', linkCheckRouter(options))
   api.use('/instrument-profiles', instrumentProfilesRouter())
   api.use(metadataRouter())
   if (config.demo && options.mailbox) api.use('/dev/mail', caughtMailRouter(options.mailbox))

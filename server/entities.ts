@@ -16,6 +16,13 @@ import { UploadReservation } from './modules/uploads/upload-reservation.entity'
 import { User } from './modules/users/user.entity'
 import { CurationEntry } from './modules/curation/curation-entry.entity'
 import { DatasetVersion, VersionBlob, VersionFile } from './modules/versions/dataset-version.entity'
+import {
+  Journal,
+  JournalEditor,
+  Manuscript,
+  ManuscriptDataset,
+} from './modules/manuscripts/manuscript.entity'
+import { ReviewerLink } from './modules/reviewer-links/reviewer-link.entity'
 
 /** Every entity, listed explicitly (no folder scanning), for the server, the CLI and the tests. */
 export const entities = [
@@ -42,6 +49,11 @@ export const entities = [
   DatasetVersion,
   VersionBlob,
   VersionFile,
+  Journal,
+  JournalEditor,
+  Manuscript,
+  ManuscriptDataset,
+  ReviewerLink,
 ]
 
 // Enumerated columns are plain text typed with $type<…>(): MikroORM 6.6's SQLite schema reader

@@ -5,13 +5,15 @@ import { requestEm as em } from '../../http/request-context'
 import { parseBody, parseParams } from '../../http/validate'
 import { datasetFor, datasetParams } from '../datasets/dataset-access'
 import { addComment, listComments } from './comments.service'
+import { anonymousReview } from '../reviewer-links/reviewer-access'
 
 /** Discussion on a dataset: reading needs the preview right, writing the annotate right. */
 export function commentsRouter(): Router {
   const router = Router({ mergeParams: true })
   router.get('/', async (req, res) => {
     const dataset = await datasetFor(req, em(), parseParams(datasetParams, req).id, 'preview')
-    res.json({ items: await listComments(em(), dataset) })
+    // Comments carry their authors' names: an anonymous reviewer gets none.
+    res.json({ items: anonymousReview(req, dataset) ? [] : await listComments(em(), dataset) })
   })
   router.post('/', requireUser, async (req, res) => {
     const dataset = await datasetFor(req, em(), parseParams(datasetParams, req).id, 'annotate')

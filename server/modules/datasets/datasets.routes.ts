@@ -27,6 +27,9 @@ import { DatasetCatalogue } from './dataset-catalogue'
 import { listReader } from './dataset-list-reader'
 import { ReadConnection } from '../common/read-connection'
 import { createDataset, deleteDataset, updateDataset } from './datasets.service'
+import { reviewerLinksRouter } from '../reviewer-links/reviewer-links.routes'
+import { anonymousReview } from '../reviewer-links/reviewer-access'
+import { anonymiseDataset } from '../reviewer-links/anonymise'
 
 const shareParams = datasetParams.extend({ shareId: idSchema })
 
@@ -57,7 +60,9 @@ export function datasetsRouter(deps: AppDeps): Router {
   })
 
   router.get('/:id', async (req, res) => {
-    res.json(await toDatasetPageDto(em(), await target(req, 'read')))
+    const dataset = await target(req, 'read')
+    const dto = await toDatasetPageDto(em(), dataset)
+    res.json(anonymousReview(req, dataset) ? anonymiseDataset(dto) : dto)
   })
 
   router.patch('/:id', requireUser, async (req, res) => {
@@ -110,6 +115,7 @@ export function datasetsRouter(deps: AppDeps): Router {
   })
 
   router.use('/:id/comments', commentsRouter())
+  router.use('/:id/reviewer-links', reviewerLinksRouter(deps))
   router.use('/:id', datasetMetadataRouter(deps))
   router.use('/:id', filesRouter(deps))
   router.use('/:id', qualityRouter(deps))
