@@ -17,6 +17,7 @@ import { AccessVersionReader } from './modules/common/access-version'
 import { authRouter } from './modules/auth/auth.routes'
 import type { RelyingParty } from './modules/auth/relying-party'
 import { datasetsRouter } from './modules/datasets/datasets.routes'
+import { collaborationRouter } from './modules/regions/collaboration.routes'
 import type { DemoAccount } from './modules/idp/accounts'
 import { interactionRouter } from './modules/idp/interaction.routes'
 import type { Mailbox } from './modules/mail/mail-catcher'
@@ -153,6 +154,7 @@ export function createApp(appOptions: CreateAppOptions): Express {
     res.json(openapi)
   })
   api.use('/docs', swaggerUi.serve, swaggerUi.setup(openapi, { customSiteTitle: 'Stipple API' }))
+  api.use(collaborationRouter(options))
   api.use('/me', meRouter(options))
   api.use('/projects', projectsRouter(options))
   api.use('/datasets', datasetsRouter(options))

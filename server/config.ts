@@ -52,6 +52,10 @@ const envSchema = z.object({
   WEB_CONCURRENCY: z.coerce.number().int().min(1).max(64).default(1),
   /** Worker threads for heavy jobs (ingest, raw-stack scans). */
   JOB_WORKERS: z.coerce.number().int().min(1).max(16).default(1),
+  /** Comments one account may post a minute (more get 429). */
+  RATE_LIMIT_COMMENTS: z.coerce.number().int().min(1).default(30),
+  /** Minutes during which an author may still edit a comment. */
+  COMMENT_EDIT_MINUTES: z.coerce.number().positive().default(15),
 })
 
 export interface AppConfig {
@@ -78,6 +82,7 @@ export interface AppConfig {
   ingest: { maxExpansion: number; maxRows: number }
   jobWorkers: number
   httpWorkers: number
+  comments: { perMinute: number; editWindowMs: number }
 }
 
 /** Secrets the server makes for itself on first start, kept in the data directory (never in git). */
@@ -174,5 +179,6 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): AppConfig {
     ingest: { maxExpansion: e.INGEST_MAX_EXPANSION, maxRows: e.INGEST_MAX_ROWS },
     jobWorkers: e.JOB_WORKERS,
     httpWorkers: e.WEB_CONCURRENCY,
+    comments: { perMinute: e.RATE_LIMIT_COMMENTS, editWindowMs: e.COMMENT_EDIT_MINUTES * 60_000 },
   }
 }

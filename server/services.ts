@@ -20,6 +20,8 @@ export interface AppDeps {
   previews?: PreviewService
   /** Prepared read-only statements for the hottest reads (createApp makes it). */
   reads?: ReadConnection
+  /** The time, injected so rules that depend on it can be tested (the wall clock by default). */
+  clock?: () => Date
 }
 
 /** The part of a request services may use: who acts, with which abilities, from where. */

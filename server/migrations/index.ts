@@ -9,6 +9,7 @@ import { Migration20261204141630 } from './Migration20261204141630'
 import { Migration20261204143704 } from './Migration20261204143704'
 import { Migration20261204151610 } from './Migration20261204151610'
 import { Migration20261204193454 } from './Migration20261204193454'
+import { Migration20261204221847 } from './Migration20261204221847'
 
 /**
  * Migrations in the order they run. `npm run db -- migration:create` writes new files here;
@@ -26,4 +27,5 @@ export const migrationsList = [
   { name: 'Migration20261204143704', class: Migration20261204143704 },
   { name: 'Migration20261204151610', class: Migration20261204151610 },
   { name: 'Migration20261204193454', class: Migration20261204193454 },
+  { name: 'Migration20261204221847', class: Migration20261204221847 },
 ]

@@ -7,6 +7,7 @@ import { registerMetadataPaths } from '../modules/metadata/metadata.openapi'
 import { registerProjectPaths } from '../modules/projects/projects.openapi'
 import { registerPreviewPaths, registerQualityPaths } from '../modules/quality/quality.openapi'
 import { registerMePaths } from '../modules/users/me.openapi'
+import { registerRegionPaths } from '../modules/regions/regions.openapi'
 import { z } from 'zod'
 
 /** The OpenAPI 3.1 description of /api, generated from the same zod schemas the routes use. */
@@ -42,6 +43,7 @@ export function buildOpenApiDocument(publicUrl: string) {
   registerQualityPaths(registry)
   registerPreviewPaths(registry)
   registerCommentPaths(registry)
+  registerRegionPaths(registry)
   registerMetadataPaths(registry)
   registerAuditPaths(registry)
   return new OpenApiGeneratorV31(registry.definitions).generateDocument({

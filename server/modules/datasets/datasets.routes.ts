@@ -12,7 +12,6 @@ import { requireUser } from '../../http/authenticate'
 import { requestEm as em } from '../../http/request-context'
 import { parseBody, parseParams, parseQuery } from '../../http/validate'
 import type { AppDeps } from '../../services'
-import { commentsRouter } from '../comments/comments.routes'
 import { filesRouter } from '../files/files.routes'
 import { datasetMetadataRouter } from '../metadata/metadata.routes'
 import { previewRouter } from '../preview/preview.routes'
@@ -105,7 +104,6 @@ export function datasetsRouter(deps: AppDeps): Router {
     res.status(204).end()
   })
 
-  router.use('/:id/comments', commentsRouter())
   router.use('/:id', datasetMetadataRouter(deps))
   router.use('/:id', filesRouter(deps))
   router.use('/:id', qualityRouter(deps))
