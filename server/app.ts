@@ -21,6 +21,7 @@ import { datasetsRouter } from './modules/datasets/datasets.routes'
 import { landingRouter } from './modules/landing/landing.routes'
 import { searchRouter } from './modules/search/search.routes'
 import { curationQueueRouter } from './modules/curation/curation.routes'
+import { collaborationRouter } from './modules/regions/collaboration.routes'
 import type { DemoAccount } from './modules/idp/accounts'
 import { interactionRouter } from './modules/idp/interaction.routes'
 import type { Mailbox } from './modules/mail/mail-catcher'
@@ -163,6 +164,7 @@ export function createApp(appOptions: CreateAppOptions): Express {
     res.json(openapi)
   })
   api.use('/docs', swaggerUi.serve, swaggerUi.setup(openapi, { customSiteTitle: 'Stipple API' }))
+  api.use(collaborationRouter(options))
   api.use('/me', meRouter(options))
   api.use('/projects', projectsRouter(options))
   api.use('/datasets', datasetsRouter(options))

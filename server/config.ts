@@ -70,6 +70,10 @@ const envSchema = z.object({
     .string()
     .regex(/^10\.\d{4,9}$/)
     .default('10.5072'),
+  /** Comments one account may post a minute (more get 429). */
+  RATE_LIMIT_COMMENTS: z.coerce.number().int().min(1).default(30),
+  /** Minutes during which an author may still edit a comment. */
+  COMMENT_EDIT_MINUTES: z.coerce.number().positive().default(15),
 })
 
 export interface AppConfig {
@@ -100,6 +104,7 @@ export interface AppConfig {
   embargoMaxDays: number
   /** Where DOIs are registered; url null means the local DataCite stand-in (demo and tests). */
   datacite: { url: string | null; repositoryId: string; password: string; prefix: string }
+  comments: { perMinute: number; editWindowMs: number }
 }
 
 /** Secrets the server makes for itself on first start, kept in the data directory (never in git). */
@@ -204,5 +209,6 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): AppConfig {
       password: e.DATACITE_PASSWORD ?? 'stand-in-password',
       prefix: e.DOI_PREFIX,
     },
+    comments: { perMinute: e.RATE_LIMIT_COMMENTS, editWindowMs: e.COMMENT_EDIT_MINUTES * 60_000 },
   }
 }

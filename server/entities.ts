@@ -1,6 +1,7 @@
 import { Job } from './jobs/job.entity'
 import { AuditEvent } from './modules/audit/audit-event.entity'
-import { Comment } from './modules/comments/comment.entity'
+import { Comment, CommentMention } from './modules/comments/comment.entity'
+import { Region } from './modules/regions/region.entity'
 import { Sequence } from './modules/common/sequence.entity'
 import { Dataset, DatasetShare } from './modules/datasets/dataset.entity'
 import { EmbargoNotice } from './modules/embargo/embargo-notice.entity'
@@ -34,7 +35,9 @@ export const entities = [
   DatasetShare,
   DatasetFile,
   QualityReport,
+  Region,
   Comment,
+  CommentMention,
   DatasetMetadata,
   InstrumentProfile,
   Job,

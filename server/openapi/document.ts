@@ -10,6 +10,7 @@ import { registerPreviewPaths, registerQualityPaths } from '../modules/quality/q
 import { registerMePaths } from '../modules/users/me.openapi'
 import { registerSearchPaths } from '../modules/search/search.openapi'
 import { registerVersionPaths } from '../modules/versions/versions.openapi'
+import { registerRegionPaths } from '../modules/regions/regions.openapi'
 import { z } from 'zod'
 
 /** The OpenAPI 3.1 description of /api, generated from the same zod schemas the routes use. */
@@ -45,6 +46,7 @@ export function buildOpenApiDocument(publicUrl: string) {
   registerQualityPaths(registry)
   registerPreviewPaths(registry)
   registerCommentPaths(registry)
+  registerRegionPaths(registry)
   registerMetadataPaths(registry)
   registerAuditPaths(registry)
   registerSearchPaths(registry)
