@@ -6,6 +6,7 @@ import { benchDatasetList } from './datasets-list.bench'
 import { benchIngest } from './ingest.bench'
 import { benchQuality } from './quality.bench'
 import { benchRawStack } from './raw-stack.bench'
+import { benchRegions } from './regions.bench'
 import { benchTiles } from './tiles.bench'
 import { benchUpload } from './upload.bench'
 
@@ -15,6 +16,7 @@ const benches: Record<string, () => Promise<Record<string, unknown>>> = {
   ingest: benchIngest,
   quality: benchQuality,
   'raw-stack': benchRawStack,
+  regions: benchRegions,
   tiles: benchTiles,
   upload: benchUpload,
 }
