@@ -1,4 +1,5 @@
 import { orcidUrl } from '@shared/domain/identifiers'
+import { landingPath } from '@shared/domain/landing'
 import { html, trusted, type SafeHtml } from '../quality/report-html/escape'
 import type { LandingView } from './landing.service'
 
@@ -129,7 +130,7 @@ function licenceSection(view: LandingView): SafeHtml {
 }
 
 function versionsSection(view: LandingView): SafeHtml {
-  const base = `/d/${view.subject.accession}`
+  const pathOf = (n: number) => landingPath(view.subject.accession, n)
   return html`<section class="card" id="versions">
     <h2>Versions</h2>
     <table>
@@ -143,7 +144,7 @@ function versionsSection(view: LandingView): SafeHtml {
       <tbody>
         ${view.versions.map(
           (v) =>
-            html`<tr${v.number === view.version.number ? html` class="current"` : ''}><td>v${v.number}</td><td>${day(v.approvedAt)}</td><td><a href="${base}/v/${v.number}">${base}/v/${v.number}</a></td></tr>`,
+            html`<tr${v.number === view.version.number ? html` class="current"` : ''}><td>v${v.number}</td><td>${day(v.approvedAt)}</td><td><a href="${pathOf(v.number)}">${pathOf(v.number)}</a></td></tr>`,
         )}
       </tbody>
     </table>
@@ -222,7 +223,7 @@ function qualitySection(view: LandingView): SafeHtml {
 
 function citeSection(view: LandingView): SafeHtml {
   const c = view.citations
-  const base = `/d/${view.subject.accession}/v/${view.version.number}`
+  const base = landingPath(view.subject.accession, view.version.number)
   return html`<section class="card" id="cite">
     <h2>Cite this dataset</h2>
     <p class="citation">${c.text}</p>

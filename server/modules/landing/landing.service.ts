@@ -1,5 +1,6 @@
 import type { EntityManager } from '@mikro-orm/better-sqlite'
 import { accessPhase } from '@shared/domain/dataset-state'
+import { landingPath } from '@shared/domain/landing'
 import { licenceTerms, type LicenceTerms } from '@shared/domain/licence-terms'
 import type { DatasetQualityItem } from '@shared/schemas/quality.schema'
 import { defineAbilityFor } from '@shared/permissions/abilities'
@@ -58,14 +59,14 @@ export async function landingView(
   const phase = accessPhase(dataset, now)
   const kind: LandingKind =
     phase === 'withdrawn' ? 'withdrawn' : phase === 'released' ? 'open' : 'embargoed'
-  const base = `${publicUrl}/d/${dataset.accession}`
-  const pageUrl = versionNumber === null ? base : `${base}/v/${version.number}`
+  const urlOf = (n?: number) => `${publicUrl}${landingPath(dataset.accession, n)}`
+  const pageUrl = urlOf(versionNumber === null ? undefined : version.number)
   const loaded = await exportSubject(em, dataset, publicUrl)
   // Files are part of the page only when the public may download them.
   const filesOpen = kind === 'open' && publicAbility.can('download', subjectOf(dataset))
   const subject: DatasetExportSubject = {
     ...loaded,
-    landingUrl: `${base}/v/${version.number}`,
+    landingUrl: urlOf(version.number),
     version: version.number,
     files: filesOpen ? loaded.files : [],
   }
