@@ -138,13 +138,14 @@ function versionsSection(view: LandingView): SafeHtml {
         <tr>
           <th>Version</th>
           <th>Approved</th>
+          <th>DOI</th>
           <th>Page</th>
         </tr>
       </thead>
       <tbody>
         ${view.versions.map(
           (v) =>
-            html`<tr${v.number === view.version.number ? html` class="current"` : ''}><td>v${v.number}</td><td>${day(v.approvedAt)}</td><td><a href="${pathOf(v.number)}">${pathOf(v.number)}</a></td></tr>`,
+            html`<tr${v.number === view.version.number ? html` class="current"` : ''}><td>v${v.number}</td><td>${day(v.approvedAt)}</td><td>${v.doi ? html`<a href="https://doi.org/${v.doi}">${v.doi}</a>` : '—'}</td><td><a href="${pathOf(v.number)}">${pathOf(v.number)}</a></td></tr>`,
         )}
       </tbody>
     </table>
@@ -179,7 +180,7 @@ function filesSection(view: LandingView): SafeHtml {
               ${files.map(
                 (f) =>
                   html`<tr>
-                    <td><a href="${f.url}" download>${f.name}</a></td>
+                    <td>${f.url ? html`<a href="${f.url}" download>${f.name}</a>` : f.name}</td>
                     <td class="num">${bytes.format(f.size)}</td>
                     <td><code class="hash">${f.sha256 ?? '—'}</code></td>
                   </tr>`,
