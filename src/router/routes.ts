@@ -17,6 +17,12 @@ export const routes: RouteRecordRaw[] = [
     meta: { title: 'Datasets' },
   },
   {
+    path: '/search',
+    name: 'public-search',
+    component: () => import('@/views/PublicSearchView.vue'),
+    meta: { title: 'Public datasets' },
+  },
+  {
     path: '/datasets/new',
     name: 'dataset-new',
     component: () => import('@/views/DatasetCreateView.vue'),
