@@ -5,11 +5,19 @@ import { ConflictError, ValidationError } from '../../errors/http-error'
 import type { Actor, AppDeps } from '../../services'
 import { audit } from '../audit/audit.service'
 import { assertReadyToSubmit } from '../metadata/metadata.service'
+import {
+  assertApprovable,
+  assertHasValidatedFile,
+  curationChecks,
+} from '../curation/curation-checks'
+import { notifyDepositor, recordCurationStep } from '../curation/curation.service'
+import { freezeVersion } from '../versions/versions.service'
 import { User } from '../users/user.entity'
 import type { IDataset } from './dataset.entity'
 import { parseDay, toDatasetDto } from './dataset.mapper'
 
 type Notify = Pick<AppDeps, 'mailer' | 'config'>
+type Curate = Notify & Pick<AppDeps, 'storage'>
 
 /**
  * An embargo end a steward may set: a day after today (UTC) and no later than the policy's
@@ -39,32 +47,28 @@ export function embargoEnd(
   return day
 }
 
-async function mailCreator(
-  em: EntityManager,
-  deps: Notify,
-  dataset: IDataset,
-  subject: string,
-  text: string,
-) {
-  if (dataset.createdBy == null) return
-  const creator = await em.findOne(User, { id: dataset.createdBy })
-  if (!creator) return
-  const link = `${deps.config.publicUrl}/datasets/${dataset.accession}`
-  await deps.mailer.send({ to: creator.email, subject, text: `${text}\n\n${link}\n` })
-}
-
 /** Depositor → steward: draft or changes requested → submitted. The ability has checked the state. */
 export async function submitDataset(
   em: EntityManager,
   actor: Actor,
   deps: Notify,
   dataset: IDataset,
+  now = new Date(),
 ) {
   await assertReadyToSubmit(em, dataset)
+  await assertHasValidatedFile(em, dataset)
   dataset.state = 'submitted'
-  dataset.submittedAt = new Date()
+  dataset.submittedAt = now
+  recordCurationStep(em, dataset, { step: 'submitted', actor: actor.user?.id ?? null }, now)
   audit(em, actor, { action: 'dataset.submit', targetType: 'Dataset', targetId: dataset.accession })
   await em.flush()
+  await notifyDepositor(
+    em,
+    deps,
+    dataset,
+    `Received for curation: ${dataset.accession}`,
+    `Your dataset ${dataset.accession} "${dataset.title}" (version ${dataset.version}) was submitted and waits for a steward's check.`,
+  )
   const stewards = await em.find(User, { siteRole: 'steward' })
   const link = `${deps.config.publicUrl}/datasets/${dataset.accession}`
   await Promise.all(
@@ -83,13 +87,14 @@ export async function submitDataset(
 export async function reviewDataset(
   em: EntityManager,
   actor: Actor,
-  deps: Notify,
+  deps: Curate,
   dataset: IDataset,
   input: ReviewDatasetBody,
   now = new Date(),
 ) {
-  const { decision, comment, embargoUntil } = input
+  const { decision, comment, embargoUntil, checklist } = input
   const phase = accessPhase(dataset, now)
+  let checks
   if ((decision === 'approve' || decision === 'request_changes') && phase !== 'submitted') {
     throw new ConflictError(
       `Only submitted datasets can be approved or sent back; ${dataset.accession} is ${phase}.`,
@@ -106,11 +111,29 @@ export async function reviewDataset(
         ? (dataset.embargoUntil ?? dataset.proposedEmbargoUntil)
         : embargoEnd(embargoUntil, '#/embargoUntil', now, deps.config.embargo.maxYears)
     dataset.embargoUntil = requested && requested.getTime() > now.getTime() ? requested : null
+        : futureDay(embargoUntil, '#/embargoUntil', now)
+    const embargo = requested && requested.getTime() > now.getTime() ? requested : null
+    checks = await curationChecks(em, dataset, deps.config, now, embargo)
+    assertApprovable(dataset, checks, checklist)
+    dataset.embargoUntil = embargo
     dataset.state = 'approved'
     dataset.approvedAt = now
+    await freezeVersion(em, deps.storage, dataset, actor.user?.id ?? null, now)
   } else {
+    checks = await curationChecks(em, dataset, deps.config, now)
     dataset.state = decision === 'withdraw' ? 'withdrawn' : 'changes_requested'
   }
+  const step = {
+    approve: 'approved',
+    request_changes: 'changes_requested',
+    withdraw: 'withdrawn',
+  } as const
+  recordCurationStep(
+    em,
+    dataset,
+    { step: step[decision], actor: actor.user?.id ?? null, comment, checks, checklist },
+    now,
+  )
   audit(em, actor, {
     action: `dataset.${decision}`,
     targetType: 'Dataset',
@@ -126,12 +149,16 @@ export async function reviewDataset(
   const embargoNote = dataset.embargoUntil
     ? `\nIt stays under embargo until ${dataset.embargoUntil.toISOString().slice(0, 10)}.`
     : ''
-  await mailCreator(
+  const frozen =
+    decision === 'approve'
+      ? `\nIt is frozen as version ${dataset.accession}.v${dataset.version}.`
+      : ''
+  await notifyDepositor(
     em,
     deps,
     dataset,
     `${dataset.accession} ${verdict}`,
-    `Your dataset ${dataset.accession} "${dataset.title}" ${verdict}.${embargoNote}${comment ? `\n\nThe steward wrote:\n${comment}` : ''}`,
+    `Your dataset ${dataset.accession} "${dataset.title}" ${verdict}.${frozen}${embargoNote}${comment ? `\n\nThe steward wrote:\n${comment}` : ''}`,
   )
   return toDatasetDto(em, dataset)
 }

@@ -12,11 +12,12 @@ import { requireUser } from '../../http/authenticate'
 import { requestEm as em } from '../../http/request-context'
 import { parseBody, parseParams, parseQuery } from '../../http/validate'
 import type { AppDeps } from '../../services'
-import { commentsRouter } from '../comments/comments.routes'
 import { filesRouter } from '../files/files.routes'
 import { datasetMetadataRouter } from '../metadata/metadata.routes'
 import { previewRouter } from '../preview/preview.routes'
 import { qualityRouter } from '../quality/quality.routes'
+import { curationThreadRouter } from '../curation/curation.routes'
+import { versionsRouter } from '../versions/versions.routes'
 import { datasetFor, datasetParams } from './dataset-access'
 import { reviewDataset, setEmbargo, submitDataset } from './dataset-lifecycle.service'
 import { toDatasetPageDto } from './dataset.mapper'
@@ -25,6 +26,9 @@ import { DatasetCatalogue } from './dataset-catalogue'
 import { listReader } from './dataset-list-reader'
 import { ReadConnection } from '../common/read-connection'
 import { createDataset, deleteDataset, updateDataset } from './datasets.service'
+import { reviewerLinksRouter } from '../reviewer-links/reviewer-links.routes'
+import { anonymousReview } from '../reviewer-links/reviewer-access'
+import { anonymiseDataset } from '../reviewer-links/anonymise'
 
 const shareParams = datasetParams.extend({ shareId: idSchema })
 
@@ -55,7 +59,9 @@ export function datasetsRouter(deps: AppDeps): Router {
   })
 
   router.get('/:id', async (req, res) => {
-    res.json(await toDatasetPageDto(em(), await target(req, 'read')))
+    const dataset = await target(req, 'read')
+    const dto = await toDatasetPageDto(em(), dataset)
+    res.json(anonymousReview(req, dataset) ? anonymiseDataset(dto) : dto)
   })
 
   router.patch('/:id', requireUser, async (req, res) => {
@@ -108,9 +114,12 @@ export function datasetsRouter(deps: AppDeps): Router {
   })
 
   router.use('/:id/comments', commentsRouter())
+  router.use('/:id/reviewer-links', reviewerLinksRouter(deps))
   router.use('/:id', datasetMetadataRouter(deps))
   router.use('/:id', filesRouter(deps))
   router.use('/:id', qualityRouter(deps))
+  router.use('/:id', versionsRouter(deps))
+  router.use('/:id', curationThreadRouter(deps))
   if (deps.previews) router.use('/:id', previewRouter(deps.previews))
 
   return router
