@@ -10,25 +10,16 @@ import { ForbiddenError, NotFoundError } from '../../errors/http-error'
 import { requireUser } from '../../http/authenticate'
 import { perMinuteLimit } from '../../http/rate-limit'
 import { requestEm as em } from '../../http/request-context'
-import { parseBody, parseParams } from '../../http/validate'
-import { datasetFor, datasetParams } from '../datasets/dataset-access'
-import { addComment, listComments } from './comments.service'
-import { anonymousReview } from '../reviewer-links/reviewer-access'
-
-/** Discussion on a dataset: reading needs the preview right, writing the annotate right. */
-export function commentsRouter(): Router {
-  const router = Router({ mergeParams: true })
-  router.get('/', async (req, res) => {
-    const dataset = await datasetFor(req, em(), parseParams(datasetParams, req).id, 'preview')
-    // Comments carry their authors' names: an anonymous reviewer gets none.
-    res.json({ items: anonymousReview(req, dataset) ? [] : await listComments(em(), dataset) })
 import { parseBody, parseParams, parseQuery } from '../../http/validate'
 import type { AppDeps } from '../../services'
 import { datasetFor, datasetParams, subjectOf } from '../datasets/dataset-access'
 import { Dataset } from '../datasets/dataset.entity'
 import { Comment } from './comment.entity'
 import type { CommentsService } from './comments.service'
+import { anonymousReview } from '../reviewer-links/reviewer-access'
+
 const commentParams = z.object({ id: idSchema })
+
 /**
  * Threads on a dataset and its regions: reading needs the preview right, writing the annotate
  * right. Posting is limited per account (a script gone wild gets 429, not a flood of mail).
@@ -42,6 +33,8 @@ export function commentsRouter(deps: Pick<AppDeps, 'config'>, comments: Comments
   router.get('/datasets/:id/comments', async (req, res) => {
     const dataset = await datasetFor(req, em(), parseParams(datasetParams, req).id, 'preview')
     const { regionId } = parseQuery(listCommentsQuerySchema, req)
+    // Comments carry their authors' names: an anonymous reviewer gets none.
+    if (anonymousReview(req, dataset)) return void res.json({ items: [] })
     res.json({ items: await comments.list(em(), req, dataset, regionId) })
   })
 

@@ -1,3 +1,4 @@
+import { latestEmbargoEnd } from '../datasets/dataset-lifecycle.service'
 import type { EntityManager } from '@mikro-orm/better-sqlite'
 import { isHumanDerived } from '@shared/metadata/biosample.schema'
 import { computeCompleteness } from '@shared/metadata/completeness'
@@ -25,6 +26,14 @@ const check = (key: CurationCheckKey, outcome: CheckOutcome, detail: string): Cu
 })
 const plural = (n: number, word: string) => `${n} ${word}${n === 1 ? '' : 's'}`
 
+export interface EmbargoPolicy {
+  embargo: { maxYears: number }
+}
+
+/** The policy's longest embargo in days from `now` (the one limit the embargo routes enforce). */
+export const embargoMaxDays = (policy: EmbargoPolicy, now: Date) =>
+  Math.round((latestEmbargoEnd(now, policy.embargo.maxYears).getTime() - now.getTime()) / DAY_MS)
+
 /**
  * What Stipple can tell the steward about each item of the curation checklist, as of `now`.
  * `embargoUntil` is the embargo the approval would set (the proposal when not given).
@@ -32,7 +41,7 @@ const plural = (n: number, word: string) => `${n} ${word}${n === 1 ? '' : 's'}`
 export async function curationChecks(
   em: EntityManager,
   dataset: IDataset,
-  policy: { embargoMaxDays: number },
+  policy: EmbargoPolicy,
   now: Date,
   embargoUntil: Date | null = dataset.embargoUntil ?? dataset.proposedEmbargoUntil ?? null,
 ): Promise<CurationCheckDto[]> {
@@ -51,6 +60,7 @@ export async function curationChecks(
     : 0
   const human = isHumanDerived(metadata.biosample)
   const ethicsReference = metadata.biosample?.ethicsReference?.trim()
+  const maxDays = embargoMaxDays(policy, now)
   const embargoDays = embargoUntil
     ? Math.ceil((embargoUntil.getTime() - now.getTime()) / DAY_MS)
     : 0
@@ -78,17 +88,13 @@ export async function curationChecks(
         : check('ethics', 'fail', 'Human-derived sample without an ethics or consent reference.'),
     embargoDays <= 0
       ? check('embargo', 'pass', 'No embargo: public on approval.')
-      : embargoDays > policy.embargoMaxDays
+      : embargoDays > maxDays
         ? check(
             'embargo',
             'fail',
-            `Embargo of ${embargoDays} days; the policy allows at most ${policy.embargoMaxDays}.`,
+            `Embargo of ${embargoDays} days; the policy allows at most ${maxDays}.`,
           )
-        : check(
-            'embargo',
-            'pass',
-            `Embargo of ${embargoDays} days (policy: at most ${policy.embargoMaxDays}).`,
-          ),
+        : check('embargo', 'pass', `Embargo of ${embargoDays} days (policy: at most ${maxDays}).`),
   ]
 }
 

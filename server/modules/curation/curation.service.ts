@@ -1,3 +1,4 @@
+import { embargoMaxDays, type EmbargoPolicy } from './curation-checks'
 import type { EntityManager } from '@mikro-orm/better-sqlite'
 import { datasetSubject, type AppAbility } from '@shared/permissions/abilities'
 import type {
@@ -62,7 +63,7 @@ export function recordCurationStep(
 export async function curationThread(
   em: EntityManager,
   dataset: IDataset,
-  policy: { embargoMaxDays: number },
+  policy: EmbargoPolicy,
   now: Date,
 ): Promise<CurationThreadDto> {
   const entries = await em.find(
@@ -89,7 +90,7 @@ export async function curationThread(
       createdAt: e.createdAt.toISOString(),
     })),
     checks: await curationChecks(em, dataset, policy, now),
-    embargoMaxDays: policy.embargoMaxDays,
+    embargoMaxDays: embargoMaxDays(policy, now),
   }
 }
 

@@ -113,7 +113,6 @@ export function datasetsRouter(deps: AppDeps): Router {
     res.status(204).end()
   })
 
-  router.use('/:id/comments', commentsRouter())
   router.use('/:id/reviewer-links', reviewerLinksRouter(deps))
   router.use('/:id', datasetMetadataRouter(deps))
   router.use('/:id', filesRouter(deps))
