@@ -90,6 +90,12 @@ export const routes: RouteRecordRaw[] = [
     meta: { requiresAuth: true, title: 'Audit log' },
   },
   {
+    path: '/admin/users',
+    name: 'admin-users',
+    component: () => import('@/views/AdminUsersView.vue'),
+    meta: { requiresAuth: true, title: 'Users' },
+  },
+  {
     path: '/:pathMatch(.*)*',
     name: 'not-found',
     component: () => import('@/views/NotFoundView.vue'),
