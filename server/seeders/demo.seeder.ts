@@ -13,6 +13,7 @@ import { DatasetMetadata } from '../modules/metadata/dataset-metadata.entity'
 import { Organization } from '../modules/organizations/organization.entity'
 import { Membership, Project } from '../modules/projects/project.entity'
 import { User } from '../modules/users/user.entity'
+import { seedDemoCuration } from './demo-curation'
 
 const consortiumSchema = z.object({
   organizations: z.array(
@@ -169,5 +170,6 @@ export async function seedDemo(
     }
     await em.flush()
   }
+  created += await seedDemoCuration(em, now)
   return { created }
 }
