@@ -101,6 +101,12 @@ export function assertApprovable(
   checks: CurationCheckDto[],
   checklist: CurationChecklist | undefined,
 ) {
+  const failed = checks.filter((c) => c.outcome === 'fail')
+  if (failed.length)
+    throw new ConflictError(
+      `${dataset.accession} cannot be approved: ${failed.map((c) => c.label.toLowerCase()).join('; ')}.`,
+      failed.map((c) => ({ pointer: `#/checklist/${c.key}`, detail: c.detail })),
+    )
   if (checklist) {
     const unticked = checks.filter((c) => checklist[c.key] === false)
     if (unticked.length)
@@ -109,14 +115,9 @@ export function assertApprovable(
           pointer: `#/checklist/${c.key}`,
           detail: `Confirm “${c.label}” before approving, or request changes.`,
         })),
+        'Tick every item of the checklist before approving.',
       )
   }
-  const failed = checks.filter((c) => c.outcome === 'fail')
-  if (failed.length)
-    throw new ConflictError(
-      `${dataset.accession} cannot be approved: ${failed.map((c) => c.label.toLowerCase()).join('; ')}.`,
-      failed.map((c) => ({ pointer: `#/checklist/${c.key}`, detail: c.detail })),
-    )
 }
 
 /** Submitting needs at least one validated (ready) file besides the complete description. */
