@@ -12,6 +12,8 @@ import { pruneOidcPayloads } from './modules/idp/oidc-adapter'
 import { startDoiRegistration } from './modules/doi/doi-background'
 import { qualityCompletions } from './modules/quality/quality.completions'
 import { startMailCatcher, type MailCatcher } from './modules/mail/mail-catcher'
+import { mailerOrLog } from './modules/mail/mailer'
+import { createEmbargoScheduler, type Clock } from './modules/embargo/embargo-scheduler'
 import { OrmSessionStore } from './modules/sessions/session-store'
 import type { Uploads } from './modules/uploads/uploads'
 import { DEMO_DIR } from './paths'
@@ -38,6 +40,8 @@ export async function openBackground(deps: {
   orm: Orm
   logger: Logger
   storage: LocalStorage
+  /** The scheduler's time (tests pass their own). */
+  clock?: Clock
 }): Promise<Background> {
   const { config, orm, logger, storage } = deps
   if (config.demo) {
@@ -55,6 +59,13 @@ export async function openBackground(deps: {
   })
   let upkeep: NodeJS.Timeout | null = null
   let doi: Awaited<ReturnType<typeof startDoiRegistration>> | null = null
+  const embargoes = createEmbargoScheduler({
+    orm,
+    logger,
+    config,
+    mailer: mailerOrLog(mailCatcher?.url ?? config.smtpUrl, config.mailFrom, logger),
+    clock: deps.clock ?? (() => new Date()),
+  })
 
   return {
     mailCatcher,
@@ -90,8 +101,11 @@ export async function openBackground(deps: {
         ]).catch((err: unknown) => logger.error({ err }, 'hourly upkeep failed'))
       upkeep = setInterval(() => void hourly(), 3600_000)
       upkeep.unref()
+      // Releases missed while the server was down happen now, then once a minute.
+      await embargoes.start()
     },
     async stop() {
+      embargoes.stop()
       if (upkeep) clearInterval(upkeep)
       await jobs.stop()
       await doi?.stop()

@@ -11,8 +11,8 @@ import { DatasetVersion } from '../modules/versions/dataset-version.entity'
 
 const STEWARD = 'noor.halvorsen@quillon.example'
 const HOUR = 3_600_000
-/** The demo's own policy length; the running server's EMBARGO_MAX_DAYS governs real decisions. */
-const DEMO_POLICY = { embargoMaxDays: 730 }
+/** The demo's own policy length; the running server's EMBARGO_MAX_YEARS governs real decisions. */
+const DEMO_POLICY = { maxYears: 3 }
 
 /** Comments of the demo's curation threads, by dataset title (invented). */
 const SENT_BACK: Record<string, { comment: string; resubmitted: boolean }> = {

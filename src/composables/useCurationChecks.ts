@@ -6,7 +6,7 @@ import { getCurationThread } from '@/api/curation'
 export function useCurationChecks() {
   const checks = ref<CurationCheckDto[]>([])
   const ticks = ref<CurationChecklist>({})
-  const embargoMaxDays = ref<number | null>(null)
+  const embargoMaxYears = ref<number | null>(null)
   const loading = ref(false)
 
   async function load(datasetId: number) {
@@ -14,7 +14,7 @@ export function useCurationChecks() {
     try {
       const thread = await getCurationThread(datasetId)
       checks.value = thread.checks
-      embargoMaxDays.value = thread.embargoMaxDays
+      embargoMaxYears.value = thread.embargoMaxYears
       ticks.value = Object.fromEntries(
         thread.checks.map((c) => [c.key, c.outcome === 'not_applicable']),
       )
@@ -25,5 +25,5 @@ export function useCurationChecks() {
       loading.value = false
     }
   }
-  return { checks, ticks, embargoMaxDays, loading, load }
+  return { checks, ticks, embargoMaxYears, loading, load }
 }

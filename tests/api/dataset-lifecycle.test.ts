@@ -289,34 +289,22 @@ describe('sharing with an external collaborator', () => {
   })
 })
 
-describe('comments on regions of interest', () => {
-  it('stores a region in sample nanometres and validates its shape', async () => {
+describe('threads on a dataset', () => {
+  it('opens a thread, takes a reply, and refuses a reply to an unknown thread or region', async () => {
     const d = await draft('Discussed dataset')
-    const ok = await request(t.app)
-      .post(`/api/datasets/${d.id}/comments`)
-      .set(bearer(depositorToken))
-      .send({
-        body: 'Two rings overlap here',
-        region: {
-          shape: 'rectangle',
-          pointsNm: [
-            [1000, 2000],
-            [1500, 2600],
-          ],
-        },
-      })
+    const post = (body: object) =>
+      request(t.app).post(`/api/datasets/${d.id}/comments`).set(bearer(depositorToken)).send(body)
+    const ok = await post({ body: 'Two rings overlap here' })
     expect(ok.status).toBe(201)
-    const reply = await request(t.app)
-      .post(`/api/datasets/${d.id}/comments`)
-      .set(bearer(depositorToken))
-      .send({ body: 'Agreed', replyTo: ok.body.id })
+    expect(ok.body.regionId).toBeNull()
+    const reply = await post({ body: 'Agreed', replyTo: ok.body.id })
     expect(reply.body.replyTo).toBe(ok.body.id)
-    const bad = await request(t.app)
-      .post(`/api/datasets/${d.id}/comments`)
-      .set(bearer(depositorToken))
-      .send({ body: 'Bad', region: { shape: 'rectangle', pointsNm: [[1, 2]] } })
-    expect(bad.status).toBe(400)
-    expect(bad.body.errors[0].pointer).toBe('#/region/pointsNm')
+    const badReply = await post({ body: 'Lost', replyTo: 999_999 })
+    expect(badReply.status).toBe(400)
+    expect(badReply.body.errors[0].pointer).toBe('#/replyTo')
+    const badRegion = await post({ body: 'Where?', regionId: 999_999 })
+    expect(badRegion.status).toBe(400)
+    expect(badRegion.body.errors[0].pointer).toBe('#/regionId')
     const list = await request(t.app)
       .get(`/api/datasets/${d.id}/comments`)
       .set(bearer(depositorToken))

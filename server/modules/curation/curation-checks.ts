@@ -32,7 +32,7 @@ const plural = (n: number, word: string) => `${n} ${word}${n === 1 ? '' : 's'}`
 export async function curationChecks(
   em: EntityManager,
   dataset: IDataset,
-  policy: { embargoMaxDays: number },
+  policy: { maxYears: number },
   now: Date,
   embargoUntil: Date | null = dataset.embargoUntil ?? dataset.proposedEmbargoUntil ?? null,
 ): Promise<CurationCheckDto[]> {
@@ -54,6 +54,10 @@ export async function curationChecks(
   const embargoDays = embargoUntil
     ? Math.ceil((embargoUntil.getTime() - now.getTime()) / DAY_MS)
     : 0
+
+  const latest = new Date(now)
+  latest.setUTCFullYear(latest.getUTCFullYear() + policy.maxYears)
+  const years = `${policy.maxYears} year${policy.maxYears === 1 ? '' : 's'}`
 
   return [
     missing.length
@@ -78,17 +82,13 @@ export async function curationChecks(
         : check('ethics', 'fail', 'Human-derived sample without an ethics or consent reference.'),
     embargoDays <= 0
       ? check('embargo', 'pass', 'No embargo: public on approval.')
-      : embargoDays > policy.embargoMaxDays
+      : embargoUntil!.getTime() > latest.getTime()
         ? check(
             'embargo',
             'fail',
-            `Embargo of ${embargoDays} days; the policy allows at most ${policy.embargoMaxDays}.`,
+            `Embargo of ${embargoDays} days; the policy allows at most ${years} (until ${latest.toISOString().slice(0, 10)}).`,
           )
-        : check(
-            'embargo',
-            'pass',
-            `Embargo of ${embargoDays} days (policy: at most ${policy.embargoMaxDays}).`,
-          ),
+        : check('embargo', 'pass', `Embargo of ${embargoDays} days (policy: at most ${years}).`),
   ]
 }
 

@@ -19,10 +19,30 @@ import { parseDay, toDatasetDto } from './dataset.mapper'
 type Notify = Pick<AppDeps, 'mailer' | 'config'>
 type Curate = Notify & Pick<AppDeps, 'storage'>
 
-function futureDay(value: string | null | undefined, pointer: string, now: Date): Date | null {
+/**
+ * An embargo end a steward may set: a day after today (UTC) and no later than the policy's
+ * maximum length from now; anything else is a 400 naming the field.
+ */
+export function embargoEnd(
+  value: string | null | undefined,
+  pointer: string,
+  now: Date,
+  maxYears: number,
+): Date | null {
   const day = parseDay(value)
-  if (day && day.getTime() <= now.getTime()) {
+  if (!day) return null
+  if (day.getTime() <= now.getTime()) {
     throw new ValidationError([{ pointer, detail: 'The embargo must end on a future date.' }])
+  }
+  const latest = new Date(now)
+  latest.setUTCFullYear(latest.getUTCFullYear() + maxYears)
+  if (day.getTime() > latest.getTime()) {
+    throw new ValidationError([
+      {
+        pointer,
+        detail: `An embargo can last at most ${maxYears} year${maxYears === 1 ? '' : 's'}: the latest end is ${latest.toISOString().slice(0, 10)}.`,
+      },
+    ])
   }
   return day
 }
@@ -89,16 +109,16 @@ export async function reviewDataset(
     const requested =
       embargoUntil === undefined
         ? (dataset.embargoUntil ?? dataset.proposedEmbargoUntil)
-        : futureDay(embargoUntil, '#/embargoUntil', now)
+        : embargoEnd(embargoUntil, '#/embargoUntil', now, deps.config.embargo.maxYears)
     const embargo = requested && requested.getTime() > now.getTime() ? requested : null
-    checks = await curationChecks(em, dataset, deps.config, now, embargo)
+    checks = await curationChecks(em, dataset, deps.config.embargo, now, embargo)
     assertApprovable(dataset, checks, checklist)
     dataset.embargoUntil = embargo
     dataset.state = 'approved'
     dataset.approvedAt = now
     await freezeVersion(em, deps.storage, dataset, actor.user?.id ?? null, now)
   } else {
-    checks = await curationChecks(em, dataset, deps.config, now)
+    checks = await curationChecks(em, dataset, deps.config.embargo, now)
     dataset.state = decision === 'withdraw' ? 'withdrawn' : 'changes_requested'
   }
   const step = {
@@ -141,17 +161,21 @@ export async function reviewDataset(
   return toDatasetDto(em, dataset)
 }
 
-/** Set, extend or lift (until = null) the embargo; always with a reason, always audited. */
+/**
+ * Set, extend, shorten or lift (until = null) the embargo; always with a reason, always audited
+ * with the end before and after.
+ */
 export async function setEmbargo(
   em: EntityManager,
   actor: Actor,
   dataset: IDataset,
   input: SetEmbargoBody,
+  policy: { maxYears: number },
   now = new Date(),
 ) {
   const { until, reason } = input
   const previous = dataset.embargoUntil
-  dataset.embargoUntil = futureDay(until, '#/until', now)
+  dataset.embargoUntil = embargoEnd(until, '#/until', now, policy.maxYears)
   audit(em, actor, {
     action: 'dataset.embargo',
     targetType: 'Dataset',

@@ -12,7 +12,6 @@ import { requireUser } from '../../http/authenticate'
 import { requestEm as em } from '../../http/request-context'
 import { parseBody, parseParams, parseQuery } from '../../http/validate'
 import type { AppDeps } from '../../services'
-import { commentsRouter } from '../comments/comments.routes'
 import { filesRouter } from '../files/files.routes'
 import { datasetMetadataRouter } from '../metadata/metadata.routes'
 import { previewRouter } from '../preview/preview.routes'
@@ -27,6 +26,9 @@ import { DatasetCatalogue } from './dataset-catalogue'
 import { listReader } from './dataset-list-reader'
 import { ReadConnection } from '../common/read-connection'
 import { createDataset, deleteDataset, updateDataset } from './datasets.service'
+import { reviewerLinksRouter } from '../reviewer-links/reviewer-links.routes'
+import { anonymousReview } from '../reviewer-links/reviewer-access'
+import { anonymiseDataset } from '../reviewer-links/anonymise'
 
 const shareParams = datasetParams.extend({ shareId: idSchema })
 
@@ -57,7 +59,9 @@ export function datasetsRouter(deps: AppDeps): Router {
   })
 
   router.get('/:id', async (req, res) => {
-    res.json(await toDatasetPageDto(em(), await target(req, 'read')))
+    const dataset = await target(req, 'read')
+    const dto = await toDatasetPageDto(em(), dataset)
+    res.json(anonymousReview(req, dataset) ? anonymiseDataset(dto) : dto)
   })
 
   router.patch('/:id', requireUser, async (req, res) => {
@@ -82,7 +86,9 @@ export function datasetsRouter(deps: AppDeps): Router {
 
   router.put('/:id/embargo', requireUser, async (req, res) => {
     const dataset = await target(req, 'embargo')
-    res.json(await setEmbargo(em(), req, dataset, parseBody(setEmbargoSchema, req)))
+    res.json(
+      await setEmbargo(em(), req, dataset, parseBody(setEmbargoSchema, req), deps.config.embargo),
+    )
   })
 
   router.get('/:id/shares', requireUser, async (req, res) => {
@@ -107,7 +113,7 @@ export function datasetsRouter(deps: AppDeps): Router {
     res.status(204).end()
   })
 
-  router.use('/:id/comments', commentsRouter())
+  router.use('/:id/reviewer-links', reviewerLinksRouter(deps))
   router.use('/:id', datasetMetadataRouter(deps))
   router.use('/:id', filesRouter(deps))
   router.use('/:id', qualityRouter(deps))
