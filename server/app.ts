@@ -13,10 +13,15 @@ import { failedTokenLimit } from './http/rate-limit'
 import { requestContext } from './http/request-context'
 import { securityHeaders } from './http/security-headers'
 import { auditRouter } from './modules/audit/audit.routes'
+import { adminUsersRouter } from './modules/users/admin-users.routes'
 import { AccessVersionReader } from './modules/common/access-version'
 import { authRouter } from './modules/auth/auth.routes'
 import type { RelyingParty } from './modules/auth/relying-party'
 import { datasetsRouter } from './modules/datasets/datasets.routes'
+import { landingRouter } from './modules/landing/landing.routes'
+import { searchRouter } from './modules/search/search.routes'
+import { curationQueueRouter } from './modules/curation/curation.routes'
+import { collaborationRouter } from './modules/regions/collaboration.routes'
 import type { DemoAccount } from './modules/idp/accounts'
 import { interactionRouter } from './modules/idp/interaction.routes'
 import type { Mailbox } from './modules/mail/mail-catcher'
@@ -159,10 +164,14 @@ export function createApp(appOptions: CreateAppOptions): Express {
     res.json(openapi)
   })
   api.use('/docs', swaggerUi.serve, swaggerUi.setup(openapi, { customSiteTitle: 'Stipple API' }))
+  api.use(collaborationRouter(options))
   api.use('/me', meRouter(options))
   api.use('/projects', projectsRouter(options))
   api.use('/datasets', datasetsRouter(options))
   api.use('/audit', auditRouter())
+  api.use('/search', searchRouter())
+  api.use('/users', adminUsersRouter())
+  api.use('/curation', curationQueueRouter())
   api.use(manuscriptsRouter(options))
   api.use('/link-check', linkCheckRouter(options))
   api.use('/instrument-profiles', instrumentProfilesRouter())
@@ -170,6 +179,7 @@ export function createApp(appOptions: CreateAppOptions): Express {
   if (config.demo && options.mailbox) api.use('/dev/mail', caughtMailRouter(options.mailbox))
   api.use(apiNotFound)
   app.use('/api', api)
+  app.use('/d', landingRouter(options))
 
   if (options.clientDir && existsSync(options.clientDir)) {
     const clientDir = options.clientDir

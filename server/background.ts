@@ -11,6 +11,8 @@ import { recountDerivedBytes } from './modules/files/project-usage'
 import { pruneOidcPayloads } from './modules/idp/oidc-adapter'
 import { qualityCompletions } from './modules/quality/quality.completions'
 import { startMailCatcher, type MailCatcher } from './modules/mail/mail-catcher'
+import { mailerOrLog } from './modules/mail/mailer'
+import { createEmbargoScheduler, type Clock } from './modules/embargo/embargo-scheduler'
 import { OrmSessionStore } from './modules/sessions/session-store'
 import type { Uploads } from './modules/uploads/uploads'
 import { DEMO_DIR } from './paths'
@@ -37,6 +39,8 @@ export async function openBackground(deps: {
   orm: Orm
   logger: Logger
   storage: LocalStorage
+  /** The scheduler's time (tests pass their own). */
+  clock?: Clock
 }): Promise<Background> {
   const { config, orm, logger, storage } = deps
   if (config.demo) {
@@ -53,6 +57,13 @@ export async function openBackground(deps: {
     freshThreadKinds: FRESH_THREAD_KINDS,
   })
   let upkeep: NodeJS.Timeout | null = null
+  const embargoes = createEmbargoScheduler({
+    orm,
+    logger,
+    config,
+    mailer: mailerOrLog(mailCatcher?.url ?? config.smtpUrl, config.mailFrom, logger),
+    clock: deps.clock ?? (() => new Date()),
+  })
 
   return {
     mailCatcher,
@@ -87,8 +98,11 @@ export async function openBackground(deps: {
         ]).catch((err: unknown) => logger.error({ err }, 'hourly upkeep failed'))
       upkeep = setInterval(() => void hourly(), 3600_000)
       upkeep.unref()
+      // Releases missed while the server was down happen now, then once a minute.
+      await embargoes.start()
     },
     async stop() {
+      embargoes.stop()
       if (upkeep) clearInterval(upkeep)
       await jobs.stop()
       await mailCatcher?.stop()

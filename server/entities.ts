@@ -1,8 +1,10 @@
 import { Job } from './jobs/job.entity'
 import { AuditEvent } from './modules/audit/audit-event.entity'
-import { Comment } from './modules/comments/comment.entity'
+import { Comment, CommentMention } from './modules/comments/comment.entity'
+import { Region } from './modules/regions/region.entity'
 import { Sequence } from './modules/common/sequence.entity'
 import { Dataset, DatasetShare } from './modules/datasets/dataset.entity'
+import { EmbargoNotice } from './modules/embargo/embargo-notice.entity'
 import { DatasetFile } from './modules/files/dataset-file.entity'
 import { DatasetMetadata, InstrumentProfile } from './modules/metadata/dataset-metadata.entity'
 import { OidcPayload } from './modules/idp/oidc-payload.entity'
@@ -13,6 +15,8 @@ import { Session } from './modules/sessions/session.entity'
 import { ApiToken } from './modules/tokens/api-token.entity'
 import { UploadReservation } from './modules/uploads/upload-reservation.entity'
 import { User } from './modules/users/user.entity'
+import { CurationEntry } from './modules/curation/curation-entry.entity'
+import { DatasetVersion, VersionBlob, VersionFile } from './modules/versions/dataset-version.entity'
 import {
   Journal,
   JournalEditor,
@@ -31,16 +35,23 @@ export const entities = [
   DatasetShare,
   DatasetFile,
   QualityReport,
+  Region,
   Comment,
+  CommentMention,
   DatasetMetadata,
   InstrumentProfile,
   Job,
   UploadReservation,
   ApiToken,
   AuditEvent,
+  EmbargoNotice,
   Session,
   OidcPayload,
   Sequence,
+  CurationEntry,
+  DatasetVersion,
+  VersionBlob,
+  VersionFile,
   Journal,
   JournalEditor,
   Manuscript,

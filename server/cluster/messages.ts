@@ -12,6 +12,7 @@ export type ToPrimary =
   | { stipple: 'jobs-notify' }
   | { stipple: 'mail-list'; ask: number }
   | { stipple: 'listening'; url: string }
+  | { stipple: 'dataset-event'; event: unknown }
 
 export type ToWorker =
   | { stipple: 'locked'; ticket: string }
@@ -19,6 +20,7 @@ export type ToWorker =
   | { stipple: 'release-requested'; ticket: string }
   | { stipple: 'unlocked'; ticket: string }
   | { stipple: 'mail-list'; ask: number; items: CaughtMail[] }
+  | { stipple: 'dataset-event'; event: unknown }
 
 export function isStippleMessage<T extends { stipple: string }>(message: unknown): message is T {
   return typeof message === 'object' && message !== null && 'stipple' in message

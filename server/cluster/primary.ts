@@ -66,6 +66,9 @@ export async function startPrimary(config: AppConfig): Promise<RunningPrimary> {
   cluster.on('message', (worker, message: unknown) => {
     if (!isStippleMessage<ToPrimary>(message) || broker.handle(worker.id, message)) return
     if (message.stipple === 'jobs-notify') background.jobs.notify()
+    // Comments and regions reach every worker's open event streams (server/modules/events).
+    else if (message.stipple === 'dataset-event')
+      for (const w of Object.values(cluster.workers ?? {})) sendTo(w, message)
     else if (message.stipple === 'mail-list')
       sendTo(worker, {
         stipple: 'mail-list',

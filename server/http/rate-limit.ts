@@ -13,7 +13,9 @@ import type { AcceptedTokens } from './authenticate'
 export function perMinuteLimit(
   name: string,
   limit: number,
-  options: Partial<Pick<Options, 'skip' | 'requestWasSuccessful' | 'skipSuccessfulRequests'>> = {},
+  options: Partial<
+    Pick<Options, 'skip' | 'requestWasSuccessful' | 'skipSuccessfulRequests' | 'keyGenerator'>
+  > = {},
 ): RateLimitRequestHandler {
   return rateLimit({
     windowMs: 60_000,

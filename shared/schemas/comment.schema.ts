@@ -1,51 +1,73 @@
 import { z } from 'zod'
+import { authorSchema } from './region.schema'
 
-/** A point in sample coordinates, nanometres. ROIs never use render pixels (they survive re-rendering). */
-const pointNm = z.tuple([z.number().finite(), z.number().finite()])
+/**
+ * Threads: a comment with no `replyTo` opens a thread on the dataset or, with `regionId`, on one
+ * region of interest; replies name the thread's first comment. Bodies are Markdown; the server
+ * renders them to sanitised HTML (`bodyHtml`), so the page never shows HTML a person typed.
+ * `@someone@lab.org` mentions a person by e-mail address; those with access to the dataset are
+ * told by mail, and nobody learns whether an address belongs to anyone.
+ */
 
-export const REGION_SHAPES = ['point', 'rectangle', 'polygon'] as const
+export const COMMENT_MAX_CHARS = 10_000
 
-export const regionSchema = z
-  .object({
-    shape: z.enum(REGION_SHAPES),
-    /** point: one; rectangle: two opposite corners; polygon: three or more vertices. */
-    pointsNm: z.array(pointNm).min(1).max(500),
-  })
-  .refine(
-    (r) =>
-      (r.shape === 'point' && r.pointsNm.length === 1) ||
-      (r.shape === 'rectangle' && r.pointsNm.length === 2) ||
-      (r.shape === 'polygon' && r.pointsNm.length >= 3),
-    {
-      error: 'A point has one vertex, a rectangle two corners, a polygon at least three vertices',
-      path: ['pointsNm'],
-    },
-  )
-  .meta({ id: 'Region' })
-export type Region = z.infer<typeof regionSchema>
+const commentBody = z
+  .string()
+  .trim()
+  .min(1, 'Write something')
+  .max(COMMENT_MAX_CHARS, `A comment can have at most ${COMMENT_MAX_CHARS} characters`)
 
 export const createCommentSchema = z
   .object({
-    body: z
-      .string()
-      .trim()
-      .min(1, 'Write something')
-      .max(10_000, 'A comment can have at most 10000 characters'),
-    region: regionSchema.nullable().default(null),
+    body: commentBody,
+    /** The region the thread is about; null for the dataset as a whole. */
+    regionId: z.number().int().positive().nullable().default(null),
+    /** The first comment of the thread answered; null opens a new thread. */
     replyTo: z.number().int().positive().nullable().default(null),
   })
   .meta({ id: 'CreateComment' })
 export type CreateCommentInput = z.input<typeof createCommentSchema>
 export type CreateCommentBody = z.output<typeof createCommentSchema>
 
+export const editCommentSchema = z.object({ body: commentBody }).meta({ id: 'EditComment' })
+export type EditCommentBody = z.output<typeof editCommentSchema>
+
+export const listCommentsQuerySchema = z.object({
+  regionId: z.coerce.number().int().positive().optional(),
+})
+
 export const commentSchema = z
   .object({
     id: z.number(),
-    author: z.object({ id: z.number(), name: z.string() }),
-    body: z.string(),
-    region: regionSchema.nullable(),
+    datasetId: z.number(),
+    regionId: z.number().nullable(),
     replyTo: z.number().nullable(),
+    author: authorSchema,
+    /** The Markdown as written (for editing). */
+    body: z.string(),
+    /** The Markdown rendered and sanitised on the server. */
+    bodyHtml: z.string(),
     createdAt: z.string(),
+    /** Set when the author changed the text after posting. */
+    editedAt: z.string().nullable(),
+    /** Until when the one asking may still edit it (their own comments only). */
+    editableUntil: z.string().nullable(),
+    /** On a thread's first comment: when the thread was resolved; null while open. */
+    resolvedAt: z.string().nullable(),
   })
   .meta({ id: 'Comment' })
 export type CommentDto = z.infer<typeof commentSchema>
+
+/** A thread that mentions the person asking, for their home page. */
+export const mentionSchema = z
+  .object({
+    comment: commentSchema,
+    dataset: z.object({ id: z.number(), accession: z.string(), title: z.string() }),
+    region: z.object({ id: z.number(), fileId: z.number(), label: z.string() }).nullable(),
+  })
+  .meta({ id: 'Mention' })
+export type MentionDto = z.infer<typeof mentionSchema>
+
+/** What the dataset's event stream carries (`GET /api/datasets/:id/events`). */
+export type DatasetEventName =
+  'comment.created' | 'comment.updated' | 'region.created' | 'region.updated' | 'region.deleted'

@@ -82,3 +82,84 @@ export type RegionShape = (typeof REGION_SHAPES)[number]
 export const regionColourSchema = z
   .string()
   .regex(/^#[0-9a-fA-F]{6}$/, 'A colour is written as #rrggbb')
+
+export const DEFAULT_REGION_COLOUR = '#e08a3c'
+
+/** The kind of geometry each drawing shape produces. */
+export const GEOMETRY_OF_SHAPE: Record<RegionShape, RegionGeometry['type']> = {
+  rectangle: 'Polygon',
+  polygon: 'Polygon',
+  ellipse: 'Ellipse',
+  point: 'Point',
+  line: 'LineString',
+}
+
+/** The shape a geometry is drawn with when the client does not say (a Polygon edits as a polygon). */
+export const shapeOfGeometry = (g: Pick<RegionGeometry, 'type'>): RegionShape =>
+  g.type === 'Ellipse'
+    ? 'ellipse'
+    : g.type === 'Point'
+      ? 'point'
+      : g.type === 'LineString'
+        ? 'line'
+        : 'polygon'
+
+/** A shape given beside a geometry must be one that draws that kind of geometry. */
+const shapeFitsGeometry = (r: { shape?: RegionShape; geometry?: { type: string } }) =>
+  !r.shape || !r.geometry || GEOMETRY_OF_SHAPE[r.shape] === r.geometry.type
+const SHAPE_MISMATCH = { error: 'The shape does not match the geometry', path: ['shape'] }
+
+const regionLabelSchema = z
+  .string()
+  .trim()
+  .min(1, 'Give the region a label')
+  .max(120, 'A label can have at most 120 characters')
+
+export const createRegionSchema = z
+  .object({
+    label: regionLabelSchema,
+    geometry: regionGeometrySchema,
+    colour: regionColourSchema.default(DEFAULT_REGION_COLOUR),
+    shape: z.enum(REGION_SHAPES).optional(),
+  })
+  .refine(shapeFitsGeometry, SHAPE_MISMATCH)
+  .meta({ id: 'CreateRegion' })
+export type CreateRegionInput = z.input<typeof createRegionSchema>
+export type CreateRegionBody = z.output<typeof createRegionSchema>
+
+export const patchRegionSchema = z
+  .object({
+    label: regionLabelSchema.optional(),
+    geometry: regionGeometrySchema.optional(),
+    colour: regionColourSchema.optional(),
+    shape: z.enum(REGION_SHAPES).optional(),
+  })
+  .refine(shapeFitsGeometry, SHAPE_MISMATCH)
+  .meta({ id: 'PatchRegion' })
+export type PatchRegionInput = z.input<typeof patchRegionSchema>
+export type PatchRegionBody = z.output<typeof patchRegionSchema>
+
+/** Who wrote something; null where authors are hidden (anonymous review). */
+export const authorSchema = z
+  .object({ id: z.number(), name: z.string() })
+  .nullable()
+  .meta({ id: 'Author' })
+export type AuthorDto = z.infer<typeof authorSchema>
+
+export const regionSchema = z
+  .object({
+    id: z.number(),
+    datasetId: z.number(),
+    fileId: z.number(),
+    label: z.string(),
+    colour: z.string(),
+    shape: z.enum(REGION_SHAPES),
+    geometry: regionGeometrySchema,
+    author: authorSchema,
+    /** Whether the one asking may edit or delete it (its author, or an owner of the dataset). */
+    canChange: z.boolean(),
+    createdAt: z.string(),
+    updatedAt: z.string(),
+  })
+  .meta({ id: 'RegionOfInterest' })
+export type RegionDto = z.infer<typeof regionSchema>

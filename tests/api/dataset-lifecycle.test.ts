@@ -4,7 +4,14 @@ import { AuditEvent } from '@server/modules/audit/audit-event.entity'
 import { Dataset, DatasetShare } from '@server/modules/datasets/dataset.entity'
 import { Membership } from '@server/modules/projects/project.entity'
 import type { IUser } from '@server/modules/users/user.entity'
-import { bearer, buildMember, buildProject, buildUser, tokenFor } from '../fixtures/builders'
+import {
+  bearer,
+  buildMember,
+  buildProject,
+  buildReadyFile,
+  buildUser,
+  tokenFor,
+} from '../fixtures/builders'
 import { completeMetadata } from '../fixtures/metadata'
 import { createTestApp, mailTo, type TestApp } from '../fixtures/test-app'
 
@@ -38,6 +45,7 @@ async function draft(title = 'Lifecycle sample') {
     .set(bearer(depositorToken))
     .send(completeMetadata())
     .expect(200)
+  await buildReadyFile(t.em(), res.body.id)
   return res.body as { id: number; accession: string }
 }
 const submit = (id: number) =>
@@ -281,34 +289,22 @@ describe('sharing with an external collaborator', () => {
   })
 })
 
-describe('comments on regions of interest', () => {
-  it('stores a region in sample nanometres and validates its shape', async () => {
+describe('threads on a dataset', () => {
+  it('opens a thread, takes a reply, and refuses a reply to an unknown thread or region', async () => {
     const d = await draft('Discussed dataset')
-    const ok = await request(t.app)
-      .post(`/api/datasets/${d.id}/comments`)
-      .set(bearer(depositorToken))
-      .send({
-        body: 'Two rings overlap here',
-        region: {
-          shape: 'rectangle',
-          pointsNm: [
-            [1000, 2000],
-            [1500, 2600],
-          ],
-        },
-      })
+    const post = (body: object) =>
+      request(t.app).post(`/api/datasets/${d.id}/comments`).set(bearer(depositorToken)).send(body)
+    const ok = await post({ body: 'Two rings overlap here' })
     expect(ok.status).toBe(201)
-    const reply = await request(t.app)
-      .post(`/api/datasets/${d.id}/comments`)
-      .set(bearer(depositorToken))
-      .send({ body: 'Agreed', replyTo: ok.body.id })
+    expect(ok.body.regionId).toBeNull()
+    const reply = await post({ body: 'Agreed', replyTo: ok.body.id })
     expect(reply.body.replyTo).toBe(ok.body.id)
-    const bad = await request(t.app)
-      .post(`/api/datasets/${d.id}/comments`)
-      .set(bearer(depositorToken))
-      .send({ body: 'Bad', region: { shape: 'rectangle', pointsNm: [[1, 2]] } })
-    expect(bad.status).toBe(400)
-    expect(bad.body.errors[0].pointer).toBe('#/region/pointsNm')
+    const badReply = await post({ body: 'Lost', replyTo: 999_999 })
+    expect(badReply.status).toBe(400)
+    expect(badReply.body.errors[0].pointer).toBe('#/replyTo')
+    const badRegion = await post({ body: 'Where?', regionId: 999_999 })
+    expect(badRegion.status).toBe(400)
+    expect(badRegion.body.errors[0].pointer).toBe('#/regionId')
     const list = await request(t.app)
       .get(`/api/datasets/${d.id}/comments`)
       .set(bearer(depositorToken))

@@ -109,9 +109,7 @@ function probe(action: DatasetAction, id: number, phase: AccessPhase) {
     case 'preview':
       return request(t.app).get(`${path}/comments`)
     case 'annotate':
-      return request(t.app)
-        .post(`${path}/comments`)
-        .send({ body: 'Looks like a ring', region: { shape: 'point', pointsNm: [[100, 200]] } })
+      return request(t.app).post(`${path}/comments`).send({ body: 'Looks like a ring' })
     case 'download':
       return request(t.app).get(`${path}/manifest.txt`)
     case 'edit':

@@ -3,7 +3,7 @@
  * Benchmarks are never part of `npm test`.
  */
 import { benchDatasetList } from './datasets-list.bench'
-import { benchIngest } from './ingest.bench'
+import { benchIngest, benchIngestLarge } from './ingest.bench'
 import { benchQuality } from './quality.bench'
 import { benchRawStack } from './raw-stack.bench'
 import { benchTiles } from './tiles.bench'
@@ -13,6 +13,7 @@ const only = process.argv[2]
 const benches: Record<string, () => Promise<Record<string, unknown>>> = {
   'datasets-list': benchDatasetList,
   ingest: benchIngest,
+  'ingest-large': benchIngestLarge,
   quality: benchQuality,
   'raw-stack': benchRawStack,
   tiles: benchTiles,

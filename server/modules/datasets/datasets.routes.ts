@@ -12,11 +12,12 @@ import { requireUser } from '../../http/authenticate'
 import { requestEm as em } from '../../http/request-context'
 import { parseBody, parseParams, parseQuery } from '../../http/validate'
 import type { AppDeps } from '../../services'
-import { commentsRouter } from '../comments/comments.routes'
 import { filesRouter } from '../files/files.routes'
 import { datasetMetadataRouter } from '../metadata/metadata.routes'
 import { previewRouter } from '../preview/preview.routes'
 import { qualityRouter } from '../quality/quality.routes'
+import { curationThreadRouter } from '../curation/curation.routes'
+import { versionsRouter } from '../versions/versions.routes'
 import { datasetFor, datasetParams } from './dataset-access'
 import { reviewDataset, setEmbargo, submitDataset } from './dataset-lifecycle.service'
 import { toDatasetPageDto } from './dataset.mapper'
@@ -85,7 +86,9 @@ export function datasetsRouter(deps: AppDeps): Router {
 
   router.put('/:id/embargo', requireUser, async (req, res) => {
     const dataset = await target(req, 'embargo')
-    res.json(await setEmbargo(em(), req, dataset, parseBody(setEmbargoSchema, req)))
+    res.json(
+      await setEmbargo(em(), req, dataset, parseBody(setEmbargoSchema, req), deps.config.embargo),
+    )
   })
 
   router.get('/:id/shares', requireUser, async (req, res) => {
@@ -110,11 +113,12 @@ export function datasetsRouter(deps: AppDeps): Router {
     res.status(204).end()
   })
 
-  router.use('/:id/comments', commentsRouter())
   router.use('/:id/reviewer-links', reviewerLinksRouter(deps))
   router.use('/:id', datasetMetadataRouter(deps))
   router.use('/:id', filesRouter(deps))
   router.use('/:id', qualityRouter(deps))
+  router.use('/:id', versionsRouter(deps))
+  router.use('/:id', curationThreadRouter(deps))
   if (deps.previews) router.use('/:id', previewRouter(deps.previews))
 
   return router
