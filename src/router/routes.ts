@@ -96,6 +96,18 @@ export const routes: RouteRecordRaw[] = [
     meta: { requiresAuth: true, title: 'Users' },
   },
   {
+    path: '/manuscripts',
+    name: 'manuscripts',
+    component: () => import('@/views/ManuscriptsView.vue'),
+    meta: { requiresAuth: true, title: 'Manuscripts' },
+  },
+  {
+    path: '/link-check',
+    name: 'link-check',
+    component: () => import('@/views/LinkCheckView.vue'),
+    meta: { requiresAuth: true, title: 'Check a statement' },
+  },
+  {
     path: '/:pathMatch(.*)*',
     name: 'not-found',
     component: () => import('@/views/NotFoundView.vue'),
