@@ -14,7 +14,7 @@ import { Circle, Fill, Stroke, Style } from 'ol/style'
 import type { RegionDto, RegionShape } from '@/api/regions'
 import { mapOutline, type Drawing } from '@/utils/regionGeometry'
 
-/** Drag from the centre to a corner of the ellipse's bounding box (axis-aligned). */
+/** From the centre to a corner of the ellipse's bounding box (axis-aligned). */
 const ellipseFromDrag: GeometryFunction = (coordinates, geometry) => {
   const [centre, corner] = coordinates as number[][]
   const c = centre ?? [0, 0]
