@@ -36,7 +36,8 @@ beforeAll(async () => {
   collaborator.on('pageerror', (e) => session.consoleErrors.push(e.message))
   await signIn(owner, OWNER)
   await signIn(collaborator, COLLABORATOR)
-}, 60_000)
+  // The demo tables are being read meanwhile, keeping both cores busy.
+}, 240_000)
 afterAll(async () => {
   await second?.close()
   await session?.close()
