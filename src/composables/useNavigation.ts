@@ -1,6 +1,7 @@
 import { computed } from 'vue'
 import type { RouteLocationRaw } from 'vue-router'
 import {
+  mdiAccountMultipleOutline,
   mdiAccountCircleOutline,
   mdiDatabaseOutline,
   mdiEmailOutline,
@@ -36,6 +37,9 @@ export function useNavigation() {
     }
     if (session.demo && can('read', 'Mail')) {
       items.push({ title: 'Caught mail', to: { name: 'caught-mail' }, icon: mdiEmailOutline })
+    }
+    if (can('manage', 'User')) {
+      items.push({ title: 'Users', to: { name: 'admin-users' }, icon: mdiAccountMultipleOutline })
     }
     if (can('read', 'AuditEvent')) {
       items.push({ title: 'Audit log', to: { name: 'audit-log' }, icon: mdiHistory })

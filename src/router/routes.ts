@@ -90,6 +90,24 @@ export const routes: RouteRecordRaw[] = [
     meta: { requiresAuth: true, title: 'Audit log' },
   },
   {
+    path: '/admin/users',
+    name: 'admin-users',
+    component: () => import('@/views/AdminUsersView.vue'),
+    meta: { requiresAuth: true, title: 'Users' },
+  },
+  {
+    path: '/manuscripts',
+    name: 'manuscripts',
+    component: () => import('@/views/ManuscriptsView.vue'),
+    meta: { requiresAuth: true, title: 'Manuscripts' },
+  },
+  {
+    path: '/link-check',
+    name: 'link-check',
+    component: () => import('@/views/LinkCheckView.vue'),
+    meta: { requiresAuth: true, title: 'Check a statement' },
+  },
+  {
     path: '/:pathMatch(.*)*',
     name: 'not-found',
     component: () => import('@/views/NotFoundView.vue'),
