@@ -9,6 +9,7 @@ import { fileJobCompletions } from './modules/files/file-jobs.completions'
 import { sweepOrphanedBytes } from './modules/files/orphan-sweep.service'
 import { recountDerivedBytes } from './modules/files/project-usage'
 import { pruneOidcPayloads } from './modules/idp/oidc-adapter'
+import { startDoiRegistration } from './modules/doi/doi-background'
 import { qualityCompletions } from './modules/quality/quality.completions'
 import { startMailCatcher, type MailCatcher } from './modules/mail/mail-catcher'
 import { mailerOrLog } from './modules/mail/mailer'
@@ -59,6 +60,7 @@ export async function openBackground(deps: {
     freshThreadKinds: FRESH_THREAD_KINDS,
   })
   let upkeep: NodeJS.Timeout | null = null
+  let doi: Awaited<ReturnType<typeof startDoiRegistration>> | null = null
   const embargoes = createEmbargoScheduler({
     orm,
     logger,
@@ -83,6 +85,7 @@ export async function openBackground(deps: {
         })
       await sweep()
       jobs.start()
+      doi = await startDoiRegistration({ ...deps, smtpUrl: mailCatcher?.url ?? config.smtpUrl })
       // Demo tables are simulated after the server is up, one at a time, then read like uploads.
       if (config.demoTables)
         void seedDemoTables(orm.em.fork(), storage, () => jobs.notify()).then(
@@ -107,6 +110,7 @@ export async function openBackground(deps: {
       embargoes.stop()
       if (upkeep) clearInterval(upkeep)
       await jobs.stop()
+      await doi?.stop()
       await mailCatcher?.stop()
     },
   }

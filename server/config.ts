@@ -56,8 +56,6 @@ const envSchema = z.object({
   EMBARGO_REMINDER_DAYS: z.coerce.number().int().min(0).max(365).default(7),
   /** The longest embargo a steward may set, in years from the day it is set. */
   EMBARGO_MAX_YEARS: z.coerce.number().int().min(1).max(50).default(3),
-  /** Longest embargo the curation policy allows, in days from approval. */
-  EMBARGO_MAX_DAYS: z.coerce.number().int().positive().default(730),
   /**
    * DataCite REST API (e.g. https://api.test.datacite.org). Unset: the local stand-in in demo mode;
    * outside demo mode versions then wait with their DOI pending until it is set.
@@ -101,7 +99,6 @@ export interface AppConfig {
   jobWorkers: number
   httpWorkers: number
   embargo: { reminderDays: number; maxYears: number }
-  embargoMaxDays: number
   /** Where DOIs are registered; url null means the local DataCite stand-in (demo and tests). */
   datacite: { url: string | null; repositoryId: string; password: string; prefix: string }
   comments: { perMinute: number; editWindowMs: number }
@@ -202,7 +199,6 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): AppConfig {
     jobWorkers: e.JOB_WORKERS,
     httpWorkers: e.WEB_CONCURRENCY,
     embargo: { reminderDays: e.EMBARGO_REMINDER_DAYS, maxYears: e.EMBARGO_MAX_YEARS },
-    embargoMaxDays: e.EMBARGO_MAX_DAYS,
     datacite: {
       url: e.DATACITE_URL?.replace(/\/$/, '') ?? null,
       repositoryId: e.DATACITE_REPOSITORY_ID,

@@ -20,7 +20,7 @@ export interface AppDeps {
   previews?: PreviewService
   /** Prepared read-only statements for the hottest reads (createApp makes it). */
   reads?: ReadConnection
-  /** The time, injected so rules that depend on it can be tested (the wall clock by default). */
+  /** The time, injected so tests can move it; the wall clock when omitted. */
   clock?: () => Date
 }
 

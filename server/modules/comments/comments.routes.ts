@@ -15,8 +15,9 @@ import type { AppDeps } from '../../services'
 import { datasetFor, datasetParams, subjectOf } from '../datasets/dataset-access'
 import { Dataset } from '../datasets/dataset.entity'
 import { Comment } from './comment.entity'
-import { anonymousReview } from '../reviewer-links/reviewer-access'
 import type { CommentsService } from './comments.service'
+import { anonymousReview } from '../reviewer-links/reviewer-access'
+
 const commentParams = z.object({ id: idSchema })
 
 /**
@@ -33,10 +34,8 @@ export function commentsRouter(deps: Pick<AppDeps, 'config'>, comments: Comments
     const dataset = await datasetFor(req, em(), parseParams(datasetParams, req).id, 'preview')
     const { regionId } = parseQuery(listCommentsQuerySchema, req)
     // Comments carry their authors' names: an anonymous reviewer gets none.
-    const items = anonymousReview(req, dataset)
-      ? []
-      : await comments.list(em(), req, dataset, regionId)
-    res.json({ items })
+    if (anonymousReview(req, dataset)) return void res.json({ items: [] })
+    res.json({ items: await comments.list(em(), req, dataset, regionId) })
   })
 
   router.post('/datasets/:id/comments', requireUser, postLimit, async (req, res) => {

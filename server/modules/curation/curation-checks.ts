@@ -32,7 +32,7 @@ const plural = (n: number, word: string) => `${n} ${word}${n === 1 ? '' : 's'}`
 export async function curationChecks(
   em: EntityManager,
   dataset: IDataset,
-  policy: { embargoMaxDays: number },
+  policy: { maxYears: number },
   now: Date,
   embargoUntil: Date | null = dataset.embargoUntil ?? dataset.proposedEmbargoUntil ?? null,
 ): Promise<CurationCheckDto[]> {
@@ -54,6 +54,10 @@ export async function curationChecks(
   const embargoDays = embargoUntil
     ? Math.ceil((embargoUntil.getTime() - now.getTime()) / DAY_MS)
     : 0
+
+  const latest = new Date(now)
+  latest.setUTCFullYear(latest.getUTCFullYear() + policy.maxYears)
+  const years = `${policy.maxYears} year${policy.maxYears === 1 ? '' : 's'}`
 
   return [
     missing.length
@@ -78,17 +82,13 @@ export async function curationChecks(
         : check('ethics', 'fail', 'Human-derived sample without an ethics or consent reference.'),
     embargoDays <= 0
       ? check('embargo', 'pass', 'No embargo: public on approval.')
-      : embargoDays > policy.embargoMaxDays
+      : embargoUntil!.getTime() > latest.getTime()
         ? check(
             'embargo',
             'fail',
-            `Embargo of ${embargoDays} days; the policy allows at most ${policy.embargoMaxDays}.`,
+            `Embargo of ${embargoDays} days; the policy allows at most ${years} (until ${latest.toISOString().slice(0, 10)}).`,
           )
-        : check(
-            'embargo',
-            'pass',
-            `Embargo of ${embargoDays} days (policy: at most ${policy.embargoMaxDays}).`,
-          ),
+        : check('embargo', 'pass', `Embargo of ${embargoDays} days (policy: at most ${years}).`),
   ]
 }
 
@@ -101,6 +101,12 @@ export function assertApprovable(
   checks: CurationCheckDto[],
   checklist: CurationChecklist | undefined,
 ) {
+  const failed = checks.filter((c) => c.outcome === 'fail')
+  if (failed.length)
+    throw new ConflictError(
+      `${dataset.accession} cannot be approved: ${failed.map((c) => c.label.toLowerCase()).join('; ')}.`,
+      failed.map((c) => ({ pointer: `#/checklist/${c.key}`, detail: c.detail })),
+    )
   if (checklist) {
     const unticked = checks.filter((c) => checklist[c.key] === false)
     if (unticked.length)
@@ -109,14 +115,9 @@ export function assertApprovable(
           pointer: `#/checklist/${c.key}`,
           detail: `Confirm “${c.label}” before approving, or request changes.`,
         })),
+        'Tick every item of the checklist before approving.',
       )
   }
-  const failed = checks.filter((c) => c.outcome === 'fail')
-  if (failed.length)
-    throw new ConflictError(
-      `${dataset.accession} cannot be approved: ${failed.map((c) => c.label.toLowerCase()).join('; ')}.`,
-      failed.map((c) => ({ pointer: `#/checklist/${c.key}`, detail: c.detail })),
-    )
 }
 
 /** Submitting needs at least one validated (ready) file besides the complete description. */

@@ -62,7 +62,7 @@ export function recordCurationStep(
 export async function curationThread(
   em: EntityManager,
   dataset: IDataset,
-  policy: { embargoMaxDays: number },
+  policy: { maxYears: number },
   now: Date,
 ): Promise<CurationThreadDto> {
   const entries = await em.find(
@@ -89,7 +89,7 @@ export async function curationThread(
       createdAt: e.createdAt.toISOString(),
     })),
     checks: await curationChecks(em, dataset, policy, now),
-    embargoMaxDays: policy.embargoMaxDays,
+    embargoMaxYears: policy.maxYears,
   }
 }
 
