@@ -14,6 +14,7 @@ import { Organization } from '../modules/organizations/organization.entity'
 import { Membership, Project } from '../modules/projects/project.entity'
 import { User } from '../modules/users/user.entity'
 import { seedEmbargoDemo } from './embargo-demo.seeder'
+import { seedDemoCuration } from './demo-curation'
 
 const consortiumSchema = z.object({
   organizations: z.array(
@@ -171,5 +172,6 @@ export async function seedDemo(
     await em.flush()
   }
   created += await seedEmbargoDemo(em, now)
+  created += await seedDemoCuration(em, now)
   return { created }
 }

@@ -8,6 +8,7 @@ import {
   mdiFolderMultipleOutline,
   mdiHistory,
   mdiHomeOutline,
+  mdiMagnify,
 } from '@mdi/js'
 import { useSessionStore } from '@/stores/session.store'
 
@@ -26,6 +27,7 @@ export function useNavigation() {
     const items: NavItem[] = [
       { title: 'Home', to: { name: 'home' }, icon: mdiHomeOutline, exact: true },
       { title: 'Datasets', to: { name: 'datasets' }, icon: mdiDatabaseOutline },
+      { title: 'Public datasets', to: { name: 'public-search' }, icon: mdiMagnify },
     ]
     if (session.signedIn) {
       items.push(
