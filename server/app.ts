@@ -13,10 +13,14 @@ import { failedTokenLimit } from './http/rate-limit'
 import { requestContext } from './http/request-context'
 import { securityHeaders } from './http/security-headers'
 import { auditRouter } from './modules/audit/audit.routes'
+import { adminUsersRouter } from './modules/users/admin-users.routes'
 import { AccessVersionReader } from './modules/common/access-version'
 import { authRouter } from './modules/auth/auth.routes'
 import type { RelyingParty } from './modules/auth/relying-party'
 import { datasetsRouter } from './modules/datasets/datasets.routes'
+import { landingRouter } from './modules/landing/landing.routes'
+import { searchRouter } from './modules/search/search.routes'
+import { curationQueueRouter } from './modules/curation/curation.routes'
 import { collaborationRouter } from './modules/regions/collaboration.routes'
 import type { DemoAccount } from './modules/idp/accounts'
 import { interactionRouter } from './modules/idp/interaction.routes'
@@ -36,6 +40,10 @@ import { PreviewTables } from './modules/preview/preview-tables'
 import { ReadConnection } from './modules/common/read-connection'
 import { TilePool } from './modules/preview/tile-pool'
 import { createUploads, UPLOADS_PATH } from './modules/uploads/uploads'
+import { reviewerLinkAccess } from './modules/reviewer-links/reviewer-access'
+import { reviewerEntryRouter } from './modules/reviewer-links/reviewer-entry.routes'
+import { linkCheckRouter } from './modules/link-check/link-check.routes'
+import { manuscriptsRouter } from './modules/manuscripts/manuscripts.routes'
 
 export interface CreateAppOptions extends Omit<AppDeps, 'storage'> {
   storage?: LocalStorage
@@ -127,9 +135,11 @@ export function createApp(appOptions: CreateAppOptions): Express {
   const acceptedTokens = new AcceptedTokens()
   app.use(failedTokenLimit(config.rateLimitSignIn, acceptedTokens))
   app.use(authenticate(accessVersion, acceptedTokens))
+  app.use(reviewerLinkAccess(options))
   app.use(sameOriginWrites(new URL(config.publicUrl).origin))
 
   app.use('/auth', authRouter(options, options.relyingParty))
+  app.use('/r', reviewerEntryRouter(options))
 
   // tus reads the raw request stream, so uploads are mounted before any body parser.
   const uploads = createUploads({
@@ -159,11 +169,17 @@ export function createApp(appOptions: CreateAppOptions): Express {
   api.use('/projects', projectsRouter(options))
   api.use('/datasets', datasetsRouter(options))
   api.use('/audit', auditRouter())
+  api.use('/search', searchRouter())
+  api.use('/users', adminUsersRouter())
+  api.use('/curation', curationQueueRouter())
+  api.use(manuscriptsRouter(options))
+  api.use('/link-check', linkCheckRouter(options))
   api.use('/instrument-profiles', instrumentProfilesRouter())
   api.use(metadataRouter())
   if (config.demo && options.mailbox) api.use('/dev/mail', caughtMailRouter(options.mailbox))
   api.use(apiNotFound)
   app.use('/api', api)
+  app.use('/d', landingRouter(options))
 
   if (options.clientDir && existsSync(options.clientDir)) {
     const clientDir = options.clientDir

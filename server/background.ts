@@ -9,8 +9,11 @@ import { fileJobCompletions } from './modules/files/file-jobs.completions'
 import { sweepOrphanedBytes } from './modules/files/orphan-sweep.service'
 import { recountDerivedBytes } from './modules/files/project-usage'
 import { pruneOidcPayloads } from './modules/idp/oidc-adapter'
+import { startDoiRegistration } from './modules/doi/doi-background'
 import { qualityCompletions } from './modules/quality/quality.completions'
 import { startMailCatcher, type MailCatcher } from './modules/mail/mail-catcher'
+import { mailerOrLog } from './modules/mail/mailer'
+import { createEmbargoScheduler, type Clock } from './modules/embargo/embargo-scheduler'
 import { OrmSessionStore } from './modules/sessions/session-store'
 import type { Uploads } from './modules/uploads/uploads'
 import { DEMO_DIR } from './paths'
@@ -37,6 +40,8 @@ export async function openBackground(deps: {
   orm: Orm
   logger: Logger
   storage: LocalStorage
+  /** The scheduler's time (tests pass their own). */
+  clock?: Clock
 }): Promise<Background> {
   const { config, orm, logger, storage } = deps
   if (config.demo) {
@@ -53,6 +58,14 @@ export async function openBackground(deps: {
     freshThreadKinds: FRESH_THREAD_KINDS,
   })
   let upkeep: NodeJS.Timeout | null = null
+  let doi: Awaited<ReturnType<typeof startDoiRegistration>> | null = null
+  const embargoes = createEmbargoScheduler({
+    orm,
+    logger,
+    config,
+    mailer: mailerOrLog(mailCatcher?.url ?? config.smtpUrl, config.mailFrom, logger),
+    clock: deps.clock ?? (() => new Date()),
+  })
 
   return {
     mailCatcher,
@@ -70,6 +83,7 @@ export async function openBackground(deps: {
         })
       await sweep()
       jobs.start()
+      doi = await startDoiRegistration({ ...deps, smtpUrl: mailCatcher?.url ?? config.smtpUrl })
       // Demo tables are simulated after the server is up, one at a time, then read like uploads.
       if (config.demoTables)
         void seedDemoTables(orm.em.fork(), storage, () => jobs.notify()).then(
@@ -87,10 +101,14 @@ export async function openBackground(deps: {
         ]).catch((err: unknown) => logger.error({ err }, 'hourly upkeep failed'))
       upkeep = setInterval(() => void hourly(), 3600_000)
       upkeep.unref()
+      // Releases missed while the server was down happen now, then once a minute.
+      await embargoes.start()
     },
     async stop() {
+      embargoes.stop()
       if (upkeep) clearInterval(upkeep)
       await jobs.stop()
+      await doi?.stop()
       await mailCatcher?.stop()
     },
   }

@@ -52,6 +52,22 @@ const envSchema = z.object({
   WEB_CONCURRENCY: z.coerce.number().int().min(1).max(64).default(1),
   /** Worker threads for heavy jobs (ingest, raw-stack scans). */
   JOB_WORKERS: z.coerce.number().int().min(1).max(16).default(1),
+  /** Owners and stewards are reminded this many days before an embargo ends (0: no reminder). */
+  EMBARGO_REMINDER_DAYS: z.coerce.number().int().min(0).max(365).default(7),
+  /** The longest embargo a steward may set, in years from the day it is set. */
+  EMBARGO_MAX_YEARS: z.coerce.number().int().min(1).max(50).default(3),
+  /**
+   * DataCite REST API (e.g. https://api.test.datacite.org). Unset: the local stand-in in demo mode;
+   * outside demo mode versions then wait with their DOI pending until it is set.
+   */
+  DATACITE_URL: z.url().optional(),
+  DATACITE_REPOSITORY_ID: z.string().min(1).default('STIPPLE.DEMO'),
+  DATACITE_PASSWORD: z.string().optional(),
+  /** The DOI prefix of the repository (10.5072 is DataCite's prefix for tests). */
+  DOI_PREFIX: z
+    .string()
+    .regex(/^10\.\d{4,9}$/)
+    .default('10.5072'),
   /** Comments one account may post a minute (more get 429). */
   RATE_LIMIT_COMMENTS: z.coerce.number().int().min(1).default(30),
   /** Minutes during which an author may still edit a comment. */
@@ -82,6 +98,9 @@ export interface AppConfig {
   ingest: { maxExpansion: number; maxRows: number }
   jobWorkers: number
   httpWorkers: number
+  embargo: { reminderDays: number; maxYears: number }
+  /** Where DOIs are registered; url null means the local DataCite stand-in (demo and tests). */
+  datacite: { url: string | null; repositoryId: string; password: string; prefix: string }
   comments: { perMinute: number; editWindowMs: number }
 }
 
@@ -179,6 +198,13 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): AppConfig {
     ingest: { maxExpansion: e.INGEST_MAX_EXPANSION, maxRows: e.INGEST_MAX_ROWS },
     jobWorkers: e.JOB_WORKERS,
     httpWorkers: e.WEB_CONCURRENCY,
+    embargo: { reminderDays: e.EMBARGO_REMINDER_DAYS, maxYears: e.EMBARGO_MAX_YEARS },
+    datacite: {
+      url: e.DATACITE_URL?.replace(/\/$/, '') ?? null,
+      repositoryId: e.DATACITE_REPOSITORY_ID,
+      password: e.DATACITE_PASSWORD ?? 'stand-in-password',
+      prefix: e.DOI_PREFIX,
+    },
     comments: { perMinute: e.RATE_LIMIT_COMMENTS, editWindowMs: e.COMMENT_EDIT_MINUTES * 60_000 },
   }
 }

@@ -20,9 +20,13 @@ export interface AppDeps {
   previews?: PreviewService
   /** Prepared read-only statements for the hottest reads (createApp makes it). */
   reads?: ReadConnection
-  /** The time, injected so rules that depend on it can be tested (the wall clock by default). */
+  /** The time, injected so tests can move it; the wall clock when omitted. */
   clock?: () => Date
 }
+
+/** The injected clock, or the wall clock. */
+export const clockOf = (deps: Pick<AppDeps, 'clock'>): (() => Date) =>
+  deps.clock ?? (() => new Date())
 
 /** The part of a request services may use: who acts, with which abilities, from where. */
 export type Actor = Pick<Request, 'user' | 'viewer' | 'ability' | 'ip'> &

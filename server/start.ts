@@ -12,7 +12,7 @@ import { createRelyingParty } from './modules/auth/relying-party'
 import { loadAccounts, type DemoAccount } from './modules/idp/accounts'
 import { createLocalProvider } from './modules/idp/local-provider'
 import type { Mailbox, MailCatcher } from './modules/mail/mail-catcher'
-import { createMailer } from './modules/mail/mailer'
+import { mailerOrLog } from './modules/mail/mailer'
 import { DEMO_DIR } from './paths'
 import type { JobRunner } from './jobs/job-runner'
 import type { Uploads } from './modules/uploads/uploads'
@@ -107,12 +107,7 @@ async function startOn(
   const accounts = cfg.demo || cfg.oidc.local ? loadAccounts(`${DEMO_DIR}/accounts.json`) : []
   const background = primary ? null : await openBackground({ config: cfg, orm, logger, storage })
   const smtpUrl = background?.mailCatcher?.url ?? cfg.smtpUrl
-  const mailer = smtpUrl
-    ? createMailer(smtpUrl, cfg.mailFrom, logger)
-    : {
-        send: async (m: { to: string; subject: string }) =>
-          logger.info({ to: m.to, subject: m.subject }, 'mail not sent: no SMTP_URL'),
-      }
+  const mailer = mailerOrLog(smtpUrl, cfg.mailFrom, logger)
 
   const issuer = cfg.oidc.issuer ?? `${publicUrl}/oidc`
   const localIdp = cfg.oidc.local

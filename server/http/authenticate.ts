@@ -43,7 +43,8 @@ async function identityFor(
   user: IUser | null,
   extra: Partial<Identity> = {},
 ): Promise<Identity | null> {
-  return user
+  // A deactivated account is nobody: its session reads as signed out, its tokens as unknown.
+  return user && user.deactivatedAt == null
     ? { user: snapshot(user), viewer: deepFreeze(await loadViewer(em, user)), ...extra }
     : null
 }

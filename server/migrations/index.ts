@@ -9,8 +9,11 @@ import { Migration20261204141630 } from './Migration20261204141630'
 import { Migration20261204143704 } from './Migration20261204143704'
 import { Migration20261204151610 } from './Migration20261204151610'
 import { Migration20261204193454 } from './Migration20261204193454'
+import { Migration20261204221757 } from './Migration20261204221757'
 import { Migration20261204221847 } from './Migration20261204221847'
-
+import { Migration20261204221905 } from './Migration20261204221905'
+import { Migration20261204223500 } from './Migration20261204223500'
+import { Migration20261204224344 } from './Migration20261204224344'
 /**
  * Migrations in the order they run. `npm run db -- migration:create` writes new files here;
  * list each one below (static imports work under tsx, vitest and a bundle alike).
@@ -27,5 +30,9 @@ export const migrationsList = [
   { name: 'Migration20261204143704', class: Migration20261204143704 },
   { name: 'Migration20261204151610', class: Migration20261204151610 },
   { name: 'Migration20261204193454', class: Migration20261204193454 },
+  { name: 'Migration20261204221757', class: Migration20261204221757 },
   { name: 'Migration20261204221847', class: Migration20261204221847 },
+  { name: 'Migration20261204221905', class: Migration20261204221905 },
+  { name: 'Migration20261204223500', class: Migration20261204223500 },
+  { name: 'Migration20261204224344', class: Migration20261204224344 },
 ]

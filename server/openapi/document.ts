@@ -1,5 +1,6 @@
 import { OpenAPIRegistry, OpenApiGeneratorV31 } from '@asteasolutions/zod-to-openapi'
 import { registerAuditPaths } from '../modules/audit/audit.openapi'
+import { registerAdminUserPaths } from '../modules/users/admin-users.openapi'
 import { registerCommentPaths } from '../modules/comments/comments.openapi'
 import { registerDatasetPaths } from '../modules/datasets/datasets.openapi'
 import { registerFilePaths } from '../modules/files/files.openapi'
@@ -7,6 +8,8 @@ import { registerMetadataPaths } from '../modules/metadata/metadata.openapi'
 import { registerProjectPaths } from '../modules/projects/projects.openapi'
 import { registerPreviewPaths, registerQualityPaths } from '../modules/quality/quality.openapi'
 import { registerMePaths } from '../modules/users/me.openapi'
+import { registerSearchPaths } from '../modules/search/search.openapi'
+import { registerVersionPaths } from '../modules/versions/versions.openapi'
 import { registerRegionPaths } from '../modules/regions/regions.openapi'
 import { z } from 'zod'
 
@@ -46,6 +49,9 @@ export function buildOpenApiDocument(publicUrl: string) {
   registerRegionPaths(registry)
   registerMetadataPaths(registry)
   registerAuditPaths(registry)
+  registerSearchPaths(registry)
+  registerAdminUserPaths(registry)
+  registerVersionPaths(registry)
   return new OpenApiGeneratorV31(registry.definitions).generateDocument({
     openapi: '3.1.0',
     info: {

@@ -11,13 +11,21 @@ export class LocalStorage {
   readonly uploadsDir: string
   readonly filesDir: string
   readonly derivedDir: string
+  /** Bytes of approved versions, one per SHA-256, shared by every version holding them. */
+  readonly versionBlobsDir: string
 
   constructor(dataDir: string) {
     this.uploadsDir = join(dataDir, 'uploads')
     this.filesDir = join(dataDir, 'files')
     this.derivedDir = join(dataDir, 'derived')
-    for (const dir of [this.uploadsDir, this.filesDir, this.derivedDir])
+    this.versionBlobsDir = join(dataDir, 'version-blobs')
+    for (const dir of [this.uploadsDir, this.filesDir, this.derivedDir, this.versionBlobsDir])
       mkdirSync(dir, { recursive: true })
+  }
+
+  /** Where the frozen bytes with this SHA-256 live (the orphan sweep never walks this folder). */
+  versionBlobPath(sha256: string): string {
+    return join(this.versionBlobsDir, sha256)
   }
 
   /** The untouched original of a deposited file. Keys never change once written. */

@@ -94,8 +94,16 @@ const CAPABILITY_OF: Partial<Record<DatasetAction, ShareCapability>> = {
   download: 'download',
 }
 
-/** The abilities of one person (or of the public when viewer is null), evaluated at `now`. */
-export function defineAbilityFor(viewer: Viewer | null, now: Date = new Date()): AppAbility {
+/**
+ * The abilities of one person (or of the public when viewer is null), evaluated at `now`.
+ * `reviewing` lists the datasets of the live reviewer links presented with the request (checked by
+ * the server against the database on every request); they add the reviewer row for those only.
+ */
+export function defineAbilityFor(
+  viewer: Viewer | null,
+  now: Date = new Date(),
+  reviewing: readonly number[] = [],
+): AppAbility {
   const { can, build } = new AbilityBuilder<AppAbility>(createMongoAbility)
   // An empty condition object must become an unconditional rule: rulesToQuery would otherwise emit
   // `$or: [{}, …]`, and the ORM drops empty members of $or, narrowing the list wrongly.
@@ -130,6 +138,7 @@ export function defineAbilityFor(viewer: Viewer | null, now: Date = new Date()):
   }
 
   grantDataset(viewer ? 'outsider' : 'public', {})
+  if (reviewing.length) grantDataset('reviewer', { id: { $in: [...reviewing] } })
   if (!viewer) return build({ detectSubjectType })
 
   can(['create', 'read', 'manage'], 'ApiToken', { user: viewer.id })
@@ -140,7 +149,11 @@ export function defineAbilityFor(viewer: Viewer | null, now: Date = new Date()):
   }
 
   const site = viewer.siteRole
-  if (site) {
+  if (site === 'editor') {
+    // Editors see only what was attached to their journal's manuscripts, not the whole site.
+    const attached = viewer.manuscriptDatasets ?? []
+    if (attached.length) grantDataset('editor', { id: { $in: [...attached] } })
+  } else if (site) {
     grantDataset(site, {})
     grantProject(site, {}, {})
   }

@@ -10,6 +10,7 @@ export const DATASET_ACTIONS = [
   'curate',
   'embargo',
   'share',
+  'reviewer_link',
 ] as const
 export type DatasetAction = (typeof DATASET_ACTIONS)[number]
 
@@ -23,7 +24,8 @@ export const DATASET_ACTION_LABELS: Record<DatasetAction, string> = {
   submit: 'Submit for curation',
   curate: 'Curate (approve, request changes, withdraw)',
   embargo: 'Set, extend or lift the embargo',
-  share: 'Share with collaborators',
+  share: 'Share with collaborators, attach to a manuscript',
+  reviewer_link: 'Create and revoke reviewer links',
 }
 
 /** Actions on a project. */

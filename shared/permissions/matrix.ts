@@ -15,6 +15,7 @@ export const MATRIX_ROLES = [
   'owner',
   'member',
   'collaborator',
+  'reviewer',
   'outsider',
   'public',
 ] as const
@@ -23,10 +24,11 @@ export type MatrixRole = (typeof MATRIX_ROLES)[number]
 export const MATRIX_ROLE_LABELS: Record<MatrixRole, string> = {
   admin: 'Site admin',
   steward: 'Data steward (site-wide)',
-  editor: 'Journal editor',
+  editor: 'Journal editor (dataset attached to a manuscript of their journal)',
   owner: 'Project owner',
   member: 'Project member (depositor)',
   collaborator: 'Collaborator (dataset shared with them)',
+  reviewer: 'Reviewer (holding a live reviewer link to the dataset)',
   outsider: 'Signed in, no relation to the dataset',
   public: 'Public (signed out)',
 }
@@ -41,6 +43,17 @@ const VISIBLE_TO_EDITORS: readonly AccessPhase[] = [
   'embargoed',
   'released',
   'withdrawn',
+]
+/**
+ * What a reviewer link (and a journal editor, for a dataset attached to a manuscript of their
+ * journal) opens: the dataset from submission on, until it is withdrawn. Drafts are never shown
+ * to a journal: links to drafts are refused and editors do not see them.
+ */
+const UNDER_REVIEW: readonly AccessPhase[] = [
+  'submitted',
+  'changes_requested',
+  'embargoed',
+  'released',
 ]
 /** Embargoed datasets keep a public landing page (metadata), as DOI metadata are public; files stay closed. */
 const PUBLIC_METADATA: readonly AccessPhase[] = ['embargoed', 'released', 'withdrawn']
@@ -59,6 +72,7 @@ const depositorRow = (share: readonly AccessPhase[]): DatasetRow => ({
   curate: NONE,
   embargo: NONE,
   share,
+  reviewer_link: NONE,
 })
 
 const publicRow: DatasetRow = {
@@ -72,6 +86,7 @@ const publicRow: DatasetRow = {
   curate: NONE,
   embargo: NONE,
   share: NONE,
+  reviewer_link: NONE,
 }
 
 const stewardRow: DatasetRow = {
@@ -85,17 +100,25 @@ const stewardRow: DatasetRow = {
   curate: ['submitted', 'embargoed', 'released'],
   embargo: ['submitted', 'embargoed'],
   share: NONE,
+  reviewer_link: NONE,
 }
 
 export const DATASET_MATRIX: Record<MatrixRole, DatasetRow> = {
   admin: { ...stewardRow, delete: ['draft', 'withdrawn'] },
   steward: stewardRow,
+  /**
+   * Only for datasets attached to a manuscript of the editor's journal (any other dataset: as an
+   * outsider). Editors check the data behind a manuscript, so they see what its reviewers see,
+   * and hand out the reviewer links.
+   */
   editor: {
     ...publicRow,
     read: VISIBLE_TO_EDITORS,
-    preview: ['submitted', 'changes_requested', 'embargoed', 'released'],
+    preview: UNDER_REVIEW,
+    download: UNDER_REVIEW,
+    reviewer_link: UNDER_REVIEW,
   },
-  owner: depositorRow(NOT_WITHDRAWN),
+  owner: { ...depositorRow(NOT_WITHDRAWN), reviewer_link: UNDER_REVIEW },
   member: depositorRow(NOT_WITHDRAWN),
   /** The most a share can grant; each share narrows it to the capabilities it names. */
   collaborator: {
@@ -104,6 +127,13 @@ export const DATASET_MATRIX: Record<MatrixRole, DatasetRow> = {
     preview: NOT_WITHDRAWN,
     annotate: NOT_WITHDRAWN,
     download: NOT_WITHDRAWN,
+  },
+  /** View, preview and download of the one dataset the link names; nothing else. */
+  reviewer: {
+    ...publicRow,
+    read: [...UNDER_REVIEW, 'withdrawn'],
+    preview: UNDER_REVIEW,
+    download: UNDER_REVIEW,
   },
   outsider: publicRow,
   public: publicRow,
@@ -116,6 +146,7 @@ export const PROJECT_MATRIX: Record<MatrixRole, Record<ProjectAction, boolean>> 
   owner: { read: true, create_dataset: true, manage_members: true },
   member: { read: true, create_dataset: true, manage_members: false },
   collaborator: { read: true, create_dataset: false, manage_members: false },
+  reviewer: { read: false, create_dataset: false, manage_members: false },
   outsider: { read: false, create_dataset: false, manage_members: false },
   public: { read: false, create_dataset: false, manage_members: false },
 }

@@ -15,4 +15,9 @@ export interface Viewer {
     readonly datasetId: number
     readonly capabilities: readonly ShareCapability[]
   }[]
+  /**
+   * Datasets attached to a manuscript of a journal this person edits. They count only while the
+   * person is a journal editor (site role); losing the role closes them at once.
+   */
+  readonly manuscriptDatasets?: readonly number[]
 }

@@ -1,5 +1,6 @@
 import { z } from 'zod'
 import { DATASET_STATES } from '../domain/dataset-state'
+import { curationChecklistSchema } from './curation.schema'
 import { isSpdxLicenceId } from '../domain/licences'
 import { SHARE_CAPABILITIES } from '../domain/roles'
 import { emailSchema, idSchema, pageQuerySchema, textField } from './common.schema'
@@ -100,6 +101,8 @@ export const reviewDatasetSchema = z
     decision: z.enum(REVIEW_DECISIONS),
     comment: z.string().trim().max(4000).default(''),
     embargoUntil: isoDateSchema.nullable().optional(),
+    /** The steward's ticks on the curation checklist (see curation.schema.ts). */
+    checklist: curationChecklistSchema.optional(),
   })
   .refine((r) => r.decision === 'approve' || r.comment.length > 0, {
     error: 'Say what must change, or why the dataset is withdrawn',

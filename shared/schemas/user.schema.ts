@@ -9,6 +9,7 @@ export const viewerSchema = z.object({
   shares: z.array(
     z.object({ datasetId: z.number(), capabilities: z.array(z.enum(SHARE_CAPABILITIES)) }),
   ),
+  manuscriptDatasets: z.array(z.number()).optional(),
 })
 
 export const meSchema = z

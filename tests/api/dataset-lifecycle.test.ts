@@ -4,7 +4,14 @@ import { AuditEvent } from '@server/modules/audit/audit-event.entity'
 import { Dataset, DatasetShare } from '@server/modules/datasets/dataset.entity'
 import { Membership } from '@server/modules/projects/project.entity'
 import type { IUser } from '@server/modules/users/user.entity'
-import { bearer, buildMember, buildProject, buildUser, tokenFor } from '../fixtures/builders'
+import {
+  bearer,
+  buildMember,
+  buildProject,
+  buildReadyFile,
+  buildUser,
+  tokenFor,
+} from '../fixtures/builders'
 import { completeMetadata } from '../fixtures/metadata'
 import { createTestApp, mailTo, type TestApp } from '../fixtures/test-app'
 
@@ -38,6 +45,7 @@ async function draft(title = 'Lifecycle sample') {
     .set(bearer(depositorToken))
     .send(completeMetadata())
     .expect(200)
+  await buildReadyFile(t.em(), res.body.id)
   return res.body as { id: number; accession: string }
 }
 const submit = (id: number) =>

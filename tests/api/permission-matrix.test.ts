@@ -20,6 +20,9 @@ import {
 } from '@shared/permissions/matrix'
 import { SHARE_CAPABILITIES } from '@shared/domain/roles'
 import type { IUser } from '@server/modules/users/user.entity'
+import { ReviewerLink } from '@server/modules/reviewer-links/reviewer-link.entity'
+import { REVIEW_COOKIE } from '@server/modules/reviewer-links/reviewer-access'
+import { signLinkIds } from '@server/modules/reviewer-links/reviewer-link-token'
 import {
   bearer,
   buildDataset,
@@ -30,11 +33,13 @@ import {
   tokenFor,
 } from '../fixtures/builders'
 import { createTestApp, type TestApp } from '../fixtures/test-app'
+import { buildJournal, buildManuscript, buildReviewerLink } from '../fixtures/review-builders'
 
 let t: TestApp
 let projectId: number
 const tokens = new Map<MatrixRole, string | null>()
 let collaborator: IUser
+let journalId: number
 
 const DAY = 86_400_000
 const future = (days: number) => new Date(Date.UTC(2100, 0, 1) + days * DAY)
@@ -54,7 +59,10 @@ beforeAll(async () => {
   ).id
   tokens.set('admin', await tokenFor(em, await buildUser(em, { siteRole: 'admin' })))
   tokens.set('steward', await tokenFor(em, await buildUser(em, { siteRole: 'steward' })))
-  tokens.set('editor', await tokenFor(em, await buildUser(em, { siteRole: 'editor' })))
+  const editor = await buildUser(em, { siteRole: 'editor' })
+  journalId = (await buildJournal(em, [editor])).id
+  tokens.set('editor', await tokenFor(em, editor))
+  tokens.set('reviewer', null)
   tokens.set('owner', await tokenFor(em, owner))
   tokens.set('member', await tokenFor(em, member))
   tokens.set('collaborator', await tokenFor(em, collaborator))
@@ -63,7 +71,10 @@ beforeAll(async () => {
 })
 afterAll(() => t.close())
 
-/** A fresh dataset in the given phase; the collaborator gets a share with every capability. */
+/**
+ * A fresh dataset in the given phase; the collaborator gets a share with every capability, the
+ * editor's journal a manuscript it is attached to, and the reviewer a live link to it.
+ */
 async function datasetIn(phase: AccessPhase) {
   const em = t.em()
   const state = phase === 'embargoed' || phase === 'released' ? 'approved' : phase
@@ -72,7 +83,20 @@ async function datasetIn(phase: AccessPhase) {
     embargoUntil: phase === 'embargoed' ? future(1) : null,
   })
   await buildShare(em, dataset.id, projectId, collaborator, [...SHARE_CAPABILITIES])
+  await buildManuscript(em, journalId, [dataset.id])
+  const { cookie } = await buildReviewerLink(em, t.config.sessionSecrets[0]!, dataset.id)
+  cookies.set(dataset.id, cookie)
   return dataset
+}
+const cookies = new Map<number, string>()
+
+/** Sends the probe as the role: a bearer token, the reviewer's cookie, or nothing. */
+function as(role: MatrixRole, req: request.Test, datasetId?: number) {
+  const token = tokens.get(role)
+  if (token) return req.set(bearer(token))
+  if (role === 'reviewer' && datasetId !== undefined)
+    return req.set('Cookie', cookies.get(datasetId)!)
+  return req
 }
 
 let probeCounter = 0
@@ -110,6 +134,10 @@ function probe(action: DatasetAction, id: number, phase: AccessPhase) {
       return request(t.app)
         .post(`${path}/shares`)
         .send({ email: `guest-${probeCounter++}@elsewhere.test`, capabilities: ['preview'] })
+    case 'reviewer_link':
+      return request(t.app)
+        .post(`${path}/reviewer-links`)
+        .send({ expiresAt: new Date(Date.now() + 7 * DAY).toISOString(), anonymous: false })
   }
 }
 
@@ -121,6 +149,7 @@ const NEEDS_SIGN_IN: DatasetAction[] = [
   'curate',
   'embargo',
   'share',
+  'reviewer_link',
 ]
 
 function expectedStatus(
@@ -129,7 +158,7 @@ function expectedStatus(
   phase: AccessPhase,
 ): number | 'ok' {
   if (DATASET_MATRIX[role][action].includes(phase)) return 'ok'
-  if (role === 'public' && NEEDS_SIGN_IN.includes(action)) return 401
+  if ((role === 'public' || role === 'reviewer') && NEEDS_SIGN_IN.includes(action)) return 401
   return DATASET_MATRIX[role].read.includes(phase) ? 403 : 404
 }
 
@@ -139,9 +168,7 @@ describe.each(MATRIX_ROLES)('dataset actions as %s', (role) => {
     const want: string[] = []
     for (const action of DATASET_ACTIONS) {
       const dataset = await datasetIn(phase)
-      const token = tokens.get(role)
-      const req = probe(action, dataset.id, phase)
-      const res = await (token ? req.set(bearer(token)) : req)
+      const res = await as(role, probe(action, dataset.id, phase), dataset.id)
       const expected = expectedStatus(role, action, phase)
       const ok = res.status >= 200 && res.status < 300
       got.push(`${action}: ${ok ? 'ok' : res.status}`)
@@ -155,15 +182,26 @@ describe.each(MATRIX_ROLES)('list narrowing as %s', (role) => {
   it('the list holds exactly the datasets this role may read, filtered in the database', async () => {
     const ids = new Map<number, AccessPhase>()
     for (const phase of ACCESS_PHASES) ids.set((await datasetIn(phase)).id, phase)
-    const token = tokens.get(role)
+    // A reviewer holds the links of every dataset just made (one browser, several links).
+    const reviewerCookie = await cookieForAll([...ids.keys()])
     const req = request(t.app).get(`/api/datasets?projectId=${projectId}&limit=200`)
-    const res = await (token ? req.set(bearer(token)) : req)
+    const res = await (role === 'reviewer' ? req.set('Cookie', reviewerCookie) : as(role, req))
     expect(res.status).toBe(200)
     const listed = new Set<number>(res.body.items.map((d: { id: number }) => d.id))
     const seen = [...ids].filter(([id]) => listed.has(id)).map(([, phase]) => phase)
     expect(seen).toEqual(ACCESS_PHASES.filter((p) => DATASET_MATRIX[role].read.includes(p)))
   })
 })
+
+/** One cookie naming the links of all these datasets, as a browser that opened each would hold. */
+async function cookieForAll(datasetIds: number[]) {
+  const em = t.em()
+  const links = await em.find(ReviewerLink, { dataset: { $in: datasetIds } })
+  return `${REVIEW_COOKIE}=${signLinkIds(
+    t.config.sessionSecrets[0]!,
+    links.map((l) => l.id),
+  )}`
+}
 
 function projectProbe(action: ProjectAction) {
   switch (action) {
@@ -183,9 +221,7 @@ describe.each(MATRIX_ROLES)('project actions as %s', (role) => {
     const got: string[] = []
     const want: string[] = []
     for (const action of PROJECT_ACTIONS) {
-      const token = tokens.get(role)
-      const req = projectProbe(action)
-      const res = await (token ? req.set(bearer(token)) : req)
+      const res = await as(role, projectProbe(action))
       got.push(`${action}: ${res.status >= 200 && res.status < 300 ? 'ok' : 'denied'}`)
       want.push(`${action}: ${PROJECT_MATRIX[role][action] ? 'ok' : 'denied'}`)
       if (!PROJECT_MATRIX[role][action])
@@ -228,7 +264,9 @@ const HAND_WRITTEN: [MatrixRole, DatasetAction, AccessPhase, number | 'ok'][] = 
   ['public', 'download', 'embargoed', 403],
   ['public', 'preview', 'embargoed', 403],
   ['outsider', 'download', 'embargoed', 403],
-  ['editor', 'download', 'embargoed', 403],
+  // …except the editors of the manuscript it is attached to (an unrelated editor is an outsider:
+  // tests/api/manuscripts.test.ts).
+  ['editor', 'download', 'embargoed', 'ok'],
   ['public', 'read', 'embargoed', 'ok'],
   ['collaborator', 'download', 'embargoed', 'ok'],
   ['member', 'download', 'embargoed', 'ok'],
@@ -236,9 +274,34 @@ const HAND_WRITTEN: [MatrixRole, DatasetAction, AccessPhase, number | 'ok'][] = 
   ['public', 'read', 'draft', 404],
   ['outsider', 'read', 'draft', 404],
   ['outsider', 'read', 'submitted', 404],
+  // Journal editors, for a dataset attached to a manuscript of their journal: never a draft;
+  // they see, preview and download what reviewers see, and hand out the links.
   ['editor', 'read', 'draft', 404],
   ['editor', 'read', 'submitted', 'ok'],
-  ['editor', 'download', 'submitted', 403],
+  ['editor', 'download', 'submitted', 'ok'],
+  ['editor', 'preview', 'embargoed', 'ok'],
+  ['editor', 'reviewer_link', 'submitted', 'ok'],
+  ['editor', 'reviewer_link', 'draft', 404],
+  ['editor', 'edit', 'submitted', 403],
+  ['editor', 'curate', 'submitted', 403],
+  ['editor', 'download', 'withdrawn', 403],
+  // A reviewer link: view, preview and download of a submitted or later dataset, nothing else.
+  ['reviewer', 'read', 'submitted', 'ok'],
+  ['reviewer', 'preview', 'submitted', 'ok'],
+  ['reviewer', 'download', 'embargoed', 'ok'],
+  ['reviewer', 'read', 'draft', 404],
+  ['reviewer', 'download', 'draft', 404],
+  ['reviewer', 'download', 'withdrawn', 403],
+  ['reviewer', 'annotate', 'submitted', 401],
+  ['reviewer', 'edit', 'submitted', 401],
+  ['reviewer', 'reviewer_link', 'submitted', 401],
+  // Links are made by the project's owners, not by its other members, stewards or collaborators.
+  ['owner', 'reviewer_link', 'submitted', 'ok'],
+  ['owner', 'reviewer_link', 'embargoed', 'ok'],
+  ['owner', 'reviewer_link', 'draft', 403],
+  ['member', 'reviewer_link', 'submitted', 403],
+  ['steward', 'reviewer_link', 'submitted', 403],
+  ['collaborator', 'reviewer_link', 'embargoed', 403],
   // Withdrawn: a tombstone page for all, downloads only for the project and the stewards.
   ['public', 'read', 'withdrawn', 'ok'],
   ['public', 'download', 'withdrawn', 403],
@@ -268,9 +331,7 @@ const HAND_WRITTEN: [MatrixRole, DatasetAction, AccessPhase, number | 'ok'][] = 
 describe('the cells that matter most, written out by hand', () => {
   it.each(HAND_WRITTEN)('%s / %s / %s → %s', async (role, action, phase, expected) => {
     const dataset = await datasetIn(phase)
-    const token = tokens.get(role)
-    const req = probe(action, dataset.id, phase)
-    const res = await (token ? req.set(bearer(token)) : req)
+    const res = await as(role, probe(action, dataset.id, phase), dataset.id)
     const ok = res.status >= 200 && res.status < 300
     expect(ok ? 'ok' : res.status).toBe(expected)
   })

@@ -8,7 +8,8 @@
  * ≤ 0.7 × the faster of pyarrow and polars, peak RSS < 600 MB.
  */
 import { execFile } from 'node:child_process'
-import { rmSync, statSync } from 'node:fs'
+import { createWriteStream, existsSync, readFileSync, renameSync, rmSync, statSync } from 'node:fs'
+import { once } from 'node:events'
 import { referenceTable } from './reference-pipeline'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
@@ -30,6 +31,7 @@ interface ChildResult {
   rowsRejected: number
   outputBytes: number
   recordBatches: number
+  spilledBytes: number
   phaseSeconds: Record<string, number>
 }
 
@@ -37,8 +39,9 @@ type ReaderResult =
   | { reader: string; seconds: number; cpu_seconds: number; peak_rss_mb: number; rows: number }
   | { reader: string; skipped: string }
 
-async function ingestInChild(table: string, output: string): Promise<ChildResult> {
-  const args = ['--import', 'tsx', join(repo, 'tests', 'bench', 'ingest-child.ts'), table, output]
+async function ingestInChild(table: string, output: string, once = false): Promise<ChildResult> {
+  const child = join(repo, 'tests', 'bench', 'ingest-child.ts')
+  const args = ['--import', 'tsx', child, table, output, ...(once ? ['--once'] : [])]
   const { stdout } = await run(process.execPath, args, { cwd: repo, maxBuffer: MAX_BUFFER })
   const line = stdout.split('\n').find((l) => l.startsWith('RESULT '))
   if (!line) throw new Error(`the ingest child printed no result:\n${stdout}`)
@@ -110,6 +113,70 @@ export async function benchIngest(): Promise<Record<string, unknown>> {
       rmSync(path, { force: true })
       rmSync(`${path}.index.json`, { force: true })
     }
+  }
+}
+
+const LARGE_COPIES = 10
+
+/**
+ * The reference table ten times over (100 million rows, ~4.4 GB), each copy's frames after the
+ * last copy's, so the table stays in frame order as acquisitions are. Cached beside it.
+ */
+async function largeTable(): Promise<string> {
+  const source = await referenceTable()
+  const path = source.replace(/\.csv$/, `-x${LARGE_COPIES}.csv`)
+  if (existsSync(path)) return path
+  const out = createWriteStream(`${path}.part`)
+  const lines = readFileSync(source, 'latin1').split('\n')
+  const header = lines.shift()!
+  if (lines.at(-1) === '') lines.pop()
+  const lastFrame = Number(lines.at(-1)!.slice(0, lines.at(-1)!.indexOf(',')))
+  out.write(`${header}\n`)
+  for (let copy = 0; copy < LARGE_COPIES; copy++) {
+    const shift = copy * (lastFrame + 1)
+    for (let start = 0; start < lines.length; start += 100_000) {
+      const block = lines.slice(start, start + 100_000).map((line) => {
+        const comma = line.indexOf(',')
+        return `${Number(line.slice(0, comma)) + shift}${line.slice(comma)}`
+      })
+      if (!out.write(`${block.join('\n')}\n`)) await once(out, 'drain')
+    }
+  }
+  await new Promise<void>((resolve, reject) =>
+    out.end((e?: Error | null) => (e ? reject(e) : resolve())),
+  )
+  renameSync(`${path}.part`, path)
+  return path
+}
+
+/**
+ * `npm run bench -- ingest-large`: 100 million rows through the same ingest, once, in a child
+ * process. The parsed table (~2.8 GB) exceeds the ingest's memory budget, so most of it goes
+ * through the spill file. Target (issue #13): peak RSS under 1.5 GB.
+ */
+export async function benchIngestLarge(): Promise<Record<string, unknown>> {
+  const table = await largeTable()
+  const fileMB = statSync(table).size / 1e6
+  const output = join(tmpdir(), `stipple-bench-ingest-large-${process.pid}.arrow`)
+  try {
+    const ingest = await ingestInChild(table, output, true)
+    return {
+      rows: ingest.rowsAccepted,
+      fileMB: round(fileMB, 1),
+      seconds: round(ingest.seconds, 2),
+      MBPerSecondPerCore: round(fileMB / ingest.cpuSeconds, 1),
+      peakRssMB: Math.round(ingest.peakRssMB),
+      spilledMB: round(ingest.spilledBytes / 1e6, 1),
+      outputMB: round(ingest.outputBytes / 1e6, 1),
+      phases: Object.entries(ingest.phaseSeconds)
+        .map(([k, v]) => `${k} ${round(v, 2)}`)
+        .join(', '),
+      target: 'peak RSS < 1500 MB',
+      targetMet: ingest.peakRssMB < 1500,
+    }
+  } finally {
+    rmSync(output, { force: true })
+    rmSync(`${output}.index.json`, { force: true })
   }
 }
 

@@ -3,9 +3,10 @@
  * Benchmarks are never part of `npm test`.
  */
 import { benchDatasetList } from './datasets-list.bench'
-import { benchIngest } from './ingest.bench'
+import { benchIngest, benchIngestLarge } from './ingest.bench'
 import { benchQuality } from './quality.bench'
 import { benchRawStack } from './raw-stack.bench'
+import { benchRegions } from './regions.bench'
 import { benchTiles } from './tiles.bench'
 import { benchUpload } from './upload.bench'
 
@@ -13,8 +14,10 @@ const only = process.argv[2]
 const benches: Record<string, () => Promise<Record<string, unknown>>> = {
   'datasets-list': benchDatasetList,
   ingest: benchIngest,
+  'ingest-large': benchIngestLarge,
   quality: benchQuality,
   'raw-stack': benchRawStack,
+  regions: benchRegions,
   tiles: benchTiles,
   upload: benchUpload,
 }

@@ -6,7 +6,8 @@
  */
 import type { BufferPool } from './buffer.pool'
 import type { TableChunk } from './chunk.reader'
-import type { GridRule } from './chunk.processor'
+import type { ChunkSummary, GridRule, GroupedChunk } from './chunk.processor'
+import type { HeldChunk } from './chunk.spill'
 import type { ChunkBackend, InlineBackend, Processed } from './ingest.backends'
 import type { TileGrid } from '../store/tile.grid'
 
@@ -21,17 +22,25 @@ export interface Dispatch {
   onProcessed: (readFraction: number) => void
   /** Called with the rows processed so far; throws to stop the ingest (limits). */
   checkRows?: (rows: number) => void
+  /** Holds a processed chunk until the output is written: in memory or spilled (chunk.spill.ts). */
+  keep: (chunk: GroupedChunk) => HeldChunk
+}
+
+export interface HeldProcessed {
+  summary: ChunkSummary
+  grouped: HeldChunk | null
 }
 
 export async function processChunks(chunks: AsyncIterable<TableChunk>, d: Dispatch) {
-  const done: Processed[] = []
+  const done: HeldProcessed[] = []
   const running = new Set<Promise<void>>()
   let failure: unknown = null
   let grid: TileGrid | null = null
   let seq = 0
   let rows = 0
   const finish = (processed: Processed, readFraction: number) => {
-    done.push(processed)
+    const grouped = processed.grouped && d.keep(processed.grouped)
+    done.push({ summary: processed.summary, grouped })
     d.buffers.give(processed.buffer)
     d.onProcessed(readFraction)
     rows += processed.summary.rows

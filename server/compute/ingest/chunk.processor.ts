@@ -30,15 +30,19 @@ export interface ChunkSummary {
   outside: number
 }
 
-export interface GroupedChunk {
+/** Where each tile's rows sit in a chunk grouped by tile, and their extent. */
+export interface TileLayout {
   seq: number
-  /** One array per slot, rows ordered by tile. */
-  columns: StoredArray[]
   /** Rows of tile k are [tileStarts[k], tileStarts[k + 1]). */
   tileStarts: Uint32Array<ArrayBuffer>
   /** Per tile: min and max of x, and of y (±Infinity where the chunk has no row). */
   xRanges: Float64Array<ArrayBuffer>
   yRanges: Float64Array<ArrayBuffer>
+}
+
+export interface GroupedChunk extends TileLayout {
+  /** One array per slot, rows ordered by tile. */
+  columns: StoredArray[]
 }
 
 export interface ProcessedChunk {

@@ -3,18 +3,25 @@
  * 'auto'`): its minimum is 0 in a 0-based table, and at least 1 in a 1-based one. The first rows
  * alone cannot tell: a 0-based table whose first frames hold no localization starts above 0.
  */
-import type { GroupedChunk } from './chunk.processor'
+import { isSpilled, type HeldChunk } from './chunk.spill'
 import type { Totals } from './ingest-report'
 import { slotOf, type ParsePlan } from './parse-plan'
 
-/** The plan with the frame base settled; frames of a 1-based table are shifted in place. */
-export function settleFrameBase(plan: ParsePlan, totals: Totals, chunks: GroupedChunk[]) {
+/**
+ * The plan with the frame base settled; frames of a 1-based table are shifted in place (spilled
+ * ones as they are read back).
+ */
+export function settleFrameBase(plan: ParsePlan, totals: Totals, chunks: HeldChunk[]) {
   const slot = slotOf(plan, 'frame')
   const stats = totals.stats[slot]
   if (!plan.frameBaseFromData || !stats) return plan
   const base = stats.count > 0 && stats.min >= 1 ? 1 : 0
   if (base === 1) {
     for (const chunk of chunks) {
+      if (isSpilled(chunk)) {
+        chunk.spilled[slot]!.shift += 1
+        continue
+      }
       const frames = chunk.columns[slot]!
       for (let i = 0; i < frames.length; i++) frames[i]! -= 1
     }

@@ -13,8 +13,16 @@ export interface IngestOptions {
   format?: FormatOverrides
   /** What one table may cost; an ingest past any of them stops with a TableFormatError. */
   limits?: IngestLimits
-  /** For tests and benchmarks: worker count (0 = this thread), chunk size, rows per tile. */
-  tuning?: { workers?: number; chunkBytes?: number; rowsPerTile?: number }
+  /**
+   * For tests and benchmarks: worker count (0 = this thread), chunk size, rows per tile, and the
+   * parsed bytes held in memory before the rest spill to disk.
+   */
+  tuning?: {
+    workers?: number
+    chunkBytes?: number
+    rowsPerTile?: number
+    memoryBudgetBytes?: number
+  }
 }
 
 export interface IngestLimits {

@@ -54,6 +54,8 @@ export interface IngestReport {
     layout: string
     grid: TileGrid
     recordBatches: number
+    /** Parsed bytes that went through the spill file (0 when the table fit the memory budget). */
+    spilledBytes: number
   }
   seconds: number
   /** Wall-clock seconds per phase: sniff, parse, group, write. */

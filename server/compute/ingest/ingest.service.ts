@@ -11,7 +11,8 @@ import { BufferPool } from './buffer.pool'
 import { settleFrameBase } from './frame-base'
 import { readRecordChunks } from './chunk.reader'
 import { processChunks } from './chunk.dispatcher'
-import type { GridRule, GroupedChunk } from './chunk.processor'
+import type { GridRule } from './chunk.processor'
+import { ChunkSpill, isSpilled, type HeldChunk } from './chunk.spill'
 import { InlineBackend } from './ingest.backends'
 import { addUp, boundsOf, type IngestReport, type Totals } from './ingest-report'
 import { buildParsePlan, slotOf } from './parse-plan'
@@ -25,6 +26,11 @@ import type { IngestLimits, IngestOptions } from './ingest-options'
 import { planGrid, type Bounds, type TileGrid } from '../store/tile.grid'
 
 const INLINE_BELOW_BYTES = 8 << 20
+/**
+ * Parsed columns held in memory before the rest spill to disk: a 10-million-row table (~280 MB)
+ * stays in memory; beyond, peak memory stays near this plus the workers' chunks.
+ */
+const MEMORY_BUDGET_BYTES = 512 << 20
 
 /** Stops the ingest once the rows, or the store they need, pass the limits. */
 function rowLimit(plan: ReturnType<typeof buildParsePlan>, limits: IngestLimits = {}) {
@@ -53,6 +59,8 @@ export async function ingestLocalizationTable(options: IngestOptions): Promise<I
   const run: Run = { options, sniff, plan, progress: monotonic(options.onProgress), lap: clock.lap }
   const workers = acquireParseWorkers(options.tuning?.workers ?? defaultWorkers(size), plan)
   const inline = new InlineBackend(plan)
+  const budget = options.tuning?.memoryBudgetBytes ?? MEMORY_BUDGET_BYTES
+  const spill = new ChunkSpill(`${options.outputPath}.spill`, budget)
   try {
     clock.lap('sniff')
     const chunkBytes = options.tuning?.chunkBytes ?? chunkSizeFor(size)
@@ -68,7 +76,8 @@ export async function ingestLocalizationTable(options: IngestOptions): Promise<I
     const gridFor = (readFraction: number) => gridRule(readFraction, options.tuning?.rowsPerTile)
     const onProcessed = (fraction: number) => run.progress(fraction * PARSED_SHARE)
     const checkRows = rowLimit(plan, limits)
-    const dispatch = { inline, workers, buffers, gridFor, onProcessed, checkRows }
+    const keep = spill.keep.bind(spill)
+    const dispatch = { inline, workers, buffers, gridFor, onProcessed, checkRows, keep }
     const { processed, grid } = await processChunks(chunks, dispatch)
     const totals = addUp(
       processed.map((p) => p.summary),
@@ -77,12 +86,14 @@ export async function ingestLocalizationTable(options: IngestOptions): Promise<I
     )
     clock.lap('parse')
     const grouped = processed.flatMap((p) => (p.grouped ? [p.grouped] : []))
-    const layout = fitGrid(run, totals, grid, grouped, inline)
+    const layout = await fitGrid(run, totals, grid, grouped, inline, spill)
     run.plan = settleFrameBase(plan, totals, layout.chunks)
-    const outcome = await writeOutput(run, totals, layout.grid, layout.chunks)
+    await spill.settled()
+    const outcome = await writeOutput(run, totals, layout.grid, layout.chunks, spill)
     return buildReport(options.outputPath, outcome, clock.phases)
   } finally {
     for (const worker of workers) worker.release()
+    await spill.close()
   }
 }
 
@@ -128,12 +139,13 @@ const MAX_OUTSIDE = 0.05
  * When the first rows did not span the field (a table sorted by position, say), the edge tiles
  * hold too much: then the chunks are regrouped here on a grid over the bounds of all rows.
  */
-function fitGrid(
+async function fitGrid(
   run: Run,
   totals: Totals,
   grid: TileGrid | null,
-  chunks: GroupedChunk[],
+  chunks: HeldChunk[],
   inline: InlineBackend,
+  spill: ChunkSpill,
 ) {
   const outside = totals.outside
   if (grid && outside <= MAX_OUTSIDE * totals.rows) return { grid, chunks }
@@ -141,7 +153,12 @@ function fitGrid(
   const y = totals.stats[slotOf(run.plan, 'y')]
   const bounds = boundsOf(x, y) ?? NO_EXTENT
   const fitted = planGrid(bounds, totals.rows, run.options.tuning?.rowsPerTile)
-  return { grid: fitted, chunks: chunks.map((c) => inline.regroup(c, fitted)) }
+  const regrouped: HeldChunk[] = []
+  for (const chunk of chunks) {
+    if (!isSpilled(chunk)) regrouped.push(inline.regroup(chunk, fitted))
+    else regrouped.push(spill.keep(inline.regroup(await spill.load(chunk), fitted)))
+  }
+  return { grid: fitted, chunks: regrouped }
 }
 
 function monotonic(report: ((fraction: number) => void) | undefined) {

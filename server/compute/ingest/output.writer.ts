@@ -6,7 +6,8 @@ import { open } from 'node:fs/promises'
 import type { Schema } from 'apache-arrow'
 import { writeArrowSkeleton } from '../store/arrow-skeleton.writer'
 import { writeBatches, type TileBatch } from './batch.writer'
-import type { GroupedChunk } from './chunk.processor'
+import type { TileLayout } from './chunk.processor'
+import type { ChunkSpill, HeldChunk } from './chunk.spill'
 import type { IngestOptions } from './ingest-options'
 import { boundsOf, type Totals } from './ingest-report'
 import { outputKinds, type OutputKind } from './output.columns'
@@ -32,14 +33,15 @@ export async function writeOutput(
   run: Run,
   totals: Totals,
   grid: TileGrid,
-  chunks: GroupedChunk[],
+  chunks: HeldChunk[],
+  spill: ChunkSpill,
 ): Promise<Outcome> {
   const { plan, options } = run
   const bounds = boundsOf(totals.stats[slotOf(plan, 'x')], totals.stats[slotOf(plan, 'y')])
   const batches = batchesOf(chunks, grid.columns * grid.rows)
   const kinds = outputKinds(plan, totals.stats)
   const schema = outputSchema(plan, kinds, new Map([['stipple.layout', 'xy-tiles/1']]))
-  const bytes = await writeArrowFile(run, { schema, kinds, batches, chunks })
+  const bytes = await writeArrowFile(run, { schema, kinds, batches, chunks, spill })
   const tiles = writtenTiles(batches, chunks, grid)
   await writeTileIndex(
     options.outputPath,
@@ -48,11 +50,22 @@ export async function writeOutput(
   run.progress(1)
   run.lap('write')
   const types = schema.fields.map((f) => String(f.type))
-  return { sniff: run.sniff, plan, totals, bounds, grid, types, bytes, batches: tiles.length }
+  const spilledBytes = spill.spilledBytes
+  return {
+    sniff: run.sniff,
+    plan,
+    totals,
+    bounds,
+    grid,
+    types,
+    bytes,
+    batches: tiles.length,
+    spilledBytes,
+  }
 }
 
 /** Non-empty tiles in key order, with their place in the tile-ordered table. */
-function batchesOf(chunks: GroupedChunk[], tiles: number): TileBatch[] {
+function batchesOf(chunks: TileLayout[], tiles: number): TileBatch[] {
   const batches: TileBatch[] = []
   let rowStart = 0
   for (let key = 0; key < tiles; key++) {
@@ -68,7 +81,8 @@ interface ArrowJob {
   schema: Schema
   kinds: OutputKind[]
   batches: TileBatch[]
-  chunks: GroupedChunk[]
+  chunks: HeldChunk[]
+  spill: ChunkSpill
 }
 
 /** The skeleton first (schema, batch headers, footer), then the columns into its holes. */
@@ -91,9 +105,9 @@ async function writeArrowFile(run: Run, job: ArrowJob): Promise<number> {
 }
 
 /** The index entry of each batch: its tile and the bounds of its rows over all chunks. */
-function writtenTiles(batches: TileBatch[], chunks: GroupedChunk[], grid: TileGrid): WrittenTile[] {
+function writtenTiles(batches: TileBatch[], chunks: TileLayout[], grid: TileGrid): WrittenTile[] {
   return batches.map((b, batch) => {
-    const range = (pick: (c: GroupedChunk) => Float64Array, i: 0 | 1) =>
+    const range = (pick: (c: TileLayout) => Float64Array, i: 0 | 1) =>
       (i === 0 ? Math.min : Math.max)(...chunks.map((c) => pick(c)[b.key * 2 + i]!))
     const boundsNm = {
       xMin: range((c) => c.xRanges, 0),

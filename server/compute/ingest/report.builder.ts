@@ -20,6 +20,7 @@ export interface Outcome {
   types: string[]
   bytes: number
   batches: number
+  spilledBytes: number
 }
 
 export function buildReport(
@@ -48,6 +49,7 @@ export function buildReport(
         'one record batch per non-empty tile of a square x/y grid, tiles row-major (tile.index.ts)',
       grid: o.grid,
       recordBatches: o.batches,
+      spilledBytes: o.spilledBytes,
     },
     seconds: Object.values(phases).reduce((a, b) => a + b, 0),
     phaseSeconds: phases,

@@ -1,9 +1,17 @@
 import { defineEntity, p, type InferEntity } from '@mikro-orm/core'
 import { User } from '../users/user.entity'
 
-/** One access-relevant event. Rows are only ever added. */
+const appendOnly = () => {
+  throw new Error('Audit events are append-only: they are never changed or removed.')
+}
+
+/**
+ * One access-relevant event. Rows are only ever added: the ORM refuses to update or delete one,
+ * and database triggers abort any statement that tries (migration 20261204221757).
+ */
 export const AuditEvent = defineEntity({
   name: 'AuditEvent',
+  hooks: { beforeUpdate: [appendOnly], beforeDelete: [appendOnly] },
   indexes: [{ properties: ['targetType', 'targetId'] }, { properties: ['time'] }],
   properties: {
     id: p.integer().primary(),

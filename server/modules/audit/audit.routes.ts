@@ -1,41 +1,34 @@
-import { Router } from 'express'
-import { auditQuerySchema, type AuditEventDto } from '@shared/schemas/audit.schema'
+import { Router, type Request } from 'express'
+import { auditFilterSchema, auditQuerySchema } from '@shared/schemas/audit.schema'
 import { ForbiddenError } from '../../errors/http-error'
 import { requireUser } from '../../http/authenticate'
 import { requestEm as em } from '../../http/request-context'
 import { parseQuery } from '../../http/validate'
-import { AuditEvent } from './audit-event.entity'
+import { exportAuditCsv, listAuditEvents } from './audit-log.service'
 
-/** The audit log, newest first, for stewards and admins. */
+function assertMayRead(req: Request) {
+  if (!req.ability.can('read', 'AuditEvent'))
+    throw new ForbiddenError('Only stewards and admins can read the audit log.')
+}
+
+/**
+ * The audit log for stewards and admins: read only. There is deliberately no route that changes
+ * or removes an event (the table refuses it too); other methods on these paths find nothing.
+ */
 export function auditRouter(): Router {
   const router = Router()
   router.get('/', requireUser, async (req, res) => {
-    if (!req.ability.can('read', 'AuditEvent'))
-      throw new ForbiddenError('Only stewards and admins can read the audit log.')
-    const q = parseQuery(auditQuerySchema, req)
-    const where = {
-      ...(q.targetType ? { targetType: q.targetType } : {}),
-      ...(q.targetId ? { targetId: q.targetId } : {}),
-      ...(q.action ? { action: q.action } : {}),
-    }
-    const [rows, total] = await em().findAndCount(AuditEvent, where, {
-      orderBy: { id: 'desc' },
-      limit: q.limit,
-      offset: q.offset,
-    })
-    res.json({
-      items: rows.map((e): AuditEventDto => ({
-        id: e.id,
-        actor: e.actor ?? null,
-        action: e.action,
-        targetType: e.targetType,
-        targetId: e.targetId,
-        time: e.time.toISOString(),
-        address: e.address ?? null,
-        details: e.details ?? null,
-      })),
-      total,
-    })
+    assertMayRead(req)
+    res.json(await listAuditEvents(em(), parseQuery(auditQuerySchema, req)))
+  })
+  router.get('/export.csv', requireUser, async (req, res) => {
+    assertMayRead(req)
+    const csv = await exportAuditCsv(em(), parseQuery(auditFilterSchema, req))
+    res
+      .type('text/csv; charset=utf-8')
+      .attachment('stipple-audit-log.csv')
+      .set('Cache-Control', 'no-store')
+      .send(csv)
   })
   return router
 }

@@ -96,6 +96,12 @@ export function authRouter(deps: AppDeps, rp: RelyingParty): Router {
       email_verified: typeof info.email_verified === 'boolean' ? info.email_verified : undefined,
       name: typeof info.name === 'string' ? info.name : undefined,
     })
+    if (user.deactivatedAt)
+      return signInError(
+        res,
+        403,
+        'This account has been deactivated by a site admin. Ask an admin if you think this is a mistake.',
+      )
     // A new session id at sign-in, so an id planted before it (session fixation) is worthless.
     await regenerate(req)
     req.session.userId = user.id

@@ -16,6 +16,7 @@ import { datasetFor, datasetParams, subjectOf } from '../datasets/dataset-access
 import { Dataset } from '../datasets/dataset.entity'
 import { Comment } from './comment.entity'
 import type { CommentsService } from './comments.service'
+import { anonymousReview } from '../reviewer-links/reviewer-access'
 
 const commentParams = z.object({ id: idSchema })
 
@@ -32,6 +33,8 @@ export function commentsRouter(deps: Pick<AppDeps, 'config'>, comments: Comments
   router.get('/datasets/:id/comments', async (req, res) => {
     const dataset = await datasetFor(req, em(), parseParams(datasetParams, req).id, 'preview')
     const { regionId } = parseQuery(listCommentsQuerySchema, req)
+    // Comments carry their authors' names: an anonymous reviewer gets none.
+    if (anonymousReview(req, dataset)) return void res.json({ items: [] })
     res.json({ items: await comments.list(em(), req, dataset, regionId) })
   })
 

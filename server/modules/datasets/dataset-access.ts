@@ -59,6 +59,10 @@ function forbiddenDetail(action: DatasetAction, d: DatasetFacts): string {
     case 'submit':
     case 'delete':
       return `You cannot ${action} ${d.accession}: it is ${state}, or you are not a depositor of its project.`
+    case 'reviewer_link':
+      return d.state === 'draft'
+        ? `${d.accession} is a draft. Reviewer links open submitted data only: submit it first.`
+        : `Only the project's owners and the editors of a manuscript it is attached to can manage reviewer links of ${d.accession} while it is ${state}.`
     case 'preview':
     case 'download':
       return `The files and previews of ${d.accession} are not open to you (embargo, state or sharing).`

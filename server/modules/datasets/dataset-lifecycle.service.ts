@@ -5,32 +5,52 @@ import { ConflictError, ValidationError } from '../../errors/http-error'
 import type { Actor, AppDeps } from '../../services'
 import { audit } from '../audit/audit.service'
 import { assertReadyToSubmit } from '../metadata/metadata.service'
+import {
+  assertApprovable,
+  assertHasValidatedFile,
+  curationChecks,
+} from '../curation/curation-checks'
+import { notifyDepositor, recordCurationStep } from '../curation/curation.service'
+import { freezeVersion } from '../versions/versions.service'
 import { User } from '../users/user.entity'
 import type { IDataset } from './dataset.entity'
 import { parseDay, toDatasetDto } from './dataset.mapper'
 
 type Notify = Pick<AppDeps, 'mailer' | 'config'>
+type Curate = Notify & Pick<AppDeps, 'storage'>
 
-function futureDay(value: string | null | undefined, pointer: string, now: Date): Date | null {
-  const day = parseDay(value)
-  if (day && day.getTime() <= now.getTime()) {
-    throw new ValidationError([{ pointer, detail: 'The embargo must end on a future date.' }])
-  }
-  return day
+/** The latest embargo end the policy allows from `now`: the same day `maxYears` later (UTC). */
+export function latestEmbargoEnd(now: Date, maxYears: number): Date {
+  const latest = new Date(now)
+  latest.setUTCFullYear(latest.getUTCFullYear() + maxYears)
+  return latest
 }
 
-async function mailCreator(
-  em: EntityManager,
-  deps: Notify,
-  dataset: IDataset,
-  subject: string,
-  text: string,
-) {
-  if (dataset.createdBy == null) return
-  const creator = await em.findOne(User, { id: dataset.createdBy })
-  if (!creator) return
-  const link = `${deps.config.publicUrl}/datasets/${dataset.accession}`
-  await deps.mailer.send({ to: creator.email, subject, text: `${text}\n\n${link}\n` })
+/**
+ * An embargo end a steward may set: a day after today (UTC) and no later than the policy's
+ * maximum length from now; anything else is a 400 naming the field.
+ */
+export function embargoEnd(
+  value: string | null | undefined,
+  pointer: string,
+  now: Date,
+  maxYears: number,
+): Date | null {
+  const day = parseDay(value)
+  if (!day) return null
+  if (day.getTime() <= now.getTime()) {
+    throw new ValidationError([{ pointer, detail: 'The embargo must end on a future date.' }])
+  }
+  const latest = latestEmbargoEnd(now, maxYears)
+  if (day.getTime() > latest.getTime()) {
+    throw new ValidationError([
+      {
+        pointer,
+        detail: `An embargo can last at most ${maxYears} year${maxYears === 1 ? '' : 's'}: the latest end is ${latest.toISOString().slice(0, 10)}.`,
+      },
+    ])
+  }
+  return day
 }
 
 /** Depositor → steward: draft or changes requested → submitted. The ability has checked the state. */
@@ -39,12 +59,22 @@ export async function submitDataset(
   actor: Actor,
   deps: Notify,
   dataset: IDataset,
+  now = new Date(),
 ) {
   await assertReadyToSubmit(em, dataset)
+  await assertHasValidatedFile(em, dataset)
   dataset.state = 'submitted'
-  dataset.submittedAt = new Date()
+  dataset.submittedAt = now
+  recordCurationStep(em, dataset, { step: 'submitted', actor: actor.user?.id ?? null }, now)
   audit(em, actor, { action: 'dataset.submit', targetType: 'Dataset', targetId: dataset.accession })
   await em.flush()
+  await notifyDepositor(
+    em,
+    deps,
+    dataset,
+    `Received for curation: ${dataset.accession}`,
+    `Your dataset ${dataset.accession} "${dataset.title}" (version ${dataset.version}) was submitted and waits for a steward's check.`,
+  )
   const stewards = await em.find(User, { siteRole: 'steward' })
   const link = `${deps.config.publicUrl}/datasets/${dataset.accession}`
   await Promise.all(
@@ -63,13 +93,14 @@ export async function submitDataset(
 export async function reviewDataset(
   em: EntityManager,
   actor: Actor,
-  deps: Notify,
+  deps: Curate,
   dataset: IDataset,
   input: ReviewDatasetBody,
   now = new Date(),
 ) {
-  const { decision, comment, embargoUntil } = input
+  const { decision, comment, embargoUntil, checklist } = input
   const phase = accessPhase(dataset, now)
+  let checks
   if ((decision === 'approve' || decision === 'request_changes') && phase !== 'submitted') {
     throw new ConflictError(
       `Only submitted datasets can be approved or sent back; ${dataset.accession} is ${phase}.`,
@@ -84,13 +115,29 @@ export async function reviewDataset(
     const requested =
       embargoUntil === undefined
         ? (dataset.embargoUntil ?? dataset.proposedEmbargoUntil)
-        : futureDay(embargoUntil, '#/embargoUntil', now)
-    dataset.embargoUntil = requested && requested.getTime() > now.getTime() ? requested : null
+        : embargoEnd(embargoUntil, '#/embargoUntil', now, deps.config.embargo.maxYears)
+    const embargo = requested && requested.getTime() > now.getTime() ? requested : null
+    checks = await curationChecks(em, dataset, deps.config.embargo, now, embargo)
+    assertApprovable(dataset, checks, checklist)
+    dataset.embargoUntil = embargo
     dataset.state = 'approved'
     dataset.approvedAt = now
+    await freezeVersion(em, deps.storage, dataset, actor.user?.id ?? null, now)
   } else {
+    checks = await curationChecks(em, dataset, deps.config.embargo, now)
     dataset.state = decision === 'withdraw' ? 'withdrawn' : 'changes_requested'
   }
+  const step = {
+    approve: 'approved',
+    request_changes: 'changes_requested',
+    withdraw: 'withdrawn',
+  } as const
+  recordCurationStep(
+    em,
+    dataset,
+    { step: step[decision], actor: actor.user?.id ?? null, comment, checks, checklist },
+    now,
+  )
   audit(em, actor, {
     action: `dataset.${decision}`,
     targetType: 'Dataset',
@@ -106,27 +153,35 @@ export async function reviewDataset(
   const embargoNote = dataset.embargoUntil
     ? `\nIt stays under embargo until ${dataset.embargoUntil.toISOString().slice(0, 10)}.`
     : ''
-  await mailCreator(
+  const frozen =
+    decision === 'approve'
+      ? `\nIt is frozen as version ${dataset.accession}.v${dataset.version}.`
+      : ''
+  await notifyDepositor(
     em,
     deps,
     dataset,
     `${dataset.accession} ${verdict}`,
-    `Your dataset ${dataset.accession} "${dataset.title}" ${verdict}.${embargoNote}${comment ? `\n\nThe steward wrote:\n${comment}` : ''}`,
+    `Your dataset ${dataset.accession} "${dataset.title}" ${verdict}.${frozen}${embargoNote}${comment ? `\n\nThe steward wrote:\n${comment}` : ''}`,
   )
   return toDatasetDto(em, dataset)
 }
 
-/** Set, extend or lift (until = null) the embargo; always with a reason, always audited. */
+/**
+ * Set, extend, shorten or lift (until = null) the embargo; always with a reason, always audited
+ * with the end before and after.
+ */
 export async function setEmbargo(
   em: EntityManager,
   actor: Actor,
   dataset: IDataset,
   input: SetEmbargoBody,
+  policy: { maxYears: number },
   now = new Date(),
 ) {
   const { until, reason } = input
   const previous = dataset.embargoUntil
-  dataset.embargoUntil = futureDay(until, '#/until', now)
+  dataset.embargoUntil = embargoEnd(until, '#/until', now, policy.maxYears)
   audit(em, actor, {
     action: 'dataset.embargo',
     targetType: 'Dataset',

@@ -16,6 +16,8 @@ import { filesRouter } from '../files/files.routes'
 import { datasetMetadataRouter } from '../metadata/metadata.routes'
 import { previewRouter } from '../preview/preview.routes'
 import { qualityRouter } from '../quality/quality.routes'
+import { curationThreadRouter } from '../curation/curation.routes'
+import { versionsRouter } from '../versions/versions.routes'
 import { datasetFor, datasetParams } from './dataset-access'
 import { reviewDataset, setEmbargo, submitDataset } from './dataset-lifecycle.service'
 import { toDatasetPageDto } from './dataset.mapper'
@@ -24,6 +26,9 @@ import { DatasetCatalogue } from './dataset-catalogue'
 import { listReader } from './dataset-list-reader'
 import { ReadConnection } from '../common/read-connection'
 import { createDataset, deleteDataset, updateDataset } from './datasets.service'
+import { reviewerLinksRouter } from '../reviewer-links/reviewer-links.routes'
+import { anonymousReview } from '../reviewer-links/reviewer-access'
+import { anonymiseDataset } from '../reviewer-links/anonymise'
 
 const shareParams = datasetParams.extend({ shareId: idSchema })
 
@@ -54,7 +59,9 @@ export function datasetsRouter(deps: AppDeps): Router {
   })
 
   router.get('/:id', async (req, res) => {
-    res.json(await toDatasetPageDto(em(), await target(req, 'read')))
+    const dataset = await target(req, 'read')
+    const dto = await toDatasetPageDto(em(), dataset)
+    res.json(anonymousReview(req, dataset) ? anonymiseDataset(dto) : dto)
   })
 
   router.patch('/:id', requireUser, async (req, res) => {
@@ -79,7 +86,9 @@ export function datasetsRouter(deps: AppDeps): Router {
 
   router.put('/:id/embargo', requireUser, async (req, res) => {
     const dataset = await target(req, 'embargo')
-    res.json(await setEmbargo(em(), req, dataset, parseBody(setEmbargoSchema, req)))
+    res.json(
+      await setEmbargo(em(), req, dataset, parseBody(setEmbargoSchema, req), deps.config.embargo),
+    )
   })
 
   router.get('/:id/shares', requireUser, async (req, res) => {
@@ -104,9 +113,12 @@ export function datasetsRouter(deps: AppDeps): Router {
     res.status(204).end()
   })
 
+  router.use('/:id/reviewer-links', reviewerLinksRouter(deps))
   router.use('/:id', datasetMetadataRouter(deps))
   router.use('/:id', filesRouter(deps))
   router.use('/:id', qualityRouter(deps))
+  router.use('/:id', versionsRouter(deps))
+  router.use('/:id', curationThreadRouter(deps))
   if (deps.previews) router.use('/:id', previewRouter(deps.previews))
 
   return router

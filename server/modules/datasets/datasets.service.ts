@@ -16,6 +16,7 @@ import { DatasetFile } from '../files/dataset-file.entity'
 import { Project } from '../projects/project.entity'
 import { Dataset, type IDataset } from './dataset.entity'
 import { parseDay, toDatasetDto } from './dataset.mapper'
+import { assertNoApprovedVersions } from '../versions/versions.service'
 
 export async function createDataset(
   em: EntityManager,
@@ -94,6 +95,7 @@ export async function deleteDataset(
   dataset: IDataset,
   storage: LocalStorage,
 ) {
+  await assertNoApprovedVersions(em, dataset)
   const files = await em.find(DatasetFile, { dataset: dataset.id }, { fields: ['id'] })
   audit(em, actor, { action: 'dataset.delete', targetType: 'Dataset', targetId: dataset.accession })
   em.remove(dataset)

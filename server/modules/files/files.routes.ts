@@ -1,3 +1,4 @@
+import type { AuditAction } from '@shared/domain/audit-actions'
 import { Router, type Request, type RequestHandler } from 'express'
 import { datasetSubject } from '@shared/permissions/abilities'
 import { idSchema } from '@shared/schemas/common.schema'
@@ -111,7 +112,7 @@ export function filesRouter(deps: Pick<AppDeps, 'storage' | 'jobs' | 'config'>):
    */
   const tableCorrection =
     (
-      action: string,
+      action: AuditAction,
       queue: (req: Request, file: IDatasetFile) => Promise<object>,
     ): RequestHandler =>
     async (req, res) => {

@@ -24,3 +24,11 @@ export function createMailer(smtpUrl: string, from: string, logger: Logger): Mai
     },
   }
 }
+
+/** Mail through SMTP when there is a server to send to; otherwise each message is only logged. */
+export function mailerOrLog(smtpUrl: string | null, from: string, logger: Logger): Mailer {
+  if (smtpUrl) return createMailer(smtpUrl, from, logger)
+  return {
+    send: async (m) => logger.info({ to: m.to, subject: m.subject }, 'mail not sent: no SMTP_URL'),
+  }
+}

@@ -12,10 +12,8 @@ export const DatasetMetadata = defineEntity({
     dataset: p.manyToOne(Dataset).mapToPk().primary().deleteRule('cascade'),
     document: p.json<MetadataDocument>(),
     updatedBy: p.manyToOne(User).mapToPk().nullable(),
-    updatedAt: p
-      .datetime()
-      .onCreate(() => new Date())
-      .onUpdate(() => new Date()),
+    /** Set by each save from the caller's clock: it tells whether an editing session goes on. */
+    updatedAt: p.datetime().onCreate(() => new Date()),
   },
 })
 export type IDatasetMetadata = InferEntity<typeof DatasetMetadata>

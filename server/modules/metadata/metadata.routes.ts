@@ -23,6 +23,8 @@ import {
 import { exportOmeXml } from './ome/ome-export'
 import { importOmeXml } from './ome/ome-import'
 import { MAX_OME_XML_BYTES } from './ome/ome-parse'
+import { anonymousReview } from '../reviewer-links/reviewer-access'
+import { anonymiseExport, anonymiseMetadata } from '../reviewer-links/anonymise'
 
 export const EXPORT_FORMATS = ['ome-xml', 'datacite', 'jsonld', 'methods'] as const
 const exportParams = datasetParams.extend({
@@ -37,7 +39,8 @@ export function datasetMetadataRouter(deps: AppDeps): Router {
 
   router.get('/metadata', async (req, res) => {
     const dataset = await target(req, 'read')
-    const metadata = await metadataOf(em(), dataset.id)
+    const stored = await metadataOf(em(), dataset.id)
+    const metadata = anonymousReview(req, dataset) ? anonymiseMetadata(stored) : stored
     res.json({ metadata, completeness: await completenessOf(em(), dataset) })
   })
 
@@ -53,7 +56,8 @@ export function datasetMetadataRouter(deps: AppDeps): Router {
   router.get('/export/:format', async (req, res) => {
     const { format } = parseParams(exportParams, req)
     const dataset = await target(req, 'read')
-    const subject = await exportSubject(em(), dataset, deps.config.publicUrl)
+    const full = await exportSubject(em(), dataset, deps.config.publicUrl)
+    const subject = anonymousReview(req, dataset) ? anonymiseExport(full) : full
     const name = `${dataset.accession}-v${dataset.version}`
     switch (format) {
       case 'ome-xml':

@@ -5,7 +5,7 @@ import { metadataJsonSchema } from '@shared/metadata/vocabulary'
 import { ConflictError } from '../../errors/http-error'
 import { accessibleWhere } from '../../http/access'
 import type { Actor } from '../../services'
-import { audit } from '../audit/audit.service'
+import { audit, continuesEditSession } from '../audit/audit.service'
 import { Dataset, type IDataset } from '../datasets/dataset.entity'
 import { DatasetFile } from '../files/dataset-file.entity'
 import { Project } from '../projects/project.entity'
@@ -28,21 +28,35 @@ export async function saveMetadata(
   actor: Actor,
   dataset: IDataset,
   document: MetadataDocument,
+  now = new Date(),
 ) {
   const row = await em.findOne(DatasetMetadata, { dataset: dataset.id })
+  const sameSession = continuesEditSession(
+    row && { by: row.updatedBy, at: row.updatedAt },
+    actor.user?.id,
+    now,
+  )
   if (row) {
     row.document = document
     row.updatedBy = actor.user?.id ?? null
+    row.updatedAt = now
   } else {
-    em.create(DatasetMetadata, { dataset: dataset.id, document, updatedBy: actor.user?.id ?? null })
+    em.create(DatasetMetadata, {
+      dataset: dataset.id,
+      document,
+      updatedBy: actor.user?.id ?? null,
+      updatedAt: now,
+    })
   }
-  dataset.updatedAt = new Date()
-  audit(em, actor, {
-    action: 'dataset.metadata',
-    targetType: 'Dataset',
-    targetId: dataset.accession,
-    details: { fields: leaves(document).length },
-  })
+  dataset.updatedAt = now
+  if (!sameSession)
+    audit(em, actor, {
+      action: 'dataset.metadata',
+      targetType: 'Dataset',
+      targetId: dataset.accession,
+      details: { fields: leaves(document).length },
+      at: now,
+    })
   await em.flush()
   return { metadata: document, completeness: computeCompleteness(document, dataset) }
 }

@@ -11,7 +11,7 @@ import { ConflictError, ForbiddenError, NotFoundError } from '../../errors/http-
 import { accessibleWhere } from '../../http/access'
 import type { Actor, AppDeps } from '../../services'
 import { audit } from '../audit/audit.service'
-import { Dataset } from '../datasets/dataset.entity'
+import { Dataset, DatasetShare } from '../datasets/dataset.entity'
 import { Organization } from '../organizations/organization.entity'
 import { User } from '../users/user.entity'
 import { findOrInviteUser } from '../users/users.service'
@@ -82,12 +82,21 @@ export async function projectFor(
   return project
 }
 
+/**
+ * The project's members. Sharing one dataset gives the person a collaborator membership (so the
+ * project is findable for them), but they are not members of the project: they appear under that
+ * dataset's shares instead. Collaborators an owner added by hand, with no share, stay listed.
+ */
 export async function listMembers(em: EntityManager, projectId: number): Promise<MemberDto[]> {
-  const memberships = await em.find(
-    Membership,
-    { project: projectId },
-    { orderBy: { createdAt: 'asc' } },
-  )
+  const [all, datasets] = await Promise.all([
+    em.find(Membership, { project: projectId }, { orderBy: { createdAt: 'asc' } }),
+    em.find(Dataset, { project: projectId }, { fields: ['id'] }),
+  ])
+  const shares = datasets.length
+    ? await em.find(DatasetShare, { dataset: { $in: datasets.map((d) => d.id) } })
+    : []
+  const sharedWith = new Set(shares.map((s) => s.user))
+  const memberships = all.filter((m) => m.role !== 'collaborator' || !sharedWith.has(m.user))
   const users = await em.find(User, { id: { $in: memberships.map((m) => m.user) } })
   const byId = new Map(users.map((u) => [u.id, u]))
   return memberships.map((m) => {

@@ -39,6 +39,7 @@ export function meRouter(deps: AppDeps): Router {
         ...req.viewer,
         memberships: req.viewer.memberships.map((m) => ({ ...m })),
         shares: req.viewer.shares.map((sh) => ({ ...sh, capabilities: [...sh.capabilities] })),
+        manuscriptDatasets: [...(req.viewer.manuscriptDatasets ?? [])],
       },
       demo: deps.config.demo,
     }

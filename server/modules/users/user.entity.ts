@@ -17,6 +17,8 @@ export const User = defineEntity({
     organization: p.manyToOne(Organization).mapToPk().nullable(),
     createdAt: p.datetime().onCreate(() => new Date()),
     lastSignInAt: p.datetime().nullable(),
+    /** Set by an admin: the person can no longer sign in or use tokens; their records stay. */
+    deactivatedAt: p.datetime().nullable(),
   },
 })
 export type IUser = InferEntity<typeof User>

@@ -3,10 +3,11 @@ import type { Viewer } from '@shared/permissions/viewer'
 import { DatasetShare } from '../datasets/dataset.entity'
 import { Membership } from '../projects/project.entity'
 import type { IUser } from './user.entity'
+import { manuscriptDatasetsOf } from '../manuscripts/journal-editors'
 
-/** Loads what the abilities need about a user: two small indexed queries. */
+/** Loads what the abilities need about a user: small indexed queries. */
 export async function loadViewer(em: EntityManager, user: IUser): Promise<Viewer> {
-  const [memberships, shares] = await Promise.all([
+  const [memberships, shares, manuscriptDatasets] = await Promise.all([
     em.find(
       Membership,
       { user: user.id },
@@ -17,6 +18,7 @@ export async function loadViewer(em: EntityManager, user: IUser): Promise<Viewer
       { user: user.id },
       { fields: ['dataset', 'capabilities'], disableIdentityMap: true },
     ),
+    user.siteRole === 'editor' ? manuscriptDatasetsOf(em, user.id) : Promise.resolve([]),
   ])
   return {
     id: user.id,
@@ -24,5 +26,6 @@ export async function loadViewer(em: EntityManager, user: IUser): Promise<Viewer
     organizationId: user.organization ?? null,
     memberships: memberships.map((m) => ({ projectId: m.project, role: m.role })),
     shares: shares.map((s) => ({ datasetId: s.dataset, capabilities: s.capabilities })),
+    manuscriptDatasets,
   }
 }

@@ -1,17 +1,34 @@
 import { orcidUrl } from '@shared/domain/identifiers'
 import { availableFrom, day, doiUrl, type DatasetExportSubject, spdxUrl } from './export-subject'
 
-/** schema.org Dataset as JSON-LD, for the public landing page and for harvesters. */
-export function toJsonLd(s: DatasetExportSubject) {
+/** Google's dataset guidance asks for a description of 50 to 5000 characters. */
+const DESCRIPTION_MIN = 50
+const DESCRIPTION_MAX = 5000
+
+function describe(s: DatasetExportSubject): string {
+  const text = (s.description || s.title).trim()
+  const long =
+    text.length >= DESCRIPTION_MIN
+      ? text
+      : `${text}. Single-molecule localization microscopy data, Stipple accession ${s.accession}.`
+  return long.slice(0, DESCRIPTION_MAX)
+}
+
+/**
+ * schema.org Dataset as JSON-LD, for the public landing page and for harvesters, with the
+ * properties Google's dataset guidance requires (name, description) and recommends.
+ */
+export function toJsonLd(s: DatasetExportSubject, now: Date = new Date()) {
   const m = s.metadata
   const available = availableFrom(s)
-  const open = available !== null && available.getTime() <= Date.now()
+  const open = available !== null && available.getTime() <= now.getTime()
+  const funders = (m.study?.funding ?? []).filter((f) => f.funder)
   return {
     '@context': 'https://schema.org',
     '@type': 'Dataset',
     '@id': s.landingUrl,
     name: s.title,
-    description: s.description || s.title,
+    description: describe(s),
     identifier: [s.accession, s.landingUrl],
     url: s.landingUrl,
     version: String(s.version),
@@ -34,6 +51,9 @@ export function toJsonLd(s: DatasetExportSubject) {
     ].filter(Boolean),
     variableMeasured: ['localization x (nm)', 'localization y (nm)', 'frame'],
     ...(m.study?.relatedPublicationDoi ? { citation: doiUrl(m.study.relatedPublicationDoi) } : {}),
+    ...(funders.length
+      ? { funder: funders.map((f) => ({ '@type': 'Organization', name: f.funder })) }
+      : {}),
     includedInDataCatalog: { '@type': 'DataCatalog', name: 'Stipple' },
     // Files are listed only once they may be downloaded (no embargo left).
     distribution: open

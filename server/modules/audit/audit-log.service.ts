@@ -1,0 +1,135 @@
+import type { EntityManager, FilterQuery } from '@mikro-orm/better-sqlite'
+import { auditActionLabel, describeAuditDetails } from '@shared/domain/audit-actions'
+import type { AuditEventDto, AuditFilter } from '@shared/schemas/audit.schema'
+import { ApiToken } from '../tokens/api-token.entity'
+import { User } from '../users/user.entity'
+import { AuditEvent, type IAuditEvent } from './audit-event.entity'
+
+/** A date alone as an upper bound means the whole of that day (UTC). */
+function instant(value: string, endOfDay: boolean): Date {
+  if (/^\d{4}-\d{2}-\d{2}$/.test(value)) {
+    const day = new Date(`${value}T00:00:00Z`)
+    return endOfDay ? new Date(day.getTime() + 86_400_000) : day
+  }
+  return new Date(value)
+}
+
+/** The steward's filters as one ORM condition; null when they can match nothing. */
+async function whereOf(
+  em: EntityManager,
+  f: AuditFilter,
+): Promise<FilterQuery<IAuditEvent> | null> {
+  const and: FilterQuery<IAuditEvent>[] = []
+  if (f.targetType) and.push({ targetType: f.targetType })
+  if (f.targetId) and.push({ targetId: f.targetId })
+  if (f.accession) and.push({ targetType: 'Dataset', targetId: f.accession.toUpperCase() })
+  if (f.action) and.push({ action: f.action })
+  if (f.from) and.push({ time: { $gte: instant(f.from, false) } })
+  if (f.to) and.push({ time: { $lt: instant(f.to, true) } })
+  if (f.actor) {
+    if (f.actor.toLowerCase() === 'system') and.push({ actor: null })
+    else {
+      // instr() takes the typed text literally (a LIKE pattern would read % and _ as wildcards).
+      const text = f.actor.toLowerCase()
+      const people = await em
+        .getConnection()
+        .execute<{ id: number }[]>(
+          'select id from user where instr(lower(name), ?) > 0 or instr(lower(email), ?) > 0 limit 500',
+          [text, text],
+        )
+      if (!people.length) return null
+      and.push({ actor: { $in: people.map((u) => u.id) } })
+    }
+  }
+  return and.length ? { $and: and } : {}
+}
+
+/**
+ * Rows into what people read: who acted by name, what was acted on by accession, person or token
+ * name, the action and its details in words. Names are looked up once per page.
+ */
+async function toDtos(em: EntityManager, rows: IAuditEvent[]): Promise<AuditEventDto[]> {
+  const userIds = new Set<number>()
+  const tokenIds = new Set<number>()
+  for (const r of rows) {
+    if (r.actor != null) userIds.add(r.actor)
+    if (r.targetType === 'User' && /^\d+$/.test(r.targetId)) userIds.add(Number(r.targetId))
+    if (r.targetType === 'ApiToken' && /^\d+$/.test(r.targetId)) tokenIds.add(Number(r.targetId))
+    const detailUser = r.details?.user
+    if (typeof detailUser === 'number') userIds.add(detailUser)
+  }
+  const [users, tokens] = await Promise.all([
+    userIds.size ? em.find(User, { id: { $in: [...userIds] } }) : [],
+    tokenIds.size ? em.find(ApiToken, { id: { $in: [...tokenIds] } }) : [],
+  ])
+  const person = new Map(users.map((u) => [u.id, u.name || u.email]))
+  const token = new Map(tokens.map((t) => [t.id, t.name]))
+  const targetLabel = (r: IAuditEvent) => {
+    const id = Number(r.targetId)
+    if (r.targetType === 'User') return person.get(id) ?? `a removed person`
+    if (r.targetType === 'ApiToken') return `token “${token.get(id) ?? r.targetId}”`
+    if (r.targetType === 'Dataset') return r.targetId
+    return `${r.targetType} ${r.targetId}`
+  }
+  return rows.map((r) => ({
+    id: r.id,
+    actor: r.actor ?? null,
+    actorName: r.actor == null ? null : (person.get(r.actor) ?? 'a removed person'),
+    action: r.action,
+    actionLabel: auditActionLabel(r.action),
+    targetType: r.targetType,
+    targetId: r.targetId,
+    targetLabel: targetLabel(r),
+    time: r.time.toISOString(),
+    address: r.address ?? null,
+    details: r.details ?? null,
+    summary: describeAuditDetails(r.details ?? null, (id) => person.get(id)),
+  }))
+}
+
+/** One page of the log, newest first. */
+export async function listAuditEvents(
+  em: EntityManager,
+  filter: AuditFilter & { limit: number; offset: number },
+) {
+  const where = await whereOf(em, filter)
+  if (!where) return { items: [], total: 0 }
+  const [rows, total] = await em.findAndCount(AuditEvent, where, {
+    orderBy: { time: 'desc', id: 'desc' },
+    limit: filter.limit,
+    offset: filter.offset,
+  })
+  return { items: await toDtos(em, rows), total }
+}
+
+/** The most rows one export holds; a narrower filter gets the rest. */
+export const AUDIT_EXPORT_MAX_ROWS = 50_000
+
+const CSV_COLUMNS = ['time_utc', 'actor', 'action', 'target', 'details', 'address'] as const
+
+/**
+ * A field as RFC 4180 wants it; a leading = + - @ is neutralised so a spreadsheet opening the
+ * export never runs what someone typed into a reason or a title.
+ */
+function csvField(value: string): string {
+  const safe = /^[=+\-@\t\r]/.test(value) ? `'${value}` : value
+  return /[",\r\n]/.test(safe) ? `"${safe.replace(/"/g, '""')}"` : safe
+}
+
+/** The filtered log as CSV (newest first), with the same words as the page. */
+export async function exportAuditCsv(em: EntityManager, filter: AuditFilter): Promise<string> {
+  const where = await whereOf(em, filter)
+  const rows = where
+    ? await em.find(AuditEvent, where, {
+        orderBy: { time: 'desc', id: 'desc' },
+        limit: AUDIT_EXPORT_MAX_ROWS,
+      })
+    : []
+  const dtos = await toDtos(em, rows)
+  const lines = dtos.map((e) =>
+    [e.time, e.actorName ?? 'system', e.actionLabel, e.targetLabel, e.summary, e.address ?? '']
+      .map(csvField)
+      .join(','),
+  )
+  return [CSV_COLUMNS.join(','), ...lines].join('\r\n') + '\r\n'
+}
