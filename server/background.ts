@@ -17,6 +17,7 @@ import { createEmbargoScheduler, type Clock } from './modules/embargo/embargo-sc
 import { OrmSessionStore } from './modules/sessions/session-store'
 import type { Uploads } from './modules/uploads/uploads'
 import { DEMO_DIR } from './paths'
+import { seedDemoReview } from './seeders/demo-review.seeder'
 import { seedDemo } from './seeders/demo.seeder'
 import { seedDemoTables } from './seeders/demo-tables'
 import type { LocalStorage } from './storage/local-storage'
@@ -47,6 +48,7 @@ export async function openBackground(deps: {
   if (config.demo) {
     const { created } = await seedDemo(orm.em.fork(), DEMO_DIR)
     if (created) logger.info({ created }, 'demo data seeded')
+    await seedDemoReview(orm.em.fork(), config)
   }
   const mailCatcher = config.demo ? await startMailCatcher() : null
   const jobs = new JobRunner({

@@ -21,7 +21,6 @@ export interface AppDeps {
   /** Prepared read-only statements for the hottest reads (createApp makes it). */
   reads?: ReadConnection
   /** The time, injected so tests can move it; the wall clock when omitted. */
-  /** The time, injected so rules that depend on it can be tested (the wall clock by default). */
   clock?: () => Date
 }
 

@@ -46,6 +46,7 @@ export const AUDIT_ACTION_LABELS = {
   'reviewer_link.use': 'Reviewer link opened',
   'manuscript.create': 'Created a manuscript record',
   'manuscript.attach': 'Attached a dataset to a manuscript',
+  'manuscript.detach': 'Detached a dataset from a manuscript',
   'link_check.run': 'Ran a link check',
   'region.create': 'Drew a region',
   'region.update': 'Changed a region',

@@ -6,6 +6,7 @@ import { benchDatasetList } from './datasets-list.bench'
 import { benchIngest, benchIngestLarge } from './ingest.bench'
 import { benchQuality } from './quality.bench'
 import { benchRawStack } from './raw-stack.bench'
+import { benchRegions } from './regions.bench'
 import { benchTiles } from './tiles.bench'
 import { benchUpload } from './upload.bench'
 
@@ -16,6 +17,7 @@ const benches: Record<string, () => Promise<Record<string, unknown>>> = {
   'ingest-large': benchIngestLarge,
   quality: benchQuality,
   'raw-stack': benchRawStack,
+  regions: benchRegions,
   tiles: benchTiles,
   upload: benchUpload,
 }

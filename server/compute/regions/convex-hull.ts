@@ -1,13 +1,42 @@
-/** Convex hull of a point subset by Andrew's monotone chain (1979); counter-clockwise, not closed. */
+/**
+ * Convex hull of a point subset by Andrew's monotone chain (1979); counter-clockwise, not closed.
+ * Points strictly inside the quadrilateral of the four extreme points (Akl & Toussaint 1978) can
+ * not be on the hull and are dropped before the sort: most of a cluster's points.
+ */
 export function convexHull(
   x: ArrayLike<number>,
   y: ArrayLike<number>,
   members: ArrayLike<number>,
 ): [number, number][] {
-  const ids = Array.from(members).sort((a, b) => x[a]! - x[b]! || y[a]! - y[b]!)
+  let left = members[0]!
+  let right = left
+  let low = left
+  let high = left
+  for (let k = 1; k < members.length; k++) {
+    const i = members[k]!
+    if (x[i]! < x[left]!) left = i
+    if (x[i]! > x[right]!) right = i
+    if (y[i]! < y[low]!) low = i
+    if (y[i]! > y[high]!) high = i
+  }
+  const side = (o: number, a: number, px: number, py: number) =>
+    (x[a]! - x[o]!) * (py - y[o]!) - (y[a]! - y[o]!) * (px - x[o]!)
+  const ids: number[] = []
+  for (let k = 0; k < members.length; k++) {
+    const i = members[k]!
+    const px = x[i]!
+    const py = y[i]!
+    if (
+      side(left, low, px, py) <= 0 ||
+      side(low, right, px, py) <= 0 ||
+      side(right, high, px, py) <= 0 ||
+      side(high, left, px, py) <= 0
+    )
+      ids.push(i)
+  }
+  ids.sort((a, b) => x[a]! - x[b]! || y[a]! - y[b]!)
   if (ids.length < 3) return ids.map((i) => [x[i]!, y[i]!])
-  const cross = (o: number, a: number, b: number) =>
-    (x[a]! - x[o]!) * (y[b]! - y[o]!) - (y[a]! - y[o]!) * (x[b]! - x[o]!)
+  const cross = (o: number, a: number, b: number) => side(o, a, x[b]!, y[b]!)
   const chain = (order: number[]) => {
     const out: number[] = []
     for (const p of order) {

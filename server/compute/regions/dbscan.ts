@@ -2,12 +2,12 @@
  * DBSCAN (Ester, Kriegel, Sander & Xu 1996, KDD): a point with at least minPts points within eps
  * (the point itself counted, distance ≤ eps) is a core point; clusters are the core points
  * reachable from one another plus the points within eps of them (border points, which join the
- * first cluster that reaches them); the rest is noise. Neighbourhoods come from a k-d tree, so
- * each point costs one radius query.
+ * first cluster that reaches them); the rest is noise. Neighbourhoods come from a grid of eps-sized
+ * cells: a point's neighbours are in the 3 × 3 cells around it.
  */
 import { convexHull, polygonArea } from './convex-hull'
 import { MeasurementLimitError, REGION_LIMITS } from './limits'
-import { pointIndex } from './point-index'
+import { cellGrid } from './cell-grid'
 
 export interface DbscanParams {
   eps: number
@@ -30,7 +30,6 @@ export interface DbscanResult {
   noise: number
 }
 
-const UNVISITED = -2
 const NOISE = -1
 
 export function checkDbscanParams(count: number, area: number, { eps, minPts }: DbscanParams) {
@@ -53,39 +52,66 @@ export function dbscan(
   count: number,
   { eps, minPts }: DbscanParams,
 ): DbscanResult {
-  const labels = new Int32Array(count).fill(UNVISITED)
-  const index = pointIndex(x, y, count)
-  let queue = new Int32Array(1024)
+  // Cells of side eps: every neighbour of a point lies in the 3 × 3 cells around it.
+  const g = cellGrid(x, y, count, eps)
+  const { xs, ys, start, columns, rows } = g
+  const eps2 = eps * eps
+  const cellX = (s: number) => Math.floor((xs[s]! - g.x0) / g.cell)
+  const cellY = (s: number) => Math.floor((ys[s]! - g.y0) / g.cell)
+  // Core points first: counting stops at minPts (written out: the hottest loop of the measurement).
+  const core = new Uint8Array(count)
+  for (let s = 0; s < count; s++) {
+    const px = xs[s]!
+    const py = ys[s]!
+    const cx = cellX(s)
+    const cy = cellY(s)
+    let n = 0
+    scan: for (let j = Math.max(0, cy - 1); j <= Math.min(rows - 1, cy + 1); j++)
+      for (let i = Math.max(0, cx - 1); i <= Math.min(columns - 1, cx + 1); i++) {
+        const c = j * columns + i
+        const end = start[c + 1]!
+        for (let t = start[c]!; t < end; t++) {
+          const dx = xs[t]! - px
+          const dy = ys[t]! - py
+          if (dx * dx + dy * dy <= eps2 && ++n >= minPts) break scan
+        }
+      }
+    if (n >= minPts) core[s] = 1
+  }
+  // Clusters grow from core points through core points; non-core points reached are borders.
+  const sortedLabels = new Int32Array(count).fill(NOISE)
+  const queue = new Uint32Array(count)
   let clusterCount = 0
-  for (let p = 0; p < count; p++) {
-    if (labels[p] !== UNVISITED) continue
-    const seeds = index.within(x[p]!, y[p]!, eps)
-    if (seeds.length < minPts) {
-      labels[p] = NOISE
-      continue
-    }
+  for (let s = 0; s < count; s++) {
+    if (!core[s] || sortedLabels[s] !== NOISE) continue
     const c = clusterCount++
-    labels[p] = c
+    sortedLabels[s] = c
     let head = 0
     let tail = 0
-    const push = (ids: number[]) => {
-      if (tail + ids.length > queue.length) {
-        const grown = new Int32Array(Math.max(queue.length * 2, tail + ids.length))
-        grown.set(queue.subarray(0, tail))
-        queue = grown
-      }
-      for (const id of ids) queue[tail++] = id
-    }
-    push(seeds)
+    queue[tail++] = s
     while (head < tail) {
       const q = queue[head++]!
-      if (labels[q] === NOISE) labels[q] = c // a border point
-      if (labels[q] !== UNVISITED) continue
-      labels[q] = c
-      const around = index.within(x[q]!, y[q]!, eps)
-      if (around.length >= minPts) push(around)
+      const px = xs[q]!
+      const py = ys[q]!
+      const cx = cellX(q)
+      const cy = cellY(q)
+      for (let j = Math.max(0, cy - 1); j <= Math.min(rows - 1, cy + 1); j++)
+        for (let i = Math.max(0, cx - 1); i <= Math.min(columns - 1, cx + 1); i++) {
+          const cellNo = j * columns + i
+          const end = start[cellNo + 1]!
+          for (let t = start[cellNo]!; t < end; t++) {
+            if (sortedLabels[t] !== NOISE) continue
+            const dx = xs[t]! - px
+            const dy = ys[t]! - py
+            if (dx * dx + dy * dy > eps2) continue
+            sortedLabels[t] = c
+            if (core[t]) queue[tail++] = t
+          }
+        }
     }
   }
+  const labels = new Int32Array(count)
+  for (let s = 0; s < count; s++) labels[g.order[s]!] = sortedLabels[s]!
   return { labels, ...summarizeClusters(x, y, labels, clusterCount) }
 }
 

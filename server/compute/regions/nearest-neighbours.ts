@@ -1,10 +1,9 @@
 /**
- * Distance from each localization to its nearest other localization in the region. A radius
- * query around each point starts at about twice the mean spacing and doubles until it finds a
- * neighbour, so a point costs about one query of a dozen candidates.
+ * Distance from each localization to its nearest other localization in the region, searched in
+ * rings of grid cells of about the mean spacing around each point until no closer one can exist.
  */
 import { MeasurementLimitError, REGION_LIMITS } from './limits'
-import { pointIndex } from './point-index'
+import { cellGrid } from './cell-grid'
 
 export function checkNearestNeighbourParams(count: number) {
   if (count > REGION_LIMITS.maxClusteringPoints)
@@ -22,24 +21,34 @@ export function nearestNeighbourDistances(
 ): Float64Array {
   const out = new Float64Array(count).fill(NaN)
   if (count < 2) return out
-  const index = pointIndex(x, y, count)
-  const start = 2 * Math.sqrt(area / count) || 1
-  for (let i = 0; i < count; i++) {
-    const xi = x[i]!
-    const yi = y[i]!
-    for (let r = start; ; r *= 2) {
-      const ids = index.within(xi, yi, r)
-      let best = Infinity
-      for (const j of ids) {
-        if (j === i) continue
-        const d2 = (x[j]! - xi) ** 2 + (y[j]! - yi) ** 2
-        if (d2 < best) best = d2
+  const g = cellGrid(x, y, count, Math.sqrt(area / count))
+  const { xs, ys, start, columns, rows, cell } = g
+  for (let s = 0; s < count; s++) {
+    const px = xs[s]!
+    const py = ys[s]!
+    const cx = Math.floor((px - g.x0) / cell)
+    const cy = Math.floor((py - g.y0) / cell)
+    let best = Infinity
+    // Rings of cells at Chebyshev distance k; anything in ring k + 1 is at least k cells away.
+    for (let k = 0; ; k++) {
+      for (let j = cy - k; j <= cy + k; j++) {
+        if (j < 0 || j >= rows) continue
+        const edgeRow = j === cy - k || j === cy + k
+        for (let i = cx - k; i <= cx + k; i += edgeRow ? 1 : 2 * k) {
+          if (i < 0 || i >= columns) continue
+          const c = j * columns + i
+          for (let t = start[c]!; t < start[c + 1]!; t++) {
+            if (t === s) continue
+            const dx = xs[t]! - px
+            const dy = ys[t]! - py
+            const d2 = dx * dx + dy * dy
+            if (d2 < best) best = d2
+          }
+        }
       }
-      if (best < Infinity) {
-        out[i] = Math.sqrt(best)
-        break
-      }
+      if (best <= k * k * cell * cell || (k > columns && k > rows)) break
     }
+    out[g.order[s]!] = Math.sqrt(best)
   }
   return out
 }

@@ -147,43 +147,52 @@ function kFromCorrelation(
 
 const lOf = (k: number) => Math.sqrt(Math.max(0, k) / Math.PI)
 
-/** CSR counts: n points in the region's pixels, each pixel drawn with its coverage (alias table). */
+/**
+ * CSR counts: n points placed independently in the region, each pixel drawn with its coverage —
+ * a multinomial over the covered pixels, drawn pixel by pixel as conditional binomials
+ * (n_i ~ Bin(n − placed, p_i / p_rest)), so memory is walked in order instead of scattered.
+ */
 function csrSampler(grid: RipleyGrid) {
   const cells: number[] = []
-  const share: number[] = []
-  for (let c = 0; c < grid.coverage.length; c++)
-    if (grid.coverage[c]! > 0) {
-      cells.push(c)
-      share.push(grid.coverage[c]!)
-    }
-  const m = cells.length
-  const total = share.reduce((s, v) => s + v, 0)
-  // Walker's alias method (Vose's construction): one uniform per point.
-  const prob = new Float64Array(m)
-  const alias = new Int32Array(m)
-  const scaled = share.map((s) => (s * m) / total)
-  const small: number[] = []
-  const large: number[] = []
-  scaled.forEach((s, i) => (s < 1 ? small : large).push(i))
-  while (small.length && large.length) {
-    const s = small.pop()!
-    const l = large[large.length - 1]!
-    prob[s] = scaled[s]!
-    alias[s] = l
-    scaled[l] = scaled[l]! + scaled[s]! - 1
-    if (scaled[l]! < 1) small.push(large.pop()!)
-  }
-  for (const i of [...small, ...large]) prob[i] = 1
+  for (let c = 0; c < grid.coverage.length; c++) if (grid.coverage[c]! > 0) cells.push(c)
   const cellOf = Int32Array.from(cells)
+  const share = Float64Array.from(cells, (c) => grid.coverage[c]!)
+  // Share of the pixels from i on, summed from the end so no subtraction error builds up.
+  const rest = new Float64Array(share.length + 1)
+  for (let i = share.length - 1; i >= 0; i--) rest[i] = rest[i + 1]! + share[i]!
   return (n: number, random: Random, out: Float64Array) => {
     out.fill(0)
-    for (let k = 0; k < n; k++) {
-      const u = random.uniform() * m
-      const i = Math.floor(u)
-      out[cellOf[u - i < prob[i]! ? i : alias[i]!]!]!++
+    let left = n
+    for (let i = 0; i < cellOf.length && left > 0; i++) {
+      const q = Math.min(1, share[i]! / rest[i]!)
+      out[cellOf[i]!] = q >= 1 ? left : binomial(left, q, random)
+      left -= out[cellOf[i]!]!
     }
     return out
   }
+}
+
+/** Bin(m, q) by inversion of its distribution function (one uniform; a few steps at small m·q). */
+function binomial(m: number, q: number, random: Random): number {
+  if (q <= 0) return 0
+  const mean = m * q
+  // Past ~700 expected points per pixel the first term underflows; the normal law is exact enough there.
+  if (mean > 500) {
+    const k = Math.round(mean + Math.sqrt(mean * (1 - q)) * random.normal())
+    return Math.min(m, Math.max(0, k))
+  }
+  const u = random.uniform()
+  let p = Math.exp(m * Math.log1p(-q))
+  const ratio = q / (1 - q)
+  let cdf = p
+  let k = 0
+  while (u >= cdf && k < m) {
+    p *= ((m - k) / (k + 1)) * ratio
+    k++
+    cdf += p
+    if (p < 1e-300) break
+  }
+  return k
 }
 
 /** L(r) of simulations `from` … `to` − 1, folded into pointwise low and high. */

@@ -34,7 +34,7 @@ export function commentsRouter(deps: Pick<AppDeps, 'config'>, comments: Comments
     const dataset = await datasetFor(req, em(), parseParams(datasetParams, req).id, 'preview')
     const { regionId } = parseQuery(listCommentsQuerySchema, req)
     // Comments carry their authors' names: an anonymous reviewer gets none.
-    if (anonymousReview(req, dataset)) return res.json({ items: [] })
+    if (anonymousReview(req, dataset)) return void res.json({ items: [] })
     res.json({ items: await comments.list(em(), req, dataset, regionId) })
   })
 

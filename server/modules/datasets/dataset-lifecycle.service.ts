@@ -19,6 +19,13 @@ import { parseDay, toDatasetDto } from './dataset.mapper'
 type Notify = Pick<AppDeps, 'mailer' | 'config'>
 type Curate = Notify & Pick<AppDeps, 'storage'>
 
+/** The latest embargo end the policy allows from `now`: the same day `maxYears` later (UTC). */
+export function latestEmbargoEnd(now: Date, maxYears: number): Date {
+  const latest = new Date(now)
+  latest.setUTCFullYear(latest.getUTCFullYear() + maxYears)
+  return latest
+}
+
 /**
  * An embargo end a steward may set: a day after today (UTC) and no later than the policy's
  * maximum length from now; anything else is a 400 naming the field.
@@ -34,8 +41,7 @@ export function embargoEnd(
   if (day.getTime() <= now.getTime()) {
     throw new ValidationError([{ pointer, detail: 'The embargo must end on a future date.' }])
   }
-  const latest = new Date(now)
-  latest.setUTCFullYear(latest.getUTCFullYear() + maxYears)
+  const latest = latestEmbargoEnd(now, maxYears)
   if (day.getTime() > latest.getTime()) {
     throw new ValidationError([
       {

@@ -4,6 +4,7 @@ import { CommentsService } from '../comments/comments.service'
 import { commentsRouter } from '../comments/comments.routes'
 import { DatasetEventHub } from '../events/dataset-events'
 import { eventsRouter } from '../events/events.routes'
+import { regionMeasurementsRouter } from '../region-measurements/region-measurements.routes'
 import { regionsRouter } from './regions.routes'
 import { RegionsService } from './regions.service'
 
@@ -15,7 +16,9 @@ export function collaborationRouter(deps: AppDeps): Router {
   const hub = new DatasetEventHub()
   const clock = deps.clock ?? (() => new Date())
   const router = Router()
-  router.use(regionsRouter(deps, new RegionsService(hub, clock)))
+  const regions = new RegionsService(hub, clock)
+  router.use(regionsRouter(deps, regions))
+  router.use(regionMeasurementsRouter(deps, regions))
   router.use(commentsRouter(deps, new CommentsService(deps, hub, clock)))
   router.use(eventsRouter(hub))
   return router

@@ -1,3 +1,4 @@
+import type { AuditAction } from '@shared/domain/audit-actions'
 import type { EntityManager } from '@mikro-orm/better-sqlite'
 import type { PreviewInfo } from '@shared/schemas/preview.schema'
 import {
@@ -76,8 +77,12 @@ export async function listRegions(
   return (await factsOf(em, dataset.project, rows)).map((f) => presentRegion(f, reader))
 }
 
-const auditRegion = (em: EntityManager, actor: Actor, dataset: DatasetFacts, action: string) =>
-  audit(em, actor, { action, targetType: 'Dataset', targetId: dataset.accession })
+const auditRegion = (
+  em: EntityManager,
+  actor: Actor,
+  dataset: DatasetFacts,
+  action: Extract<AuditAction, `region.${string}`>,
+) => audit(em, actor, { action, targetType: 'Dataset', targetId: dataset.accession })
 
 export class RegionsService {
   constructor(
