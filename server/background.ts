@@ -9,6 +9,7 @@ import { fileJobCompletions } from './modules/files/file-jobs.completions'
 import { sweepOrphanedBytes } from './modules/files/orphan-sweep.service'
 import { recountDerivedBytes } from './modules/files/project-usage'
 import { pruneOidcPayloads } from './modules/idp/oidc-adapter'
+import { startDoiRegistration } from './modules/doi/doi-background'
 import { qualityCompletions } from './modules/quality/quality.completions'
 import { startMailCatcher, type MailCatcher } from './modules/mail/mail-catcher'
 import { mailerOrLog } from './modules/mail/mailer'
@@ -16,6 +17,7 @@ import { createEmbargoScheduler, type Clock } from './modules/embargo/embargo-sc
 import { OrmSessionStore } from './modules/sessions/session-store'
 import type { Uploads } from './modules/uploads/uploads'
 import { DEMO_DIR } from './paths'
+import { seedDemoReview } from './seeders/demo-review.seeder'
 import { seedDemo } from './seeders/demo.seeder'
 import { seedDemoTables } from './seeders/demo-tables'
 import type { LocalStorage } from './storage/local-storage'
@@ -46,6 +48,7 @@ export async function openBackground(deps: {
   if (config.demo) {
     const { created } = await seedDemo(orm.em.fork(), DEMO_DIR)
     if (created) logger.info({ created }, 'demo data seeded')
+    await seedDemoReview(orm.em.fork(), config)
   }
   const mailCatcher = config.demo ? await startMailCatcher() : null
   const jobs = new JobRunner({
@@ -57,6 +60,7 @@ export async function openBackground(deps: {
     freshThreadKinds: FRESH_THREAD_KINDS,
   })
   let upkeep: NodeJS.Timeout | null = null
+  let doi: Awaited<ReturnType<typeof startDoiRegistration>> | null = null
   const embargoes = createEmbargoScheduler({
     orm,
     logger,
@@ -81,6 +85,7 @@ export async function openBackground(deps: {
         })
       await sweep()
       jobs.start()
+      doi = await startDoiRegistration({ ...deps, smtpUrl: mailCatcher?.url ?? config.smtpUrl })
       // Demo tables are simulated after the server is up, one at a time, then read like uploads.
       if (config.demoTables)
         void seedDemoTables(orm.em.fork(), storage, () => jobs.notify()).then(
@@ -105,6 +110,7 @@ export async function openBackground(deps: {
       embargoes.stop()
       if (upkeep) clearInterval(upkeep)
       await jobs.stop()
+      await doi?.stop()
       await mailCatcher?.stop()
     },
   }

@@ -8,6 +8,7 @@ import { Dataset } from '../modules/datasets/dataset.entity'
 import { DatasetFile } from '../modules/files/dataset-file.entity'
 import { queueFirstJob } from '../modules/files/file-jobs'
 import type { LocalStorage } from '../storage/local-storage'
+import { seedDemoRegions } from './demo-regions'
 
 /** dSTORM-like blinking: a few short bursts per dye over the run. */
 const DYE = { mode: 'bursts', meanBursts: 3, meanBurstFrames: 2 } as const
@@ -190,5 +191,6 @@ export async function seedDemoTables(
     onQueued()
     created++
   }
+  await seedDemoRegions(em)
   return created
 }

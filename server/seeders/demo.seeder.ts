@@ -13,6 +13,8 @@ import { DatasetMetadata } from '../modules/metadata/dataset-metadata.entity'
 import { Organization } from '../modules/organizations/organization.entity'
 import { Membership, Project } from '../modules/projects/project.entity'
 import { User } from '../modules/users/user.entity'
+import { seedEmbargoDemo } from './embargo-demo.seeder'
+import { seedDemoCuration } from './demo-curation'
 
 const consortiumSchema = z.object({
   organizations: z.array(
@@ -169,5 +171,7 @@ export async function seedDemo(
     }
     await em.flush()
   }
+  created += await seedEmbargoDemo(em, now)
+  created += await seedDemoCuration(em, now)
   return { created }
 }

@@ -83,8 +83,8 @@ export const curationThreadSchema = z
     entries: z.array(curationEntrySchema),
     /** The checks as they stand now, for the steward's next decision and the depositor's view. */
     checks: z.array(curationCheckSchema),
-    /** Longest embargo the policy allows, in days. */
-    embargoMaxDays: z.number(),
+    /** Longest embargo the policy allows, in years from the decision. */
+    embargoMaxYears: z.number(),
   })
   .meta({ id: 'CurationThread' })
 export type CurationThreadDto = z.infer<typeof curationThreadSchema>

@@ -14,6 +14,7 @@ export type DatasetPagePermissions = DatasetPermissions & {
   readProject: boolean
   download: boolean
   preview: boolean
+  annotate: boolean
 }
 
 /** The open dataset, what this person may do with it, and the dialogs of its actions. */
@@ -43,6 +44,7 @@ export function useDatasetPage(idOrAccession: MaybeRefOrGetter<string>) {
         readProject: false,
         download: false,
         preview: false,
+        annotate: false,
       }
     }
     const subject = subjectOf(d)
@@ -56,6 +58,7 @@ export function useDatasetPage(idOrAccession: MaybeRefOrGetter<string>) {
       readProject: a.can('read', projectSubject(d.project.id)),
       download: a.can('download', subject),
       preview: a.can('preview', subject),
+      annotate: a.can('annotate', subject),
     }
   })
 

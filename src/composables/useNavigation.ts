@@ -1,12 +1,14 @@
 import { computed } from 'vue'
 import type { RouteLocationRaw } from 'vue-router'
 import {
+  mdiAccountMultipleOutline,
   mdiAccountCircleOutline,
   mdiDatabaseOutline,
   mdiEmailOutline,
   mdiFolderMultipleOutline,
   mdiHistory,
   mdiHomeOutline,
+  mdiMagnify,
 } from '@mdi/js'
 import { useSessionStore } from '@/stores/session.store'
 
@@ -25,6 +27,7 @@ export function useNavigation() {
     const items: NavItem[] = [
       { title: 'Home', to: { name: 'home' }, icon: mdiHomeOutline, exact: true },
       { title: 'Datasets', to: { name: 'datasets' }, icon: mdiDatabaseOutline },
+      { title: 'Public datasets', to: { name: 'public-search' }, icon: mdiMagnify },
     ]
     if (session.signedIn) {
       items.push(
@@ -34,6 +37,9 @@ export function useNavigation() {
     }
     if (session.demo && can('read', 'Mail')) {
       items.push({ title: 'Caught mail', to: { name: 'caught-mail' }, icon: mdiEmailOutline })
+    }
+    if (can('manage', 'User')) {
+      items.push({ title: 'Users', to: { name: 'admin-users' }, icon: mdiAccountMultipleOutline })
     }
     if (can('read', 'AuditEvent')) {
       items.push({ title: 'Audit log', to: { name: 'audit-log' }, icon: mdiHistory })

@@ -17,6 +17,12 @@ export const routes: RouteRecordRaw[] = [
     meta: { title: 'Datasets' },
   },
   {
+    path: '/search',
+    name: 'public-search',
+    component: () => import('@/views/PublicSearchView.vue'),
+    meta: { title: 'Public datasets' },
+  },
+  {
     path: '/datasets/new',
     name: 'dataset-new',
     component: () => import('@/views/DatasetCreateView.vue'),
@@ -82,6 +88,24 @@ export const routes: RouteRecordRaw[] = [
     name: 'audit-log',
     component: () => import('@/views/AuditLogView.vue'),
     meta: { requiresAuth: true, title: 'Audit log' },
+  },
+  {
+    path: '/admin/users',
+    name: 'admin-users',
+    component: () => import('@/views/AdminUsersView.vue'),
+    meta: { requiresAuth: true, title: 'Users' },
+  },
+  {
+    path: '/manuscripts',
+    name: 'manuscripts',
+    component: () => import('@/views/ManuscriptsView.vue'),
+    meta: { requiresAuth: true, title: 'Manuscripts' },
+  },
+  {
+    path: '/link-check',
+    name: 'link-check',
+    component: () => import('@/views/LinkCheckView.vue'),
+    meta: { requiresAuth: true, title: 'Check a statement' },
   },
   {
     path: '/:pathMatch(.*)*',

@@ -1,6 +1,7 @@
 import { readdirSync } from 'node:fs'
 import request from 'supertest'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { Dataset } from '@server/modules/datasets/dataset.entity'
 import { DatasetFile } from '@server/modules/files/dataset-file.entity'
 import { DatasetMetadata } from '@server/modules/metadata/dataset-metadata.entity'
 import { VersionBlob } from '@server/modules/versions/dataset-version.entity'
@@ -133,13 +134,21 @@ describe('the steward checklist', () => {
     expect((await as('steward').get(`/api/datasets/${d.id}`)).body.state).toBe('submitted')
   })
 
-  it('blocks an embargo beyond the policy maximum, and accepts one within it', async () => {
+  it('blocks a proposed embargo beyond the policy maximum, and accepts one within it', async () => {
     const d = await draft('Long embargo')
     await as('depositor').post(`/api/datasets/${d.id}/submit`).expect(200)
-    const tooLong = await approve(d.id, { embargoUntil: inDays(400) })
-    // One policy for every route (EMBARGO_MAX_YEARS): the date itself is refused, naming the field.
-    expect(tooLong.status).toBe(400)
-    expect(tooLong.body.errors[0]).toMatchObject({ pointer: '#/embargoUntil' })
+    // A proposal made before the policy was shortened: approval would take it over as it is.
+    const em = t.em()
+    const row = await em.findOneOrFail(Dataset, { id: d.id })
+    row.proposedEmbargoUntil = new Date(`${inDays(400)}T00:00:00Z`)
+    await em.flush()
+    const thread = await as('steward').get(`/api/datasets/${d.id}/curation`).expect(200)
+    expect(thread.body.embargoMaxYears).toBe(1)
+    const tooLong = await approve(d.id)
+    expect(tooLong.status).toBe(409)
+    expect(tooLong.body.errors).toEqual([
+      expect.objectContaining({ pointer: '#/checklist/embargo' }),
+    ])
     expect(tooLong.body.errors[0].detail).toMatch(/at most 1 year/)
     const ok = await approve(d.id, { embargoUntil: inDays(200) })
     expect(ok.status).toBe(200)

@@ -17,6 +17,9 @@ import {
   tokenFor,
 } from '../fixtures/builders'
 import { buildReportedTable } from '../fixtures/reported-table'
+import { Dataset } from '@server/modules/datasets/dataset.entity'
+import { freezeVersion, startRevision } from '@server/modules/versions/versions.service'
+import { LocalStorage } from '@server/storage/local-storage'
 import { createTestApp, TEST_ORIGIN, type TestApp } from '../fixtures/test-app'
 
 let t: TestApp
@@ -24,6 +27,7 @@ let released: IDataset
 let embargoed: IDataset
 let withdrawn: IDataset
 let draft: IDataset
+let projectId: number
 
 /** A title with every character that means something in HTML, JSON in a script, BibTeX or SQL. */
 const TRICKY_TITLE = 'Pores & rings <b>100%</b> of_all {NPC} </script>'
@@ -47,6 +51,7 @@ beforeAll(async () => {
   const em = t.em()
   const owner = await buildMember(em)
   const project = await buildProject(em, [{ user: owner, role: 'owner' }], 'Pore census')
+  projectId = project.id
   released = await buildDataset(em, project.id, { state: 'approved', title: TRICKY_TITLE })
   released.approvedAt = new Date('2026-03-02T10:00:00Z')
   embargoed = await buildDataset(em, project.id, {
@@ -118,15 +123,17 @@ describe('a public dataset', () => {
     ])
     expect(ld.funder).toEqual([{ '@type': 'Organization', name: 'Example Research Council' }])
     expect(ld.includedInDataCatalog).toMatchObject({ '@type': 'DataCatalog', name: 'Stipple' })
-    expect(ld.distribution).toEqual([
-      expect.objectContaining({
-        '@type': 'DataDownload',
-        encodingFormat: 'text/csv',
-        contentUrl: expect.stringMatching(
-          new RegExp(`^${TEST_ORIGIN}/api/datasets/${released.accession}/files/\\d+/content$`),
-        ),
-      }),
-    ])
+    const downloads = ld.distribution as Record<string, unknown>[]
+    expect(downloads.length).toBeGreaterThan(0)
+    for (const d of downloads) {
+      expect(d['@type']).toBe('DataDownload')
+      expect(d.contentUrl).toMatch(
+        new RegExp(`^${TEST_ORIGIN}/api/datasets/${released.accession}/files/\\d+/content$`),
+      )
+    }
+    expect(downloads).toContainEqual(
+      expect.objectContaining({ name: 'rings-open.csv', encodingFormat: 'text/csv' }),
+    )
   })
 
   it('gives a BibTeX entry that a general BibTeX parser reads back', async () => {
@@ -231,5 +238,30 @@ describe('pages that must not leak', () => {
     const own = await buildDataset(t.em(), project.id, { state: 'submitted' })
     const res = await get(`/d/${own.accession}`).set(bearer(await tokenFor(t.em(), owner)))
     expect(res.status).toBe(404)
+  })
+})
+
+describe('versions', () => {
+  it('shows the frozen version: v1 stays public, as approved, while v2 is drafted', async () => {
+    const em = t.em()
+    const built = await buildDataset(em, projectId, { state: 'approved', title: 'Versioned pores' })
+    const d = await em.findOneOrFail(Dataset, { id: built.id })
+    const storage = new LocalStorage(t.config.dataDir)
+    await freezeVersion(em, storage, d, null, new Date('2026-05-01T09:00:00Z'))
+    await em.flush()
+    startRevision(d)
+    d.title = 'Versioned pores, second take'
+    await em.flush()
+
+    const res = await get(`/d/${d.accession}`)
+    expect(res.status).toBe(200)
+    expect(res.text).toContain('Versioned pores')
+    expect(res.text).not.toContain('second take')
+    expect(res.text).toContain('2026-05-01')
+    expect(res.text).toContain('notes.txt')
+    const ld = jsonLdOf(res.text)
+    expect(ld).toMatchObject({ name: 'Versioned pores', version: '1' })
+    expect((await get(`/d/${d.accession}/v/1`)).status).toBe(200)
+    expect((await get(`/d/${d.accession}/v/2`)).status).toBe(404)
   })
 })

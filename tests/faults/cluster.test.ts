@@ -295,6 +295,42 @@ describe('Stipple with two HTTP worker processes', () => {
     expect(statuses.slice(SIGN_IN_LIMIT - 2).every((s) => s === 429)).toBe(true)
   })
 
+  it('delivers a new comment to event streams open on every worker', async () => {
+    type Stream = { text: string; pid: number; close(): void }
+    const openStream = () =>
+      new Promise<Stream>((resolve, reject) => {
+        const req = httpRequest(
+          `${server.url}/api/datasets/${accession}/events`,
+          { agent: false, headers: { authorization: `Bearer ${depositorToken}` } },
+          (res: IncomingMessage) => {
+            expect(res.statusCode).toBe(200)
+            const stream: Stream = { text: '', pid: 0, close: () => req.destroy() }
+            res.setEncoding('utf8')
+            res.on('data', (chunk: string) => (stream.text += chunk))
+            void waitFor('the stream to reach a worker', () =>
+              workerServing(res.socket.localPort!),
+            ).then((pid) => resolve(Object.assign(stream, { pid })), reject)
+          },
+        )
+        req.on('error', reject)
+        req.end()
+      })
+    const streams: Stream[] = [await openStream()]
+    while (streams.length < 6 && new Set(streams.map((s) => s.pid)).size < 2)
+      streams.push(await openStream())
+    expect(new Set(streams.map((s) => s.pid)).size).toBe(2)
+    const posted = await api(`/api/datasets/${accession}/comments`, depositorToken, {
+      method: 'POST',
+      body: JSON.stringify({ body: 'Heard on every worker' }),
+    })
+    expect(posted.status).toBe(201)
+    for (const stream of streams)
+      await waitFor('the comment on every stream', () =>
+        stream.text.includes('Heard on every worker') ? true : undefined,
+      )
+    for (const stream of streams) stream.close()
+  })
+
   it('replaces a worker that dies, and the other answers meanwhile', async () => {
     const [victim, survivor] = workerPids()
     process.kill(victim!, 'SIGKILL')

@@ -1,4 +1,3 @@
-import { latestEmbargoEnd } from '../datasets/dataset-lifecycle.service'
 import type { EntityManager } from '@mikro-orm/better-sqlite'
 import { isHumanDerived } from '@shared/metadata/biosample.schema'
 import { computeCompleteness } from '@shared/metadata/completeness'
@@ -26,14 +25,6 @@ const check = (key: CurationCheckKey, outcome: CheckOutcome, detail: string): Cu
 })
 const plural = (n: number, word: string) => `${n} ${word}${n === 1 ? '' : 's'}`
 
-export interface EmbargoPolicy {
-  embargo: { maxYears: number }
-}
-
-/** The policy's longest embargo in days from `now` (the one limit the embargo routes enforce). */
-export const embargoMaxDays = (policy: EmbargoPolicy, now: Date) =>
-  Math.round((latestEmbargoEnd(now, policy.embargo.maxYears).getTime() - now.getTime()) / DAY_MS)
-
 /**
  * What Stipple can tell the steward about each item of the curation checklist, as of `now`.
  * `embargoUntil` is the embargo the approval would set (the proposal when not given).
@@ -41,7 +32,7 @@ export const embargoMaxDays = (policy: EmbargoPolicy, now: Date) =>
 export async function curationChecks(
   em: EntityManager,
   dataset: IDataset,
-  policy: EmbargoPolicy,
+  policy: { maxYears: number },
   now: Date,
   embargoUntil: Date | null = dataset.embargoUntil ?? dataset.proposedEmbargoUntil ?? null,
 ): Promise<CurationCheckDto[]> {
@@ -60,10 +51,13 @@ export async function curationChecks(
     : 0
   const human = isHumanDerived(metadata.biosample)
   const ethicsReference = metadata.biosample?.ethicsReference?.trim()
-  const maxDays = embargoMaxDays(policy, now)
   const embargoDays = embargoUntil
     ? Math.ceil((embargoUntil.getTime() - now.getTime()) / DAY_MS)
     : 0
+
+  const latest = new Date(now)
+  latest.setUTCFullYear(latest.getUTCFullYear() + policy.maxYears)
+  const years = `${policy.maxYears} year${policy.maxYears === 1 ? '' : 's'}`
 
   return [
     missing.length
@@ -88,13 +82,13 @@ export async function curationChecks(
         : check('ethics', 'fail', 'Human-derived sample without an ethics or consent reference.'),
     embargoDays <= 0
       ? check('embargo', 'pass', 'No embargo: public on approval.')
-      : embargoDays > maxDays
+      : embargoUntil!.getTime() > latest.getTime()
         ? check(
             'embargo',
             'fail',
-            `Embargo of ${embargoDays} days; the policy allows at most ${maxDays}.`,
+            `Embargo of ${embargoDays} days; the policy allows at most ${years} (until ${latest.toISOString().slice(0, 10)}).`,
           )
-        : check('embargo', 'pass', `Embargo of ${embargoDays} days (policy: at most ${maxDays}).`),
+        : check('embargo', 'pass', `Embargo of ${embargoDays} days (policy: at most ${years}).`),
   ]
 }
 
@@ -107,6 +101,12 @@ export function assertApprovable(
   checks: CurationCheckDto[],
   checklist: CurationChecklist | undefined,
 ) {
+  const failed = checks.filter((c) => c.outcome === 'fail')
+  if (failed.length)
+    throw new ConflictError(
+      `${dataset.accession} cannot be approved: ${failed.map((c) => c.label.toLowerCase()).join('; ')}.`,
+      failed.map((c) => ({ pointer: `#/checklist/${c.key}`, detail: c.detail })),
+    )
   if (checklist) {
     const unticked = checks.filter((c) => checklist[c.key] === false)
     if (unticked.length)
@@ -115,14 +115,9 @@ export function assertApprovable(
           pointer: `#/checklist/${c.key}`,
           detail: `Confirm “${c.label}” before approving, or request changes.`,
         })),
+        'Tick every item of the checklist before approving.',
       )
   }
-  const failed = checks.filter((c) => c.outcome === 'fail')
-  if (failed.length)
-    throw new ConflictError(
-      `${dataset.accession} cannot be approved: ${failed.map((c) => c.label.toLowerCase()).join('; ')}.`,
-      failed.map((c) => ({ pointer: `#/checklist/${c.key}`, detail: c.detail })),
-    )
 }
 
 /** Submitting needs at least one validated (ready) file besides the complete description. */

@@ -13,7 +13,7 @@ export function curationThreadRouter(deps: Pick<AppDeps, 'config'>): Router {
   router.get('/curation', async (req, res) => {
     const dataset = await datasetFor(req, em(), parseParams(datasetParams, req).id, 'read')
     assertCanReadThread(req.ability, dataset)
-    res.json(await curationThread(em(), dataset, deps.config, new Date()))
+    res.json(await curationThread(em(), dataset, deps.config.embargo, new Date()))
   })
   return router
 }

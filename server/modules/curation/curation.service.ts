@@ -1,4 +1,3 @@
-import { embargoMaxDays, type EmbargoPolicy } from './curation-checks'
 import type { EntityManager } from '@mikro-orm/better-sqlite'
 import { datasetSubject, type AppAbility } from '@shared/permissions/abilities'
 import type {
@@ -63,7 +62,7 @@ export function recordCurationStep(
 export async function curationThread(
   em: EntityManager,
   dataset: IDataset,
-  policy: EmbargoPolicy,
+  policy: { maxYears: number },
   now: Date,
 ): Promise<CurationThreadDto> {
   const entries = await em.find(
@@ -90,7 +89,7 @@ export async function curationThread(
       createdAt: e.createdAt.toISOString(),
     })),
     checks: await curationChecks(em, dataset, policy, now),
-    embargoMaxDays: embargoMaxDays(policy, now),
+    embargoMaxYears: policy.maxYears,
   }
 }
 

@@ -117,14 +117,14 @@ export async function reviewDataset(
         ? (dataset.embargoUntil ?? dataset.proposedEmbargoUntil)
         : embargoEnd(embargoUntil, '#/embargoUntil', now, deps.config.embargo.maxYears)
     const embargo = requested && requested.getTime() > now.getTime() ? requested : null
-    checks = await curationChecks(em, dataset, deps.config, now, embargo)
+    checks = await curationChecks(em, dataset, deps.config.embargo, now, embargo)
     assertApprovable(dataset, checks, checklist)
     dataset.embargoUntil = embargo
     dataset.state = 'approved'
     dataset.approvedAt = now
     await freezeVersion(em, deps.storage, dataset, actor.user?.id ?? null, now)
   } else {
-    checks = await curationChecks(em, dataset, deps.config, now)
+    checks = await curationChecks(em, dataset, deps.config.embargo, now)
     dataset.state = decision === 'withdraw' ? 'withdrawn' : 'changes_requested'
   }
   const step = {

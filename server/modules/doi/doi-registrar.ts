@@ -98,7 +98,7 @@ export class DoiRegistrar {
       doiFailedAt: null,
     })
     audit(em, null, {
-      action: 'version.doi_registered',
+      action: 'doi.register',
       targetType: 'DatasetVersion',
       targetId: version.label,
       details: { doi: outcome.doi },
@@ -127,7 +127,7 @@ export class DoiRegistrar {
     })
     if (givenUp)
       audit(em, null, {
-        action: 'version.doi_failed',
+        action: 'doi.fail',
         targetType: 'DatasetVersion',
         targetId: version.label,
         details: { attempts, error },

@@ -1,4 +1,5 @@
 import { orcidUrl } from '@shared/domain/identifiers'
+import { landingPath } from '@shared/domain/landing'
 import { html, trusted, type SafeHtml } from '../quality/report-html/escape'
 import type { LandingView } from './landing.service'
 
@@ -129,7 +130,7 @@ function licenceSection(view: LandingView): SafeHtml {
 }
 
 function versionsSection(view: LandingView): SafeHtml {
-  const base = `/d/${view.subject.accession}`
+  const pathOf = (n: number) => landingPath(view.subject.accession, n)
   return html`<section class="card" id="versions">
     <h2>Versions</h2>
     <table>
@@ -137,13 +138,14 @@ function versionsSection(view: LandingView): SafeHtml {
         <tr>
           <th>Version</th>
           <th>Approved</th>
+          <th>DOI</th>
           <th>Page</th>
         </tr>
       </thead>
       <tbody>
         ${view.versions.map(
           (v) =>
-            html`<tr${v.number === view.version.number ? html` class="current"` : ''}><td>v${v.number}</td><td>${day(v.approvedAt)}</td><td><a href="${base}/v/${v.number}">${base}/v/${v.number}</a></td></tr>`,
+            html`<tr${v.number === view.version.number ? html` class="current"` : ''}><td>v${v.number}</td><td>${day(v.approvedAt)}</td><td>${v.doi ? html`<a href="https://doi.org/${v.doi}">${v.doi}</a>` : '—'}</td><td><a href="${pathOf(v.number)}">${pathOf(v.number)}</a></td></tr>`,
         )}
       </tbody>
     </table>
@@ -178,7 +180,7 @@ function filesSection(view: LandingView): SafeHtml {
               ${files.map(
                 (f) =>
                   html`<tr>
-                    <td><a href="${f.url}" download>${f.name}</a></td>
+                    <td>${f.url ? html`<a href="${f.url}" download>${f.name}</a>` : f.name}</td>
                     <td class="num">${bytes.format(f.size)}</td>
                     <td><code class="hash">${f.sha256 ?? '—'}</code></td>
                   </tr>`,
@@ -222,7 +224,7 @@ function qualitySection(view: LandingView): SafeHtml {
 
 function citeSection(view: LandingView): SafeHtml {
   const c = view.citations
-  const base = `/d/${view.subject.accession}/v/${view.version.number}`
+  const base = landingPath(view.subject.accession, view.version.number)
   return html`<section class="card" id="cite">
     <h2>Cite this dataset</h2>
     <p class="citation">${c.text}</p>

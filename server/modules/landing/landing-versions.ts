@@ -1,17 +1,44 @@
+import type { EntityManager } from '@mikro-orm/better-sqlite'
+import type { DatasetMetadata } from '@shared/metadata/metadata.schema'
 import type { IDataset } from '../datasets/dataset.entity'
+import { listVersions } from '../versions/versions.service'
 
-/** One frozen, citable version of a dataset, as the landing page lists it. */
+/** One frozen, citable version of a dataset, as the landing page shows it. */
 export interface LandingVersion {
   number: number
   approvedAt: Date | null
+  doi: string | null
+  /** The version's frozen description and files; null: the dataset as it stands (see below). */
+  frozen: {
+    title: string
+    description: string
+    licence: string
+    metadata: DatasetMetadata
+    files: { name: string; size: number; sha256: string }[]
+  } | null
 }
 
 /**
- * The citable versions of a dataset, newest first. Until version records exist (curation work
- * in server/modules/versions), an approved dataset is its own version 1; this function is the
- * one place to switch to them.
+ * The citable versions of a dataset, newest first, from the records approval freezes
+ * (server/modules/versions). A dataset approved before those records existed (older databases,
+ * seeded states) counts as its own version 1, read as it stands.
  */
-export function versionsOf(dataset: Pick<IDataset, 'state' | 'approvedAt'>): LandingVersion[] {
+export async function versionsOf(em: EntityManager, dataset: IDataset): Promise<LandingVersion[]> {
+  const frozen = await listVersions(em, dataset.id)
+  if (frozen.length) {
+    return frozen.map((v) => ({
+      number: v.number,
+      approvedAt: new Date(v.approvedAt),
+      doi: v.doiStatus === 'registered' ? v.doi : null,
+      frozen: {
+        title: v.title,
+        description: v.description,
+        licence: v.licence,
+        metadata: v.metadata as DatasetMetadata,
+        files: v.files ?? [],
+      },
+    }))
+  }
   if (dataset.state !== 'approved' && dataset.state !== 'withdrawn') return []
-  return [{ number: 1, approvedAt: dataset.approvedAt ?? null }]
+  return [{ number: 1, approvedAt: dataset.approvedAt ?? null, doi: null, frozen: null }]
 }

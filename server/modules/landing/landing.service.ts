@@ -1,9 +1,11 @@
 import type { EntityManager } from '@mikro-orm/better-sqlite'
 import { accessPhase } from '@shared/domain/dataset-state'
+import { landingPath } from '@shared/domain/landing'
 import { licenceTerms, type LicenceTerms } from '@shared/domain/licence-terms'
 import type { DatasetQualityItem } from '@shared/schemas/quality.schema'
 import { defineAbilityFor } from '@shared/permissions/abilities'
 import { findDataset, subjectOf } from '../datasets/dataset-access'
+import { asReleased } from '../versions/version-access'
 import { toDatasetPageDto } from '../datasets/dataset.mapper'
 import { exportSubject } from '../metadata/metadata.service'
 import { toJsonLd } from '../metadata/exports/json-ld'
@@ -48,27 +50,38 @@ export async function landingView(
 ): Promise<LandingView | null> {
   const dataset = await findDataset(em, accession)
   if (!dataset || /^\d+$/.test(accession)) return null
+  const versions = await versionsOf(em, dataset)
+  // While a next version is being prepared, the approved one keeps its public page.
+  const standing = versions.length ? asReleased(dataset) : subjectOf(dataset)
   const publicAbility = defineAbilityFor(null, now)
-  if (!publicAbility.can('read', subjectOf(dataset))) return null
-  const versions = versionsOf(dataset)
+  if (!publicAbility.can('read', standing)) return null
   const version =
     versionNumber === null ? versions[0] : versions.find((v) => v.number === versionNumber)
   if (!version) return null
 
-  const phase = accessPhase(dataset, now)
+  const phase = accessPhase(standing, now)
   const kind: LandingKind =
     phase === 'withdrawn' ? 'withdrawn' : phase === 'released' ? 'open' : 'embargoed'
-  const base = `${publicUrl}/d/${dataset.accession}`
-  const pageUrl = versionNumber === null ? base : `${base}/v/${version.number}`
+  const urlOf = (n?: number) => `${publicUrl}${landingPath(dataset.accession, n)}`
+  const pageUrl = urlOf(versionNumber === null ? undefined : version.number)
   const loaded = await exportSubject(em, dataset, publicUrl)
   // Files are part of the page only when the public may download them.
-  const filesOpen = kind === 'open' && publicAbility.can('download', subjectOf(dataset))
+  const filesOpen = kind === 'open' && publicAbility.can('download', standing)
   const subject: DatasetExportSubject = {
     ...loaded,
-    landingUrl: `${base}/v/${version.number}`,
+    ...(version.frozen
+      ? {
+          title: version.frozen.title,
+          description: version.frozen.description,
+          licence: version.frozen.licence,
+          metadata: version.frozen.metadata,
+          files: frozenFiles(version.frozen.files, loaded.files),
+        }
+      : {}),
+    landingUrl: urlOf(version.number),
     version: version.number,
-    files: filesOpen ? loaded.files : [],
   }
+  if (!filesOpen) subject.files = []
   const authors = (subject.metadata.study?.authors ?? []).flatMap((a) => (a.name ? [a.name] : []))
   const published = kind === 'embargoed' ? subject.embargoUntil : version.approvedAt
   const citations = citationsOf({
@@ -79,8 +92,9 @@ export async function landingView(
     version: version.number,
     published,
     url: subject.landingUrl,
+    doi: version.doi,
   })
-  const previewOpen = kind === 'open' && publicAbility.can('preview', subjectOf(dataset))
+  const previewOpen = kind === 'open' && publicAbility.can('preview', standing)
   const quality = previewOpen
     ? (await datasetQualityOf(em, dataset.id)).items.filter((i) => i.status === 'done')
     : []
@@ -101,12 +115,34 @@ export async function landingView(
     },
     citations,
     availability: availabilitySentence(subject, kind),
-    jsonLd: kind === 'withdrawn' ? null : toJsonLd(subject, now),
+    jsonLd: kind === 'withdrawn' ? null : jsonLdOf(subject, version.doi, now),
     quality,
     withdrawal: withdrawal
       ? { reason: withdrawal.comment || 'No reason was recorded.', at: withdrawal.at.slice(0, 10) }
       : null,
   }
+}
+
+/** schema.org JSON-LD of the version: only files that can be fetched, the DOI when registered. */
+function jsonLdOf(subject: DatasetExportSubject, doi: string | null, now: Date) {
+  const ld = toJsonLd({ ...subject, files: subject.files.filter((f) => f.url) }, now)
+  if (!doi) return ld
+  const doiUrl = `https://doi.org/${doi}`
+  return { ...ld, identifier: [doiUrl, ...ld.identifier], sameAs: doiUrl }
+}
+
+/**
+ * A version's frozen file list, each linked to the stored file with the same name and checksum
+ * (the bytes are shared between versions by checksum); a file no longer stored has no link.
+ */
+function frozenFiles(
+  files: { name: string; size: number; sha256: string }[],
+  current: DatasetExportSubject['files'],
+): DatasetExportSubject['files'] {
+  return files.map((f) => {
+    const stored = current.find((c) => c.sha256 === f.sha256 && c.name === f.name)
+    return { ...f, mediaType: stored?.mediaType ?? null, url: stored?.url ?? '' }
+  })
 }
 
 /** A sentence a manuscript's data availability statement can take as it is. */

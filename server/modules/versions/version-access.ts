@@ -10,7 +10,7 @@ const REVISING_STATES: readonly IDataset['state'][] = ['draft', 'submitted', 'ch
  * curation), the approved one keeps the access it had when approved, embargo included. A dataset
  * that was never approved, or is withdrawn, is taken as it is.
  */
-function asReleased(dataset: IDataset) {
+export function asReleased(dataset: IDataset) {
   const revising = REVISING_STATES.includes(dataset.state) && dataset.version > 1
   return datasetSubject(revising ? { ...dataset, state: 'approved' } : dataset)
 }

@@ -66,7 +66,7 @@ export function versionsRouter(deps: Pick<AppDeps, 'jobs'> = {}): Router {
       throw new ConflictError(`${version.label} already has its DOI ${version.doi}.`)
     retryDoiRegistration(version, new Date())
     audit(em(), req, {
-      action: 'version.doi_retry',
+      action: 'doi.retry',
       targetType: 'DatasetVersion',
       targetId: version.label,
     })

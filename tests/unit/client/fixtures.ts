@@ -102,6 +102,21 @@ export function answerFor(url: string, me: MeDto, shown: DatasetDto): unknown {
       ],
     },
     '/api/audit': { items: [], total: 0 },
+    '/api/users': {
+      items: [
+        {
+          id: 12,
+          name: 'Former Colleague',
+          email: 'former@lab.example',
+          siteRole: null,
+          organization: 'Pore lab',
+          lastSignInAt: project.createdAt,
+          deactivatedAt: project.createdAt,
+          createdAt: project.createdAt,
+        },
+      ],
+      total: 1,
+    },
   }
   return path && path in table
     ? table[path]

@@ -80,7 +80,8 @@ describe('every page draws from the API', () => {
       ['o@lab.example', 'Site admin', 'Personal access tokens', 'stp_ab12', 'Create token'],
     ],
     ['/admin/mail', ['Caught mail', 'Submitted for curation']],
-    ['/admin/audit', ['Audit log', 'Nothing has been recorded yet.']],
+    ['/admin/audit', ['Audit log', 'Nothing has been recorded yet.', 'Export CSV']],
+    ['/admin/users', ['Users', 'Former Colleague', 'Deactivated', 'Reactivate']],
     ['/no/such/page', ['Page not found']],
   ]
   it.each(pages)('%s shows its content without Vue warnings', async (path, texts) => {
