@@ -15,6 +15,7 @@ import {
   buildDataset,
   buildMember,
   buildProject,
+  buildReadyFile,
   buildUser,
   tokenFor,
 } from '../fixtures/builders'
@@ -62,6 +63,7 @@ afterAll(async () => {
 /** A dataset approved through the API: its v1 waits for its DOI. */
 async function approved(title: string) {
   const d = await buildDataset(t.em(), projectId, { title, createdBy: depositor.id })
+  await buildReadyFile(t.em(), d.id)
   await request(t.app).post(`/api/datasets/${d.id}/submit`).set(bearer(depositorToken)).expect(200)
   await request(t.app)
     .post(`/api/datasets/${d.id}/review`)

@@ -28,6 +28,7 @@ import {
   buildDataset,
   buildMember,
   buildProject,
+  buildReadyFile,
   buildShare,
   buildUser,
   tokenFor,
@@ -82,6 +83,8 @@ async function datasetIn(phase: AccessPhase) {
     state,
     embargoUntil: phase === 'embargoed' ? future(1) : null,
   })
+  // A validated file, so that submitting is a matter of permission.
+  await buildReadyFile(em, dataset.id)
   await buildShare(em, dataset.id, projectId, collaborator, [...SHARE_CAPABILITIES])
   await buildManuscript(em, journalId, [dataset.id])
   const { cookie } = await buildReviewerLink(em, t.config.sessionSecrets[0]!, dataset.id)

@@ -41,7 +41,9 @@ function shell({ title, description, canonical, head, body }: Shell): string {
     <body>
       <header class="bar">
         <a class="brand" href="/"><span class="dot"></span>Stipple</a>
-        <nav><a href="/search">Search datasets</a><a href="/datasets">Sign in</a></nav>
+        <nav>
+          <a href="/search">Search datasets</a><a href="/auth/login?returnTo=%2F">Sign in</a>
+        </nav>
       </header>
       <main class="page">${body}</main>
       <footer class="foot">

@@ -109,15 +109,17 @@ describe('facets', () => {
 })
 
 describe('public page link', () => {
-  it('links approved and withdrawn datasets to their landing page, never drafts', () => {
-    const link = (state: 'approved' | 'withdrawn' | 'draft' | 'submitted') =>
+  it('links approved, withdrawn and revised datasets to their landing page, never first drafts', () => {
+    const link = (state: 'approved' | 'withdrawn' | 'draft' | 'submitted', version = 1) =>
       mount(DatasetPublicPageLink, {
-        props: { dataset: { accession: 'STPL-000007', state } },
+        props: { dataset: { accession: 'STPL-000007', state, version } },
         global: { plugins: [vuetify] },
       }).find('[data-testid="public-page-link"]')
     expect(link('approved').attributes('href')).toBe('/d/STPL-000007')
     expect(link('withdrawn').exists()).toBe(true)
     expect(link('draft').exists()).toBe(false)
     expect(link('submitted').exists()).toBe(false)
+    // A second version in the making: the approved first one keeps its page.
+    expect(link('draft', 2).exists()).toBe(true)
   })
 })

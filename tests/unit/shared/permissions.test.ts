@@ -37,7 +37,13 @@ describe('abilities built from the matrix', () => {
     ['member', viewer({ memberships: [{ projectId: 7, role: 'member' }] }), 'member'],
     ['owner', viewer({ memberships: [{ projectId: 7, role: 'owner' }] }), 'owner'],
     ['steward', viewer({ siteRole: 'steward' }), 'steward'],
-    ['editor', viewer({ siteRole: 'editor' }), 'editor'],
+    ['editor', viewer({ siteRole: 'editor', manuscriptDatasets: [1] }), 'editor'],
+    // An editor whose journal has no manuscript with this dataset is an outsider to it.
+    [
+      'editor of another journal',
+      viewer({ siteRole: 'editor', manuscriptDatasets: [2] }),
+      'outsider',
+    ],
     ['admin', viewer({ siteRole: 'admin' }), 'admin'],
     [
       'collaborator',
@@ -50,6 +56,16 @@ describe('abilities built from the matrix', () => {
   ]
   it.each(cases)('%s: can() agrees with every cell', (_name, who, role) => {
     const ability = defineAbilityFor(who, NOW)
+    expectCells(ability, role)
+  })
+  it('a reviewer link (signed out) agrees with the reviewer row, for its dataset only', () => {
+    expectCells(defineAbilityFor(null, NOW, [1]), 'reviewer')
+    expectCells(defineAbilityFor(null, NOW, [2]), 'public')
+  })
+  function expectCells(
+    ability: ReturnType<typeof defineAbilityFor>,
+    role: keyof typeof DATASET_MATRIX,
+  ) {
     for (const phase of ACCESS_PHASES) {
       for (const action of DATASET_ACTIONS) {
         expect(ability.can(action, subjectIn(phase)), `${action} in ${phase}`).toBe(
@@ -57,7 +73,7 @@ describe('abilities built from the matrix', () => {
         )
       }
     }
-  })
+  }
 
   it('a member of another project has only the public rights', () => {
     const ability = defineAbilityFor(
