@@ -91,7 +91,7 @@ export function datasetNextStep(dataset: Dataset, facts: NextStepFacts = {}): Da
       return {
         phase,
         tone: 'info',
-        title: `Released on ${date(dataset.embargoUntil!)}`,
+        title: `Under embargo until ${date(dataset.embargoUntil!)}`,
         text: `Approved${on(dataset.approvedAt)} as version ${dataset.version}. Its description is public now; its files open to everyone on ${date(dataset.embargoUntil!)}.`,
       }
     case 'released': {

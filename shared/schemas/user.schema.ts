@@ -25,6 +25,8 @@ export const meSchema = z
       .nullable(),
     /** What the abilities are built from; null when signed out. */
     viewer: viewerSchema.nullable(),
+    /** Datasets this browser sees through live reviewer links (their reviewer rows apply). */
+    reviewing: z.array(z.number()).optional(),
     demo: z.boolean(),
   })
   .meta({ id: 'Me' })

@@ -9,8 +9,13 @@ import type { Viewer } from '@shared/permissions/viewer'
  */
 export const ability: AppAbility = defineAbilityFor(null)
 
-export function updateAbility(viewer: Viewer | null, now: Date = new Date()): AppAbility {
-  ability.update(defineAbilityFor(viewer, now).rules)
+/** `reviewing`: datasets opened through live reviewer links, as the server counts them. */
+export function updateAbility(
+  viewer: Viewer | null,
+  reviewing: number[] = [],
+  now: Date = new Date(),
+): AppAbility {
+  ability.update(defineAbilityFor(viewer, now, reviewing).rules)
   return ability
 }
 

@@ -21,7 +21,7 @@ export const useSessionStore = defineStore('session', () => {
       const answer = await fetchMe()
       me.value = answer
       error.value = null
-      updateAbility(answer.viewer)
+      updateAbility(answer.viewer, answer.reviewing ?? [])
     } catch (e) {
       error.value = errorMessage(e)
       // Treat the person as signed out until the server answers; pages stay usable.

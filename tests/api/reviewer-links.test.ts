@@ -131,6 +131,10 @@ describe('opening a link signed out', () => {
       .set('Origin', 'http://stipple.test')
       .send({ body: 'hello' })
     expect(comment.status).toBe(401)
+    // The client builds its abilities from /api/me: it learns the reviewed dataset (so the page
+    // offers the download the link grants), and nothing else.
+    expect((await get('/api/me')).body.reviewing).toEqual([dataset.id])
+    expect((await request(t.app).get('/api/me')).body.reviewing).toEqual([])
     // Without the cookie the dataset stays hidden.
     expect((await request(t.app).get(`/api/datasets/${dataset.accession}`)).status).toBe(404)
   })

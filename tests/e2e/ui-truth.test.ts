@@ -163,7 +163,7 @@ describe('signed out', () => {
     const list = await visible()
     const embargoed = list.find((d) => d.state === 'approved' && d.embargoUntil)!
     await datasetPage.open(stipple.url, embargoed.accession)
-    expect(await datasetPage.nextStep()).toMatch(/^Released on /)
+    expect(await datasetPage.nextStep()).toMatch(/^Under embargo until /)
     const open = list.find((d) => d.state === 'approved' && !d.embargoUntil)!
     await datasetPage.open(stipple.url, open.accession)
     expect(await datasetPage.nextStep()).toMatch(/^Public since /)

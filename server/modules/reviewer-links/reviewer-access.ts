@@ -110,6 +110,10 @@ function auditUseOnSuccess(
   })
 }
 
+/** The datasets this request reaches through live reviewer links (for the client's abilities). */
+export const reviewedDatasets = (req: Request): number[] =>
+  reviewing.get(req)?.links.map((l) => l.dataset) ?? []
+
 /**
  * True when this request sees the dataset only through an anonymous reviewer link: depositor
  * names, affiliations, comments and audit actors are then left out of what it is sent.

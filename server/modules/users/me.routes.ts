@@ -1,3 +1,4 @@
+import { reviewedDatasets } from '../reviewer-links/reviewer-access'
 import { Router } from 'express'
 import { z } from 'zod'
 import { idSchema } from '@shared/schemas/common.schema'
@@ -41,6 +42,7 @@ export function meRouter(deps: AppDeps): Router {
         shares: req.viewer.shares.map((sh) => ({ ...sh, capabilities: [...sh.capabilities] })),
         manuscriptDatasets: [...(req.viewer.manuscriptDatasets ?? [])],
       },
+      reviewing: reviewedDatasets(req),
       demo: deps.config.demo,
     }
     res.json(body)

@@ -85,7 +85,7 @@ describe('the next step a dataset page shows', () => {
       embargoUntil: '2027-09-30',
     })
     expect(s.phase).toBe('embargoed')
-    expect(s.title).toBe('Released on 30 September 2027')
+    expect(s.title).toBe('Under embargo until 30 September 2027')
     expect(s.text).toContain('Approved on 20 February 2027 as version 2')
     expect(whole(s)).not.toMatch(/ready to submit|waiting/i)
   })
@@ -136,6 +136,6 @@ describe('the next step a dataset page shows', () => {
       },
       { now, formatDate: (v) => `<${v}>` },
     )
-    expect(s.title).toBe('Released on <2027-09-30>')
+    expect(s.title).toBe('Under embargo until <2027-09-30>')
   })
 })
