@@ -61,6 +61,7 @@ export async function openBackground(deps: {
   })
   let upkeep: NodeJS.Timeout | null = null
   let doi: Awaited<ReturnType<typeof startDoiRegistration>> | null = null
+  let catchUp: Promise<void> = Promise.resolve()
   const embargoes = createEmbargoScheduler({
     orm,
     logger,
@@ -103,11 +104,17 @@ export async function openBackground(deps: {
         ]).catch((err: unknown) => logger.error({ err }, 'hourly upkeep failed'))
       upkeep = setInterval(() => void hourly(), 3600_000)
       upkeep.unref()
-      // Releases missed while the server was down happen now, then once a minute.
-      await embargoes.start()
+      // Releases missed while the server was down happen now, then once a minute. Start-up does
+      // not wait for them: each release mails several people, which takes seconds.
+      catchUp = embargoes
+        .start()
+        .then(() => undefined)
+        .catch((err: unknown) => logger.error({ err }, 'embargo catch-up failed'))
     },
     async stop() {
       embargoes.stop()
+      // A catch-up still mailing gets a few seconds to finish; its records are already written.
+      await Promise.race([catchUp, new Promise((r) => setTimeout(r, 3000).unref())])
       if (upkeep) clearInterval(upkeep)
       await jobs.stop()
       await doi?.stop()

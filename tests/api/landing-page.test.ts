@@ -13,6 +13,7 @@ import {
   buildDataset,
   buildMember,
   buildProject,
+  buildReadyFile,
   buildUser,
   tokenFor,
 } from '../fixtures/builders'
@@ -247,6 +248,7 @@ describe('versions', () => {
     const built = await buildDataset(em, projectId, { state: 'approved', title: 'Versioned pores' })
     const d = await em.findOneOrFail(Dataset, { id: built.id })
     const storage = new LocalStorage(t.config.dataDir)
+    await buildReadyFile(em, d.id, { name: 'notes.txt', storage })
     await freezeVersion(em, storage, d, null, new Date('2026-05-01T09:00:00Z'))
     await em.flush()
     startRevision(d)
