@@ -87,6 +87,12 @@ async function visible(): Promise<
   return page1.items
 }
 
+/** Approved with an embargo that has not ended yet (the demo also has one that ended). */
+const underEmbargo = (d: { state: string; embargoUntil: string | null }) =>
+  d.state === 'approved' &&
+  !!d.embargoUntil &&
+  Date.parse(`${d.embargoUntil.slice(0, 10)}T00:00:00Z`) > Date.now()
+
 /** Home, the list, each state's dataset with its tabs, its description, the audit log, the profile. */
 async function walk(role: string) {
   await page.goto(stipple.url)
@@ -97,7 +103,7 @@ async function walk(role: string) {
 
   const seen = new Set<string>()
   for (const d of await visible()) {
-    const kind = d.state === 'approved' && d.embargoUntil ? 'embargoed' : d.state
+    const kind = underEmbargo(d) ? 'embargoed' : d.state
     if (seen.has(kind)) continue
     seen.add(kind)
     await datasetPage.open(stipple.url, d.accession)
@@ -161,7 +167,7 @@ describe('signed out', () => {
 
   it('approved datasets say when they are released or since when they are public (1)', async () => {
     const list = await visible()
-    const embargoed = list.find((d) => d.state === 'approved' && d.embargoUntil)!
+    const embargoed = list.find(underEmbargo)!
     await datasetPage.open(stipple.url, embargoed.accession)
     expect(await datasetPage.nextStep()).toMatch(/^Under embargo until /)
     const open = list.find((d) => d.state === 'approved' && !d.embargoUntil)!
@@ -170,7 +176,7 @@ describe('signed out', () => {
   })
 
   it('the embargoed Files tab says until when and whom to ask (5)', async () => {
-    const embargoed = (await visible()).find((d) => d.state === 'approved' && d.embargoUntil)!
+    const embargoed = (await visible()).find(underEmbargo)!
     await datasetPage.open(stipple.url, embargoed.accession)
     await datasetPage.tab('Files')
     const note = page.getByTestId('files-access-note')
@@ -211,7 +217,7 @@ describe('data steward', () => {
   })
 
   it('the embargo and withdraw dialogs fit (10)', async () => {
-    const embargoed = (await visible()).find((d) => d.state === 'approved' && d.embargoUntil)!
+    const embargoed = (await visible()).find(underEmbargo)!
     await datasetPage.open(stipple.url, embargoed.accession)
     await expectDialogFits('embargo dialog', () => datasetPage.action('Set embargo'))
     await expectDialogFits('withdraw dialog', () => datasetPage.action('Withdraw'))
@@ -222,8 +228,8 @@ describe('data steward', () => {
 describe('journal editor', () => {
   beforeAll(() => become('editor'))
   it(WALK, () => walk('editor'))
-  it('has a home for the role with the submitted datasets (6)', () =>
-    expectStaffHome('editor', 'Submitted datasets'))
+  it('has a home for the role with the manuscripts of the journal (6)', () =>
+    expectStaffHome('editor', 'Your manuscripts'))
 })
 
 describe('project owner', () => {

@@ -1,5 +1,6 @@
 import type { EntityManager } from '@mikro-orm/better-sqlite'
-import { datasetSubject, type AppAbility } from '@shared/permissions/abilities'
+import { canReadCurationThread } from '@shared/domain/curation-access'
+import type { AppAbility } from '@shared/permissions/abilities'
 import type {
   CurationChecklist,
   CurationCheckDto,
@@ -15,17 +16,14 @@ import { CurationEntry } from './curation-entry.entity'
 
 type Notify = Pick<AppDeps, 'mailer' | 'config'>
 
-/**
- * Who reads the curation thread: the dataset's depositors (those who could submit it as a draft)
- * and the curators (those who could decide on it once submitted). Collaborators, editors and
- * the public do not; for them the thread does not exist (404), like a dataset they cannot read.
- */
+/** The thread's readers: see canReadCurationThread (shared with the client). */
 export function canReadThread(ability: AppAbility, dataset: IDataset): boolean {
-  const as = (state: IDataset['state']) => datasetSubject({ ...dataset, state })
-  return (
-    ability.can('read', datasetSubject(dataset)) &&
-    (ability.can('submit', as('draft')) || ability.can('curate', as('submitted')))
-  )
+  return canReadCurationThread(ability, {
+    id: dataset.id,
+    project: dataset.project,
+    state: dataset.state,
+    embargoUntil: dataset.embargoUntil ?? null,
+  })
 }
 
 export function assertCanReadThread(ability: AppAbility, dataset: IDataset) {
