@@ -3,10 +3,10 @@ import type { PositionNm, RegionGeometry, RegionShape } from '@shared/schemas/re
 import { fromMap, toMap, type MapCoordinate } from './previewGrid'
 
 /**
- * Regions between the viewer and the API. The viewer's map coordinates are sample nm with y
- * negated (previewGrid.ts); regions are stored in sample nm, so every conversion goes through
- * the same toMap/fromMap the tiles are placed with, and a region sits where it was drawn at
- * every zoom and rendering.
+ * Converts drawn shapes to stored ones and back. Drawing happens in preview coordinates
+ * (nanometres, vertical axis flipped, see previewGrid.ts); storage keeps nanometres of the
+ * table, so each conversion uses the toMap/fromMap pair that places the tiles, and a shape
+ * stays where it was drawn at every zoom and rendering.
  */
 
 const nmOf = (c: readonly number[]): PositionNm => {
