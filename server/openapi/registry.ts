@@ -23,6 +23,7 @@ const PROBLEMS: Record<number, string> = {
   404: 'Not found, or not visible to you',
   409: 'Conflicts with the current state',
   413: 'Too large',
+  422: 'Understood but refused (the limit is stated)',
   429: 'Too many requests; wait a minute',
 }
 

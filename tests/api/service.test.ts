@@ -24,6 +24,9 @@ describe('service routes', () => {
       '/api/projects/{id}/members',
       '/api/datasets/{idOrAccession}/shares',
       '/api/me/tokens',
+      '/api/datasets/{idOrAccession}/files/{fileId}/regions',
+      '/api/regions/{id}/measurements',
+      '/api/datasets/{idOrAccession}/files/{fileId}/regions/export',
     ]) {
       expect(Object.keys(body.paths)).toContain(path)
     }
@@ -31,6 +34,13 @@ describe('service routes', () => {
       expect.arrayContaining(['projectId', 'title']),
     )
     expect(body.components.schemas.Problem).toBeDefined()
+    // Every measurement kind's answer is described, with the cluster list DBSCAN answers with.
+    const measurement = body.paths['/api/regions/{id}/measurements'].get
+    const kinds = measurement.parameters.find((p: { name: string }) => p.name === 'kind')
+    expect(kinds.schema.enum).toEqual(['summary', 'dbscan', 'ripley', 'nn', 'profile'])
+    const result = body.components.schemas.MeasurementResult
+    expect(result.oneOf).toHaveLength(5)
+    expect(JSON.stringify(result)).toContain('"clusters"')
     const docs = await request(t.app).get('/api/docs/')
     expect(docs.status).toBe(200)
     expect(docs.text).toContain('Stipple API')

@@ -16,13 +16,11 @@
  * their effect is that database time).
  * BENCH_DURATION_S sets the seconds per line; BENCH_LARGE=0 skips the 100 000 line.
  */
-import { spawn } from 'node:child_process'
 import { mkdtempSync, readFileSync, rmSync } from 'node:fs'
 import { availableParallelism, tmpdir } from 'node:os'
 import { join } from 'node:path'
-import { loadConfig } from '@server/config'
-import { openDatabase } from '@server/db'
-import { seedDatasets, type BenchPeople } from './seed-datasets'
+import { cpuSeconds, startServer, withDatasets } from './bench-server'
+import type { BenchPeople } from './seed-datasets'
 import { runWrk } from './wrk'
 
 const CONNECTIONS = 50
@@ -119,57 +117,6 @@ async function wrkLoad(url: string, mix: LoadMix, seconds: number) {
   }
 }
 
-async function startServer(dataDir: string, httpWorkers: number) {
-  const child = spawn(
-    process.execPath,
-    [
-      ...(process.env.BENCH_NODE_FLAGS ?? '').split(' ').filter(Boolean),
-      '--import',
-      'tsx',
-      process.env.BENCH_MAIN ?? 'server/main.ts',
-    ],
-    {
-      env: {
-        ...process.env,
-        DATA_DIR: dataDir,
-        DEMO: 'false',
-        LOG_LEVEL: 'error',
-        NODE_ENV: 'development',
-        PORT: process.env.BENCH_PORT ?? '0',
-        WEB_CONCURRENCY: String(httpWorkers),
-      },
-      stdio: ['ignore', 'pipe', process.env.BENCH_SERVER_STDERR ? 'inherit' : 'ignore'],
-    },
-  )
-  const url = await new Promise<string>((resolve, reject) => {
-    let out = ''
-    child.stdout.on('data', (chunk: Buffer) => {
-      out += chunk.toString()
-      const m = /running at (\S+)/.exec(out)
-      if (m?.[1]) resolve(m[1])
-    })
-    child.once('exit', (code) => reject(new Error(`server exited with ${code}`)))
-  })
-  const exited = new Promise<void>((resolve) => child.once('exit', () => resolve()))
-  return { url, pid: child.pid, stop: () => (child.kill('SIGTERM'), exited) }
-}
-
-/**
- * CPU seconds (user + system) a process and its children (the HTTP workers) have used so far,
- * from /proc on Linux; null elsewhere.
- */
-function cpuSeconds(pid: number | undefined): number | null {
-  try {
-    const fields = readFileSync(`/proc/${pid}/stat`, 'utf8').split(') ')[1]!.split(' ')
-    let seconds = (Number(fields[11]) + Number(fields[12])) / 100 // utime, stime in USER_HZ ticks
-    for (const child of readFileSync(`/proc/${pid}/task/${pid}/children`, 'utf8').split(' '))
-      if (child.trim()) seconds += cpuSeconds(Number(child)) ?? 0
-    return seconds
-  } catch {
-    return null
-  }
-}
-
 /** Every person gets a first page before the load: a wrong answer stops the benchmark. */
 async function probe(url: string, people: BenchPeople) {
   const visible: Record<string, number> = {}
@@ -221,22 +168,6 @@ function line(r: LoadResult) {
   if (r.errors || r.non2xx)
     parts.push(`${r.errors} socket errors, ${r.non2xx} non-2xx ${JSON.stringify(r.refused)}`)
   return parts.join(' · ')
-}
-
-/** A database with `count` bench datasets, for as long as `use` runs. */
-async function withDatasets<T>(
-  count: number,
-  use: (dir: string, people: BenchPeople) => Promise<T>,
-) {
-  const dataDir = mkdtempSync(join(tmpdir(), 'stipple-bench-list-'))
-  try {
-    const orm = await openDatabase(loadConfig({ DATA_DIR: dataDir, LOG_LEVEL: 'silent' }).dbPath)
-    const people = await seedDatasets(orm.em.fork(), count)
-    await orm.close()
-    return await use(dataDir, people)
-  } finally {
-    rmSync(dataDir, { recursive: true, force: true })
-  }
 }
 
 export async function benchDatasetList() {

@@ -1,7 +1,8 @@
 /**
  * Region measurements on a region holding about a million localizations (issue: regions of
  * interest, performance): count/density, DBSCAN (eps 20 nm, minPts 5) and nearest-neighbour
- * distances each aimed under 2 s, Ripley's K/L with 99 CSR simulations under 5 s. Each runs as the
+ * distances each aimed under 2 s, Ripley's K/L with 99 CSR simulations under 5 s; then a comment's
+ * way to 100 open event streams (comment-events.bench.ts). Each runs as the
  * API runs it: in the measurement threads, reading the region from the store. Figures only.
  */
 import { mkdtempSync, rmSync, writeFileSync } from 'node:fs'
@@ -10,6 +11,7 @@ import { join } from 'node:path'
 import type { MeasurementQuery } from '@shared/schemas/region-measurement.schema'
 import { RegionMeasurer } from '@server/compute/regions'
 import { simulatedStore } from '../fixtures/simulated-store'
+import { benchCommentEvents } from './comment-events.bench'
 
 const FIELD_NM = 10_000
 const ms = (v: number) => `${Math.round(v)} ms`
@@ -26,6 +28,7 @@ export async function benchRegions(): Promise<Record<string, unknown>> {
     remove: () => rmSync(root, { recursive: true, force: true }),
   }
   const measurer = new RegionMeasurer()
+  const figures: Record<string, unknown> = {}
   try {
     let started = performance.now()
     // Clusters in a uniform background, ~6 localizations per emitter (bursts): about 1 M rows.
@@ -53,7 +56,7 @@ export async function benchRegions(): Promise<Record<string, unknown>> {
         ] as [number, number][],
       ],
     }
-    const figures: Record<string, unknown> = { 'store (simulate+ingest)': ms(prepared) }
+    figures['store (simulate+ingest)'] = ms(prepared)
     const queries: [string, MeasurementQuery][] = [
       ['count/density', { kind: 'summary', pointRadius: 250 }],
       ['DBSCAN 20 nm, 5', { kind: 'dbscan', pointRadius: 250, eps: 20, minPts: 5 }],
@@ -91,9 +94,9 @@ export async function benchRegions(): Promise<Record<string, unknown>> {
     figures['load average'] = loadavg()
       .map((v) => v.toFixed(1))
       .join(' ')
-    return figures
   } finally {
     await measurer.close()
     dir.remove()
   }
+  return { ...figures, ...(await benchCommentEvents()) }
 }

@@ -2,6 +2,7 @@
  * `npm run bench`: every benchmark, each printed as one block plus a final JSON line.
  * Benchmarks are never part of `npm test`.
  */
+import { benchCommentEvents } from './comment-events.bench'
 import { benchDatasetList } from './datasets-list.bench'
 import { benchIngest, benchIngestLarge } from './ingest.bench'
 import { benchQuality } from './quality.bench'
@@ -12,6 +13,7 @@ import { benchUpload } from './upload.bench'
 
 const only = process.argv[2]
 const benches: Record<string, () => Promise<Record<string, unknown>>> = {
+  'comment-events': benchCommentEvents,
   'datasets-list': benchDatasetList,
   ingest: benchIngest,
   'ingest-large': benchIngestLarge,

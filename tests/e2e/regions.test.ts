@@ -1,8 +1,8 @@
 /**
  * Two people on one dataset in two browsers, against the real server with the demo data: the
  * external collaborator draws a rectangle on the shared 3D table's preview, labels it and starts
- * a thread on it; the owner, with the dataset page open all along, sees the region and the
- * comment appear without reloading.
+ * a thread on it and measures it (count, then DBSCAN clusters outlined on the preview); the owner,
+ * with the dataset page open all along, sees the region and the comment appear without reloading.
  */
 import type { BrowserContext, Page } from 'playwright-core'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
@@ -115,6 +115,35 @@ describe('regions and threads between two people', () => {
     await comment.first().waitFor({ timeout: 5000 })
     expect(await owner.locator('strong', { hasText: 'one' }).count()).toBeGreaterThan(0)
     expect(await owner.evaluate(() => (window as { pwned?: number }).pwned)).toBeUndefined()
+
+    // Measuring: the count the panel shows is the server's count for the region, and DBSCAN's
+    // clusters are listed and drawn back as outlines on the map.
+    const regionId = (stored.items as { id: number; label: string }[]).find(
+      (r) => r.label === 'Synapse seen from the side',
+    )!.id
+    await detail.getByTestId('measure').click()
+    const summary = await collaborator.evaluate(
+      (id) => fetch(`/api/regions/${id}/measurements?kind=summary`).then((r) => r.json()),
+      regionId,
+    )
+    expect(summary.count).toBeGreaterThan(0)
+    await detail
+      .getByText(`${summary.count.toLocaleString('en-US')} localizations in`)
+      .waitFor({ timeout: 60_000 })
+    await detail.getByRole('button', { name: 'Clusters' }).click()
+    await detail.getByTestId('measure').click()
+    const clusters = detail.getByTestId('cluster-summary')
+    await clusters.waitFor({ timeout: 120_000 })
+    const dbscan = await collaborator.evaluate(
+      (id) =>
+        fetch(`/api/regions/${id}/measurements?kind=dbscan&eps=20&minPts=5`).then((r) => r.json()),
+      regionId,
+    )
+    expect(dbscan.cached).toBe(true) // the panel asked the same question first
+    expect(await clusters.textContent()).toContain(
+      `${dbscan.clusters.length.toLocaleString('en-US')} clusters, outlined on the preview`,
+    )
+
     await owner.screenshot({ path: '/tmp/regions-e2e-owner.png', fullPage: true })
     await collaborator.screenshot({ path: '/tmp/regions-e2e-collaborator.png', fullPage: true })
     expect(session.consoleErrors).toEqual([])

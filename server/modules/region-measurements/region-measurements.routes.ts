@@ -1,7 +1,6 @@
 import { statSync } from 'node:fs'
-import { Router, type Request } from 'express'
+import { Router } from 'express'
 import { z } from 'zod'
-import { idSchema } from '@shared/schemas/common.schema'
 import {
   measurementQuerySchema,
   type MeasurementResult,
@@ -11,10 +10,8 @@ import { MeasurementRefusedError, RegionMeasurer } from '../../compute/regions'
 import { BadRequestError, ConflictError, HttpError, NotFoundError } from '../../errors/http-error'
 import { requireUser } from '../../http/authenticate'
 import { requestEm as em } from '../../http/request-context'
-import { parseBody, parseParams, parseQuery } from '../../http/validate'
+import { parseBody, parseQuery } from '../../http/validate'
 import type { AppDeps } from '../../services'
-import { datasetFor, datasetParams, subjectOf } from '../datasets/dataset-access'
-import { Dataset } from '../datasets/dataset.entity'
 import { DatasetFile, type IDatasetFile } from '../files/dataset-file.entity'
 import { columnarStoreOf } from '../files/file-jobs'
 import { previewTableOf } from '../preview/preview-tables'
@@ -25,12 +22,10 @@ import {
   regionsToOmeXml,
   type ExchangeImport,
 } from '../region-exchange'
-import { Region } from '../regions/region.entity'
+import { tableFor, visibleRegion } from '../regions/region-access'
 import { listRegions, type RegionsService } from '../regions/regions.service'
 import { MeasurementCache } from './measurement-cache'
 
-const regionParams = z.object({ id: idSchema })
-const fileParams = datasetParams.extend({ fileId: idSchema })
 const exportQuery = z.strictObject({ format: z.enum(['geojson', 'ome-xml']).default('geojson') })
 const importBody = z.strictObject({
   format: z.enum(['geojson', 'ome-xml']),
@@ -70,14 +65,10 @@ export function regionMeasurementsRouter(
   }
 
   router.get('/regions/:id/measurements', async (req, res) => {
-    const { id } = parseParams(regionParams, req)
     const query = parseQuery(measurementQuerySchema, req)
-    const region = await em().findOne(Region, { id })
-    const dataset = region && (await em().findOne(Dataset, { id: region.dataset }))
-    if (!region || !dataset || !req.ability.can('preview', subjectOf(dataset)))
-      throw new NotFoundError('region', id)
+    const { region } = await visibleRegion(req)
     const file = await em().findOne(DatasetFile, { id: region.file })
-    if (!file) throw new NotFoundError('region', id)
+    if (!file) throw new NotFoundError('region', region.id)
     const store = storeOf(file)
     const key = MeasurementCache.key(region.id, region.geometry, query, store.mtimeMs)
     const kept = cache.get(key)
@@ -100,16 +91,8 @@ export function regionMeasurementsRouter(
     }
   })
 
-  async function tableOf(req: Request, action: 'preview' | 'annotate') {
-    const { id, fileId } = parseParams(fileParams, req)
-    const dataset = await datasetFor(req, em(), id, action)
-    const file = await em().findOne(DatasetFile, { id: fileId, dataset: dataset.id })
-    if (!file || file.kind !== 'localization_table') throw new NotFoundError('table', fileId)
-    return { dataset, file }
-  }
-
   router.get('/datasets/:id/files/:fileId/regions/export', async (req, res) => {
-    const { dataset, file } = await tableOf(req, 'preview')
+    const { dataset, file } = await tableFor(req, 'preview')
     const { format } = parseQuery(exportQuery, req)
     const items = (await listRegions(em(), req, dataset, file.id)).map((r) => ({
       label: r.label,
@@ -134,7 +117,7 @@ export function regionMeasurementsRouter(
   })
 
   router.post('/datasets/:id/files/:fileId/regions/import', requireUser, async (req, res) => {
-    const { dataset, file } = await tableOf(req, 'annotate')
+    const { dataset, file } = await tableFor(req, 'annotate')
     const body = parseBody(importBody, req)
     let parsed: ExchangeImport
     try {

@@ -1,22 +1,16 @@
 import { Router, type Request } from 'express'
-import { z } from 'zod'
-import { idSchema } from '@shared/schemas/common.schema'
 import { createRegionSchema, patchRegionSchema } from '@shared/schemas/region.schema'
-import { ForbiddenError, NotFoundError } from '../../errors/http-error'
+import { ForbiddenError } from '../../errors/http-error'
 import { requireUser } from '../../http/authenticate'
 import { requestEm as em } from '../../http/request-context'
 import { parseBody, parseParams } from '../../http/validate'
 import type { AppDeps } from '../../services'
 import { datasetFor, datasetParams, subjectOf } from '../datasets/dataset-access'
-import { Dataset } from '../datasets/dataset.entity'
 import { DatasetFile, type IDatasetFile } from '../files/dataset-file.entity'
 import { previewTableOf } from '../preview/preview-tables'
-import { Region } from './region.entity'
+import { tableFor, visibleRegion } from './region-access'
 import { maySupervise } from './region-rules'
 import { listRegions, type RegionsService } from './regions.service'
-
-const fileParams = datasetParams.extend({ fileId: idSchema })
-const regionParams = z.object({ id: idSchema })
 
 /**
  * Regions of interest: reading follows the preview right, drawing the annotate right; changing
@@ -25,14 +19,6 @@ const regionParams = z.object({ id: idSchema })
 export function regionsRouter(deps: Pick<AppDeps, 'previews'>, regions: RegionsService): Router {
   const router = Router()
 
-  async function tableOf(req: Request, action: 'preview' | 'annotate') {
-    const { id, fileId } = parseParams(fileParams, req)
-    const dataset = await datasetFor(req, em(), id, action)
-    const file = await em().findOne(DatasetFile, { id: fileId, dataset: dataset.id })
-    if (!file || file.kind !== 'localization_table') throw new NotFoundError('table', fileId)
-    return { dataset, file }
-  }
-
   /** The table's localization bounds in nm (409 while it has not been read). */
   const boundsOf = async (file: IDatasetFile) => {
     if (!deps.previews) throw new Error('createApp makes the preview service')
@@ -40,12 +26,12 @@ export function regionsRouter(deps: Pick<AppDeps, 'previews'>, regions: RegionsS
   }
 
   router.get('/datasets/:id/files/:fileId/regions', async (req, res) => {
-    const { dataset, file } = await tableOf(req, 'preview')
+    const { dataset, file } = await tableFor(req, 'preview')
     res.json({ items: await listRegions(em(), req, dataset, file.id) })
   })
 
   router.post('/datasets/:id/files/:fileId/regions', requireUser, async (req, res) => {
-    const { dataset, file } = await tableOf(req, 'annotate')
+    const { dataset, file } = await tableFor(req, 'annotate')
     const input = parseBody(createRegionSchema, req)
     const region = await regions.create(em(), req, dataset, file.id, await boundsOf(file), input)
     res.status(201).location(`/api/regions/${region.id}`).json(region)
@@ -58,11 +44,7 @@ export function regionsRouter(deps: Pick<AppDeps, 'previews'>, regions: RegionsS
 
   /** A region someone may change: 404 unless they may see it, 403 unless theirs to change. */
   async function changeable(req: Request) {
-    const { id } = parseParams(regionParams, req)
-    const region = await em().findOne(Region, { id })
-    const dataset = region && (await em().findOne(Dataset, { id: region.dataset }))
-    if (!region || !dataset || !req.ability.can('preview', subjectOf(dataset)))
-      throw new NotFoundError('region', id)
+    const { region, dataset } = await visibleRegion(req)
     if (!req.ability.can('annotate', subjectOf(dataset)))
       throw new ForbiddenError(`Regions on ${dataset.accession} cannot be changed now.`)
     if (!maySupervise(req.viewer, dataset.project, region.author))
