@@ -33,7 +33,7 @@ import { instrumentProfilesRouter } from './modules/metadata/instrument-profiles
 import { metadataRouter } from './modules/metadata/metadata.routes'
 import { buildOpenApiDocument } from './openapi/document'
 import type { AppConfig } from './config'
-import type { AppDeps } from './services'
+import { clockOf, type AppDeps } from './services'
 import { LocalStorage } from './storage/local-storage'
 import { PreviewService } from './modules/preview/preview.service'
 import { PreviewTables } from './modules/preview/preview-tables'
@@ -134,7 +134,7 @@ export function createApp(appOptions: CreateAppOptions): Express {
   }
   const acceptedTokens = new AcceptedTokens()
   app.use(failedTokenLimit(config.rateLimitSignIn, acceptedTokens))
-  app.use(authenticate(accessVersion, acceptedTokens))
+  app.use(authenticate(accessVersion, acceptedTokens, clockOf(options)))
   app.use(reviewerLinkAccess(options))
   app.use(sameOriginWrites(new URL(config.publicUrl).origin))
 

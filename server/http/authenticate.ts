@@ -140,6 +140,8 @@ export class AcceptedTokens {
 export function authenticate(
   accessVersion: AccessVersionReader,
   accepted = new AcceptedTokens(),
+  /** Token expiry and embargo ends are judged by this clock (tests inject theirs). */
+  clock: () => Date = () => new Date(),
 ): RequestHandler {
   const cache = new VersionedCache<Identity | null>(5000)
   const publicAbility = { second: -1, value: defineAbilityFor(null) }
@@ -221,7 +223,7 @@ export function authenticate(
 
   // Most requests are answered from the cache; they stay synchronous (no promise, no extra turn).
   return (req, _res, next) => {
-    const now = Date.now()
+    const now = clock().getTime()
     const version = accessVersion.readNow()
     const cached = version === null ? undefined : fromCache(req, version, now)
     if (cached) {

@@ -16,6 +16,8 @@ export const DOI_STATUS_LABELS: Record<DoiStatus, string> = {
 
 export const versionFileSchema = z
   .object({
+    /** Addresses the frozen file: `…/versions/:n/files/:id/content`. */
+    id: z.number().int(),
     name: z.string(),
     size: z.number(),
     sha256: z.string(),
@@ -55,6 +57,9 @@ export const datasetVersionListSchema = z
 export const versionParamsSchema = z.object({
   id: z.string().min(1).max(40),
   n: z.coerce.number().int().positive(),
+})
+export const versionFileParamsSchema = versionParamsSchema.extend({
+  fileId: z.coerce.number().int().positive(),
 })
 
 export const versionLabel = (accession: string, n: number) => `${accession}.v${n}`

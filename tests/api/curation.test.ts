@@ -290,6 +290,23 @@ describe('versions', () => {
     expect(closedOne.status).toBe(200)
     expect(closedOne.body.files).toBeNull()
     expect(closedOne.body.fileCount).toBe(1)
+    // The frozen bytes stay downloadable after the draft drops its copy: public only when open.
+    const frozen = openList.body.items[0].files[0]
+    await as('depositor').delete(`/api/datasets/${open.id}/files/${open.file.id}`).expect(204)
+    const bytes = await request(t.app).get(
+      `/api/datasets/${open.id}/versions/1/files/${frozen.id}/content`,
+    )
+    expect(bytes.status).toBe(200)
+    expect(String(bytes.body)).toBe('table of Public then revised')
+    const closedFile = (await as('depositor').get(`/api/datasets/${closed.id}/versions/1`)).body
+      .files[0]
+    expect(
+      (
+        await request(t.app).get(
+          `/api/datasets/${closed.id}/versions/1/files/${closedFile.id}/content`,
+        )
+      ).status,
+    ).toBe(404)
 
     // A draft that was never approved has no public versions at all.
     const never = await draft('Never approved')

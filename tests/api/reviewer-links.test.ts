@@ -7,17 +7,21 @@
 import request from 'supertest'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { AuditEvent } from '@server/modules/audit/audit-event.entity'
+import { DatasetMetadata } from '@server/modules/metadata/dataset-metadata.entity'
 import { ReviewerLink } from '@server/modules/reviewer-links/reviewer-link.entity'
 import type { IUser } from '@server/modules/users/user.entity'
+import { LocalStorage } from '@server/storage/local-storage'
 import {
   bearer,
   buildDataset,
   buildMember,
   buildOrganization,
   buildProject,
+  buildReadyFile,
   buildUser,
   tokenFor,
 } from '../fixtures/builders'
+import { completeMetadata } from '../fixtures/metadata'
 import { createTestApp, type TestApp } from '../fixtures/test-app'
 
 const DAY = 86_400_000
@@ -269,5 +273,95 @@ describe('an anonymous link', () => {
       .get(`/api/datasets/${dataset.accession}/metadata`)
       .set('Cookie', cookie!)
     expect(metadata.body.metadata.study.authors[0].name).toBe('Avery Tester')
+  })
+})
+
+describe('a link to one version', () => {
+  it('keeps showing the version it was made for once the next version is a draft', async () => {
+    const em = t.em()
+    const storage = new LocalStorage(t.config.dataDir)
+    const steward = await buildUser(em, { siteRole: 'steward' })
+    const stewardToken = await tokenFor(em, steward)
+    const d = await buildDataset(em, projectId, {
+      title: 'Synaptic vesicles, v1 under review',
+      createdBy: owner.id,
+      complete: false,
+    })
+    em.create(DatasetMetadata, { dataset: d.id, document: completeMetadata() })
+    await em.flush()
+    const original = await buildReadyFile(em, d.id, {
+      name: 'locs.csv',
+      content: 'frame,x,y\n1,10,20\n',
+      storage,
+    })
+    const asOwner = (r: request.Test) => r.set(bearer(ownerToken))
+    await asOwner(request(t.app).post(`/api/datasets/${d.id}/submit`)).expect(200)
+    await request(t.app)
+      .post(`/api/datasets/${d.id}/review`)
+      .set(bearer(stewardToken))
+      .send({
+        decision: 'approve',
+        checklist: {
+          completeness: true,
+          quality: true,
+          licence: true,
+          ethics: true,
+          embargo: true,
+        },
+        embargoUntil: inDays(120).slice(0, 10),
+      })
+      .expect((r) => expect(r.body).toMatchObject({ state: 'approved' }))
+    const made = await makeLink(d.accession, { expiresAt: inDays(30), anonymous: false })
+    expect(made.status).toBe(201)
+
+    // The depositors move on: version 2 drops the reviewed file and adds another.
+    await asOwner(request(t.app).post(`/api/datasets/${d.id}/versions`)).expect(201)
+    await asOwner(request(t.app).delete(`/api/datasets/${d.id}/files/${original.id}`)).expect(204)
+    await buildReadyFile(t.em(), d.id, { name: 'not-reviewed.csv', content: 'new', storage })
+
+    const { res, cookie } = await open(made.body.url)
+    expect(res.status).toBe(303)
+    expect(res.headers.location).toBe(`/d/${d.accession}/v/1`)
+    const get = (path: string, withCookie = true) => {
+      const r = request(t.app).get(path)
+      return withCookie ? r.set('Cookie', cookie!) : r
+    }
+    const base = `/api/datasets/${d.accession}`
+    // The working draft of version 2 is not what the link opened.
+    expect((await get(base)).status).toBe(404)
+    expect((await get(`${base}/files`)).status).toBe(404)
+    const versions = await get(`${base}/versions`)
+    expect(versions.body.items.map((v: { number: number }) => v.number)).toEqual([1])
+    const v1 = await get(`${base}/versions/1`)
+    expect(v1.body.files).toEqual([
+      { id: expect.any(Number), name: 'locs.csv', size: 18, sha256: original.sha256 },
+    ])
+    const content = await get(`${base}/versions/1/files/${v1.body.files[0].id}/content`)
+    expect(content.status).toBe(200)
+    expect(String(content.body)).toBe('frame,x,y\n1,10,20\n')
+    expect(content.headers['content-digest']).toBe(
+      `sha-256=:${Buffer.from(original.sha256!, 'hex').toString('base64')}:`,
+    )
+    const used = await t.em().find(AuditEvent, {
+      action: 'reviewer_link.use',
+      targetId: d.accession,
+    })
+    expect(used.map((e) => (e.details as { download?: string }).download)).toContain(
+      `${d.accession}.v1/locs.csv`,
+    )
+    // Under embargo, the same routes without the link show no files.
+    expect((await get(`${base}/versions/1`, false)).body.files).toBeNull()
+    expect(
+      (await get(`${base}/versions/1/files/${v1.body.files[0].id}/content`, false)).status,
+    ).toBe(404)
+    // The landing page of version 1 lists its files for the reviewer only, and is not cached.
+    const page = await get(`/d/${d.accession}/v/1`)
+    expect(page.status).toBe(200)
+    expect(page.headers['cache-control']).toBe('private, no-store')
+    expect(page.text).toContain(`/versions/1/files/${v1.body.files[0].id}/content`)
+    expect(page.text).not.toContain('not-reviewed.csv')
+    const publicPage = await get(`/d/${d.accession}/v/1`, false)
+    expect(publicPage.text).not.toContain('locs.csv')
+    expect(publicPage.text).toContain('under embargo')
   })
 })

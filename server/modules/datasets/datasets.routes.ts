@@ -11,7 +11,7 @@ import {
 import { requireUser } from '../../http/authenticate'
 import { requestEm as em } from '../../http/request-context'
 import { parseBody, parseParams, parseQuery } from '../../http/validate'
-import type { AppDeps } from '../../services'
+import { clockOf, type AppDeps } from '../../services'
 import { filesRouter } from '../files/files.routes'
 import { datasetMetadataRouter } from '../metadata/metadata.routes'
 import { previewRouter } from '../preview/preview.routes'
@@ -33,6 +33,8 @@ import { anonymiseDataset } from '../reviewer-links/anonymise'
 const shareParams = datasetParams.extend({ shareId: idSchema })
 
 export function datasetsRouter(deps: AppDeps): Router {
+  // Embargo ends and curation steps are judged by the app's clock (tests inject theirs).
+  const now = clockOf(deps)
   const router = Router()
   const catalogue = new DatasetCatalogue(listReader(deps.reads ?? new ReadConnection(deps.orm)))
   const target = (
@@ -75,19 +77,26 @@ export function datasetsRouter(deps: AppDeps): Router {
   })
 
   router.post('/:id/submit', requireUser, async (req, res) => {
-    res.json(await submitDataset(em(), req, deps, await target(req, 'submit')))
+    res.json(await submitDataset(em(), req, deps, await target(req, 'submit'), now()))
   })
 
   router.post('/:id/review', requireUser, async (req, res) => {
     const dataset = await target(req, 'curate')
-    await reviewDataset(em(), req, deps, dataset, parseBody(reviewDatasetSchema, req))
+    await reviewDataset(em(), req, deps, dataset, parseBody(reviewDatasetSchema, req), now())
     res.json(await toDatasetPageDto(em(), dataset))
   })
 
   router.put('/:id/embargo', requireUser, async (req, res) => {
     const dataset = await target(req, 'embargo')
     res.json(
-      await setEmbargo(em(), req, dataset, parseBody(setEmbargoSchema, req), deps.config.embargo),
+      await setEmbargo(
+        em(),
+        req,
+        dataset,
+        parseBody(setEmbargoSchema, req),
+        deps.config.embargo,
+        now(),
+      ),
     )
   })
 

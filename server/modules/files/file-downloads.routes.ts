@@ -9,10 +9,9 @@ import { audit } from '../audit/audit.service'
 import { datasetFor, datasetParams } from '../datasets/dataset-access'
 import { DatasetFile } from './dataset-file.entity'
 import { derivedPaths } from './file-jobs'
+import { attachment, sendStoredFile } from './send-stored-file'
 
 const fileParams = datasetParams.extend({ fileId: idSchema })
-const attachment = (name: string) =>
-  `attachment; filename="${name.replace(/[^\x20-\x7e]|["\\]/g, '_')}"; filename*=UTF-8''${encodeURIComponent(name)}`
 
 /**
  * Downloads: one file with Range requests, a strong ETag and RFC 9530 digests (Repr-Digest on
@@ -27,45 +26,24 @@ export function fileDownloadsRouter(storage: LocalStorage): Router {
     const dataset = await datasetFor(req, em(), id, 'download')
     const file = await em().findOne(DatasetFile, { id: fileId, dataset: dataset.id })
     if (!file || !file.sha256) throw new NotFoundError('file', fileId)
-    const digest = `sha-256=:${Buffer.from(file.sha256, 'hex').toString('base64')}:`
-    const range = req.get('range')
-    res.set({
-      ETag: `"${file.sha256}"`,
-      'Repr-Digest': digest,
-      'Content-Disposition': attachment(file.name),
-      'Cache-Control': 'private, no-cache',
-    })
-    if (!range) res.set('Content-Digest', digest)
-    const startsDownload = !range || /^bytes=0-/.test(range.trim())
-    if (startsDownload && req.get('if-none-match') !== `"${file.sha256}"`) {
-      audit(em(), req, {
-        action: 'file.download',
-        targetType: 'Dataset',
-        targetId: dataset.accession,
-        details: { file: file.name, range: range ?? null },
-      })
-      await em().flush()
-    }
-    res.type(file.mediaType ?? 'application/octet-stream')
-    res.sendFile(
-      storage.originalPath(file.storageKey),
+    await sendStoredFile(
+      req,
+      res,
+      next,
       {
-        etag: false,
-        lastModified: false,
-        cacheControl: false,
-        acceptRanges: true,
-        dotfiles: 'allow',
+        path: storage.originalPath(file.storageKey),
+        name: file.name,
+        sha256: file.sha256,
+        mediaType: file.mediaType,
       },
-      (err) => {
-        if (!err || res.headersSent) return
-        const failure = err as Error & { status?: number; headers?: Record<string, string> }
-        // An unsatisfiable range is the client's mistake: 416 with the size, as RFC 9110 15.5.17 asks.
-        if (failure.status === 416)
-          return void res
-            .status(416)
-            .set(failure.headers ?? {})
-            .end()
-        next(err)
+      async () => {
+        audit(em(), req, {
+          action: 'file.download',
+          targetType: 'Dataset',
+          targetId: dataset.accession,
+          details: { file: file.name, range: req.get('range') ?? null },
+        })
+        await em().flush()
       },
     )
   })

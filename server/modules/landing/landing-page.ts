@@ -155,7 +155,7 @@ function versionsSection(view: LandingView): SafeHtml {
 }
 
 function filesSection(view: LandingView): SafeHtml {
-  if (view.kind === 'embargoed') {
+  if (view.kind === 'embargoed' && !view.forReviewer) {
     return html`<section class="card notice" id="files">
       <h2>Files</h2>
       <p>
@@ -168,6 +168,14 @@ function filesSection(view: LandingView): SafeHtml {
   const files = view.subject.files
   return html`<section class="card" id="files">
     <h2>Files</h2>
+    ${
+      view.forReviewer
+        ? html`<p class="muted">
+            Open to you through a reviewer link for version ${view.version.number}: these are its
+            files exactly as they were approved.
+          </p>`
+        : ''
+    }
     ${
       files.length
         ? html`<table>

@@ -14,7 +14,7 @@ export interface LandingVersion {
     description: string
     licence: string
     metadata: DatasetMetadata
-    files: { name: string; size: number; sha256: string }[]
+    files: { id: number; name: string; size: number; sha256: string }[]
   } | null
 }
 

@@ -2,6 +2,7 @@ import { Router, type Request, type Response } from 'express'
 import { z } from 'zod'
 import { requestEm as em } from '../../http/request-context'
 import type { AppDeps } from '../../services'
+import { reviewedVersion } from '../reviewer-links/reviewer-access'
 import { landingPage, notFoundPage } from './landing-page'
 import { landingView, type LandingView } from './landing.service'
 
@@ -38,10 +39,17 @@ export function landingRouter(deps: LandingDeps): Router {
     const parsed = params.safeParse(req.params)
     if (!parsed.success) return null
     const n = parsed.data.n === undefined ? null : Number(parsed.data.n)
-    return landingView(em(), deps.config.publicUrl, parsed.data.accession, n, now())
+    return landingView(em(), deps.config.publicUrl, parsed.data.accession, n, now(), (id) =>
+      reviewedVersion(req, id),
+    )
   }
   const page = (res: Response, view: LandingView | null) =>
-    view ? res.type('html').set('cache-control', 'no-cache').send(landingPage(view)) : notFound(res)
+    view
+      ? res
+          .type('html')
+          .set('cache-control', view.forReviewer ? 'private, no-store' : 'no-cache')
+          .send(landingPage(view))
+      : notFound(res)
 
   router.get('/:accession', async (req, res) => page(res, await viewOf(req)))
   router.get('/:accession/v/:n', async (req, res) => page(res, await viewOf(req)))

@@ -32,6 +32,8 @@ export interface LandingView {
   jsonLd: Record<string, unknown> | null
   quality: DatasetQualityItem[]
   withdrawal: { reason: string; at: string } | null
+  /** Files shown to this visitor only, through a reviewer link: the page is not for caches. */
+  forReviewer: boolean
 }
 
 const day = (d: Date) => d.toISOString().slice(0, 10)
@@ -47,6 +49,8 @@ export async function landingView(
   accession: string,
   versionNumber: number | null,
   now: Date,
+  /** The version a reviewer link held by this visitor opens on a dataset (files shown), if any. */
+  reviewedVersion: (datasetId: number) => number | null = () => null,
 ): Promise<LandingView | null> {
   const dataset = await findDataset(em, accession)
   if (!dataset || /^\d+$/.test(accession)) return null
@@ -65,8 +69,10 @@ export async function landingView(
   const urlOf = (n?: number) => `${publicUrl}${landingPath(dataset.accession, n)}`
   const pageUrl = urlOf(versionNumber === null ? undefined : version.number)
   const loaded = await exportSubject(em, dataset, publicUrl)
-  // Files are part of the page only when the public may download them.
-  const filesOpen = kind === 'open' && publicAbility.can('download', standing)
+  // Files are part of the page only when the public may download them, or for the reviewer
+  // holding a link to this very version.
+  const reviewing = kind !== 'withdrawn' && reviewedVersion(dataset.id) === version.number
+  const filesOpen = (kind === 'open' && publicAbility.can('download', standing)) || reviewing
   const subject: DatasetExportSubject = {
     ...loaded,
     ...(version.frozen
@@ -75,7 +81,9 @@ export async function landingView(
           description: version.frozen.description,
           licence: version.frozen.licence,
           metadata: version.frozen.metadata,
-          files: frozenFiles(version.frozen.files, loaded.files),
+          files: frozenFiles(version.frozen.files, loaded.files, (id) =>
+            versionFileUrl(publicUrl, dataset.accession, version.number, id),
+          ),
         }
       : {}),
     landingUrl: urlOf(version.number),
@@ -120,6 +128,7 @@ export async function landingView(
     withdrawal: withdrawal
       ? { reason: withdrawal.comment || 'No reason was recorded.', at: withdrawal.at.slice(0, 10) }
       : null,
+    forReviewer: reviewing && !(kind === 'open' && publicAbility.can('download', standing)),
   }
 }
 
@@ -131,18 +140,23 @@ function jsonLdOf(subject: DatasetExportSubject, doi: string | null, now: Date) 
   return { ...ld, identifier: [doiUrl, ...ld.identifier], sameAs: doiUrl }
 }
 
+const versionFileUrl = (publicUrl: string, accession: string, n: number, fileId: number) =>
+  `${publicUrl}/api/datasets/${accession}/versions/${n}/files/${fileId}/content`
+
 /**
- * A version's frozen file list, each linked to the stored file with the same name and checksum
- * (the bytes are shared between versions by checksum); a file no longer stored has no link.
+ * A version's frozen file list, each linked to its frozen bytes (kept by checksum, whatever
+ * later drafts do to the dataset's own files).
  */
 function frozenFiles(
-  files: { name: string; size: number; sha256: string }[],
+  files: { id: number; name: string; size: number; sha256: string }[],
   current: DatasetExportSubject['files'],
+  urlOf: (fileId: number) => string,
 ): DatasetExportSubject['files'] {
-  return files.map((f) => {
-    const stored = current.find((c) => c.sha256 === f.sha256 && c.name === f.name)
-    return { ...f, mediaType: stored?.mediaType ?? null, url: stored?.url ?? '' }
-  })
+  return files.map(({ id, ...f }) => ({
+    ...f,
+    mediaType: current.find((c) => c.sha256 === f.sha256)?.mediaType ?? null,
+    url: urlOf(id),
+  }))
 }
 
 /** A sentence a manuscript's data availability statement can take as it is. */

@@ -4,7 +4,7 @@ import { requestEm } from '../../http/request-context'
 import { clockOf, type AppDeps } from '../../services'
 import { audit } from '../audit/audit.service'
 import { subjectOf, type DatasetFacts } from '../datasets/dataset-access'
-import { liveLinksAmong } from './reviewer-links.service'
+import { liveLinksAmong, type LiveLink } from './reviewer-links.service'
 import { signLinkIds, verifyLinkIds } from './reviewer-link-token'
 
 /** The cookie that carries the opened links' ids (signed) from /r/:token to the data routes. */
@@ -15,7 +15,7 @@ export const REVIEW_COOKIE_MS = 8 * 3600_000
 const MAX_LINKS_PER_BROWSER = 20
 
 interface Reviewing {
-  links: { id: number; dataset: number; accession: string; anonymous: boolean }[]
+  links: LiveLink[]
   /** The abilities the person has without any link (to tell when anonymity applies). */
   own: AppAbility
 }
@@ -71,13 +71,17 @@ export function reviewerLinkAccess(deps: AppDeps): RequestHandler {
       const links = await liveLinksAmong(requestEm(), ids, at)
       if (!links.length) return next()
       reviewing.set(req, { links, own: req.ability })
-      req.ability = defineAbilityFor(
-        req.viewer,
-        at,
-        links.map((l) => l.dataset),
-      )
+      // The dataset's own routes show its working state: only links made for that version open
+      // them. A pinned link reads its frozen version through the versions routes.
+      const current = links.filter((l) => !l.pinned)
+      if (current.length)
+        req.ability = defineAbilityFor(
+          req.viewer,
+          at,
+          current.map((l) => l.dataset),
+        )
       const download = DOWNLOAD_PATH.exec(req.path)
-      const link = download && linkFor(links, download[1]!)
+      const link = download && linkFor(current, download[1]!)
       if (link) auditUseOnSuccess(deps, req, res, link, download[2]!)
       next()
     })()
@@ -112,7 +116,28 @@ function auditUseOnSuccess(
 
 /** The datasets this request reaches through live reviewer links (for the client's abilities). */
 export const reviewedDatasets = (req: Request): number[] =>
-  reviewing.get(req)?.links.map((l) => l.dataset) ?? []
+  reviewing.get(req)?.links.flatMap((l) => (l.pinned ? [] : [l.dataset])) ?? []
+
+/**
+ * The version a live reviewer link of this request opens on the dataset (the newest such link's),
+ * or null without one.
+ */
+export function reviewedVersion(req: Request, datasetId: number): number | null {
+  const links = reviewing.get(req)?.links.filter((l) => l.dataset === datasetId) ?? []
+  return links.length ? Math.max(...links.map((l) => l.version)) : null
+}
+
+/** Audits a download of a frozen version's file made through a reviewer link, once it succeeds. */
+export function auditReviewedDownload(
+  deps: AppDeps,
+  req: Request,
+  res: Response,
+  datasetId: number,
+  what: string,
+) {
+  const link = reviewing.get(req)?.links.find((l) => l.dataset === datasetId)
+  if (link) auditUseOnSuccess(deps, req, res, link, what)
+}
 
 /**
  * True when this request sees the dataset only through an anonymous reviewer link: depositor

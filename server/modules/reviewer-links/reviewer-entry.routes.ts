@@ -68,7 +68,14 @@ export function reviewerEntryRouter(deps: AppDeps): Router {
     await em().flush()
     const opened = openedLinkIds(req, deps.config.sessionSecrets).filter((id) => id !== link.id)
     setOpenedLinks(req, res, deps, [...opened, link.id])
-    res.redirect(303, `/datasets/${dataset.accession}?review=1`)
+    // A later version has been opened since the link was made: the linked version is frozen and
+    // shown on its own page, not the dataset's working draft.
+    res.redirect(
+      303,
+      link.version < dataset.version
+        ? `/d/${dataset.accession}/v/${link.version}`
+        : `/datasets/${dataset.accession}?review=1`,
+    )
   })
   return router
 }

@@ -173,6 +173,21 @@ export type TokenVerdict =
   | { ok: true; link: IReviewerLink; dataset: IDataset }
   | { ok: false; reason: 'unknown' | 'expired' | 'revoked' | 'withdrawn' }
 
+/** A live link a browser holds, with the version it opens. */
+export interface LiveLink {
+  id: number
+  dataset: number
+  accession: string
+  anonymous: boolean
+  /** The version the link was made for. */
+  version: number
+  /**
+   * A later version has been opened since: the link then shows its own frozen version (the
+   * versions API and landing page), not the dataset's working draft.
+   */
+  pinned: boolean
+}
+
 /** What a presented token is worth right now. A malformed token is simply unknown. */
 export async function resolveReviewerToken(
   em: EntityManager,
@@ -186,7 +201,12 @@ export async function resolveReviewerToken(
   if (state !== 'live') return { ok: false, reason: state }
   const dataset = await em.findOne(Dataset, { id: link.dataset })
   if (!dataset) return { ok: false, reason: 'unknown' }
-  if (dataset.state === 'withdrawn' || dataset.state === 'draft')
+  // A draft of the linked version itself was sent back; a draft of a later version leaves the
+  // linked (frozen) version open to review.
+  if (
+    dataset.state === 'withdrawn' ||
+    (dataset.state === 'draft' && link.version >= dataset.version)
+  )
     return { ok: false, reason: 'withdrawn' }
   return { ok: true, link, dataset }
 }
@@ -196,7 +216,7 @@ export async function liveLinksAmong(
   em: EntityManager,
   ids: number[],
   now: Date,
-): Promise<{ id: number; dataset: number; accession: string; anonymous: boolean }[]> {
+): Promise<LiveLink[]> {
   if (!ids.length) return []
   const links = await em.find(
     ReviewerLink,
@@ -207,15 +227,22 @@ export async function liveLinksAmong(
   const datasets = await em.find(
     Dataset,
     { id: { $in: links.map((l) => l.dataset) } },
-    { fields: ['accession'], disableIdentityMap: true },
+    { fields: ['accession', 'version'], disableIdentityMap: true },
   )
-  const accession = new Map(datasets.map((d) => [d.id, d.accession]))
-  return links
-    .filter((l) => accession.has(l.dataset))
-    .map((l) => ({
-      id: l.id,
-      dataset: l.dataset,
-      accession: accession.get(l.dataset)!,
-      anonymous: l.anonymous,
-    }))
+  const byId = new Map(datasets.map((d) => [d.id, d]))
+  return links.flatMap((l) => {
+    const dataset = byId.get(l.dataset)
+    return dataset
+      ? [
+          {
+            id: l.id,
+            dataset: l.dataset,
+            accession: dataset.accession,
+            anonymous: l.anonymous,
+            version: l.version,
+            pinned: l.version < dataset.version,
+          },
+        ]
+      : []
+  })
 }

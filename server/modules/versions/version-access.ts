@@ -2,6 +2,7 @@ import type { Request } from 'express'
 import { datasetSubject } from '@shared/permissions/abilities'
 import { ForbiddenError, NotFoundError } from '../../errors/http-error'
 import type { IDataset } from '../datasets/dataset.entity'
+import { reviewedVersion } from '../reviewer-links/reviewer-access'
 
 const REVISING_STATES: readonly IDataset['state'][] = ['draft', 'submitted', 'changes_requested']
 
@@ -16,16 +17,27 @@ export function asReleased(dataset: IDataset) {
 }
 
 /**
- * Whether this person may read the dataset's versions (404 otherwise, as for the dataset), and
- * whether the frozen file lists are open to them (the preview right, as for files and previews).
+ * Whether this person may read the dataset's versions (404 otherwise, as for the dataset), whether
+ * the frozen file lists are open to them (the preview right, as for files and previews) and
+ * whether they may download the frozen files. A reviewer link opens the one version it was made
+ * for, lists and downloads included, even when the dataset has moved on to a later draft;
+ * `onlyVersion` is set when that link is the reader's only way in.
  */
-export function versionAccess(req: Request, dataset: IDataset) {
+export function versionAccess(req: Request, dataset: IDataset, number?: number) {
   const actual = datasetSubject(dataset)
   const released = asReleased(dataset)
-  const can = (action: 'read' | 'preview') =>
+  const can = (action: 'read' | 'preview' | 'download') =>
     req.ability.can(action, actual) || req.ability.can(action, released)
-  if (!can('read')) throw new NotFoundError('dataset', dataset.accession)
-  return { filesOpen: can('preview') }
+  const reviewed = reviewedVersion(req, dataset.id)
+  const readable = can('read')
+  if (!readable && (reviewed === null || (number !== undefined && number !== reviewed)))
+    throw new NotFoundError('dataset', dataset.accession)
+  const theLinkedOne = reviewed !== null && (number === undefined || number === reviewed)
+  return {
+    filesOpen: can('preview') || theLinkedOne,
+    download: can('download') || theLinkedOne,
+    onlyVersion: readable ? null : reviewed,
+  }
 }
 
 /** Starting a new version is for those who may edit the dataset as a draft: its depositors. */

@@ -77,4 +77,24 @@ export function registerVersionPaths(registry: OpenAPIRegistry) {
     response: workQueueSchema,
     errors: [401, 403],
   })
+  registry.registerPath({
+    method: 'get',
+    path: '/api/datasets/{idOrAccession}/versions/{n}/files/{fileId}/content',
+    summary:
+      'The bytes of a file as frozen in a version (download right, or a reviewer link to it)',
+    description:
+      'Served from the blob its checksum names, so a version stays downloadable whatever later drafts do. Range requests, strong ETag, Repr-Digest and Content-Digest (RFC 9530) as for the dataset’s own files.',
+    tags: ['Versions'],
+    security: [{ session: [] }, { bearer: [] }],
+    request: { params: version.extend({ fileId: z.number().int() }) },
+    responses: {
+      200: {
+        description: 'The file',
+        content: { 'application/octet-stream': { schema: z.string() } },
+      },
+      206: { description: 'The requested range' },
+      403: { description: 'Not allowed to download' },
+      404: { description: 'Not found, or not visible to you' },
+    },
+  })
 }

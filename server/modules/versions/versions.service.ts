@@ -107,7 +107,7 @@ async function toVersionDtos(
   return versions.map((v) => {
     const own: VersionFileDto[] = files
       .filter((f) => f.version === v.id)
-      .map((f) => ({ name: f.name, size: f.size, sha256: f.sha256 }))
+      .map((f) => ({ id: f.id, name: f.name, size: f.size, sha256: f.sha256 }))
     return {
       number: v.number,
       label: v.label,
