@@ -38,7 +38,13 @@ export async function sendStoredFile(
   res.type(file.mediaType ?? 'application/octet-stream')
   res.sendFile(
     file.path,
-    { etag: false, lastModified: false, cacheControl: false, acceptRanges: true, dotfiles: 'allow' },
+    {
+      etag: false,
+      lastModified: false,
+      cacheControl: false,
+      acceptRanges: true,
+      dotfiles: 'allow',
+    },
     (err) => {
       if (!err || res.headersSent) return
       const failure = err as Error & { status?: number; headers?: Record<string, string> }
