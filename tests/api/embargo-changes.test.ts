@@ -6,7 +6,14 @@ import request from 'supertest'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { AuditEvent } from '@server/modules/audit/audit-event.entity'
 import { embargoEnd } from '@server/modules/datasets/dataset-lifecycle.service'
-import { bearer, buildDataset, buildProject, buildUser, tokenFor } from '../fixtures/builders'
+import {
+  bearer,
+  buildDataset,
+  buildMember,
+  buildProject,
+  buildUser,
+  tokenFor,
+} from '../fixtures/builders'
 import { createTestApp, type TestApp } from '../fixtures/test-app'
 
 let t: TestApp
@@ -53,6 +60,43 @@ describe('changing an embargo', () => {
         to: `${inDays(300)}T00:00:00.000Z`,
       },
     ])
+  })
+
+  it('lifting a running embargo releases the dataset now: one release entry and the notice mail', async () => {
+    const owner = await buildMember(t.em())
+    const project = await buildProject(t.em(), [{ user: owner, role: 'owner' }])
+    const d = await buildDataset(t.em(), project.id, {
+      state: 'approved',
+      embargoUntil: new Date(`${inDays(90)}T00:00:00Z`),
+    })
+    const res = await put(d.id, { until: null, reason: 'Paper published early' })
+    expect(res.status).toBe(200)
+    expect(res.body.embargoUntil).toBeNull()
+    const released = await t
+      .em()
+      .find(AuditEvent, { action: 'dataset.release', targetId: d.accession })
+    expect(released.map((e) => e.details)).toEqual([
+      {
+        scheduledFor: `${inDays(90)}T00:00:00.000Z`,
+        lifted: true,
+        reason: 'Paper published early',
+      },
+    ])
+    const until = Date.now() + 3000
+    let mail = t.mail.messages.filter((m) => m.to.includes(owner.email))
+    while (!mail.length && Date.now() < until) {
+      await new Promise((r) => setTimeout(r, 20))
+      mail = t.mail.messages.filter((m) => m.to.includes(owner.email))
+    }
+    expect(mail.map((m) => m.subject)).toEqual([
+      `${d.accession} is now public: its embargo was lifted`,
+    ])
+    // The public reads its files now; a released dataset has no embargo left to change.
+    expect((await request(t.app).get(`/api/datasets/${d.accession}/files`)).status).toBe(200)
+    expect((await put(d.id, { until: null, reason: 'Again' })).status).toBe(403)
+    expect(
+      await t.em().count(AuditEvent, { action: 'dataset.release', targetId: d.accession }),
+    ).toBe(1)
   })
 
   it('refuses a past end, an end beyond the maximum and an empty reason with 400 problems naming the field', async () => {

@@ -11,6 +11,7 @@ import {
   curationChecks,
 } from '../curation/curation-checks'
 import { notifyDepositor, recordCurationStep } from '../curation/curation.service'
+import { releaseLiftedEmbargo } from '../embargo/embargo-schedule.service'
 import { freezeVersion } from '../versions/versions.service'
 import { User } from '../users/user.entity'
 import type { IDataset } from './dataset.entity'
@@ -169,19 +170,20 @@ export async function reviewDataset(
 
 /**
  * Set, extend, shorten or lift (until = null) the embargo; always with a reason, always audited
- * with the end before and after.
+ * with the end before and after. Lifting a running embargo on an approved dataset releases it now,
+ * with the release entry and notice a scheduled end gives.
  */
 export async function setEmbargo(
   em: EntityManager,
   actor: Actor,
+  deps: Notify,
   dataset: IDataset,
   input: SetEmbargoBody,
-  policy: { maxYears: number },
   now = new Date(),
 ) {
   const { until, reason } = input
   const previous = dataset.embargoUntil
-  dataset.embargoUntil = embargoEnd(until, '#/until', now, policy.maxYears)
+  dataset.embargoUntil = embargoEnd(until, '#/until', now, deps.config.embargo.maxYears)
   audit(em, actor, {
     action: 'dataset.embargo',
     targetType: 'Dataset',
@@ -193,5 +195,8 @@ export async function setEmbargo(
     },
   })
   await em.flush()
+  const lifted = !dataset.embargoUntil && previous && previous > now
+  if (lifted && dataset.state === 'approved')
+    await releaseLiftedEmbargo(em, deps, dataset, { end: previous, reason }, now)
   return toDatasetDto(em, dataset)
 }

@@ -88,16 +88,7 @@ export function datasetsRouter(deps: AppDeps): Router {
 
   router.put('/:id/embargo', requireUser, async (req, res) => {
     const dataset = await target(req, 'embargo')
-    res.json(
-      await setEmbargo(
-        em(),
-        req,
-        dataset,
-        parseBody(setEmbargoSchema, req),
-        deps.config.embargo,
-        now(),
-      ),
-    )
+    res.json(await setEmbargo(em(), req, deps, dataset, parseBody(setEmbargoSchema, req), now()))
   })
 
   router.get('/:id/shares', requireUser, async (req, res) => {

@@ -51,21 +51,21 @@ async function claim(
   dataset: IDataset,
   kind: EmbargoNoticeKind,
   now: Date,
+  lifted: { end: Date; reason: string } | null = null,
 ): Promise<boolean> {
+  const end = lifted?.end ?? dataset.embargoUntil!
   try {
     await em.transactional(async (tem) => {
-      tem.create(EmbargoNotice, {
-        dataset: dataset.id,
-        kind,
-        embargoUntil: dataset.embargoUntil!,
-        doneAt: now,
-      })
+      tem.create(EmbargoNotice, { dataset: dataset.id, kind, embargoUntil: end, doneAt: now })
       if (kind === 'release') {
         audit(tem, null, {
           action: 'dataset.release',
           targetType: 'Dataset',
           targetId: dataset.accession,
-          details: { scheduledFor: dataset.embargoUntil!.toISOString() },
+          details: {
+            scheduledFor: end.toISOString(),
+            ...(lifted ? { lifted: true, reason: lifted.reason } : {}),
+          },
           at: now,
         })
         // Touching the row raises the access version, so cached lists and pages read afresh.
@@ -135,16 +135,38 @@ export async function runEmbargoSchedule(
   return result
 }
 
+/**
+ * A steward lifted an approved dataset's running embargo: it is public from now, so it gets the
+ * release a scheduled end would have given (one `dataset.release` entry, the notice mail), once
+ * per lifted end. The scheduler never sees it, as the dataset no longer has an end.
+ */
+export async function releaseLiftedEmbargo(
+  em: EntityManager,
+  deps: EmbargoScheduleDeps,
+  dataset: IDataset,
+  lifted: { end: Date; reason: string },
+  now: Date,
+): Promise<boolean> {
+  if (!(await claim(em, dataset, 'release', now, lifted))) return false
+  await notify(em, deps, dataset, 'release', lifted.end)
+  return true
+}
+
 async function notify(
   em: EntityManager,
   deps: EmbargoScheduleDeps,
   dataset: IDataset,
   kind: EmbargoNoticeKind,
+  liftedEnd: Date | null = null,
 ) {
-  const end = formatEmbargoEnd(dataset.embargoUntil!)
+  const end = formatEmbargoEnd(liftedEnd ?? dataset.embargoUntil!)
   const link = `${deps.config.publicUrl}/datasets/${dataset.accession}`
-  const mail =
-    kind === 'release'
+  const mail = liftedEnd
+    ? {
+        subject: `${dataset.accession} is now public: its embargo was lifted`,
+        text: `A data steward lifted the embargo on ${dataset.accession} "${dataset.title}", which was to end on ${end}. Its files are now public.\n\n${link}\n`,
+      }
+    : kind === 'release'
       ? {
           subject: `${dataset.accession} is now public: its embargo ended`,
           text: `The embargo on ${dataset.accession} "${dataset.title}" ended on ${end}. Its files are now public.\n\n${link}\n`,
