@@ -7,6 +7,8 @@ import { localizationsToCsv } from '../compute/simulate/table-text'
 import { Dataset } from '../modules/datasets/dataset.entity'
 import { DatasetFile } from '../modules/files/dataset-file.entity'
 import { queueFirstJob } from '../modules/files/file-jobs'
+import { DatasetVersion } from '../modules/versions/dataset-version.entity'
+import { freezeFiles } from '../modules/versions/versions.service'
 import type { LocalStorage } from '../storage/local-storage'
 import { seedDemoRegions } from './demo-regions'
 
@@ -159,9 +161,12 @@ export async function seedDemoTables(
   em: EntityManager,
   storage: LocalStorage,
   onQueued: () => void = () => {},
+  /** Only the tables of these datasets (by title); all when absent. */
+  only?: readonly string[],
 ): Promise<number> {
   let created = 0
   for (const spec of DEMO_TABLES) {
+    if (only && !only.includes(spec.dataset)) continue
     // Each simulation holds the thread for about a second: let requests in between.
     await new Promise((resolve) => setImmediate(resolve))
     const dataset = await em.findOne(Dataset, { title: spec.dataset })
@@ -187,6 +192,10 @@ export async function seedDemoTables(
       await tem.flush()
       // Behind anything people upload, all the way to the report.
       await queueFirstJob(tem, file, { priority: -10 })
+      // The demo's approved versions were frozen before their tables arrived: the table belongs
+      // to version 1 as if it had been there at approval.
+      const v1 = await tem.findOne(DatasetVersion, { dataset: dataset.id, number: 1 })
+      if (v1) await freezeFiles(tem, storage, v1.id, [file], v1.approvedAt)
     })
     onQueued()
     created++

@@ -49,7 +49,23 @@ export async function freezeVersion(
     doiStatus: 'pending',
     doiNextAttemptAt: now,
   })
-  // Two deposits may share a name; the frozen list keeps the first (files are ordered by id).
+  await em.flush()
+  await freezeFiles(em, storage, version.id, files, now)
+  dataset.version = number
+  return version
+}
+
+/**
+ * Adds deposited files to a version's frozen list, their bytes kept as shared blobs. Two deposits
+ * may share a name; the list keeps the first (pass them ordered by id).
+ */
+export async function freezeFiles(
+  em: EntityManager,
+  storage: LocalStorage,
+  versionId: number,
+  files: { name: string; size: number; sha256?: string | null; storageKey: string }[],
+  now: Date,
+): Promise<void> {
   const unique = files.filter((f, i) => files.findIndex((g) => g.name === f.name) === i)
   const blobs: IVersionBlob[] = []
   for (const f of unique) {
@@ -59,15 +75,13 @@ export async function freezeVersion(
   await em.flush()
   unique.forEach((f, i) =>
     em.create(VersionFile, {
-      version: version.id,
+      version: versionId,
       blob: blobs[i]!.id,
       name: f.name,
       size: f.size,
       sha256: f.sha256!,
     }),
   )
-  dataset.version = number
-  return version
 }
 
 /**
