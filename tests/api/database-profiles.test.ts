@@ -1,0 +1,156 @@
+import { mkdtempSync, rmSync } from 'node:fs'
+import { tmpdir } from 'node:os'
+import { join } from 'node:path'
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { ConfigError, loadConfig, type DatabaseTarget } from '@server/config'
+import { databaseDriver, openDatabase, type Orm } from '@server/db'
+import { AuditEvent } from '@server/modules/audit/audit-event.entity'
+import { readAccessVersion } from '@server/modules/common/access-version'
+import { ApiToken } from '@server/modules/tokens/api-token.entity'
+import { User } from '@server/modules/users/user.entity'
+import { startPostgres, type PostgresServer } from '../fixtures/postgres'
+
+let postgres: PostgresServer
+const scratch = mkdtempSync(join(tmpdir(), 'stipple-profiles-'))
+beforeAll(async () => {
+  postgres = await startPostgres()
+}, 60_000)
+afterAll(async () => {
+  await postgres?.stop()
+  rmSync(scratch, { recursive: true, force: true })
+})
+
+let files = 0
+const profiles: { name: string; target: () => Promise<DatabaseTarget> }[] = [
+  {
+    name: 'SQLite',
+    target: async () => ({ driver: 'sqlite', path: join(scratch, `db-${++files}.sqlite`) }),
+  },
+  {
+    name: 'PostgreSQL',
+    target: async () => ({ driver: 'postgresql', url: await postgres.createDatabase() }),
+  },
+]
+
+/** An empty database of the profile, brought up by that profile's committed migrations. */
+async function withEmptyDatabase(
+  profile: (typeof profiles)[number],
+  work: (orm: Orm) => Promise<void>,
+) {
+  const orm = await openDatabase(await profile.target())
+  try {
+    await work(orm)
+  } finally {
+    await orm.close()
+  }
+}
+
+describe.each(profiles)('the $name profile', (profile) => {
+  it('migrates an empty database to exactly the schema the entities describe', async () => {
+    await withEmptyDatabase(profile, async (orm) => {
+      expect(databaseDriver(orm)).toBe(profile.name === 'SQLite' ? 'sqlite' : 'postgresql')
+      expect(await orm.schema.getUpdateSchemaSQL({ wrap: false })).toBe('')
+    })
+  })
+
+  it('keeps the audit trail append-only in the database itself', async () => {
+    await withEmptyDatabase(profile, async (orm) => {
+      const em = orm.em.fork()
+      em.create(AuditEvent, {
+        action: 'dataset.create',
+        targetType: 'dataset',
+        targetId: '1',
+        time: new Date('2026-01-02T03:04:05Z'),
+      })
+      await em.flush()
+      // Past the ORM's own refusal (its hooks): plain SQL, as any other client would send it.
+      const connection = orm.em.getConnection()
+      await expect(
+        connection.execute(`update "audit_event" set "action" = 'dataset.delete'`),
+      ).rejects.toThrow(/append-only/)
+      await expect(connection.execute(`delete from "audit_event"`)).rejects.toThrow(/append-only/)
+      const rows = await connection.execute<{ action: string }[]>(
+        `select "action" from "audit_event"`,
+      )
+      expect(rows).toEqual([{ action: 'dataset.create' }])
+    })
+  })
+
+  it('raises the access version on access-relevant changes only, in the same transaction', async () => {
+    await withEmptyDatabase(profile, async (orm) => {
+      const em = orm.em.fork()
+      const start = await readAccessVersion(em)
+      expect(start).toBeGreaterThanOrEqual(1)
+
+      const user = em.create(User, { email: 'ada@lab.example', name: 'Ada' })
+      await em.flush()
+      const afterUser = await readAccessVersion(em)
+      expect(afterUser).toBeGreaterThan(start)
+
+      const token = em.create(ApiToken, {
+        user: user.id,
+        name: 'scripts',
+        tokenHash: 'f'.repeat(64),
+        prefix: 'stp_ffff',
+      })
+      await em.flush()
+      const afterToken = await readAccessVersion(em)
+      expect(afterToken).toBeGreaterThan(afterUser)
+
+      // Using a token says nothing about access; revoking it does.
+      token.lastUsedAt = new Date('2026-01-02T00:00:00Z')
+      await em.flush()
+      expect(await readAccessVersion(em)).toBe(afterToken)
+      token.revokedAt = new Date('2026-01-03T00:00:00Z')
+      await em.flush()
+      expect(await readAccessVersion(em)).toBeGreaterThan(afterToken)
+
+      // A rolled-back change leaves the version where it was.
+      const before = await readAccessVersion(em)
+      await expect(
+        em.transactional(async (tx) => {
+          tx.create(User, { email: 'grace@lab.example', name: 'Grace' })
+          await tx.flush()
+          expect(await readAccessVersion(tx)).toBeGreaterThan(before)
+          throw new Error('roll back')
+        }),
+      ).rejects.toThrow('roll back')
+      expect(await readAccessVersion(orm.em.fork())).toBe(before)
+    })
+  })
+})
+
+describe('choosing the database by configuration', () => {
+  const env = { NODE_ENV: 'test', DATA_DIR: scratch } as const
+
+  it('stays on the SQLite file in DATA_DIR without DATABASE_URL', () => {
+    expect(loadConfig({ ...env }).database).toEqual({
+      driver: 'sqlite',
+      path: join(scratch, 'stipple.sqlite'),
+    })
+  })
+
+  it('runs on PostgreSQL when DATABASE_URL names a server', async () => {
+    const url = await postgres.createDatabase()
+    const config = loadConfig({ ...env, DATABASE_URL: url })
+    expect(config.database).toEqual({ driver: 'postgresql', url })
+    const orm = await openDatabase(config.database)
+    try {
+      expect(databaseDriver(orm)).toBe('postgresql')
+      const tables = await orm.em
+        .getConnection()
+        .execute<{ count: string }[]>(
+          `select count(*) as "count" from information_schema.tables where table_schema = 'public' and table_name = 'dataset'`,
+        )
+      expect(Number(tables[0]!.count)).toBe(1)
+    } finally {
+      await orm.close()
+    }
+  })
+
+  it('refuses a DATABASE_URL of another kind of database', () => {
+    expect(() => loadConfig({ ...env, DATABASE_URL: 'mysql://db.example/stipple' })).toThrow(
+      ConfigError,
+    )
+  })
+})
