@@ -6,6 +6,7 @@ import { ConfigError, loadConfig, type DatabaseTarget } from '@server/config'
 import { databaseDriver, openDatabase, type Orm } from '@server/db'
 import { AuditEvent } from '@server/modules/audit/audit-event.entity'
 import { readAccessVersion } from '@server/modules/common/access-version'
+import { nextSequenceValue } from '@server/modules/common/sequence.service'
 import { ApiToken } from '@server/modules/tokens/api-token.entity'
 import { User } from '@server/modules/users/user.entity'
 import { startPostgres, type PostgresServer } from '../fixtures/postgres'
@@ -73,6 +74,16 @@ describe.each(profiles)('the $name profile', (profile) => {
         `select "action" from "audit_event"`,
       )
       expect(rows).toEqual([{ action: 'dataset.create' }])
+    })
+  })
+
+  it('hands out the numbers of a named sequence in order, each once', async () => {
+    await withEmptyDatabase(profile, async (orm) => {
+      const em = orm.em.fork()
+      const taken: number[] = []
+      for (let i = 0; i < 3; i++) taken.push(await nextSequenceValue(em, 'accession'))
+      expect(taken).toEqual([1, 2, 3])
+      expect(await nextSequenceValue(em, 'another')).toBe(1)
     })
   })
 
