@@ -9,6 +9,10 @@ import { readAccessVersion } from '@server/modules/common/access-version'
 import { nextSequenceValue } from '@server/modules/common/sequence.service'
 import { ApiToken } from '@server/modules/tokens/api-token.entity'
 import { User } from '@server/modules/users/user.entity'
+import { userIdsContaining } from '@server/modules/users/user-text-search'
+import { ReadConnection } from '@server/modules/common/read-connection'
+import { PreviewTables } from '@server/modules/preview/preview-tables'
+import { buildDataset, buildMember, buildProject, buildReadyFile } from '../fixtures/builders'
 import { startPostgres, type PostgresServer } from '../fixtures/postgres'
 
 let postgres: PostgresServer
@@ -84,6 +88,71 @@ describe.each(profiles)('the $name profile', (profile) => {
       for (let i = 0; i < 3; i++) taken.push(await nextSequenceValue(em, 'accession'))
       expect(taken).toEqual([1, 2, 3])
       expect(await nextSequenceValue(em, 'another')).toBe(1)
+    })
+  })
+
+  it('finds a dataset and its table for the tile route through the read connection', async () => {
+    await withEmptyDatabase(profile, async (orm) => {
+      const em = orm.em.fork()
+      const owner = await buildMember(em)
+      const project = await buildProject(em, [{ user: owner, role: 'owner' }])
+      const embargoUntil = new Date('2027-03-04T00:00:00Z')
+      const dataset = await buildDataset(em, project.id, { state: 'approved', embargoUntil })
+      const table = await buildReadyFile(em, dataset.id, { name: 'spots.csv' })
+      table.kind = 'localization_table'
+      table.report = { rows: 1200, rejected: { total: 0 } }
+      await em.flush()
+
+      const reads = new ReadConnection(orm)
+      try {
+        const tables = new PreviewTables(reads)
+        const byId = await tables.find(String(dataset.id), table.id)
+        expect(byId.dataset).toEqual({
+          id: dataset.id,
+          accession: dataset.accession,
+          project: project.id,
+          state: 'approved',
+          embargoUntil,
+        })
+        expect(byId.table).toMatchObject({
+          id: table.id,
+          kind: 'localization_table',
+          status: 'ready',
+          name: 'spots.csv',
+        })
+        expect(await byId.table!.report()).toEqual({ rows: 1200, rejected: { total: 0 } })
+
+        const byAccession = await tables.find(dataset.accession.toLowerCase(), table.id + 1)
+        expect(byAccession).toEqual({ dataset: byId.dataset, table: null })
+        expect(await tables.find('999999', table.id)).toEqual({ dataset: null, table: null })
+        // The other shapes the dataset list reads in.
+        const sql = 'select id, accession from dataset where id = ?'
+        expect(await reads.rows(sql, [dataset.id])).toEqual([[dataset.id, dataset.accession]])
+        expect(await reads.column(sql, [dataset.id])).toEqual([dataset.id])
+      } finally {
+        reads.close()
+      }
+    })
+  })
+
+  it('finds people by a piece of their name or e-mail, any case, wildcards taken literally', async () => {
+    await withEmptyDatabase(profile, async (orm) => {
+      const em = orm.em.fork()
+      const ada = em.create(User, { email: 'ada_l@lab.example', name: 'Ada Lovelace' })
+      const grace = em.create(User, { email: 'grace@navy.example', name: 'Grace 100% Hopper' })
+      em.create(User, { email: 'alan@lab.example', name: 'Alan Turing' })
+      await em.flush()
+      const find = async (text: string, limit?: number) =>
+        (await userIdsContaining(em, text, limit)).sort((a, b) => a - b)
+      expect(await find('LOVE')).toEqual([ada.id])
+      expect(await find('NAVY.example')).toEqual([grace.id])
+      expect(await find('100%')).toEqual([grace.id])
+      expect(await find('%')).toEqual([grace.id])
+      expect(await find('_')).toEqual([ada.id])
+      expect(await find('a\\')).toEqual([])
+      expect(await find('nobody')).toEqual([])
+      expect(await find('lab.example')).toHaveLength(2)
+      expect(await find('lab.example', 1)).toHaveLength(1)
     })
   })
 
