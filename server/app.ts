@@ -121,9 +121,14 @@ export function createApp(appOptions: CreateAppOptions): Express {
     rolling: true,
     cookie: sessionCookieOptions(config),
   })
-  // Scripts and workstations authenticate with a bearer token and never carry a session.
+  // Scripts and workstations authenticate with a bearer token and never carry a session; an API
+  // request without the session cookie has none to load, and no API route starts one (sign-in
+  // does, under /auth), so neither pays for the session machinery.
   app.use((req, res, next) =>
-    req.headers.authorization && req.path.startsWith('/api/') ? next() : sessions(req, res, next),
+    req.path.startsWith('/api/') &&
+    (req.headers.authorization || !req.headers.cookie?.includes(SESSION_COOKIE))
+      ? next()
+      : sessions(req, res, next),
   )
   const accessVersion = new AccessVersionReader(sqliteFileOf(orm), () => orm.em.fork())
   app.locals.close = () => {

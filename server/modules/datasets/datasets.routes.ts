@@ -43,9 +43,16 @@ export function datasetsRouter(deps: AppDeps): Router {
   ) => datasetFor(req, em(), parseParams(datasetParams, req).id, action)
 
   // Server-Timing says whether a page came from the list's cache, or how long the database took.
+  // Written straight to the response: the body is ready-made JSON bytes, so Express's send (type
+  // lookup, freshness check, body conversion) would only add work to the busiest route.
   const sendPage = (res: Response, body: Buffer, dbMs: number | null) => {
-    res.setHeader('Server-Timing', dbMs === null ? 'cache' : `db;dur=${dbMs.toFixed(2)}`)
-    res.type('application/json').send(body)
+    res
+      .writeHead(200, {
+        'Content-Type': 'application/json; charset=utf-8',
+        'Content-Length': body.length,
+        'Server-Timing': dbMs === null ? 'cache' : `db;dur=${dbMs.toFixed(2)}`,
+      })
+      .end(body)
   }
   router.get('/', (req, res) => {
     const query = parseQuery(listDatasetsQuerySchema, req)

@@ -71,14 +71,18 @@ describe('the Measure panel of a region', () => {
       .findAll('button')
       .find((b) => b.text() === 'Clusters')!
       .trigger('click')
-    expect(w.text()).toContain('Counts the localization itself')
+    expect(w.text()).toContain('the localization itself counts')
     await w
       .findAll('button')
       .find((b) => b.text() === 'Measure')!
       .trigger('click')
     await flushPromises()
     expect(api.getRegionMeasurement).toHaveBeenCalledWith(7, { kind: 'dbscan', eps: 20, minPts: 5 })
-    expect(w.text()).toContain('1 clusters, 40 localizations in none')
+    expect(w.text()).toContain('1 clusters, outlined on the preview; 40 localizations in none')
+    // The clusters go to the preview to be outlined there.
+    expect(w.emitted('clusters')).toEqual([
+      [[{ size: 860, area: 31_400, centroid: [510, 490], hull: [] }]],
+    ])
     expect(w.text()).toContain('kept from an earlier measurement')
   })
 })
