@@ -81,6 +81,24 @@ describe.each(profiles)('the $name profile', (profile) => {
     })
   })
 
+  it('keeps audit details in the order they were written', async () => {
+    await withEmptyDatabase(profile, async (orm) => {
+      const details = { reason: 'Paper delayed', from: '2026-06-01', to: '2026-09-01', by: 7 }
+      const em = orm.em.fork()
+      const event = em.create(AuditEvent, {
+        action: 'dataset.embargo',
+        targetType: 'dataset',
+        targetId: '1',
+        time: new Date('2026-01-02T03:04:05Z'),
+        details,
+      })
+      await em.flush()
+      const read = await orm.em.fork().findOneOrFail(AuditEvent, event.id)
+      expect(Object.keys(read.details!)).toEqual(['reason', 'from', 'to', 'by'])
+      expect(read.details).toEqual(details)
+    })
+  })
+
   it('hands out the numbers of a named sequence in order, each once', async () => {
     await withEmptyDatabase(profile, async (orm) => {
       const em = orm.em.fork()

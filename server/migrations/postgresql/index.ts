@@ -1,5 +1,6 @@
 import { Migration20261205020046 } from './Migration20261205020046'
 import { Migration20261205020100 } from './Migration20261205020100'
+import { Migration20261205022000 } from './Migration20261205022000'
 
 /**
  * The PostgreSQL profile's migrations in the order they run: the same schema as the SQLite ones
@@ -9,4 +10,5 @@ import { Migration20261205020100 } from './Migration20261205020100'
 export const postgresqlMigrationsList = [
   { name: 'Migration20261205020046', class: Migration20261205020046 },
   { name: 'Migration20261205020100', class: Migration20261205020100 },
+  { name: 'Migration20261205022000', class: Migration20261205022000 },
 ]
