@@ -10,6 +10,9 @@ import { nextSequenceValue } from '@server/modules/common/sequence.service'
 import { ApiToken } from '@server/modules/tokens/api-token.entity'
 import { User } from '@server/modules/users/user.entity'
 import { userIdsContaining } from '@server/modules/users/user-text-search'
+import type { FilterQuery } from '@mikro-orm/core'
+import { visibilitySql } from '@server/modules/datasets/dataset-catalogue'
+import type { IDataset } from '@server/modules/datasets/dataset.entity'
 import { ReadConnection } from '@server/modules/common/read-connection'
 import { PreviewTables } from '@server/modules/preview/preview-tables'
 import { buildDataset, buildMember, buildProject, buildReadyFile } from '../fixtures/builders'
@@ -147,6 +150,35 @@ describe.each(profiles)('the $name profile', (profile) => {
         const sql = 'select id, accession from dataset where id = ?'
         expect(await reads.rows(sql, [dataset.id])).toEqual([[dataset.id, dataset.accession]])
         expect(await reads.column(sql, [dataset.id])).toEqual([dataset.id])
+      } finally {
+        reads.close()
+      }
+    })
+  })
+
+  it("narrows the dataset list with the SQL a viewer's abilities give", async () => {
+    await withEmptyDatabase(profile, async (orm) => {
+      const em = orm.em.fork()
+      const owner = await buildMember(em)
+      const project = await buildProject(em, [{ user: owner, role: 'owner' }])
+      const other = await buildProject(em, [{ user: owner, role: 'owner' }])
+      const approved = await buildDataset(em, other.id, { state: 'approved' })
+      const draft = await buildDataset(em, project.id)
+      await buildDataset(em, other.id)
+
+      const reads = new ReadConnection(orm)
+      try {
+        const visible = async (allowed: FilterQuery<IDataset>) => {
+          const where = visibilitySql(em, allowed)
+          const sql = `select d.id from dataset d${where ? ` where ${where}` : ''} order by d.id`
+          return reads.column(sql, [])
+        }
+        // A member of one project who may read approved datasets anywhere.
+        const member: FilterQuery<IDataset> = {
+          $or: [{ state: { $in: ['approved', 'withdrawn'] } }, { project: project.id }],
+        }
+        expect(await visible(member)).toEqual([approved.id, draft.id])
+        expect(await visible({})).toHaveLength(3)
       } finally {
         reads.close()
       }
