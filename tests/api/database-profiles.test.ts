@@ -17,6 +17,9 @@ import { ReadConnection } from '@server/modules/common/read-connection'
 import { PreviewTables } from '@server/modules/preview/preview-tables'
 import { buildDataset, buildMember, buildProject, buildReadyFile } from '../fixtures/builders'
 import { startPostgres, type PostgresServer } from '../fixtures/postgres'
+import { createTestApp } from '../fixtures/test-app'
+import request from 'supertest'
+import { bearer, tokenFor } from '../fixtures/builders'
 
 let postgres: PostgresServer
 const scratch = mkdtempSync(join(tmpdir(), 'stipple-profiles-'))
@@ -29,13 +32,19 @@ afterAll(async () => {
 })
 
 let files = 0
-const profiles: { name: string; target: () => Promise<DatabaseTarget> }[] = [
+const profiles: {
+  name: string
+  driver: DatabaseTarget['driver']
+  target: () => Promise<DatabaseTarget>
+}[] = [
   {
     name: 'SQLite',
+    driver: 'sqlite',
     target: async () => ({ driver: 'sqlite', path: join(scratch, `db-${++files}.sqlite`) }),
   },
   {
     name: 'PostgreSQL',
+    driver: 'postgresql',
     target: async () => ({ driver: 'postgresql', url: await postgres.createDatabase() }),
   },
 ]
@@ -183,6 +192,56 @@ describe.each(profiles)('the $name profile', (profile) => {
         reads.close()
       }
     })
+  })
+
+  it('lists datasets with totals, sorts, filters, offsets and cursors', async () => {
+    const t = await createTestApp({}, { database: profile.driver })
+    try {
+      const em = t.em()
+      const member = await buildMember(em)
+      const project = await buildProject(em, [{ user: member, role: 'owner' }])
+      const outsider = await tokenFor(em, await buildMember(em))
+      const owner = await tokenFor(em, member)
+      const base = Date.UTC(2026, 0, 1)
+      const built = []
+      for (let i = 0; i < 7; i++)
+        built.push(
+          await buildDataset(em, project.id, {
+            title: `Series ${i % 3}`,
+            state: i % 2 ? 'draft' : 'approved',
+            // Pairs share a creation time, so the id must break ties for a cursor to be exact.
+            createdAt: new Date(base + Math.floor(i / 2) * 60_000),
+            complete: false,
+          }),
+        )
+      const list = async (query: string, token = owner) => {
+        const res = await request(t.app).get(`/api/datasets?${query}`).set(bearer(token))
+        expect(res.status, res.text).toBe(200)
+        return res.body as { items: { id: number }[]; total: number; nextCursor: string | null }
+      }
+      const ids = (page: { items: { id: number }[] }) => page.items.map((d) => d.id)
+      const newestFirst = [...built]
+        .sort((a, b) => b.createdAt.getTime() - a.createdAt.getTime() || b.id - a.id)
+        .map((d) => d.id)
+
+      const first = await list('sort=-createdAt&limit=3')
+      expect(first.total).toBe(7)
+      expect(ids(first)).toEqual(newestFirst.slice(0, 3))
+      const second = await list(`sort=-createdAt&limit=3&cursor=${first.nextCursor}`)
+      const third = await list(`sort=-createdAt&limit=3&cursor=${second.nextCursor}`)
+      expect([...ids(second), ...ids(third)]).toEqual(newestFirst.slice(3))
+      expect(third.nextCursor).toBeNull()
+      expect(ids(await list('sort=-createdAt&limit=3&offset=3'))).toEqual(newestFirst.slice(3, 6))
+
+      const byTitle = await list('sort=title&limit=50')
+      const titles = byTitle.items.map((d) => (d as unknown as { title: string }).title)
+      expect(titles).toEqual([...titles].sort())
+      expect((await list(`state=draft&projectId=${project.id}`)).total).toBe(3)
+      // Someone outside the project sees the approved ones only.
+      expect((await list('sort=createdAt', outsider)).total).toBe(4)
+    } finally {
+      await t.close()
+    }
   })
 
   it('finds people by a piece of their name or e-mail, any case, wildcards taken literally', async () => {
