@@ -102,7 +102,7 @@ async function startOn(
   const cfg: AppConfig = { ...config, port, publicUrl }
   const { primary } = options
 
-  const orm = await openDatabase(cfg.dbPath)
+  const orm = await openDatabase(cfg.database)
   const storage = new LocalStorage(cfg.dataDir)
   const accounts = cfg.demo || cfg.oidc.local ? loadAccounts(`${DEMO_DIR}/accounts.json`) : []
   const background = primary ? null : await openBackground({ config: cfg, orm, logger, storage })
