@@ -168,10 +168,11 @@ export function createApp(appOptions: CreateAppOptions): Express {
     res.json(openapi)
   })
   api.use('/docs', swaggerUi.serve, swaggerUi.setup(openapi, { customSiteTitle: 'Stipple API' }))
+  // The busiest routes (the list, tiles, downloads) are under /datasets: matched first.
+  api.use('/datasets', datasetsRouter(options))
   api.use(collaborationRouter(options))
   api.use('/me', meRouter(options))
   api.use('/projects', projectsRouter(options))
-  api.use('/datasets', datasetsRouter(options))
   api.use('/audit', auditRouter())
   api.use('/search', searchRouter())
   api.use('/users', adminUsersRouter())

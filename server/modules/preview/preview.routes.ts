@@ -31,7 +31,13 @@ export function previewRouter(previews: PreviewService): Router {
     const query = parseQuery(tileQuerySchema, req)
     const png = await previews.tile(file, z, x, y, query)
     // Private: the tile may show embargoed data to someone allowed to see it.
-    res.type('image/png').set('cache-control', 'private, max-age=300').send(png)
+    res
+      .writeHead(200, {
+        'Content-Type': 'image/png',
+        'Content-Length': png.length,
+        'Cache-Control': 'private, max-age=300',
+      })
+      .end(png)
   })
   return router
 }
