@@ -1,4 +1,4 @@
-import { mkdtempSync, rmSync } from 'node:fs'
+import { mkdirSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
@@ -16,7 +16,7 @@ import type { IDataset } from '@server/modules/datasets/dataset.entity'
 import { ReadConnection } from '@server/modules/common/read-connection'
 import { PreviewTables } from '@server/modules/preview/preview-tables'
 import { buildDataset, buildMember, buildProject, buildReadyFile } from '../fixtures/builders'
-import { startPostgres, type PostgresServer } from '../fixtures/postgres'
+import { postgresBinaries, startPostgres, type PostgresServer } from '../fixtures/postgres'
 import { createTestApp } from '../fixtures/test-app'
 import request from 'supertest'
 import { bearer, tokenFor } from '../fixtures/builders'
@@ -340,6 +340,24 @@ describe('choosing the database by configuration', () => {
   it('refuses a DATABASE_URL of another kind of database', () => {
     expect(() => loadConfig({ ...env, DATABASE_URL: 'mysql://db.example/stipple' })).toThrow(
       ConfigError,
+    )
+  })
+})
+
+describe('the PostgreSQL test fixture', () => {
+  it('takes the newest installed major version', () => {
+    const root = join(scratch, 'postgresql')
+    for (const version of ['9.6', '13', '15', '16']) {
+      mkdirSync(join(root, version, 'bin'), { recursive: true })
+      // A folder without the server binary (a client-only package) does not count.
+      if (version !== '16') writeFileSync(join(root, version, 'bin', 'postgres'), '')
+    }
+    expect(postgresBinaries(root)).toBe(join(root, '15', 'bin'))
+  })
+
+  it('says what to install when PostgreSQL is missing, instead of skipping', () => {
+    expect(() => postgresBinaries(join(scratch, 'nowhere'))).toThrow(
+      /PostgreSQL is not installed.*Debian's `postgresql` package/s,
     )
   })
 })
