@@ -12,6 +12,9 @@ import { User } from '@server/modules/users/user.entity'
 import { userIdsContaining } from '@server/modules/users/user-text-search'
 import type { FilterQuery } from '@mikro-orm/core'
 import { visibilitySql } from '@server/modules/datasets/dataset-catalogue'
+import { QualityReport } from '@server/modules/quality/quality-report.entity'
+import { publicSearch } from '@server/modules/search/public-search.service'
+import { publicSearchQuerySchema } from '@shared/schemas/public-search.schema'
 import type { IDataset } from '@server/modules/datasets/dataset.entity'
 import { ReadConnection } from '@server/modules/common/read-connection'
 import { PreviewTables } from '@server/modules/preview/preview-tables'
@@ -242,6 +245,46 @@ describe.each(profiles)('the $name profile', (profile) => {
     } finally {
       await t.close()
     }
+  })
+
+  it('lists the public catalogue with the metadata its facets read', async () => {
+    await withEmptyDatabase(profile, async (orm) => {
+      const em = orm.em.fork()
+      const owner = await buildMember(em)
+      const project = await buildProject(em, [{ user: owner, role: 'owner' }])
+      const released = await buildDataset(em, project.id, { state: 'approved' })
+      await buildDataset(em, project.id, { state: 'submitted' })
+      const table = await buildReadyFile(em, released.id, { name: 'spots.csv' })
+      em.create(QualityReport, {
+        file: table.id,
+        findings: { frcResolutionNm: 42.5 } as never,
+        inputs: {},
+        computedAt: new Date('2026-01-02T00:00:00Z'),
+      })
+      await em.flush()
+
+      const now = new Date('2030-01-01T00:00:00Z')
+      const page = await publicSearch(orm.em.fork(), publicSearchQuerySchema.parse({}), now)
+      expect(page.total).toBe(1)
+      expect(page.items[0]).toMatchObject({
+        accession: released.accession,
+        technique: 'dSTORM',
+        structure: 'nuclear pore complex',
+        organism: 'Mus musculus',
+        probeClasses: ['organic dye'],
+        authors: ['Avery Tester'],
+        frcResolutionNm: 42.5,
+      })
+      expect(page.facets.technique).toEqual([{ value: 'dSTORM', count: 1 }])
+      // Words need the full-text index, which only SQLite has yet: a clear error, not a wrong page.
+      const searched = publicSearch(
+        orm.em.fork(),
+        publicSearchQuerySchema.parse({ q: 'pore' }),
+        now,
+      )
+      if (profile.driver === 'sqlite') expect((await searched).total).toBe(1)
+      else await expect(searched).rejects.toThrow(/full-text index/)
+    })
   })
 
   it('finds people by a piece of their name or e-mail, any case, wildcards taken literally', async () => {

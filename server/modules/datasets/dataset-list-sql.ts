@@ -60,12 +60,17 @@ export interface Sql {
 /** Every dataset a search matches, whoever may see it. */
 export const FTS_ROWIDS = 'select rowid from `dataset_fts` where `dataset_fts` match ?'
 
-/** FTS_ROWIDS where the dialect has the full-text index; a clear error where it does not. */
-export function ftsRowidsSql(dialect: ListDialect): string {
+/** A clear error where the dialect has no full-text index (the search's SQL is FTS5's). */
+export function requireFullTextSearch(dialect: ListDialect): void {
   if (dialect !== 'sqlite')
     throw new Error(
-      'Searching the dataset list needs a full-text index, which the PostgreSQL profile does not have yet (docs/scale-out-notes.md)',
+      'Searching needs a full-text index, which the PostgreSQL profile does not have yet (docs/scale-out-notes.md)',
     )
+}
+
+/** FTS_ROWIDS where the dialect has the full-text index. */
+export function ftsRowidsSql(dialect: ListDialect): string {
+  requireFullTextSearch(dialect)
   return FTS_ROWIDS
 }
 
@@ -83,7 +88,7 @@ function conditions(
 ): string[] {
   const out: string[] = []
   if (plan === 'gather' && filter.match !== undefined) {
-    ftsRowidsSql(dialect)
+    requireFullTextSearch(dialect)
     out.push('f."dataset_fts" match ?')
     params.push(filter.match)
   }

@@ -1,6 +1,8 @@
 import type { EntityManager } from '@mikro-orm/better-sqlite'
 import { accessPhase } from '@shared/domain/dataset-state'
 import type { PublicSearchPage, PublicSearchParams } from '@shared/schemas/public-search.schema'
+import { databaseDriver } from '../../db'
+import { requireFullTextSearch } from '../datasets/dataset-list-sql'
 import { searchExpression } from '../datasets/dataset-search'
 import { searchPage, type SearchRow } from './search-results'
 
@@ -16,6 +18,17 @@ export const ROWS_SQL = `select d.id, d.accession, d.title, d.description, d.app
   (select json_group_array(distinct json_extract(l.value, '$.probeClass')) from json_each(m.document, '$.labelling') l where json_extract(l.value, '$.probeClass') is not null) as probe_classes,
   (select json_group_array(json_extract(a.value, '$.name')) from json_each(m.document, '$.study.authors') a where json_extract(a.value, '$.name') is not null) as authors,
   (select min(json_extract(q.findings, '$.frcResolutionNm')) from dataset_file f join quality_report q on q.file_id = f.id where f.dataset_id = d.id) as frc
+  from dataset d left join dataset_metadata m on m.dataset_id = d.id
+  where d.state = 'approved'`
+
+/** The same rows on PostgreSQL (its JSON operators; arrays as JSON text, as SQLite gives them). */
+const ROWS_SQL_POSTGRESQL = `select d.id, d.accession, d.title, d.description, d.approved_at, d.embargo_until,
+  m.document #>> '{acquisition,technique}' as technique,
+  m.document #>> '{biosample,structure}' as structure,
+  m.document #>> '{biosample,organism,name}' as organism,
+  (select json_agg(distinct l.value ->> 'probeClass')::text from jsonb_array_elements(m.document -> 'labelling') l where l.value ->> 'probeClass' is not null) as probe_classes,
+  (select json_agg(a.value ->> 'name' order by a.n)::text from jsonb_array_elements(m.document #> '{study,authors}') with ordinality a(value, n) where a.value ->> 'name' is not null) as authors,
+  (select min((q.findings ->> 'frcResolutionNm')::float8) from dataset_file f join quality_report q on q.file_id = f.id where f.dataset_id = d.id) as frc
   from dataset d left join dataset_metadata m on m.dataset_id = d.id
   where d.state = 'approved'`
 
@@ -90,9 +103,12 @@ export async function publicSearch(
 ): Promise<PublicSearchPage> {
   const match = q.q ? searchExpression(q.q) : undefined
   if (match === null) return EMPTY_PAGE
+  const dialect = databaseDriver(em)
+  if (match) requireFullTextSearch(dialect)
+  const rowsSql = dialect === 'sqlite' ? ROWS_SQL : ROWS_SQL_POSTGRESQL
   const connection = em.getConnection()
   const [raws, ranks] = await Promise.all([
-    connection.execute<RawRow[]>(match ? ROWS_SQL + MATCHED : ROWS_SQL, match ? [match] : []),
+    connection.execute<RawRow[]>(match ? rowsSql + MATCHED : rowsSql, match ? [match] : []),
     match
       ? connection.execute<{ id: number; rank: number }[]>(RANKS, [match])
       : Promise.resolve([]),
