@@ -11,6 +11,7 @@ import type { ListReader } from './dataset-list-reader'
 import {
   SORT_COLUMNS,
   ftsRowidsSql,
+  searchMatch,
   countSql,
   pageIdsSql,
   type ListFilter,
@@ -18,7 +19,6 @@ import {
   type ListPlan,
   type Sql,
 } from './dataset-list-sql'
-import { searchExpression } from './dataset-search'
 import { ResultCache } from './result-cache'
 
 /** A gather (filter first, then sort) is chosen only up to this many matching rows. */
@@ -145,7 +145,7 @@ export class DatasetCatalogue {
   /** null: the caller sees nothing, or searched for nothing worth looking for. */
   private requestOf(actor: Actor, q: ListDatasetsParams): ListRequest | null {
     const viewing = this.viewingOf(actor)
-    const match = q.q ? searchExpression(q.q) : undefined
+    const match = q.q ? searchMatch(q.q, this.reader.dialect) : undefined
     if (viewing === null || match === null) return null
     const baseKey = `${viewing.key}|${q.projectId ?? ''}|${q.state ?? ''}|`
     const filterKey = `${baseKey}${match ?? ''}`

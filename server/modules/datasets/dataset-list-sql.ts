@@ -1,6 +1,7 @@
 import type { DatasetState } from '@shared/domain/dataset-state'
 import type { DatasetSortField } from '@shared/schemas/dataset.schema'
 import type { ListPosition } from './dataset-cursor'
+import { searchExpression, searchTsQuery } from './dataset-search'
 
 /**
  * The SQL of the dataset list, as plain text and positional parameters (no ORM on this path: the
@@ -18,7 +19,7 @@ import type { ListPosition } from './dataset-cursor'
 
 /**
  * Which SQL the list speaks: SQLite's (with its index hints and the FTS5 search), or PostgreSQL's
- * (the same statements without hints; no full-text search yet, see docs/scale-out-notes.md).
+ * (the same statements without SQLite's hints, searching its own full-text index).
  */
 export type ListDialect = 'sqlite' | 'postgresql'
 
@@ -41,7 +42,7 @@ export interface ListFilter {
   visibility: string
   projectId?: number
   state?: DatasetState
-  /** An FTS5 expression (see searchExpression). */
+  /** The dialect's full-text query (see searchMatch). */
   match?: string
 }
 
@@ -60,19 +61,16 @@ export interface Sql {
 /** Every dataset a search matches, whoever may see it. */
 export const FTS_ROWIDS = 'select rowid from `dataset_fts` where `dataset_fts` match ?'
 
-/** A clear error where the dialect has no full-text index (the search's SQL is FTS5's). */
-export function requireFullTextSearch(dialect: ListDialect): void {
-  if (dialect !== 'sqlite')
-    throw new Error(
-      'Searching needs a full-text index, which the PostgreSQL profile does not have yet (docs/scale-out-notes.md)',
-    )
-}
+/** The match on PostgreSQL's full-text index (`dataset_search`, a tsquery text as parameter). */
+export const TS_MATCH = `"document" @@ to_tsquery('simple', unaccent(?))`
 
-/** FTS_ROWIDS where the dialect has the full-text index. */
-export function ftsRowidsSql(dialect: ListDialect): string {
-  requireFullTextSearch(dialect)
-  return FTS_ROWIDS
-}
+/** Every dataset a search matches, in the dialect's full-text index. */
+export const ftsRowidsSql = (dialect: ListDialect): string =>
+  dialect === 'sqlite' ? FTS_ROWIDS : `select "dataset_id" from "dataset_search" where ${TS_MATCH}`
+
+/** What someone typed as the dialect's full-text query (see dataset-search.ts). */
+export const searchMatch = (text: string, dialect: ListDialect): string | null =>
+  dialect === 'sqlite' ? searchExpression(text) : searchTsQuery(text)
 
 /**
  * The filter's conditions. In a gather (and a count) the search is the FROM's full-text index and
@@ -88,8 +86,7 @@ function conditions(
 ): string[] {
   const out: string[] = []
   if (plan === 'gather' && filter.match !== undefined) {
-    requireFullTextSearch(dialect)
-    out.push('f."dataset_fts" match ?')
+    out.push(dialect === 'sqlite' ? 'f."dataset_fts" match ?' : `f.${TS_MATCH}`)
     params.push(filter.match)
   }
   // Unary + is SQLite's way of keeping a column from driving the plan; PostgreSQL needs none.
@@ -115,10 +112,12 @@ function conditions(
 }
 
 /** The search drives a gather from the full-text index; the table follows by primary key. */
-const gatherFrom = (filter: ListFilter) =>
+const gatherFrom = (filter: ListFilter, dialect: ListDialect) =>
   filter.match === undefined
     ? 'from "dataset" d'
-    : 'from "dataset_fts" f cross join "dataset" d on d."id" = f.rowid'
+    : dialect === 'sqlite'
+      ? 'from "dataset_fts" f cross join "dataset" d on d."id" = f.rowid'
+      : 'from "dataset_search" f join "dataset" d on d."id" = f."dataset_id"'
 
 const whereOf = (parts: string[]) => (parts.length ? ` where ${parts.join(' and ')}` : '')
 
@@ -126,7 +125,7 @@ const whereOf = (parts: string[]) => (parts.length ? ` where ${parts.join(' and 
 export function countSql(filter: ListFilter, dialect: ListDialect = 'sqlite'): Sql {
   const params: unknown[] = []
   const parts = conditions(filter, params, 'gather', dialect)
-  return { sql: `select count(*) ${gatherFrom(filter)}${whereOf(parts)}`, params }
+  return { sql: `select count(*) ${gatherFrom(filter, dialect)}${whereOf(parts)}`, params }
 }
 
 export interface PageWindow {
@@ -162,7 +161,7 @@ export function pageIdsSql(
   const sorted = gather && sqlite ? `+d."${column}"` : `d."${column}"`
   // SQLite is told which index to walk; PostgreSQL's planner finds it from the order and limit.
   const from = gather
-    ? gatherFrom(filter)
+    ? gatherFrom(filter, dialect)
     : `from "dataset" d${sqlite ? ` indexed by "${index}"` : ''}`
   // No limit: -1 on SQLite, null on PostgreSQL.
   params.push(window.limit === -1 && !sqlite ? null : window.limit, window.offset)

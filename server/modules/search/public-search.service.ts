@@ -2,8 +2,7 @@ import type { EntityManager } from '@mikro-orm/better-sqlite'
 import { accessPhase } from '@shared/domain/dataset-state'
 import type { PublicSearchPage, PublicSearchParams } from '@shared/schemas/public-search.schema'
 import { databaseDriver } from '../../db'
-import { requireFullTextSearch } from '../datasets/dataset-list-sql'
-import { searchExpression } from '../datasets/dataset-search'
+import { searchMatch, TS_MATCH } from '../datasets/dataset-list-sql'
 import { searchPage, type SearchRow } from './search-results'
 
 /**
@@ -35,6 +34,10 @@ const ROWS_SQL_POSTGRESQL = `select d.id, d.accession, d.title, d.description, d
 export const MATCHED = ' and d.id in (select rowid from dataset_fts where dataset_fts match ?)'
 const RANKS =
   'select rowid as id, bm25(dataset_fts) as rank from dataset_fts where dataset_fts match ?'
+
+/** Ranks as bm25 gives them, lower first: the negated cover density of the words. */
+const MATCHED_POSTGRESQL = ` and d.id in (select dataset_id from dataset_search where ${TS_MATCH})`
+const RANKS_POSTGRESQL = `select dataset_id as id, -ts_rank_cd(document, to_tsquery('simple', unaccent(?))) as rank from dataset_search where ${TS_MATCH}`
 
 interface RawRow {
   id: number
@@ -101,16 +104,22 @@ export async function publicSearch(
   q: PublicSearchParams,
   now: Date,
 ): Promise<PublicSearchPage> {
-  const match = q.q ? searchExpression(q.q) : undefined
-  if (match === null) return EMPTY_PAGE
   const dialect = databaseDriver(em)
-  if (match) requireFullTextSearch(dialect)
-  const rowsSql = dialect === 'sqlite' ? ROWS_SQL : ROWS_SQL_POSTGRESQL
+  const match = q.q ? searchMatch(q.q, dialect) : undefined
+  if (match === null) return EMPTY_PAGE
+  const sqlite = dialect === 'sqlite'
+  const rowsSql = sqlite ? ROWS_SQL : ROWS_SQL_POSTGRESQL
   const connection = em.getConnection()
   const [raws, ranks] = await Promise.all([
-    connection.execute<RawRow[]>(match ? rowsSql + MATCHED : rowsSql, match ? [match] : []),
+    connection.execute<RawRow[]>(
+      match ? rowsSql + (sqlite ? MATCHED : MATCHED_POSTGRESQL) : rowsSql,
+      match ? [match] : [],
+    ),
     match
-      ? connection.execute<{ id: number; rank: number }[]>(RANKS, [match])
+      ? connection.execute<{ id: number; rank: number }[]>(
+          sqlite ? RANKS : RANKS_POSTGRESQL,
+          sqlite ? [match] : [match, match],
+        )
       : Promise.resolve([]),
   ])
   const rankOf = new Map(ranks.map((r) => [r.id, r.rank]))
