@@ -12,6 +12,8 @@ import { User } from '@server/modules/users/user.entity'
 import { userIdsContaining } from '@server/modules/users/user-text-search'
 import type { FilterQuery } from '@mikro-orm/core'
 import { visibilitySql } from '@server/modules/datasets/dataset-catalogue'
+import { pageIdsSql } from '@server/modules/datasets/dataset-list-sql'
+import { DATASET_SORT_FIELDS } from '@shared/schemas/dataset.schema'
 import { QualityReport } from '@server/modules/quality/quality-report.entity'
 import { publicSearch } from '@server/modules/search/public-search.service'
 import { publicSearchQuerySchema } from '@shared/schemas/public-search.schema'
@@ -392,6 +394,57 @@ describe('choosing the database by configuration', () => {
       ConfigError,
     )
   })
+})
+
+describe('the dataset list on PostgreSQL', () => {
+  it('walks the sort index for a first page instead of sorting the whole table', async () => {
+    const orm = await openDatabase({ driver: 'postgresql', url: await postgres.createDatabase() })
+    try {
+      const sql = (text: string, params: unknown[] = []) =>
+        orm.em.getConnection().execute<Record<string, unknown>[]>(text, params)
+      await sql(`insert into project (name, description, created_at) values ('P', '', now())`)
+      await sql(
+        `insert into dataset (accession, title, description, project_id, state, licence, version, created_at, updated_at)
+         select 'STPL-' || lpad(i::text, 6, '0'), 'Dataset ' || (i % 977), '', (select min(id) from project),
+           case when i % 7 = 0 then 'approved' else 'draft' end, 'CC-BY-4.0', 1,
+           now() - i * interval '1 minute', now() - (i % 500) * interval '1 second'
+         from generate_series(1, 20000) i`,
+      )
+      await sql('analyze')
+      const visibilities = ['', `d."state" in ('approved', 'withdrawn')`]
+      for (const field of DATASET_SORT_FIELDS)
+        for (const visibility of visibilities) {
+          const page = pageIdsSql(
+            { visibility },
+            { field, descending: true },
+            'walk',
+            { limit: 51, offset: 0 },
+            'postgresql',
+          )
+          const [plan] = await sql(`explain (format json) ${page.sql}`, page.params)
+          // An index walked in the sort's order (the sort's own, or the accession's unique one
+          // with an incremental sort of its ties), never the table read whole and sorted.
+          const nodes = [...JSON.stringify(plan).matchAll(/"Node Type":"([^"]+)"/g)].map(
+            (m) => m[1],
+          )
+          expect({
+            field,
+            visibility,
+            walksAnIndex: nodes.some((n) => /^Index (Only )?Scan$/.test(n!)),
+            readsTheTable: nodes.includes('Seq Scan'),
+            sortsEverything: nodes.includes('Sort'),
+          }).toEqual({
+            field,
+            visibility,
+            walksAnIndex: true,
+            readsTheTable: false,
+            sortsEverything: false,
+          })
+        }
+    } finally {
+      await orm.close()
+    }
+  }, 60_000)
 })
 
 describe('the PostgreSQL test fixture', () => {
