@@ -1,4 +1,4 @@
-import { mkdirSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs'
+import { existsSync, mkdirSync, mkdtempSync, readdirSync, rmSync, writeFileSync } from 'node:fs'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
@@ -23,6 +23,7 @@ import { PreviewTables } from '@server/modules/preview/preview-tables'
 import { buildDataset, buildMember, buildProject, buildReadyFile } from '../fixtures/builders'
 import { postgresBinaries, startPostgres, type PostgresServer } from '../fixtures/postgres'
 import { createTestApp } from '../fixtures/test-app'
+import { freePort, ServerProcess } from '../fixtures/server-process'
 import request from 'supertest'
 import { bearer, tokenFor } from '../fixtures/builders'
 
@@ -388,6 +389,42 @@ describe('choosing the database by configuration', () => {
       await orm.close()
     }
   })
+
+  it('runs the real server on PostgreSQL with DATABASE_URL alone, leaving no SQLite file', async () => {
+    const url = await postgres.createDatabase()
+    const dataDir = mkdtempSync(join(scratch, 'server-'))
+    const server = new ServerProcess(await freePort(), {
+      DATABASE_URL: url,
+      DATA_DIR: dataDir,
+      DEMO: 'true',
+      DEMO_TABLES: 'false',
+    })
+    try {
+      await server.start()
+      const search = (await (await fetch(`${server.url}/api/search`)).json()) as {
+        items: { accession: string }[]
+      }
+      expect(search.items.length).toBeGreaterThan(3)
+      // The rows it served are PostgreSQL's.
+      const orm = await openDatabase({ driver: 'postgresql', url })
+      try {
+        const rows = await orm.em
+          .getConnection()
+          .execute<{ accession: string }[]>(
+            `select accession from dataset where state = 'approved'`,
+          )
+        expect(rows.map((r) => r.accession).sort()).toEqual(
+          search.items.map((i) => i.accession).sort(),
+        )
+      } finally {
+        await orm.close()
+      }
+      expect(readdirSync(dataDir).filter((name) => name.includes('sqlite'))).toEqual([])
+      expect(existsSync(join(dataDir, 'stipple.sqlite'))).toBe(false)
+    } finally {
+      await server.stop()
+    }
+  }, 120_000)
 
   it('refuses a DATABASE_URL of another kind of database', () => {
     expect(() => loadConfig({ ...env, DATABASE_URL: 'mysql://db.example/stipple' })).toThrow(
