@@ -1,28 +1,36 @@
 import { resolve } from 'node:path'
+import type { MigrationsOptions } from '@mikro-orm/core'
 import { Migrator } from '@mikro-orm/migrations'
-import { defineConfig } from '@mikro-orm/better-sqlite'
-import { loadConfig } from './server/config'
+import { defineConfig as defineSqliteConfig } from '@mikro-orm/better-sqlite'
+import { defineConfig as definePostgresqlConfig } from '@mikro-orm/postgresql'
+import { loadConfig, type DatabaseTarget } from './server/config'
 import { entities } from './server/entities'
 import { migrationsList } from './server/migrations'
+import { postgresqlMigrationsList } from './server/migrations/postgresql'
 
 /**
- * The ORM configuration, used by the server and by the CLI (`npm run db -- migration:create`).
- * The database file lives in DATA_DIR; tests pass ':memory:' through createOrmConfig().
+ * Each database keeps its own migrations (their SQL differs); the CLI writes a new one into the
+ * folder of the database it is pointed at. List each in that folder's index.ts.
  */
-export function createOrmConfig(dbName: string) {
-  return defineConfig({
+const migrationsIn = (folder: string, list: MigrationsOptions['migrationsList']) => ({
+  path: resolve(folder),
+  pathTs: resolve(folder),
+  migrationsList: list,
+  emit: 'ts' as const,
+  snapshot: false,
+  silent: true,
+})
+
+/**
+ * The embedded profile's configuration: a SQLite file in DATA_DIR (tests pass ':memory:').
+ * Used by the server and by the CLI (`npm run db -- migration:create`).
+ */
+export function createSqliteConfig(dbName: string) {
+  return defineSqliteConfig({
     dbName,
     entities,
     extensions: [Migrator],
-    // The CLI writes new migrations here; add each one to server/migrations/index.ts.
-    migrations: {
-      path: resolve('server/migrations'),
-      pathTs: resolve('server/migrations'),
-      migrationsList,
-      emit: 'ts',
-      snapshot: false,
-      silent: true,
-    },
+    migrations: migrationsIn('server/migrations', migrationsList),
     pool: {
       // WAL lets readers run while a writer commits; one writer at a time is SQLite's own rule.
       afterCreate: (
@@ -47,5 +55,30 @@ export function createOrmConfig(dbName: string) {
   })
 }
 
-/** For the ORM CLI: the same database file the server uses. */
-export default createOrmConfig(loadConfig().dbPath)
+/** The cluster profile's configuration: a PostgreSQL database named by DATABASE_URL. */
+export function createPostgresqlConfig(clientUrl: string) {
+  return definePostgresqlConfig({
+    clientUrl,
+    entities,
+    extensions: [Migrator],
+    migrations: migrationsIn('server/migrations/postgresql', postgresqlMigrationsList),
+    debug: false,
+    allowGlobalContext: false,
+  })
+}
+
+type SqliteConfig = ReturnType<typeof createSqliteConfig>
+type PostgresqlConfig = ReturnType<typeof createPostgresqlConfig>
+
+/** The configuration for a database target (a bare string is a SQLite file, as tests pass). */
+export function createOrmConfig(target: string): SqliteConfig
+export function createOrmConfig(target: DatabaseTarget): SqliteConfig | PostgresqlConfig
+export function createOrmConfig(target: DatabaseTarget | string): SqliteConfig | PostgresqlConfig {
+  if (typeof target === 'string') return createSqliteConfig(target)
+  return target.driver === 'postgresql'
+    ? createPostgresqlConfig(target.url)
+    : createSqliteConfig(target.path)
+}
+
+/** For the ORM CLI: the database the server would open with the same environment. */
+export default createOrmConfig(loadConfig().database)

@@ -15,6 +15,7 @@ import { securityHeaders } from './http/security-headers'
 import { auditRouter } from './modules/audit/audit.routes'
 import { adminUsersRouter } from './modules/users/admin-users.routes'
 import { AccessVersionReader } from './modules/common/access-version'
+import { sqliteFileOf } from './db'
 import { authRouter } from './modules/auth/auth.routes'
 import type { RelyingParty } from './modules/auth/relying-party'
 import { datasetsRouter } from './modules/datasets/datasets.routes'
@@ -129,9 +130,7 @@ export function createApp(appOptions: CreateAppOptions): Express {
       ? next()
       : sessions(req, res, next),
   )
-  const accessVersion = new AccessVersionReader(orm.config.get('dbName') ?? ':memory:', () =>
-    orm.em.fork(),
-  )
+  const accessVersion = new AccessVersionReader(sqliteFileOf(orm), () => orm.em.fork())
   app.locals.close = () => {
     accessVersion.close()
     readConnection.close()

@@ -104,7 +104,7 @@ async function startOn(
   const { primary } = options
   await objectStorageReady(cfg, logger)
 
-  const orm = await openDatabase(cfg.dbPath)
+  const orm = await openDatabase(cfg.database)
   const storage = new LocalStorage(cfg.dataDir)
   const accounts = cfg.demo || cfg.oidc.local ? loadAccounts(`${DEMO_DIR}/accounts.json`) : []
   const background = primary ? null : await openBackground({ config: cfg, orm, logger, storage })

@@ -12,7 +12,7 @@ import { DEMO_DIR } from '../paths'
 
 /** Operator commands on the same DATA_DIR the server uses: `npm run admin -- <command>`. */
 async function withDatabase<T>(work: (orm: Orm) => Promise<T>): Promise<T> {
-  const orm = await openDatabase(loadConfig().dbPath)
+  const orm = await openDatabase(loadConfig().database)
   try {
     return await work(orm)
   } finally {

@@ -37,7 +37,7 @@ function sendTo(worker: Worker | undefined, message: ToWorker) {
  */
 export async function startPrimary(config: AppConfig): Promise<RunningPrimary> {
   const logger = createLogger(config.logLevel)
-  const orm = await openDatabase(config.dbPath)
+  const orm = await openDatabase(config.database)
   const storage = new LocalStorage(config.dataDir)
   const accounts = config.demo || config.oidc.local ? loadAccounts(`${DEMO_DIR}/accounts.json`) : []
   if (config.oidc.local) await signingKey(config.dataDir)

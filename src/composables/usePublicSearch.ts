@@ -12,10 +12,16 @@ import { useDebounced } from './useDebounced'
 /** Table columns the server sorts by, and the sort each means. */
 const COLUMN_SORTS: Record<string, PublicSearchSort> = { accession: 'accession', title: 'title' }
 
+/** What a search starts from: its words and chosen facets (from the page's address). */
+export interface SearchStart {
+  q?: string
+  facets?: Partial<Record<SearchFacet, string>>
+}
+
 /** The public search page's state: words, chosen facets, sort and paging, one request each change. */
-export function usePublicSearch() {
-  const search = ref('')
-  const chosen = reactive<Partial<Record<SearchFacet, string>>>({})
+export function usePublicSearch(start: SearchStart = {}) {
+  const search = ref(start.q ?? '')
+  const chosen = reactive<Partial<Record<SearchFacet, string>>>({ ...start.facets })
   const sort = ref<PublicSearchSort | null>(null)
   const sortBy = ref<SortItem[]>([])
   const page = ref(1)

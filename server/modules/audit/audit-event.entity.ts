@@ -21,7 +21,9 @@ export const AuditEvent = defineEntity({
     targetId: p.string(),
     time: p.datetime().onCreate(() => new Date()),
     address: p.string().nullable(),
-    details: p.json<Record<string, unknown>>().nullable(),
+    // json, not jsonb, on PostgreSQL: the details keep the order they were written in (jsonb sorts
+    // keys), which the audit log shows them in.
+    details: p.json<Record<string, unknown>>().columnType('json').nullable(),
   },
 })
 export type IAuditEvent = InferEntity<typeof AuditEvent>

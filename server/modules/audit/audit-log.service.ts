@@ -3,6 +3,7 @@ import { auditActionLabel, describeAuditDetails } from '@shared/domain/audit-act
 import type { AuditEventDto, AuditFilter } from '@shared/schemas/audit.schema'
 import { ApiToken } from '../tokens/api-token.entity'
 import { User } from '../users/user.entity'
+import { userIdsContaining } from '../users/user-text-search'
 import { AuditEvent, type IAuditEvent } from './audit-event.entity'
 
 /** A date alone as an upper bound means the whole of that day (UTC). */
@@ -29,16 +30,9 @@ async function whereOf(
   if (f.actor) {
     if (f.actor.toLowerCase() === 'system') and.push({ actor: null })
     else {
-      // instr() takes the typed text literally (a LIKE pattern would read % and _ as wildcards).
-      const text = f.actor.toLowerCase()
-      const people = await em
-        .getConnection()
-        .execute<{ id: number }[]>(
-          'select id from user where instr(lower(name), ?) > 0 or instr(lower(email), ?) > 0 limit 500',
-          [text, text],
-        )
+      const people = await userIdsContaining(em, f.actor, 500)
       if (!people.length) return null
-      and.push({ actor: { $in: people.map((u) => u.id) } })
+      and.push({ actor: { $in: people } })
     }
   }
   return and.length ? { $and: and } : {}

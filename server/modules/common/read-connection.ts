@@ -1,5 +1,5 @@
 import Database from 'better-sqlite3'
-import type { Orm } from '../../db'
+import { databaseDriver, type Orm } from '../../db'
 
 type Shape = 'object' | 'raw' | 'pluck'
 type Statement = Database.Statement<unknown[], unknown>
@@ -15,13 +15,25 @@ const MAX_STATEMENTS = 500
  * committed rows, never another request's open transaction, so nothing read is older than the
  * access version the request began with. An in-memory database (tests) has no second connection,
  * so there it borrows the ORM's. It opens on first use and lives as long as the app.
+ *
+ * On PostgreSQL there is no file to open: the same SQL (standard quoting only) goes through the
+ * ORM's pool, and the row shapes are built from its rows.
  */
 export class ReadConnection {
   private database: Database.Database | null = null
   private opening: Promise<Database.Database> | null = null
   private readonly statements = new Map<string, Statement>()
 
-  constructor(private readonly orm: Orm) {}
+  private readonly pooled: boolean
+
+  constructor(private readonly orm: Orm) {
+    this.pooled = databaseDriver(orm) === 'postgresql'
+  }
+
+  /** Rows as objects in the order of the select list, through the ORM's pool. */
+  private pooledRows(sql: string, params: unknown[]): Promise<Record<string, unknown>[]> {
+    return this.orm.em.getConnection().execute<Record<string, unknown>[]>(sql, params, 'all')
+  }
 
   private get dbName(): string {
     return this.orm.config.get('dbName') ?? ':memory:'
@@ -62,20 +74,26 @@ export class ReadConnection {
 
   /** The first row of `sql` as an object, or undefined. */
   async get<T extends object>(sql: string, ...params: unknown[]): Promise<T | undefined> {
+    if (this.pooled) return (await this.pooledRows(sql, params))[0] as T | undefined
     return (await this.with(sql, 'object', (s) => s.get(...params))) as T | undefined
   }
 
   /** Every row as an array of its columns (no promise once the connection is open). */
   rows(sql: string, params: unknown[]): unknown[][] | Promise<unknown[][]> {
+    if (this.pooled) return this.pooledRows(sql, params).then((rows) => rows.map(Object.values))
     return this.with(sql, 'raw', (s) => s.all(...params) as unknown[][])
   }
 
   /** The first column of every row (for long lists of ids: no array per row). */
   column(sql: string, params: unknown[]): number[] | Promise<number[]> {
+    if (this.pooled)
+      return this.pooledRows(sql, params).then((rows) =>
+        rows.map((row) => Object.values(row)[0] as number),
+      )
     return this.with(sql, 'pluck', (s) => s.all(...params) as number[])
   }
 
   close(): void {
-    if (this.dbName !== ':memory:') void this.opening?.then((d) => d.close())
+    if (!this.pooled && this.dbName !== ':memory:') void this.opening?.then((d) => d.close())
   }
 }

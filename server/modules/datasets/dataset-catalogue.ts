@@ -74,20 +74,21 @@ function pageBody(rows: RenderedRow[], total: number, nextCursor: string | null)
   return Buffer.concat(parts)
 }
 
-const VISIBILITY_QUERY = 'select `d`.`id` from `dataset` as `d`'
-
 /**
  * The viewer's visibility as SQL over `d`, written by MikroORM from the CASL rules (values
  * inlined and escaped by the ORM), once per set of rules; '' when every row is visible.
  */
 export function visibilitySql(em: EntityManager, allowed: FilterQuery<IDataset>): string {
+  // Quoted as the database quotes identifiers (backticks on SQLite, double quotes on PostgreSQL).
+  const q = (id: string) => em.getPlatform().quoteIdentifier(id)
+  const prefix = `select ${q('d')}.${q('id')} from ${q('dataset')} as ${q('d')}`
   const sql = em
     .createQueryBuilder(Dataset, 'd')
     .select('d.id')
     .where(structuredClone(allowed) as ObjectQuery<IDataset>)
     .getFormattedQuery()
-  if (!sql.startsWith(VISIBILITY_QUERY)) throw new Error(`Unexpected visibility query: ${sql}`)
-  const rest = sql.slice(VISIBILITY_QUERY.length)
+  if (!sql.startsWith(prefix)) throw new Error(`Unexpected visibility query: ${sql}`)
+  const rest = sql.slice(prefix.length)
   return rest.startsWith(' where ') ? rest.slice(' where '.length) : ''
 }
 

@@ -23,15 +23,17 @@ interface TargetRow {
   accession: string
   project: number
   state: DatasetState
-  embargoUntil: number | null
+  /** Epoch milliseconds on SQLite (how the ORM stores dates there), a Date on PostgreSQL. */
+  embargoUntil: number | Date | null
   fileId: number | null
   kind: FileKind | null
   status: FileStatus | null
   name: string | null
 }
 
+// Quoted aliases keep their case on PostgreSQL too (unquoted ones are folded to lower case).
 const TARGET = `select d.id, d.accession, d.project_id as project, d.state,
-  d.embargo_until as embargoUntil, f.id as fileId, f.kind, f.status, f.name
+  d.embargo_until as "embargoUntil", f.id as "fileId", f.kind, f.status, f.name
   from dataset d left join dataset_file f on f.dataset_id = d.id and f.id = ?`
 const BY_ID = `${TARGET} where d.id = ?`
 const BY_ACCESSION = `${TARGET} where d.accession = ?`
@@ -67,8 +69,13 @@ export class PreviewTables {
       status: row.status!,
       name: row.name!,
       report: async () => {
-        const stored = await this.db.get<{ report: string | null }>(REPORT, row.fileId)
-        return stored?.report ? (JSON.parse(stored.report) as Record<string, unknown>) : null
+        // JSON text on SQLite; already parsed from jsonb on PostgreSQL.
+        const stored = await this.db.get<{ report: string | Record<string, unknown> | null }>(
+          REPORT,
+          row.fileId,
+        )
+        const report = stored?.report ?? null
+        return typeof report === 'string' ? (JSON.parse(report) as Record<string, unknown>) : report
       },
     }
     return { dataset, table }

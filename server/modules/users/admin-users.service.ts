@@ -9,6 +9,7 @@ import type { Actor } from '../../services'
 import { audit } from '../audit/audit.service'
 import { Organization } from '../organizations/organization.entity'
 import { User, type IUser } from './user.entity'
+import { userIdsContaining } from './user-text-search'
 
 async function toDtos(em: EntityManager, users: IUser[]): Promise<AdminUserDto[]> {
   const orgIds = [...new Set(users.map((u) => u.organization).filter((id) => id != null))]
@@ -33,14 +34,7 @@ export async function listUsers(
 ) {
   let where = {}
   if (q.search) {
-    const text = q.search.toLowerCase()
-    const ids = await em
-      .getConnection()
-      .execute<{ id: number }[]>(
-        'select id from user where instr(lower(name), ?) > 0 or instr(lower(email), ?) > 0',
-        [text, text],
-      )
-    where = { id: { $in: ids.map((r) => r.id) } }
+    where = { id: { $in: await userIdsContaining(em, q.search) } }
   }
   const [users, total] = await em.findAndCount(User, where, {
     orderBy: { name: 'asc', id: 'asc' },

@@ -52,12 +52,12 @@ afterEach(() => {
   api.searchPublicDatasets.mockReset()
 })
 
-async function mountView() {
+async function mountView(path = '/search') {
   const router = createRouter({ history: createMemoryHistory(), routes })
-  await router.push('/search')
+  await router.push(path)
   const wrapper = mount(PublicSearchView, { global: { plugins: [vuetify, router] } })
   await flushPromises()
-  return wrapper
+  return Object.assign(wrapper, { router })
 }
 
 describe('public search page', () => {
@@ -121,5 +121,26 @@ describe('public page link', () => {
     expect(link('submitted').exists()).toBe(false)
     // A second version in the making: the approved first one keeps its page.
     expect(link('draft', 2).exists()).toBe(true)
+  })
+
+  it('starts from the words and facets in the address, and keeps the address in step', async () => {
+    api.searchPublicDatasets.mockResolvedValue(page)
+    const w = await mountView('/search?q=pore&organism=Mus%20musculus')
+    expect(api.searchPublicDatasets).toHaveBeenCalledTimes(1)
+    expect(api.searchPublicDatasets.mock.calls[0]![0]).toMatchObject({
+      q: 'pore',
+      organism: 'Mus musculus',
+    })
+    expect(
+      (w.find('[data-testid="public-search-input"] input').element as HTMLInputElement).value,
+    ).toBe('pore')
+    await w.find('[data-testid="public-search-input"] input').setValue('nuclear pore')
+    await flushPromises()
+    await new Promise((r) => setTimeout(r, 50))
+    console.log(JSON.stringify(w.router.currentRoute.value.fullPath))
+    expect(w.router.currentRoute.value.query).toEqual({
+      q: 'nuclear pore',
+      organism: 'Mus musculus',
+    })
   })
 })
