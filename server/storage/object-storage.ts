@@ -21,6 +21,8 @@ export function storageProblem(err: unknown): string {
   const e = err as { name?: string; code?: string; $metadata?: { httpStatusCode?: number } }
   const code = e.code ?? (err as { cause?: { code?: string } }).cause?.code
   const status = e.$metadata?.httpStatusCode
+  if (e.name === 'CredentialsProviderError')
+    return 'no credentials were found (set S3_ACCESS_KEY_ID and S3_SECRET_ACCESS_KEY, or give the machine a role)'
   if (code === 'ECONNREFUSED') return 'nothing answers at that address (connection refused)'
   if (code === 'ENOTFOUND' || code === 'EAI_AGAIN') return 'the host name does not resolve'
   if (code === 'ETIMEDOUT' || e.name === 'TimeoutError') return 'the connection timed out'

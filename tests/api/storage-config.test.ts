@@ -109,14 +109,29 @@ describe('object storage missing at start', () => {
     )
   })
 
-  it('names a missing bucket, and gives up when told to', async () => {
-    const config = load({ ...s3!.env(), STORAGE_URL: 's3://no-such-bucket/x' })
+  /** Waits `attempts` times without pausing, and returns why it gave up. */
+  async function givesUp(env: Record<string, string>, attempts: number): Promise<string> {
+    const config = load(env)
     const store = createObjectStore(config.storage, config.dataDir)
     const quiet: Logger = { error: () => undefined, info: () => undefined, debug: () => undefined }
-    await expect(
-      waitForObjectStore(store, 'here', { logger: quiet, sleep: async () => {}, attempts: 2 }),
-    ).rejects.toThrow('Object storage here is not usable: the bucket does not exist')
+    const options = { logger: quiet, sleep: async () => {}, attempts }
+    const err = await waitForObjectStore(store, 'here', options).catch((e: Error) => e)
     store.close?.()
+    return err instanceof Error ? err.message : 'it did not give up'
+  }
+
+  it('says when there are no credentials at all', async () => {
+    expect(
+      await givesUp({ STORAGE_URL: 's3://stipple-late/x', S3_ENDPOINT: s3!.endpoint }, 1),
+    ).toBe(
+      'Object storage here is not usable: no credentials were found (set S3_ACCESS_KEY_ID and S3_SECRET_ACCESS_KEY, or give the machine a role)',
+    )
+  })
+
+  it('names a missing bucket, and gives up when told to', async () => {
+    expect(await givesUp({ ...s3!.env(), STORAGE_URL: 's3://no-such-bucket/x' }, 2)).toBe(
+      'Object storage here is not usable: the bucket does not exist (create it, or correct STORAGE_URL)',
+    )
   })
 })
 

@@ -192,6 +192,18 @@ describe('tus uploads on the S3 profile', () => {
   })
 })
 
+describe('uploads cancelled on another node', () => {
+  it('are gone for every node at once', async () => {
+    const [a, b] = [await startNode(), await startNode()]
+    const id = await create(a, 10 * MiB)
+    await patchFrom(a, id, randomBytes(6 * MiB), 0, 6 * MiB)
+    const cancelled = await fetch(`${b.url}/${id}`, { method: 'DELETE', headers: TUS })
+    expect(cancelled.status).toBe(204)
+    const head = await fetch(`${a.url}/${id}`, { method: 'HEAD', headers: TUS })
+    expect(head.status).toBe(404)
+  })
+})
+
 describe('the S3 upload store when it loses bytes', () => {
   /** A body that delivers its bytes and then fails, as a broken connection or S3 fault ends it. */
   const failingAfter = (bytes: Buffer) => {
@@ -228,6 +240,32 @@ describe('the S3 upload store when it loses bytes', () => {
     expect(await store.finish(upload.id)).toEqual({ sha256: sha256(source), size: source.length })
     expect(store.rereads).toBe(0)
     expect(await storedSha256(upload.id)).toBe(sha256(source))
+  })
+})
+
+describe('expiry on the S3 profile', () => {
+  it('aborts unfinished uploads past the expiry, under the prefix only', async () => {
+    const expiring = loadConfig({
+      DATA_DIR: dataDir,
+      ...s3.env('expiring'),
+      UPLOAD_EXPIRY_HOURS: '0.0000001',
+    })
+    const store = createUploadDatastore({
+      storage: expiring.storage,
+      uploadsDir: join(dataDir, 'uploads'),
+      expiryMs: expiring.uploads.expiryMs,
+    })
+    const other = await startNode()
+    const keep = await create(other, 10 * MiB)
+    await patchFrom(other, keep, randomBytes(6 * MiB), 0, 6 * MiB)
+    await store.create(new Upload({ id: 'stale', size: 10 * MiB, offset: 0 }))
+    await store.write(Readable.from([randomBytes(6 * MiB)]), 'stale', 0)
+    await new Promise((resolve) => setTimeout(resolve, 50))
+    expect(await store.deleteExpired()).toBe(2) // its .info record and its (absent) tail object
+    await expect(store.getUpload('stale')).rejects.toMatchObject({ status_code: 404 })
+    // Another prefix's unfinished upload is not this store's to expire.
+    expect(await offsetOf(other, keep)).toBe(6 * MiB)
+    await store.close()
   })
 })
 

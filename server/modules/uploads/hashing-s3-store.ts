@@ -1,6 +1,7 @@
 import { createHash, type Hash } from 'node:crypto'
 import { pipeline, Transform, type Readable } from 'node:stream'
-import { S3Store } from '@tus/s3-store'
+import { S3Store, type MetadataValue } from '@tus/s3-store'
+import type { KvStore } from '@tus/utils'
 import { ERRORS, type Upload } from '@tus/server'
 import { s3ClientConfig } from '../../storage/s3-object-store'
 import type { StorageConfig } from '../../storage/storage-config'
@@ -33,6 +34,7 @@ export class HashingS3Store extends S3Store {
       expirationPeriodInMilliseconds: options.expiryMs,
       // Expiry is our upkeep's deleteExpired(), not bucket lifecycle rules on object tags.
       useTags: false,
+      cache: NO_CACHE,
     })
     // Quota and registration need the size up front (as on the local disk).
     this.extensions = this.extensions.filter((e) => e !== 'creation-defer-length')
@@ -110,6 +112,18 @@ export class HashingS3Store extends S3Store {
     this.client.destroy()
     return Promise.resolve()
   }
+}
+
+/**
+ * Upload records are read from the bucket each time. The store's default memory cache goes stale
+ * once another node (or the expiry sweep) finishes, cancels or expires an upload, and a stale
+ * record makes a removed upload look complete. One small GET per request is the price.
+ */
+const NO_CACHE: KvStore<MetadataValue> = {
+  get: () => Promise.resolve(undefined),
+  set: () => Promise.resolve(),
+  delete: () => Promise.resolve(),
+  list: () => Promise.resolve([]),
 }
 
 /**
