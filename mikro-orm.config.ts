@@ -1,86 +1,9 @@
-import { resolve } from 'node:path'
-import type { MigrationsOptions } from '@mikro-orm/core'
-import { Migrator } from '@mikro-orm/migrations'
-import { defineConfig as defineSqliteConfig } from '@mikro-orm/better-sqlite'
-import { defineConfig as definePostgresqlConfig } from '@mikro-orm/postgresql'
-import { loadConfig, type DatabaseTarget } from './server/config'
-import { entities } from './server/entities'
-import { migrationsList } from './server/migrations'
-import { postgresqlMigrationsList } from './server/migrations/postgresql'
+import { loadConfig } from './server/config'
+import { createOrmConfig } from './server/orm-config'
 
 /**
- * Each database keeps its own migrations (their SQL differs); the CLI writes a new one into the
- * folder of the database it is pointed at. List each in that folder's index.ts.
+ * For the ORM CLI: the database the server would open with the same environment. The builders
+ * live in server/orm-config.ts, so that importing them does not read the environment (the server
+ * reads it once, and explains a bad setting in words).
  */
-const migrationsIn = (folder: string, list: MigrationsOptions['migrationsList']) => ({
-  path: resolve(folder),
-  pathTs: resolve(folder),
-  migrationsList: list,
-  emit: 'ts' as const,
-  snapshot: false,
-  silent: true,
-})
-
-/**
- * The embedded profile's configuration: a SQLite file in DATA_DIR (tests pass ':memory:').
- * Used by the server and by the CLI (`npm run db -- migration:create`).
- */
-export function createSqliteConfig(dbName: string) {
-  return defineSqliteConfig({
-    dbName,
-    entities,
-    extensions: [Migrator],
-    migrations: migrationsIn('server/migrations', migrationsList),
-    pool: {
-      // WAL lets readers run while a writer commits; one writer at a time is SQLite's own rule.
-      afterCreate: (
-        db: { pragma: (sql: string) => unknown },
-        done: (err: Error | null, db: unknown) => void,
-      ) => {
-        try {
-          db.pragma('journal_mode = WAL')
-          db.pragma('foreign_keys = ON')
-          db.pragma('busy_timeout = 5000')
-          done(null, db)
-        } catch (err) {
-          done(err as Error, db)
-        }
-      },
-    },
-    // SQLite's own planner statistics (written by PRAGMA optimize) are not ours to diff, nor are
-    // full-text indexes (virtual tables and their shadow tables, made by migrations: *_fts*).
-    schemaGenerator: { skipTables: ['sqlite_stat1', 'sqlite_stat4', /_fts(_\w+)?$/] },
-    debug: false,
-    allowGlobalContext: false,
-  })
-}
-
-/** The cluster profile's configuration: a PostgreSQL database named by DATABASE_URL. */
-export function createPostgresqlConfig(clientUrl: string) {
-  return definePostgresqlConfig({
-    clientUrl,
-    entities,
-    extensions: [Migrator],
-    migrations: migrationsIn('server/migrations/postgresql', postgresqlMigrationsList),
-    // The full-text index (made by a migration, not an entity) is not the diff's to drop.
-    schemaGenerator: { skipTables: ['dataset_search'] },
-    debug: false,
-    allowGlobalContext: false,
-  })
-}
-
-type SqliteConfig = ReturnType<typeof createSqliteConfig>
-type PostgresqlConfig = ReturnType<typeof createPostgresqlConfig>
-
-/** The configuration for a database target (a bare string is a SQLite file, as tests pass). */
-export function createOrmConfig(target: string): SqliteConfig
-export function createOrmConfig(target: DatabaseTarget): SqliteConfig | PostgresqlConfig
-export function createOrmConfig(target: DatabaseTarget | string): SqliteConfig | PostgresqlConfig {
-  if (typeof target === 'string') return createSqliteConfig(target)
-  return target.driver === 'postgresql'
-    ? createPostgresqlConfig(target.url)
-    : createSqliteConfig(target.path)
-}
-
-/** For the ORM CLI: the database the server would open with the same environment. */
 export default createOrmConfig(loadConfig().database)

@@ -1,6 +1,6 @@
 import { MikroORM } from '@mikro-orm/better-sqlite'
 import { MikroORM as PostgreSqlOrm, PostgreSqlPlatform } from '@mikro-orm/postgresql'
-import { createPostgresqlConfig, createSqliteConfig } from '../mikro-orm.config'
+import { createPostgresqlConfig, createSqliteConfig } from './orm-config'
 import type { DatabaseTarget } from './config'
 
 /**

@@ -5,7 +5,7 @@
  */
 import { MikroORM } from '@mikro-orm/better-sqlite'
 import { afterAll, beforeAll, expect, it } from 'vitest'
-import { createOrmConfig } from '../../mikro-orm.config'
+import { createOrmConfig } from '@server/orm-config'
 
 let orm: MikroORM
 const sql = (q: string, params: unknown[] = []) => orm.em.getConnection().execute(q, params)

@@ -5,7 +5,7 @@
  * expired or revoked token gets a clear page and no data.
  */
 import request from 'supertest'
-import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest'
 import { AuditEvent } from '@server/modules/audit/audit-event.entity'
 import { DatasetMetadata } from '@server/modules/metadata/dataset-metadata.entity'
 import { ReviewerLink } from '@server/modules/reviewer-links/reviewer-link.entity'
@@ -342,13 +342,16 @@ describe('a link to one version', () => {
     expect(content.headers['content-digest']).toBe(
       `sha-256=:${Buffer.from(original.sha256!, 'hex').toString('base64')}:`,
     )
-    const used = await t.em().find(AuditEvent, {
-      action: 'reviewer_link.use',
-      targetId: d.accession,
+    // Written once the response has finished: waited for, not read at once.
+    await vi.waitFor(async () => {
+      const used = await t.em().find(AuditEvent, {
+        action: 'reviewer_link.use',
+        targetId: d.accession,
+      })
+      expect(used.map((e) => (e.details as { download?: string }).download)).toContain(
+        `${d.accession}.v1/locs.csv`,
+      )
     })
-    expect(used.map((e) => (e.details as { download?: string }).download)).toContain(
-      `${d.accession}.v1/locs.csv`,
-    )
     // Under embargo, the same routes without the link show no files.
     expect((await get(`${base}/versions/1`, false)).body.files).toBeNull()
     expect(
