@@ -2,6 +2,7 @@ import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs'
 import { randomBytes } from 'node:crypto'
 import { join, resolve } from 'node:path'
 import { z } from 'zod'
+import { parseStorageConfig, type StorageConfig } from './storage/storage-config'
 
 const bool = z
   .enum(['true', 'false', '1', '0', 'yes', 'no'])
@@ -80,6 +81,15 @@ const envSchema = z.object({
   RATE_LIMIT_COMMENTS: z.coerce.number().int().min(1).default(30),
   /** Minutes during which an author may still edit a comment. */
   COMMENT_EDIT_MINUTES: z.coerce.number().positive().default(15),
+  /** Unset: bytes under DATA_DIR. `s3://bucket/prefix`: an S3-compatible bucket (below). */
+  STORAGE_URL: z.string().optional(),
+  /** The S3 API's base URL (MinIO, Ceph, …); unset means AWS for S3_REGION. */
+  S3_ENDPOINT: z.string().optional(),
+  S3_REGION: z.string().min(1).default('us-east-1'),
+  S3_ACCESS_KEY_ID: z.string().optional(),
+  S3_SECRET_ACCESS_KEY: z.string().optional(),
+  /** Bucket in the path, not the host name (default: true when S3_ENDPOINT is set). */
+  S3_FORCE_PATH_STYLE: bool.optional(),
 })
 
 /**
@@ -119,6 +129,8 @@ export interface AppConfig {
   /** Where DOIs are registered; url null means the local DataCite stand-in (demo and tests). */
   datacite: { url: string | null; repositoryId: string; password: string; prefix: string }
   comments: { perMinute: number; editWindowMs: number }
+  /** Where bytes live: the data directory, or an S3 bucket (STORAGE_URL). */
+  storage: StorageConfig
 }
 
 /** Secrets the server makes for itself on first start, kept in the data directory (never in git). */
@@ -181,6 +193,10 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): AppConfig {
     )
   }
 
+  const storage = parseStorageConfig(e)
+  if (!storage.config)
+    throw new ConfigError(`Invalid storage settings:\n  ${storage.problems.join('\n  ')}`)
+
   const secrets = loadLocalSecrets(dataDir)
   const publicUrl = (e.PUBLIC_URL ?? `http://localhost:${e.PORT}`).replace(/\/$/, '')
   return {
@@ -226,5 +242,6 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): AppConfig {
       prefix: e.DOI_PREFIX,
     },
     comments: { perMinute: e.RATE_LIMIT_COMMENTS, editWindowMs: e.COMMENT_EDIT_MINUTES * 60_000 },
+    storage: storage.config,
   }
 }

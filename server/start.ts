@@ -17,6 +17,7 @@ import { DEMO_DIR } from './paths'
 import type { JobRunner } from './jobs/job-runner'
 import type { Uploads } from './modules/uploads/uploads'
 import { LocalStorage } from './storage/local-storage'
+import { objectStorageReady } from './storage/object-storage'
 
 export interface RunningStipple {
   url: string
@@ -101,6 +102,7 @@ async function startOn(
   const publicUrl = config.port === 0 ? `http://${config.host}:${port}` : config.publicUrl
   const cfg: AppConfig = { ...config, port, publicUrl }
   const { primary } = options
+  await objectStorageReady(cfg, logger)
 
   const orm = await openDatabase(cfg.database)
   const storage = new LocalStorage(cfg.dataDir)

@@ -4,6 +4,7 @@ import type { Readable } from 'node:stream'
 import { pipeline } from 'node:stream/promises'
 import { FileStore } from '@tus/file-store'
 import { ERRORS, type Upload } from '@tus/server'
+import { FinishedUploads } from './finished-uploads'
 import { UploadWriterThread } from './upload-writer-thread'
 
 /**
@@ -16,8 +17,7 @@ export class HashingFileStore extends FileStore {
   private readonly hashes = new UploadWriterThread()
   /** How far each running hash has got. */
   private readonly hashedTo = new Map<string, number>()
-  /** Uploads registered in the request still being answered (their tus record is gone). */
-  private readonly finished = new Map<string, Upload>()
+  readonly finished = new FinishedUploads()
 
   constructor(options: ConstructorParameters<typeof FileStore>[0]) {
     super(options)
@@ -76,22 +76,8 @@ export class HashingFileStore extends FileStore {
     return { sha256, size }
   }
 
-  override async getUpload(id: string): Promise<Upload> {
-    try {
-      return await super.getUpload(id)
-    } catch (err) {
-      const done = this.finished.get(id)
-      if (done) return done
-      throw err
-    }
-  }
-
-  rememberFinished(upload: Upload): void {
-    this.finished.set(upload.id, upload)
-  }
-
-  forgetFinished(id: string): void {
-    this.finished.delete(id)
+  override getUpload(id: string): Promise<Upload> {
+    return this.finished.read(id, () => super.getUpload(id))
   }
 
   forget(id: string): void {

@@ -163,8 +163,8 @@ export function createUploads(deps: {
       // A creation-with-upload POST reads the upload once more after this hook, to decide on
       // Upload-Expires; the record is gone by then, so the store answers from memory until the
       // response is out.
-      store.rememberFinished(new Upload({ ...upload, offset: size }))
-      r.res?.once('close', () => store.forgetFinished(upload.id))
+      store.finished.remember(new Upload({ ...upload, offset: size }))
+      r.res?.once('close', () => store.finished.forget(upload.id))
       return {
         headers: { 'Stipple-File-Id': file.id, 'Stipple-File-Name': encodeURIComponent(file.name) },
       }

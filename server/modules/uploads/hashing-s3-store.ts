@@ -1,0 +1,160 @@
+import { createHash, type Hash } from 'node:crypto'
+import { pipeline, Transform, type Readable } from 'node:stream'
+import { S3Store, type MetadataValue } from '@tus/s3-store'
+import type { KvStore } from '@tus/utils'
+import { ERRORS, type Upload } from '@tus/server'
+import { s3ClientConfig } from '../../storage/s3-object-store'
+import type { StorageConfig } from '../../storage/storage-config'
+import { FinishedUploads } from './finished-uploads'
+import type { FinishedUpload } from './upload-datastore'
+
+type S3Config = Extract<StorageConfig, { kind: 's3' }>
+
+/**
+ * The tus S3 store (multipart uploads, one part per 8 MiB), hashing the bytes as they pass, so
+ * the SHA-256 of a finished upload is known without reading the object back.
+ *
+ * The store keeps only whole parts when a PATCH breaks off (and a short tail as a separate
+ * object between PATCHes, which a broken PATCH may lose), so what it holds afterwards can be
+ * less than what passed. The running hash is therefore copied at every point where the store
+ * may resume: the start of each PATCH's first part and each part boundary after it. A PATCH
+ * resuming from a point with a copy continues that hash; from any other point (another node
+ * took part of the upload, or a restart) the finished object is hashed once, read back.
+ */
+export class HashingS3Store extends S3Store {
+  /** Per upload: the hash state at each offset the store may resume from. */
+  private readonly states = new Map<string, Map<number, Hash>>()
+  readonly finished = new FinishedUploads()
+  /** Finished uploads whose hash had to be computed by reading the object back. */
+  rereads = 0
+
+  constructor(config: S3Config, options: { expiryMs: number }) {
+    super({
+      s3ClientConfig: { ...s3ClientConfig(config), bucket: config.bucket },
+      expirationPeriodInMilliseconds: options.expiryMs,
+      // Expiry is our upkeep's deleteExpired(), not bucket lifecycle rules on object tags.
+      useTags: false,
+      cache: NO_CACHE,
+    })
+    // Quota and registration need the size up front (as on the local disk).
+    this.extensions = this.extensions.filter((e) => e !== 'creation-defer-length')
+    prefixKeys(this.client, `${config.prefix}uploads/`)
+  }
+
+  override async write(src: Readable, id: string, offset: number): Promise<number> {
+    const known = this.states.get(id)?.get(offset) ?? (offset === 0 ? createHash('sha256') : null)
+    if (!known) {
+      this.states.delete(id)
+      return super.write(src, id, offset)
+    }
+    // Where this PATCH's parts begin (a stored short tail goes in front of the new bytes), and
+    // how long they are: the same sums the store makes.
+    const { file } = await this.getMetadata(id)
+    const tail = (await this.getIncompletePartSize(id)) ?? 0
+    const partSize = this.calcOptimalPartSize(file.size)
+    const base = offset - tail
+    const hash = known.copy()
+    const states = new Map([...(this.states.get(id) ?? [])].filter(([at]) => at >= base))
+    states.set(offset, known)
+    this.states.set(id, states)
+    let at = offset
+    let nextBoundary = base + partSize
+    const hashing = new Transform({
+      transform(chunk: Buffer, _enc, done) {
+        let from = 0
+        // Cut at part boundaries, so the copy there holds exactly the bytes before it.
+        while (at + (chunk.length - from) >= nextBoundary) {
+          const upTo = from + (nextBoundary - at)
+          hash.update(chunk.subarray(from, upTo))
+          at = nextBoundary
+          from = upTo
+          states.set(at, hash.copy())
+          nextBoundary += partSize
+        }
+        hash.update(chunk.subarray(from))
+        at += chunk.length - from
+        done(null, chunk)
+      },
+    })
+    const passed = pipeline(src, hashing, () => undefined)
+    const newOffset = await super.write(passed, id, offset)
+    if (at === newOffset) states.set(at, hash)
+    return newOffset
+  }
+
+  /** The SHA-256 (hex) and size of a finished upload; reads the object back if it must. */
+  async finish(id: string): Promise<FinishedUpload> {
+    const upload = await this.getUpload(id)
+    const size = upload.size ?? upload.offset
+    const running = this.states.get(id)?.get(size)
+    this.states.delete(id)
+    if (running) return { sha256: running.digest('hex'), size }
+    this.rereads++
+    const hash = createHash('sha256')
+    let read = 0
+    for await (const chunk of (await this.read(id)) as AsyncIterable<Buffer>) {
+      hash.update(chunk)
+      read += chunk.length
+    }
+    if (read !== size) throw ERRORS.FILE_WRITE_ERROR
+    return { sha256: hash.digest('hex'), size }
+  }
+
+  override getUpload(id: string): Promise<Upload> {
+    return this.finished.read(id, () => super.getUpload(id))
+  }
+
+  forget(id: string): void {
+    this.states.delete(id)
+  }
+
+  close(): Promise<void> {
+    this.client.destroy()
+    return Promise.resolve()
+  }
+}
+
+/**
+ * Upload records are read from the bucket each time. The store's default memory cache goes stale
+ * once another node (or the expiry sweep) finishes, cancels or expires an upload, and a stale
+ * record makes a removed upload look complete. One small GET per request is the price.
+ */
+const NO_CACHE: KvStore<MetadataValue> = {
+  get: () => Promise.resolve(undefined),
+  set: () => Promise.resolve(),
+  delete: () => Promise.resolve(),
+  list: () => Promise.resolve([]),
+}
+
+/**
+ * The tus S3 store writes at the bucket's root (its keys are the upload ids); ours live under the
+ * configured prefix. Every call's keys get the prefix on the way out, and listed uploads lose it
+ * on the way back.
+ */
+function prefixKeys(client: S3Store['client'], prefix: string) {
+  if (!prefix) return
+  client.middlewareStack.add(
+    (next, context) => async (args) => {
+      const input = { ...(args.input as Record<string, unknown>) } as {
+        Key?: string
+        Prefix?: string
+        Delete?: { Objects?: { Key?: string }[] }
+      }
+      if (typeof input.Key === 'string') input.Key = prefix + input.Key
+      if (input.Delete?.Objects)
+        input.Delete = {
+          ...input.Delete,
+          Objects: input.Delete.Objects.map((o) => ({ ...o, Key: prefix + o.Key })),
+        }
+      const listing = context.commandName === 'ListMultipartUploadsCommand'
+      if (listing) input.Prefix = prefix + (input.Prefix ?? '')
+      const result = await next({ ...args, input })
+      if (listing) {
+        const output = result.output as { Uploads?: { Key?: string }[] }
+        for (const u of output.Uploads ?? []) u.Key = u.Key?.slice(prefix.length)
+      }
+      return result
+    },
+    { step: 'initialize', name: 'stippleKeyPrefix' },
+  )
+}
