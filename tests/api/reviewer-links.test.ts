@@ -342,13 +342,15 @@ describe('a link to one version', () => {
     expect(content.headers['content-digest']).toBe(
       `sha-256=:${Buffer.from(original.sha256!, 'hex').toString('base64')}:`,
     )
-    const used = await t.em().find(AuditEvent, {
-      action: 'reviewer_link.use',
-      targetId: d.accession,
-    })
-    expect(used.map((e) => (e.details as { download?: string }).download)).toContain(
-      `${d.accession}.v1/locs.csv`,
-    )
+    // The use is recorded once the response has finished: wait for it (up to 3 s).
+    const downloads = async () =>
+      (await t.em().find(AuditEvent, { action: 'reviewer_link.use', targetId: d.accession })).map(
+        (e) => (e.details as { download?: string }).download,
+      )
+    const until = Date.now() + 3000
+    while (!(await downloads()).includes(`${d.accession}.v1/locs.csv`) && Date.now() < until)
+      await new Promise((r) => setTimeout(r, 20))
+    expect(await downloads()).toContain(`${d.accession}.v1/locs.csv`)
     // Under embargo, the same routes without the link show no files.
     expect((await get(`${base}/versions/1`, false)).body.files).toBeNull()
     expect(
