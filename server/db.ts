@@ -1,5 +1,4 @@
 import { MikroORM } from '@mikro-orm/better-sqlite'
-import { MikroORM as PostgreSqlOrm, PostgreSqlPlatform } from '@mikro-orm/postgresql'
 import { createPostgresqlConfig, createSqliteConfig } from './orm-config'
 import type { DatabaseTarget } from './config'
 
@@ -20,19 +19,29 @@ export type DatabaseDriver = DatabaseTarget['driver']
 export async function openDatabase(target: DatabaseTarget | string): Promise<Orm> {
   const chosen: DatabaseTarget =
     typeof target === 'string' ? { driver: 'sqlite', path: target } : target
-  const orm =
-    chosen.driver === 'postgresql'
-      ? ((await PostgreSqlOrm.init(createPostgresqlConfig(chosen.url))) as unknown as Orm)
-      : await MikroORM.init(createSqliteConfig(chosen.path))
+  let orm: Orm
+  if (chosen.driver === 'postgresql') {
+    // Loaded only for this profile (it costs the embedded one most of a second at each start).
+    const { MikroORM: PostgreSqlOrm } = await import('@mikro-orm/postgresql')
+    orm = (await PostgreSqlOrm.init(await createPostgresqlConfig(chosen.url))) as unknown as Orm
+  } else {
+    orm = await MikroORM.init(createSqliteConfig(chosen.path))
+  }
+  drivers.set(orm.config, chosen.driver)
   await orm.getMigrator().up()
   await refreshPlannerStatistics(orm)
   return orm
 }
 
-/** The one question code asks when a database's SQL dialect matters (of an ORM or one of its EntityManagers). */
+/** The driver of each database opened here, by its configuration (shared by every fork). */
+const drivers = new WeakMap<object, DatabaseDriver>()
+
+/**
+ * The one question code asks when a database's SQL dialect matters (of an ORM or one of its
+ * EntityManagers). A database not opened by openDatabase is SQLite (tests of old migrations).
+ */
 export function databaseDriver(db: Orm | Orm['em']): DatabaseDriver {
-  const platform = 'em' in db ? db.em.getPlatform() : db.getPlatform()
-  return platform instanceof PostgreSqlPlatform ? 'postgresql' : 'sqlite'
+  return drivers.get(db.config) ?? 'sqlite'
 }
 
 /**

@@ -2,8 +2,6 @@ import { resolve } from 'node:path'
 import type { MigrationsOptions } from '@mikro-orm/core'
 import { Migrator } from '@mikro-orm/migrations'
 import { defineConfig as defineSqliteConfig } from '@mikro-orm/better-sqlite'
-import { defineConfig as definePostgresqlConfig } from '@mikro-orm/postgresql'
-import type { DatabaseTarget } from './config'
 import { entities } from './entities'
 import { migrationsList } from './migrations'
 import { postgresqlMigrationsList } from './migrations/postgresql'
@@ -55,9 +53,13 @@ export function createSqliteConfig(dbName: string) {
   })
 }
 
-/** The cluster profile's configuration: a PostgreSQL database named by DATABASE_URL. */
-export function createPostgresqlConfig(clientUrl: string) {
-  return definePostgresqlConfig({
+/**
+ * The cluster profile's configuration: a PostgreSQL database named by DATABASE_URL. Its driver is
+ * loaded only here, when asked for: the embedded profile never pays for loading it.
+ */
+export async function createPostgresqlConfig(clientUrl: string) {
+  const { defineConfig } = await import('@mikro-orm/postgresql')
+  return defineConfig({
     clientUrl,
     entities,
     extensions: [Migrator],
@@ -69,15 +71,5 @@ export function createPostgresqlConfig(clientUrl: string) {
   })
 }
 
-type SqliteConfig = ReturnType<typeof createSqliteConfig>
-type PostgresqlConfig = ReturnType<typeof createPostgresqlConfig>
-
-/** The configuration for a database target (a bare string is a SQLite file, as tests pass). */
-export function createOrmConfig(target: string): SqliteConfig
-export function createOrmConfig(target: DatabaseTarget): SqliteConfig | PostgresqlConfig
-export function createOrmConfig(target: DatabaseTarget | string): SqliteConfig | PostgresqlConfig {
-  if (typeof target === 'string') return createSqliteConfig(target)
-  return target.driver === 'postgresql'
-    ? createPostgresqlConfig(target.url)
-    : createSqliteConfig(target.path)
-}
+/** The embedded profile's configuration for a SQLite file (tests pass ':memory:'). */
+export const createOrmConfig = createSqliteConfig

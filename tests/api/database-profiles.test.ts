@@ -445,7 +445,7 @@ describe('the dataset list on PostgreSQL', () => {
          select 'STPL-' || lpad(i::text, 6, '0'), 'Dataset ' || (i % 977), '', (select min(id) from project),
            case when i % 7 = 0 then 'approved' else 'draft' end, 'CC-BY-4.0', 1,
            now() - i * interval '1 minute', now() - (i % 500) * interval '1 second'
-         from generate_series(1, 20000) i`,
+         from generate_series(1, 5000) i`,
       )
       await sql('analyze')
       const visibilities = ['', `d."state" in ('approved', 'withdrawn')`]

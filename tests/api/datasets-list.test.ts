@@ -208,8 +208,9 @@ describe('a search matching more datasets than a sort of its own would be worth'
             state: i % 7 ? 'draft' : 'approved',
             licence: 'CC-BY-4.0',
             version: 1,
-            created_at: Date.UTC(2026, 1, 1) + (i % 300) * 1000,
-            updated_at: Date.UTC(2026, 1, 1) + i * 1000,
+            // Dates, not numbers: the driver writes each database's own form (ms on SQLite).
+            created_at: new Date(Date.UTC(2026, 1, 1) + (i % 300) * 1000),
+            updated_at: new Date(Date.UTC(2026, 1, 1) + i * 1000),
           }
         }),
       )
