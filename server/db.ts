@@ -29,9 +29,10 @@ export async function openDatabase(target: DatabaseTarget | string): Promise<Orm
   return orm
 }
 
-/** The one question code asks when a database's SQL dialect matters. */
-export function databaseDriver(orm: Orm): DatabaseDriver {
-  return orm.em.getPlatform() instanceof PostgreSqlPlatform ? 'postgresql' : 'sqlite'
+/** The one question code asks when a database's SQL dialect matters (of an ORM or one of its EntityManagers). */
+export function databaseDriver(db: Orm | Orm['em']): DatabaseDriver {
+  const platform = 'em' in db ? db.em.getPlatform() : db.getPlatform()
+  return platform instanceof PostgreSqlPlatform ? 'postgresql' : 'sqlite'
 }
 
 /**

@@ -1,6 +1,7 @@
 import { Migration20261205020046 } from './Migration20261205020046'
 import { Migration20261205020100 } from './Migration20261205020100'
 import { Migration20261205022000 } from './Migration20261205022000'
+import { Migration20261205030000 } from './Migration20261205030000'
 
 /**
  * The PostgreSQL profile's migrations in the order they run: the same schema as the SQLite ones
@@ -11,4 +12,5 @@ export const postgresqlMigrationsList = [
   { name: 'Migration20261205020046', class: Migration20261205020046 },
   { name: 'Migration20261205020100', class: Migration20261205020100 },
   { name: 'Migration20261205022000', class: Migration20261205022000 },
+  { name: 'Migration20261205030000', class: Migration20261205030000 },
 ]

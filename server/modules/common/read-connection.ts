@@ -30,6 +30,11 @@ export class ReadConnection {
     this.pooled = databaseDriver(orm) === 'postgresql'
   }
 
+  /** The SQL dialect of the database behind it. */
+  get dialect(): 'sqlite' | 'postgresql' {
+    return this.pooled ? 'postgresql' : 'sqlite'
+  }
+
   /** Rows as objects in the order of the select list, through the ORM's pool. */
   private pooledRows(sql: string, params: unknown[]): Promise<Record<string, unknown>[]> {
     return this.orm.em.getConnection().execute<Record<string, unknown>[]>(sql, params, 'all')

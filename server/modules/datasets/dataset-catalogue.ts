@@ -10,7 +10,8 @@ import { RenderedRows, sortValueOf, type PageRow, type RenderedRow } from './dat
 import type { ListReader } from './dataset-list-reader'
 import {
   SORT_COLUMNS,
-  FTS_ROWIDS,
+  ftsRowidsSql,
+  searchMatch,
   countSql,
   pageIdsSql,
   type ListFilter,
@@ -18,7 +19,6 @@ import {
   type ListPlan,
   type Sql,
 } from './dataset-list-sql'
-import { searchExpression } from './dataset-search'
 import { ResultCache } from './result-cache'
 
 /** A gather (filter first, then sort) is chosen only up to this many matching rows. */
@@ -109,14 +109,16 @@ export class DatasetCatalogue {
    * Encoded rows of the current version, ≈1 kB each (≈60 MB at most). At 20 000 the mixed load
    * over 100 000 datasets kept clearing it: p95 71 ms; at 60 000, 35 ms (bench, same machine).
    */
-  private readonly rendered = new RenderedRows(60_000)
+  private readonly rendered: RenderedRows
   /** What each search matches, whoever may see it: one byte per dataset id. */
   private readonly matches = new VersionedCache<MatchSet>(50)
   /** Per abilities object (each is reused for a second): what it may read. */
   private readonly viewings = new WeakMap<object, Viewing | null>()
   private readonly visibility = new Map<string, string>()
 
-  constructor(private readonly reader: ListReader) {}
+  constructor(private readonly reader: ListReader) {
+    this.rendered = new RenderedRows(60_000, reader.dialect)
+  }
 
   /** A page from the cache, without waiting for anything; undefined when it must be read. */
   cached(actor: Actor, q: ListDatasetsParams): Buffer | undefined {
@@ -143,7 +145,7 @@ export class DatasetCatalogue {
   /** null: the caller sees nothing, or searched for nothing worth looking for. */
   private requestOf(actor: Actor, q: ListDatasetsParams): ListRequest | null {
     const viewing = this.viewingOf(actor)
-    const match = q.q ? searchExpression(q.q) : undefined
+    const match = q.q ? searchMatch(q.q, this.reader.dialect) : undefined
     if (viewing === null || match === null) return null
     const baseKey = `${viewing.key}|${q.projectId ?? ''}|${q.state ?? ''}|`
     const filterKey = `${baseKey}${match ?? ''}`
@@ -218,7 +220,9 @@ export class DatasetCatalogue {
     }
     let total = result?.length ?? this.totals.get(request.filterKey, version)
     if (total === undefined) {
-      total = Number((await this.rows<[number]>(clock, countSql(filter)))[0]![0])
+      total = Number(
+        (await this.rows<[number]>(clock, countSql(filter, this.reader.dialect)))[0]![0],
+      )
       this.totals.set(request.filterKey, version, total)
     }
     if (total === 0 || (!after && q.offset >= total)) return emptyBody(total)
@@ -260,7 +264,10 @@ export class DatasetCatalogue {
     if (after || (filter.match === undefined && q.offset < WHOLE_RESULT_FROM)) {
       const from = after ? { at: after, inclusive: false } : undefined
       const window = { limit, offset: after ? 0 : q.offset, from }
-      const rows = await this.rows<[number]>(clock, pageIdsSql(filter, order, plan, window))
+      const rows = await this.rows<[number]>(
+        clock,
+        pageIdsSql(filter, order, plan, window, this.reader.dialect),
+      )
       return rows.map(([id]) => id)
     }
     const key = `${request.filterKey}|${q.sort}`
@@ -279,7 +286,7 @@ export class DatasetCatalogue {
   ): Promise<Int32Array> {
     let result = this.results.get(key, version)
     if (!result) {
-      const sql = pageIdsSql(filter, order, plan, { limit: -1, offset: 0 })
+      const sql = pageIdsSql(filter, order, plan, { limit: -1, offset: 0 }, this.reader.dialect)
       result = Int32Array.from(await this.column(clock, sql))
       this.results.set(key, version, result)
     }
@@ -289,7 +296,10 @@ export class DatasetCatalogue {
   private async matchSetOf(clock: Clock, match: string, version: number): Promise<MatchSet> {
     let set = this.matches.get(match, version)
     if (!set) {
-      const ids = await this.column(clock, { sql: FTS_ROWIDS, params: [match] })
+      const ids = await this.column(clock, {
+        sql: ftsRowidsSql(this.reader.dialect),
+        params: [match],
+      })
       const has = new Uint8Array(ids.reduce((max, id) => Math.max(max, id), 0) + 1)
       for (const id of ids) has[id] = 1
       set = { count: ids.length, has }

@@ -1,18 +1,28 @@
 import type { DatasetDto, DatasetSortField } from '@shared/schemas/dataset.schema'
+import { SORT_COLUMNS, type ListDialect } from './dataset-list-sql'
+
+const PAGE_COLUMNS =
+  'select d."id", d."accession", d."title", d."description", d."project_id", p."name" as project_name, ' +
+  'd."state", d."embargo_until", d."proposed_embargo_until", d."licence", d."version", ' +
+  'd."created_by_id", u."name" as creator_name, d."created_at", d."updated_at", d."submitted_at", d."approved_at" '
+const PAGE_JOINS =
+  'join "project" p on p."id" = d."project_id" left join "user" u on u."id" = d."created_by_id"'
 
 /**
  * The rows of one page by id (a JSON array of ids), with the project's and the creator's names,
  * read as arrays in the order of PageRow (the driver builds arrays several times faster than
  * objects). Every column has its own name, so rows read as objects keep them all.
  */
-export const PAGE_ROWS_SQL =
-  'select d.`id`, d.`accession`, d.`title`, d.`description`, d.`project_id`, p.`name` as project_name, ' +
-  'd.`state`, d.`embargo_until`, d.`proposed_embargo_until`, d.`licence`, d.`version`, ' +
-  'd.`created_by_id`, u.`name` as creator_name, d.`created_at`, d.`updated_at`, d.`submitted_at`, d.`approved_at` ' +
-  'from json_each(?) j cross join `dataset` d on d.`id` = j.value ' +
-  'join `project` p on p.`id` = d.`project_id` left join `user` u on u.`id` = d.`created_by_id`'
+export const PAGE_ROWS_SQL = `${PAGE_COLUMNS}from json_each(?) j cross join "dataset" d on d."id" = j.value ${PAGE_JOINS}`
 
-type Moment = number | string | null
+/** The same on PostgreSQL, from the same JSON array of ids. */
+const PAGE_ROWS_POSTGRESQL = `${PAGE_COLUMNS}from jsonb_array_elements_text(?::jsonb) j(value) join "dataset" d on d."id" = j.value::int ${PAGE_JOINS}`
+
+export const pageRowsSql = (dialect: ListDialect) =>
+  dialect === 'sqlite' ? PAGE_ROWS_SQL : PAGE_ROWS_POSTGRESQL
+
+/** Epoch milliseconds on SQLite (how the ORM stores dates there), timestamp text on PostgreSQL. */
+type Moment = number | string | Date | null
 export type PageRow = [
   id: number,
   accession: string,
@@ -71,8 +81,13 @@ export interface RenderedRow {
   row: PageRow
 }
 
-export const sortValueOf = (rendered: RenderedRow, field: DatasetSortField) =>
-  rendered.row[SORT_VALUE_AT[field]] as number | string
+/** The row's sort value as a cursor carries it (dates as epoch milliseconds, as SQLite stores them). */
+export const sortValueOf = (rendered: RenderedRow, field: DatasetSortField): number | string => {
+  const value = rendered.row[SORT_VALUE_AT[field]] as Exclude<Moment, null>
+  if (SORT_COLUMNS[field].valueType === 'number' && typeof value !== 'number')
+    return new Date(value).getTime()
+  return value as number | string
+}
 
 /**
  * Listed datasets, encoded, kept for one access version: pages at random depths share most of
@@ -83,7 +98,14 @@ export class RenderedRows {
   private version = -1
   private readonly rows = new Map<number, RenderedRow>()
 
-  constructor(private readonly capacity: number) {}
+  private readonly sql: string
+
+  constructor(
+    private readonly capacity: number,
+    dialect: ListDialect = 'sqlite',
+  ) {
+    this.sql = pageRowsSql(dialect)
+  }
 
   /** The rows of these ids in their order (a row deleted meanwhile is left out). */
   async get(
@@ -99,7 +121,7 @@ export class RenderedRows {
     const found = ids.map((id) => (current ? this.rows.get(id) : undefined))
     const missing = ids.filter((_, i) => found[i] === undefined)
     if (missing.length) {
-      for (const row of await read(PAGE_ROWS_SQL, [JSON.stringify(missing)])) {
+      for (const row of await read(this.sql, [JSON.stringify(missing)])) {
         const rendered = { json: Buffer.from(JSON.stringify(pageRowDto(row))), row }
         if (current && version === this.version) this.rows.set(row[0], rendered)
         found[ids.indexOf(row[0])] = rendered

@@ -16,6 +16,20 @@ const MAX_WORDS = 8
 /** A one-letter prefix would expand to a large share of all words. */
 const MIN_PREFIX = 2
 
+/** The words worth looking for, each as its pieces of letters and digits; null when none. */
+function searchWords(text: string): string[][] | null {
+  const words: string[][] = []
+  for (const word of text.normalize('NFKC').toLowerCase().split(/\s+/)) {
+    const pieces = word.match(/[\p{L}\p{N}]+/gu)
+    if (!pieces || (pieces.length === 1 && STOP_WORDS.has(pieces[0]!))) continue
+    words.push(pieces)
+    if (words.length === MAX_WORDS) break
+  }
+  return words.length ? words : null
+}
+
+const isPrefix = (pieces: string[]) => pieces[pieces.length - 1]!.length >= MIN_PREFIX
+
 /**
  * The FTS5 MATCH expression for a search, or null when the text holds no word worth looking for
  * (only punctuation or stop words): the list then answers with an empty page, not a full scan.
@@ -23,13 +37,20 @@ const MIN_PREFIX = 2
  * nothing typed can be read as FTS5 syntax.
  */
 export function searchExpression(text: string): string | null {
-  const phrases: string[] = []
-  for (const word of text.normalize('NFKC').toLowerCase().split(/\s+/)) {
-    const pieces = word.match(/[\p{L}\p{N}]+/gu)
-    if (!pieces || (pieces.length === 1 && STOP_WORDS.has(pieces[0]!))) continue
-    const prefix = pieces[pieces.length - 1]!.length >= MIN_PREFIX ? '*' : ''
-    phrases.push(`"${pieces.join(' ')}"${prefix}`)
-    if (phrases.length === MAX_WORDS) break
-  }
-  return phrases.length ? phrases.join(' AND ') : null
+  const words = searchWords(text)
+  return words
+    ? words.map((pieces) => `"${pieces.join(' ')}"${isPrefix(pieces) ? '*' : ''}`).join(' AND ')
+    : null
+}
+
+/**
+ * The same search as PostgreSQL's tsquery text (for `to_tsquery('simple', unaccent(?))` over
+ * `dataset_search`): each word's pieces one after another (<->), the last as a prefix (:*),
+ * every word required (&). Pieces are letters and digits only, so none is tsquery syntax.
+ */
+export function searchTsQuery(text: string): string | null {
+  const words = searchWords(text)
+  return words
+    ? words.map((pieces) => `${pieces.join(' <-> ')}${isPrefix(pieces) ? ':*' : ''}`).join(' & ')
+    : null
 }

@@ -1,7 +1,8 @@
 import type { EntityManager } from '@mikro-orm/better-sqlite'
 import { accessPhase } from '@shared/domain/dataset-state'
 import type { PublicSearchPage, PublicSearchParams } from '@shared/schemas/public-search.schema'
-import { searchExpression } from '../datasets/dataset-search'
+import { databaseDriver } from '../../db'
+import { searchMatch, TS_MATCH } from '../datasets/dataset-list-sql'
 import { searchPage, type SearchRow } from './search-results'
 
 /**
@@ -19,9 +20,24 @@ export const ROWS_SQL = `select d.id, d.accession, d.title, d.description, d.app
   from dataset d left join dataset_metadata m on m.dataset_id = d.id
   where d.state = 'approved'`
 
+/** The same rows on PostgreSQL (its JSON operators; arrays as JSON text, as SQLite gives them). */
+const ROWS_SQL_POSTGRESQL = `select d.id, d.accession, d.title, d.description, d.approved_at, d.embargo_until,
+  m.document #>> '{acquisition,technique}' as technique,
+  m.document #>> '{biosample,structure}' as structure,
+  m.document #>> '{biosample,organism,name}' as organism,
+  (select json_agg(distinct l.value ->> 'probeClass')::text from jsonb_array_elements(m.document -> 'labelling') l where l.value ->> 'probeClass' is not null) as probe_classes,
+  (select json_agg(a.value ->> 'name' order by a.n)::text from jsonb_array_elements(m.document #> '{study,authors}') with ordinality a(value, n) where a.value ->> 'name' is not null) as authors,
+  (select min((q.findings ->> 'frcResolutionNm')::float8) from dataset_file f join quality_report q on q.file_id = f.id where f.dataset_id = d.id) as frc
+  from dataset d left join dataset_metadata m on m.dataset_id = d.id
+  where d.state = 'approved'`
+
 export const MATCHED = ' and d.id in (select rowid from dataset_fts where dataset_fts match ?)'
 const RANKS =
   'select rowid as id, bm25(dataset_fts) as rank from dataset_fts where dataset_fts match ?'
+
+/** Ranks as bm25 gives them, lower first: the negated cover density of the words. */
+const MATCHED_POSTGRESQL = ` and d.id in (select dataset_id from dataset_search where ${TS_MATCH})`
+const RANKS_POSTGRESQL = `select dataset_id as id, -ts_rank_cd(document, to_tsquery('simple', unaccent(?))) as rank from dataset_search where ${TS_MATCH}`
 
 interface RawRow {
   id: number
@@ -88,13 +104,22 @@ export async function publicSearch(
   q: PublicSearchParams,
   now: Date,
 ): Promise<PublicSearchPage> {
-  const match = q.q ? searchExpression(q.q) : undefined
+  const dialect = databaseDriver(em)
+  const match = q.q ? searchMatch(q.q, dialect) : undefined
   if (match === null) return EMPTY_PAGE
+  const sqlite = dialect === 'sqlite'
+  const rowsSql = sqlite ? ROWS_SQL : ROWS_SQL_POSTGRESQL
   const connection = em.getConnection()
   const [raws, ranks] = await Promise.all([
-    connection.execute<RawRow[]>(match ? ROWS_SQL + MATCHED : ROWS_SQL, match ? [match] : []),
+    connection.execute<RawRow[]>(
+      match ? rowsSql + (sqlite ? MATCHED : MATCHED_POSTGRESQL) : rowsSql,
+      match ? [match] : [],
+    ),
     match
-      ? connection.execute<{ id: number; rank: number }[]>(RANKS, [match])
+      ? connection.execute<{ id: number; rank: number }[]>(
+          sqlite ? RANKS : RANKS_POSTGRESQL,
+          sqlite ? [match] : [match, match],
+        )
       : Promise.resolve([]),
   ])
   const rankOf = new Map(ranks.map((r) => [r.id, r.rank]))
