@@ -64,7 +64,8 @@ function httpStatus(err: unknown): number | undefined {
   return (err as { $metadata?: { httpStatusCode?: number } }).$metadata?.httpStatusCode
 }
 
-const isNotFound = (err: unknown) =>
+/** An S3 answer that the key (or the upload) does not exist. */
+export const isNotFound = (err: unknown) =>
   ['NoSuchKey', 'NotFound'].includes(errorName(err)) || httpStatus(err) === 404
 
 /**

@@ -192,6 +192,37 @@ describe('tus uploads on the S3 profile', () => {
   })
 })
 
+describe('the object store lost during an upload', () => {
+  it('fails the PATCH in words, and the client resumes once it is back', async () => {
+    const node = await startNode()
+    const source = randomBytes(20 * MiB)
+    const id = await create(node, source.length)
+    await patchFrom(node, id, source.subarray(0, 6 * MiB), 0, 6 * MiB)
+    await s3.down()
+    const refused = await fetch(`${node.url}/${id}`, {
+      method: 'PATCH',
+      headers: {
+        ...TUS,
+        'Upload-Offset': String(6 * MiB),
+        'Content-Type': 'application/offset+octet-stream',
+      },
+      body: Uint8Array.from(source.subarray(6 * MiB, 12 * MiB)),
+    }).catch(() => null)
+    // Unavailable, not "not found": a tus client gives up on 404 but retries a 5xx.
+    expect(refused?.status).toBe(503)
+    expect(await refused?.text()).toMatch(/storage is not reachable/)
+    const head = await fetch(`${node.url}/${id}`, { method: 'HEAD', headers: TUS })
+    expect(head.status).toBe(503)
+    expect(node.finished.has(id)).toBe(false)
+    await s3.up()
+    const resumeAt = await offsetOf(node, id)
+    expect(resumeAt).toBe(6 * MiB)
+    await patchFrom(node, id, source, resumeAt, 6 * MiB)
+    expect(node.finished.get(id)).toEqual({ sha256: sha256(source), size: source.length })
+    expect(await storedSha256(id)).toBe(sha256(source))
+  })
+})
+
 describe('uploads cancelled on another node', () => {
   it('are gone for every node at once', async () => {
     const [a, b] = [await startNode(), await startNode()]
@@ -207,7 +238,8 @@ describe('uploads cancelled on another node', () => {
 describe('the S3 upload store when it loses bytes', () => {
   /** A body that delivers its bytes and then fails, as a broken connection or S3 fault ends it. */
   const failingAfter = (bytes: Buffer) => {
-    const body = new Readable({ read: () => undefined })
+    // Its error is for the store to see; a request body has listeners of its own as well.
+    const body = new Readable({ read: () => undefined }).on('error', () => undefined)
     body.push(bytes)
     setTimeout(() => body.destroy(new Error('connection lost')), 200)
     return body
@@ -241,6 +273,23 @@ describe('the S3 upload store when it loses bytes', () => {
     expect(store.rereads).toBe(0)
     expect(await storedSha256(upload.id)).toBe(sha256(source))
   })
+})
+
+describe('a body broken off before the S3 store reads it', () => {
+  it('fails the write instead of leaving it waiting', async () => {
+    const { store } = await startNode()
+    const source = randomBytes(8 * MiB)
+    await store.create(new Upload({ id: 'early-break', size: source.length, offset: 0 }))
+    await store.write(Readable.from([source.subarray(0, 3 * MiB)]), 'early-break', 0)
+    const body = new Readable({ read: () => undefined }).on('error', () => undefined)
+    body.destroy(new Error('connection lost'))
+    await expect(store.write(body, 'early-break', 3 * MiB)).rejects.toThrow()
+    // The stored tail went with it; the hash goes back to the start as well.
+    const resumeAt = (await store.getUpload('early-break')).offset
+    await store.write(Readable.from([source.subarray(resumeAt)]), 'early-break', resumeAt)
+    expect(await store.finish('early-break')).toEqual({ sha256: sha256(source), size: 8 * MiB })
+    expect(store.rereads).toBe(0)
+  }, 10_000)
 })
 
 describe('expiry on the S3 profile', () => {

@@ -1,9 +1,9 @@
 import { createHash, type Hash } from 'node:crypto'
-import { pipeline, Transform, type Readable } from 'node:stream'
+import { Readable } from 'node:stream'
 import { S3Store, type MetadataValue } from '@tus/s3-store'
 import type { KvStore } from '@tus/utils'
 import { ERRORS, type Upload } from '@tus/server'
-import { s3ClientConfig } from '../../storage/s3-object-store'
+import { isNotFound, s3ClientConfig } from '../../storage/s3-object-store'
 import type { StorageConfig } from '../../storage/storage-config'
 import { FinishedUploads } from './finished-uploads'
 import type { FinishedUpload } from './upload-datastore'
@@ -59,8 +59,11 @@ export class HashingS3Store extends S3Store {
     this.states.set(id, states)
     let at = offset
     let nextBoundary = base + partSize
-    const hashing = new Transform({
-      transform(chunk: Buffer, _enc, done) {
+    // A generator, not a piped Transform: the store reads the body only after fetching the
+    // stored tail, and a body that broke off before then must still fail its reader (a piped
+    // stream destroyed before anyone listened would leave the store waiting forever).
+    async function* hashing(): AsyncGenerator<Buffer> {
+      for await (const chunk of src as AsyncIterable<Buffer>) {
         let from = 0
         // Cut at part boundaries, so the copy there holds exactly the bytes before it.
         while (at + (chunk.length - from) >= nextBoundary) {
@@ -73,10 +76,10 @@ export class HashingS3Store extends S3Store {
         }
         hash.update(chunk.subarray(from))
         at += chunk.length - from
-        done(null, chunk)
-      },
-    })
-    const passed = pipeline(src, hashing, () => undefined)
+        yield chunk
+      }
+    }
+    const passed = Readable.from(hashing(), { objectMode: false })
     const newOffset = await super.write(passed, id, offset)
     if (at === newOffset) states.set(at, hash)
     return newOffset
@@ -101,7 +104,27 @@ export class HashingS3Store extends S3Store {
   }
 
   override getUpload(id: string): Promise<Upload> {
-    return this.finished.read(id, () => super.getUpload(id))
+    return this.finished.read(id, () => this.uploadOrUnavailable(id))
+  }
+
+  /**
+   * tus's S3 store answers "not found" for any failure to read an upload's record, and a tus
+   * client told 404 gives the upload up. When the bucket cannot be reached, say so (503, which
+   * clients retry) and keep "not found" for a record that is really missing.
+   */
+  private async uploadOrUnavailable(id: string): Promise<Upload> {
+    try {
+      return await super.getUpload(id)
+    } catch (err) {
+      if (err !== ERRORS.FILE_NOT_FOUND) throw err
+      const why = await this.getMetadata(id).then(
+        () => null,
+        (e: unknown) => e,
+      )
+      if (why === null) return super.getUpload(id)
+      if (isNotFound(why)) throw err
+      throw STORAGE_UNAVAILABLE
+    }
   }
 
   forget(id: string): void {
@@ -112,6 +135,11 @@ export class HashingS3Store extends S3Store {
     this.client.destroy()
     return Promise.resolve()
   }
+}
+
+const STORAGE_UNAVAILABLE = {
+  status_code: 503,
+  body: 'The storage is not reachable at the moment; the upload can resume when it is back.\n',
 }
 
 /**
