@@ -83,7 +83,7 @@ const envSchema = z.object({
   COMMENT_EDIT_MINUTES: z.coerce.number().positive().default(15),
   /** Unset: bytes under DATA_DIR. `s3://bucket/prefix`: an S3-compatible bucket (below). */
   STORAGE_URL: z.string().optional(),
-  /** The S3 API's base URL (MinIO, Ceph, …); unset means AWS for S3_REGION. */
+  /** The S3 API's base URL (a self-hosted S3-compatible service); unset means AWS for S3_REGION. */
   S3_ENDPOINT: z.string().optional(),
   S3_REGION: z.string().min(1).default('us-east-1'),
   S3_ACCESS_KEY_ID: z.string().optional(),

@@ -83,7 +83,7 @@ export function parseStorageConfig(
         env.S3_ACCESS_KEY_ID && env.S3_SECRET_ACCESS_KEY
           ? { accessKeyId: env.S3_ACCESS_KEY_ID, secretAccessKey: env.S3_SECRET_ACCESS_KEY }
           : null,
-      // Self-hosted S3 (MinIO, Ceph, the test stand-in) usually has no per-bucket host names.
+      // Self-hosted S3-compatible services (and the test stand-in) usually has no per-bucket host names.
       forcePathStyle: env.S3_FORCE_PATH_STYLE ?? Boolean(env.S3_ENDPOINT),
     },
     problems: [],
