@@ -64,5 +64,4 @@ export function useClusterOverlay(
   )
   watch(clusters, rebuild, { immediate: true })
   watch(colour, () => layer.changed())
-  return { count: () => source.getFeatures().length }
 }

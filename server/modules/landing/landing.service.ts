@@ -71,8 +71,10 @@ export async function landingView(
   const loaded = await exportSubject(em, dataset, publicUrl)
   // Files are part of the page only when the public may download them, or for the reviewer
   // holding a link to this very version.
-  const reviewing = kind !== 'withdrawn' && reviewedVersion(dataset.id) === version.number
-  const filesOpen = (kind === 'open' && publicAbility.can('download', standing)) || reviewing
+  const publicFiles = kind === 'open' && publicAbility.can('download', standing)
+  const forReviewer =
+    !publicFiles && kind !== 'withdrawn' && reviewedVersion(dataset.id) === version.number
+  const filesOpen = publicFiles || forReviewer
   const subject: DatasetExportSubject = {
     ...loaded,
     ...(version.frozen
@@ -128,7 +130,7 @@ export async function landingView(
     withdrawal: withdrawal
       ? { reason: withdrawal.comment || 'No reason was recorded.', at: withdrawal.at.slice(0, 10) }
       : null,
-    forReviewer: reviewing && !(kind === 'open' && publicAbility.can('download', standing)),
+    forReviewer,
   }
 }
 
