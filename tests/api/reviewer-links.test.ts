@@ -363,6 +363,8 @@ describe('a link to one version', () => {
     expect(page.headers['cache-control']).toBe('private, no-store')
     expect(page.text).toContain(`/versions/1/files/${v1.body.files[0].id}/content`)
     expect(page.text).not.toContain('not-reviewed.csv')
+    // The app shows the dataset's working draft, which the link does not open: no button to it.
+    expect(page.text).not.toContain('Open in Stipple')
     const publicPage = await get(`/d/${d.accession}/v/1`, false)
     expect(publicPage.text).not.toContain('locs.csv')
     expect(publicPage.text).toContain('under embargo')

@@ -299,7 +299,10 @@ export function landingPage(view: LandingView): string {
         <p class="description">${s.description}</p>
         ${facts(view)}
         <p class="links">
-          <a class="button" href="${view.appUrl}">Open in Stipple</a> <a href="#cite">Cite</a>
+          ${view.appUrl ? html`<a class="button" href="${view.appUrl}">Open in Stipple</a> ` : ''}<a
+            href="#cite"
+            >Cite</a
+          >
           <a href="#files">Files</a>
         </p>
       </section>

@@ -25,7 +25,8 @@ export interface LandingView {
   version: LandingVersion
   versions: LandingVersion[]
   pageUrl: string
-  appUrl: string
+  /** The dataset in the app; null for a reviewer whose link shows this frozen version only. */
+  appUrl: string | null
   licence: LicenceTerms & { id: string; url: string }
   citations: Citations
   availability: string
@@ -117,7 +118,10 @@ export async function landingView(
     version,
     versions,
     pageUrl,
-    appUrl: `${publicUrl}/datasets/${dataset.accession}`,
+    appUrl:
+      forReviewer && version.number < dataset.version
+        ? null
+        : `${publicUrl}/datasets/${dataset.accession}`,
     licence: {
       ...licenceTerms(subject.licence),
       id: subject.licence,
