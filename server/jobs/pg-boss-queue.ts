@@ -164,45 +164,58 @@ export class PgBossJobRunner extends JobRunner {
   }
 
   /**
-   * Sends every committed, queued row that waits for nothing and has no live pg-boss job. A
-   * queued pg-boss job under the same singleton key belongs to work this row superseded (only
-   * one row per kind and key is queued), so it is cancelled first; two nodes sending the same
-   * row at once collide on the key, and the second send is dropped.
+   * Sends every committed, queued row that waits for nothing and has no live pg-boss job. One
+   * node at a time does it (a transaction-scoped advisory lock; a node that finds it taken
+   * leaves this round to the holder), and its sends commit before the lock goes, so no other
+   * node sends a row twice. A queued pg-boss job under the same singleton key belongs to work
+   * this row superseded (only one row per kind and key is queued): it is cancelled first.
    */
   private async dispatch(em: EntityManager, boss: PgBoss): Promise<void> {
-    const ready = await em
-      .getConnection()
-      .execute<{ id: number; kind: string; dedupe_key: string; priority: number }[]>(
-        `select j.id, j.kind, j.dedupe_key, j.priority from job j where ${readyJobCondition(em)}
-        and not exists (select 1 from ${JOB_QUEUE_SCHEMA}.job b where b.name = ?
-          and b.state < 'completed' and b.data->>'jobId' = j.id::text)
-        order by j.priority desc, j.id limit 100`,
+    await em.transactional(async (tem) => {
+      const lock = await tem.execute<{ locked: boolean }>(
+        `select pg_try_advisory_xact_lock(hashtext(?)) as locked`,
+        [`${JOB_QUEUE}:dispatch`],
+        'get',
+      )
+      if (!lock?.locked) return
+      const ready = await tem.execute<
+        { id: number; kind: string; dedupe_key: string; priority: number }[]
+      >(
+        `select j.id, j.kind, j.dedupe_key, j.priority from job j where ${readyJobCondition(tem)}
+          and not exists (select 1 from ${JOB_QUEUE_SCHEMA}.job b where b.name = ?
+            and b.state < 'completed' and b.data->>'jobId' = j.id::text)
+          order by j.priority desc, j.id limit 100`,
         [JOB_QUEUE],
         'all',
       )
-    for (const row of ready) {
-      const singletonKey = `${row.kind}:${row.dedupe_key}`
-      const superseded = await em
-        .getConnection()
-        .execute<{ id: string }[]>(
-          `select id::text as id from ${JOB_QUEUE_SCHEMA}.job where name = ? and state = 'created' and singleton_key = ? and data->>'jobId' <> ?`,
-          [JOB_QUEUE, singletonKey, String(row.id)],
-          'all',
-        )
-      if (superseded.length)
-        await boss.cancel(
-          JOB_QUEUE,
-          superseded.map((s) => s.id),
-        )
-      await boss.send(JOB_QUEUE, { jobId: row.id, kind: row.kind } satisfies QueuedWork, {
-        singletonKey,
-        priority: row.priority,
-        retryLimit: this.q.retryLimit ?? 2,
-        retryDelay: this.q.retryDelaySeconds ?? 5,
-        retryBackoff: true,
-        expireInSeconds: this.q.expireInSeconds ?? 4 * 3600,
-      })
-    }
+      for (const row of ready) await this.send(tem, boss, row)
+    })
+  }
+
+  private async send(
+    em: EntityManager,
+    boss: PgBoss,
+    row: { id: number; kind: string; dedupe_key: string; priority: number },
+  ): Promise<void> {
+    const singletonKey = `${row.kind}:${row.dedupe_key}`
+    const superseded = await em.execute<{ id: string }[]>(
+      `select id::text as id from ${JOB_QUEUE_SCHEMA}.job where name = ? and state = 'created' and singleton_key = ? and data->>'jobId' <> ?`,
+      [JOB_QUEUE, singletonKey, String(row.id)],
+      'all',
+    )
+    if (superseded.length)
+      await boss.cancel(
+        JOB_QUEUE,
+        superseded.map((s) => s.id),
+      )
+    await boss.send(JOB_QUEUE, { jobId: row.id, kind: row.kind } satisfies QueuedWork, {
+      singletonKey,
+      priority: row.priority,
+      retryLimit: this.q.retryLimit ?? 2,
+      retryDelay: this.q.retryDelaySeconds ?? 5,
+      retryBackoff: true,
+      expireInSeconds: this.q.expireInSeconds ?? 4 * 3600,
+    })
   }
 
   /**
