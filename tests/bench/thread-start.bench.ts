@@ -50,9 +50,7 @@ parentPort.postMessage('loaded')
 const median = (values: number[]) => [...values].sort((a, b) => a - b)[values.length >> 1]!
 
 export async function benchThreadStart(): Promise<Record<string, unknown>> {
-  const { bundledEntry } = (await import('../../server/threads/thread-bundle.mjs')) as {
-    bundledEntry(href: string): Promise<string>
-  }
+  const { bundledEntry } = await import('../../server/threads/thread-bundle.mjs')
   const folder = mkdtempSync(join(repo, 'node_modules', '.cache', 'thread-start-'))
   const probe = join(folder, 'probe.mjs')
   writeFileSync(probe, PROBE)
