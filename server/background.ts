@@ -1,7 +1,7 @@
 import type { AppConfig } from './config'
 import type { Orm } from './db'
 import { refreshPlannerStatistics } from './db'
-import { JobRunner } from './jobs/job-runner'
+import { createJobRunner, type BackgroundJobs } from './jobs/background-jobs'
 import { FRESH_THREAD_KINDS } from './jobs/kinds'
 import type { Logger } from './logger'
 import { queueMissingFileJobs } from './modules/files/file-jobs'
@@ -26,7 +26,7 @@ import type { LocalStorage } from './storage/local-storage'
 export interface Background {
   /** Demo mode: the local SMTP server every process sends to. */
   mailCatcher: MailCatcher | null
-  jobs: JobRunner
+  jobs: BackgroundJobs
   /** Finishes interrupted uploads, then starts the jobs and the hourly upkeep. */
   begin(uploads: Pick<Uploads, 'reconcile' | 'expire'>): Promise<void>
   stop(): Promise<void>
@@ -55,7 +55,7 @@ export async function openBackground(deps: {
   }
   if (config.demo) await (deps.coordination ? deps.coordination.oneAtATime(seed) : seed())
   const mailCatcher = config.demo ? await startMailCatcher() : null
-  const jobs = new JobRunner({
+  const jobs = createJobRunner({
     orm,
     logger,
     dataDir: config.dataDir,

@@ -14,7 +14,7 @@ import { createLocalProvider } from './modules/idp/local-provider'
 import type { Mailbox, MailCatcher } from './modules/mail/mail-catcher'
 import { mailerOrLog } from './modules/mail/mailer'
 import { DEMO_DIR } from './paths'
-import type { JobRunner } from './jobs/job-runner'
+import type { BackgroundJobs } from './jobs/background-jobs'
 import type { Uploads } from './modules/uploads/uploads'
 import { LocalStorage } from './storage/local-storage'
 import { objectStorageReady } from './storage/object-storage'
@@ -31,7 +31,7 @@ export interface RunningStipple {
   mailCatcher: MailCatcher | null
   accounts: DemoAccount[]
   /** Null in an HTTP worker: the primary runs the jobs. */
-  jobs: JobRunner | null
+  jobs: BackgroundJobs | null
   stop(): Promise<void>
 }
 
