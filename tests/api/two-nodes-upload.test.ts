@@ -56,14 +56,19 @@ describe('an upload across two app nodes', () => {
     await new Promise((r) => setTimeout(r, 500))
     await a.kill()
 
+    // Node B knows the upload only if its record and bytes are in the shared bucket.
+    let answered = 0
     const head = await waitFor(
       'node B to answer for the upload',
       async () => {
         const res = await fetch(`${b.url}${path}`, { method: 'HEAD', headers: tus })
+        answered = res.status
         return res.status === 200 ? res : undefined
       },
       15_000,
-    )
+    ).catch((err: Error) => {
+      throw new Error(`${err.message} (its last answer: ${answered})`)
+    })
     const offset = Number(head.headers.get('upload-offset'))
     expect(offset).toBeGreaterThanOrEqual(half)
     expect(offset).toBeLessThan(data.length)
