@@ -66,6 +66,9 @@ export async function openBackground(deps: {
   let upkeep: NodeJS.Timeout | null = null
   let doi: Awaited<ReturnType<typeof startDoiRegistration>> | null = null
   let catchUp: Promise<void> = Promise.resolve()
+  // The demo tables are written one after another after start; a stop ends that between two.
+  const stopping = new AbortController()
+  let demoTables: Promise<unknown> = Promise.resolve()
   const embargoes = createEmbargoScheduler({
     orm,
     logger,
@@ -96,7 +99,13 @@ export async function openBackground(deps: {
       doi = await startDoiRegistration({ ...deps, smtpUrl: mailCatcher?.url ?? config.smtpUrl })
       // Demo tables are simulated after the server is up, one at a time, then read like uploads.
       if (config.demoTables)
-        void seedDemoTables(orm.em.fork(), storage, () => jobs.notify()).then(
+        demoTables = seedDemoTables(
+          orm.em.fork(),
+          storage,
+          () => jobs.notify(),
+          undefined,
+          stopping.signal,
+        ).then(
           (tables) => tables && logger.info({ tables }, 'demo localization tables deposited'),
           (err: unknown) => logger.error({ err }, 'demo localization tables failed'),
         )
@@ -120,10 +129,12 @@ export async function openBackground(deps: {
         .catch((err: unknown) => logger.error({ err }, 'embargo catch-up failed'))
     },
     async stop() {
+      stopping.abort()
       embargoes.stop()
       // A catch-up still mailing gets a few seconds to finish; its records are already written.
       await Promise.race([catchUp, new Promise((r) => setTimeout(r, 3000).unref())])
       if (upkeep) clearInterval(upkeep)
+      await demoTables
       await jobs.stop()
       await doi?.stop()
       await mailCatcher?.stop()

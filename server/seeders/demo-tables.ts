@@ -163,12 +163,16 @@ export async function seedDemoTables(
   onQueued: () => void = () => {},
   /** Only the tables of these datasets (by title); all when absent. */
   only?: readonly string[],
+  /** The server is stopping: no further table is begun. */
+  signal?: AbortSignal,
 ): Promise<number> {
   let created = 0
   for (const spec of DEMO_TABLES) {
+    if (signal?.aborted) break
     if (only && !only.includes(spec.dataset)) continue
     // Each simulation holds the thread for about a second: let requests in between.
     await new Promise((resolve) => setImmediate(resolve))
+    if (signal?.aborted) break
     const dataset = await em.findOne(Dataset, { title: spec.dataset })
     if (!dataset || (await em.count(DatasetFile, { dataset: dataset.id, name: spec.file })))
       continue

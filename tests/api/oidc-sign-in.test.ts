@@ -111,7 +111,7 @@ describe('signing in through the local OpenID provider', () => {
       await again.stop()
       rmSync(first.dataDir, { recursive: true, force: true })
     }
-  })
+  }, 60_000) // two servers start and one stops
 
   it('sets the session cookie httpOnly and SameSite=Lax', async () => {
     const res = await fetch(`${s.url}/auth/login`, { redirect: 'manual' })
