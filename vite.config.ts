@@ -13,6 +13,36 @@ const alias = {
 const serverUrl = process.env.STIPPLE_DEV_SERVER ?? 'http://localhost:3000'
 const proxied = ['/api', '/auth', '/oidc', '/idp', '/.well-known']
 
+/** API test files run a second time on PostgreSQL by `npm test` (see the api-postgresql project). */
+const POSTGRESQL_API_FILES = [
+  'access-version',
+  'audit-trail',
+  'curation',
+  'dataset-lifecycle',
+  'datasets',
+  'datasets-list',
+  'doi',
+  'downloads',
+  'embargo-schedule',
+  'file-processing',
+  'hostile-input',
+  'landing-page',
+  'link-check',
+  'manuscripts',
+  'metadata',
+  'oidc-sign-in',
+  'permission-data-routes',
+  'permission-matrix',
+  'preview',
+  'projects',
+  'quality',
+  'region-measurements',
+  'regions',
+  'reviewer-links',
+  'tokens',
+  'uploads',
+]
+
 export default defineConfig({
   plugins: [vue(), vuetify({ autoImport: true })],
   resolve: { alias },
@@ -40,6 +70,20 @@ export default defineConfig({
           environment: 'node',
           testTimeout: 30_000,
           hookTimeout: 30_000,
+        },
+      },
+      {
+        extends: true,
+        test: {
+          // The same API tests on the cluster profile's database: a representative half, chosen
+          // for the SQL they reach (lists, search, permissions, the release, jobs, regions).
+          // All of them: `npm run test:api:postgresql`.
+          name: 'api-postgresql',
+          include: POSTGRESQL_API_FILES.map((name) => `tests/api/${name}.test.ts`),
+          env: { STIPPLE_TEST_PROFILE: 'postgresql' },
+          environment: 'node',
+          testTimeout: 60_000,
+          hookTimeout: 60_000,
         },
       },
       {
