@@ -90,7 +90,15 @@ const envSchema = z.object({
   S3_SECRET_ACCESS_KEY: z.string().optional(),
   /** Bucket in the path, not the host name (default: true when S3_ENDPOINT is set). */
   S3_FORCE_PATH_STYLE: bool.optional(),
+  /**
+   * How long a starting node waits for PostgreSQL and the object store to answer, retrying with
+   * back-off, before it gives up and exits non-zero (0: try once).
+   */
+  STARTUP_WAIT_SECONDS: z.coerce.number().min(0).max(86_400).default(120),
 })
+
+/** Every environment variable Stipple reads (docs/deploy.md lists each; a test checks). */
+export const CONFIG_KEYS = Object.keys(envSchema.shape)
 
 /**
  * Which database Stipple runs on, decided here from the environment alone: the embedded SQLite
@@ -131,6 +139,8 @@ export interface AppConfig {
   comments: { perMinute: number; editWindowMs: number }
   /** Where bytes live: the data directory, or an S3 bucket (STORAGE_URL). */
   storage: StorageConfig
+  /** How long a start waits for the database and the object store (milliseconds). */
+  startupWaitMs: number
 }
 
 /** Secrets the server makes for itself on first start, kept in the data directory (never in git). */
@@ -243,5 +253,19 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): AppConfig {
     },
     comments: { perMinute: e.RATE_LIMIT_COMMENTS, editWindowMs: e.COMMENT_EDIT_MINUTES * 60_000 },
     storage: storage.config,
+    startupWaitMs: e.STARTUP_WAIT_SECONDS * 1000,
   }
+}
+
+/**
+ * For `npm run admin -- migrate-to`: the embedded installation to move (DATA_DIR) and the cluster
+ * profile named on the command line, with the S3_* settings of the environment.
+ */
+export function loadMigrationProfiles(
+  target: { database: string; storage: string },
+  env: NodeJS.ProcessEnv = process.env,
+): { dataDir: string; database: DatabaseTarget; storage: StorageConfig } {
+  const source = loadConfig({ ...env, DATABASE_URL: undefined, STORAGE_URL: undefined })
+  const cluster = loadConfig({ ...env, DATABASE_URL: target.database, STORAGE_URL: target.storage })
+  return { dataDir: source.dataDir, database: cluster.database, storage: cluster.storage }
 }

@@ -3,8 +3,10 @@ import { startHttpWorker } from './cluster/http-worker'
 import { startPrimary } from './cluster/primary'
 import { ConfigError, loadConfig, type AppConfig } from './config'
 import type { DemoAccount } from './modules/idp/accounts'
+import { createLogger } from './logger'
 import { CLIENT_DIR } from './paths'
 import { startStipple } from './start'
+import { StartupError, waitForDependencies } from './startup/dependencies'
 
 function banner(url: string, config: AppConfig, accounts: DemoAccount[]) {
   const lines = [``, `Stipple is running at ${url}`, ``]
@@ -35,6 +37,9 @@ function stopOnSignals(running: {
 
 async function main() {
   const config = loadConfig()
+  // Before the port opens: a node whose database or object store never answers exits instead of
+  // serving errors (a worker's primary has waited already).
+  if (!cluster.isWorker) await waitForDependencies(config, createLogger(config.logLevel))
   if (cluster.isWorker) {
     // The primary prints the banner; a worker only serves.
     stopOnSignals(await startHttpWorker(config, { clientDir: CLIENT_DIR }))
@@ -51,7 +56,7 @@ async function main() {
 
 main().catch((err: unknown) => {
   process.stderr.write(
-    `${err instanceof ConfigError ? err.message : err instanceof Error ? (err.stack ?? err.message) : String(err)}\n`,
+    `${err instanceof ConfigError || err instanceof StartupError ? err.message : err instanceof Error ? (err.stack ?? err.message) : String(err)}\n`,
   )
   process.exit(1)
 })
