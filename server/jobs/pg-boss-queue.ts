@@ -128,6 +128,7 @@ export class PgBossJobRunner extends JobRunner {
       const attempt = this.stopped ? null : await this.claimRow(em, item.data.jobId)
       if (attempt === null) {
         // Superseded, already recorded, or still alive on another node: this copy has no work.
+        // (A node stopping meanwhile leaves the row queued, and any node sends it again.)
         await boss.complete(JOB_QUEUE, item.id)
         continue
       }
