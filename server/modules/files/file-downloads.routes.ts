@@ -8,7 +8,7 @@ import type { LocalStorage } from '../../storage/local-storage'
 import { audit } from '../audit/audit.service'
 import { datasetFor, datasetParams } from '../datasets/dataset-access'
 import { DatasetFile } from './dataset-file.entity'
-import { derivedPaths } from './file-jobs'
+import { derivedPaths } from './file-job-kinds'
 import { attachment, sendStoredFile } from './send-stored-file'
 
 const fileParams = datasetParams.extend({ fileId: idSchema })
