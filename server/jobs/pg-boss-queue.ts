@@ -128,6 +128,7 @@ export class PgBossJobRunner extends JobRunner {
       const attempt = this.stopped ? null : await this.claimRow(em, item.data.jobId)
       if (attempt === null) {
         // Superseded, already recorded, or still alive on another node: this copy has no work.
+        // (A node stopping meanwhile leaves the row queued, and any node sends it again.)
         await boss.complete(JOB_QUEUE, item.id)
         continue
       }
@@ -262,13 +263,15 @@ export class PgBossJobRunner extends JobRunner {
     if (!claim || !boss) return super.finish(id, outcome)
     try {
       const row = await this.o.orm.em.fork().findOne(Job, { id })
-      if (row && (row.cancelRequested || row.state === 'cancelled')) {
+      // Its file went while it ran (the row cascades): nothing to record.
+      if (!row) return void (await boss.complete(JOB_QUEUE, claim.bossId))
+      if (row.cancelRequested || row.state === 'cancelled') {
         await super.finish(id, outcome)
         await boss.complete(JOB_QUEUE, claim.bossId)
         return
       }
       // Another node took the job back (this one's heartbeat had stopped): the outcome is theirs.
-      if (!row || row.state !== 'running' || row.attempts !== claim.attempt) return
+      if (row.state !== 'running' || row.attempts !== claim.attempt) return
       if (outcome.type === 'failed' && claim.retryCount < claim.retryLimit) {
         await this.o.orm.em
           .fork()

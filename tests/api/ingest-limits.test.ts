@@ -93,7 +93,8 @@ describe('limits of one table', () => {
     const second = await deposit('too-big.csv', Buffer.from(table(19_000)), ownProject)
     expect(second.status).toBe('rejected')
     expect(second.problem).toMatch(/what is left of the project's quota/)
-  })
+    // Two ingests and a quality report in fresh threads: past 30 s on a busy machine.
+  }, 60_000)
 
   it('ends the thread that ran an ingest, so its memory goes back', async () => {
     await deposit('small.csv', Buffer.from(table(100)))

@@ -8,7 +8,7 @@ import { join } from 'node:path'
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest'
 import type { z } from 'zod'
 import { openDatabase, type Orm } from '@server/db'
-import { Job, type IJob } from '@server/jobs/job.entity'
+import { Job } from '@server/jobs/job.entity'
 import { enqueue } from '@server/jobs/job-queue'
 import type { JobRunner } from '@server/jobs/job-runner'
 import { PgBossJobRunner } from '@server/jobs/pg-boss-queue'
@@ -19,6 +19,7 @@ import { computeQualityJob } from '@server/modules/quality/quality-job-kind'
 import { buildDataset, buildMember, buildProject, tokenFor } from '../fixtures/builders'
 import { settledFile, startJobRunner } from '../fixtures/job-runner'
 import { listen } from '../fixtures/live-server'
+import { jobRow, queueStates } from '../fixtures/pg-boss-jobs'
 import { startPostgres, type PostgresServer } from '../fixtures/postgres'
 import { createTestApp, type TestApp } from '../fixtures/test-app'
 import { tusUpload } from '../fixtures/tus-upload'
@@ -37,21 +38,7 @@ async function until(check: () => Promise<boolean>, ms = 30_000) {
   }
 }
 
-const rowOf = (orm: Orm, id: number): Promise<IJob> =>
-  orm.em.fork().findOneOrFail(Job, { id }, { disableIdentityMap: true })
-
-/** The states pg-boss holds for a job row, oldest first. */
-async function queueStates(orm: Orm, jobId: number): Promise<string[]> {
-  const rows = await orm.em
-    .fork()
-    .getConnection()
-    .execute<{ state: string }[]>(
-      `select state::text as state from pgboss.job where data->>'jobId' = ? order by created_on`,
-      [String(jobId)],
-      'all',
-    )
-  return rows.map((r) => r.state)
-}
+const rowOf = jobRow
 
 describe('a real kind on the PostgreSQL profile', () => {
   let t: TestApp

@@ -5,6 +5,7 @@
 import { benchCommentEvents } from './comment-events.bench'
 import { benchDatasetList } from './datasets-list.bench'
 import { benchIngest, benchIngestLarge } from './ingest.bench'
+import { benchJobQueue } from './job-queue.bench'
 import { benchQuality } from './quality.bench'
 import { benchRawStack } from './raw-stack.bench'
 import { benchRegions } from './regions.bench'
@@ -18,6 +19,7 @@ const benches: Record<string, () => Promise<Record<string, unknown>>> = {
   'datasets-list': benchDatasetList,
   ingest: benchIngest,
   'ingest-large': benchIngestLarge,
+  'job-queue': benchJobQueue,
   quality: benchQuality,
   'raw-stack': benchRawStack,
   regions: benchRegions,
