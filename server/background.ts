@@ -1,7 +1,7 @@
 import type { AppConfig } from './config'
 import type { Orm } from './db'
 import { refreshPlannerStatistics } from './db'
-import { JobRunner } from './jobs/job-runner'
+import { createJobRunner, type BackgroundJobs } from './jobs/background-jobs'
 import { FRESH_THREAD_KINDS } from './jobs/kinds'
 import type { Logger } from './logger'
 import { queueMissingFileJobs } from './modules/files/file-jobs'
@@ -16,6 +16,7 @@ import { mailerOrLog } from './modules/mail/mailer'
 import { createEmbargoScheduler, type Clock } from './modules/embargo/embargo-scheduler'
 import { OrmSessionStore } from './modules/sessions/session-store'
 import type { Uploads } from './modules/uploads/uploads'
+import type { Coordination } from './coordination/coordination'
 import { DEMO_DIR } from './paths'
 import { seedDemoReview } from './seeders/demo-review.seeder'
 import { seedDemo } from './seeders/demo.seeder'
@@ -25,7 +26,7 @@ import type { LocalStorage } from './storage/local-storage'
 export interface Background {
   /** Demo mode: the local SMTP server every process sends to. */
   mailCatcher: MailCatcher | null
-  jobs: JobRunner
+  jobs: BackgroundJobs
   /** Finishes interrupted uploads, then starts the jobs and the hourly upkeep. */
   begin(uploads: Pick<Uploads, 'reconcile' | 'expire'>): Promise<void>
   stop(): Promise<void>
@@ -43,6 +44,8 @@ export async function openBackground(deps: {
   storage: LocalStorage
   /** The scheduler's time (tests pass their own). */
   clock?: Clock
+  /** App nodes sharing PostgreSQL: schedules tick on one node only. */
+  coordination?: Coordination | null
 }): Promise<Background> {
   const { config, orm, logger, storage } = deps
   if (config.demo) {
@@ -51,7 +54,7 @@ export async function openBackground(deps: {
     await seedDemoReview(orm.em.fork(), config)
   }
   const mailCatcher = config.demo ? await startMailCatcher() : null
-  const jobs = new JobRunner({
+  const jobs = createJobRunner({
     orm,
     logger,
     dataDir: config.dataDir,
@@ -68,6 +71,9 @@ export async function openBackground(deps: {
     config,
     mailer: mailerOrLog(mailCatcher?.url ?? config.smtpUrl, config.mailFrom, logger),
     clock: deps.clock ?? (() => new Date()),
+    oncePerTick: deps.coordination
+      ? (at, work) => deps.coordination!.oncePerTick('embargo', at, work)
+      : undefined,
   })
 
   return {
@@ -101,6 +107,7 @@ export async function openBackground(deps: {
           refreshPlannerStatistics(orm),
           uploads.expire(),
           sweep(),
+          deps.coordination?.prune(),
         ]).catch((err: unknown) => logger.error({ err }, 'hourly upkeep failed'))
       upkeep = setInterval(() => void hourly(), 3600_000)
       upkeep.unref()

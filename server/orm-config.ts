@@ -64,8 +64,9 @@ export async function createPostgresqlConfig(clientUrl: string) {
     entities,
     extensions: [Migrator],
     migrations: migrationsIn('server/migrations/postgresql', postgresqlMigrationsList),
-    // The full-text index (made by a migration, not an entity) is not the diff's to drop.
-    schemaGenerator: { skipTables: ['dataset_search'] },
+    // The full-text index and the nodes' coordination tables (made by migrations, not entities)
+    // are not the diff's to drop.
+    schemaGenerator: { skipTables: ['dataset_search', /^coordination_/] },
     debug: false,
     allowGlobalContext: false,
   })

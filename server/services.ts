@@ -6,6 +6,7 @@ import type { Mailer } from './modules/mail/mailer'
 import type { PreviewService } from './modules/preview/preview.service'
 import type { ReadConnection } from './modules/common/read-connection'
 import type { LocalStorage } from './storage/local-storage'
+import type { DatasetEventRelay } from './modules/events/dataset-events'
 
 /** What services need from the outside, injected by createApp (tests pass their own). */
 export interface AppDeps {
@@ -20,6 +21,8 @@ export interface AppDeps {
   previews?: PreviewService
   /** Prepared read-only statements for the hottest reads (createApp makes it). */
   reads?: ReadConnection
+  /** How dataset events reach other processes (app nodes on PostgreSQL); see DatasetEventHub. */
+  eventRelay?: DatasetEventRelay
   /** The time, injected so tests can move it; the wall clock when omitted. */
   clock?: () => Date
 }

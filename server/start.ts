@@ -14,10 +14,12 @@ import { createLocalProvider } from './modules/idp/local-provider'
 import type { Mailbox, MailCatcher } from './modules/mail/mail-catcher'
 import { mailerOrLog } from './modules/mail/mailer'
 import { DEMO_DIR } from './paths'
-import type { JobRunner } from './jobs/job-runner'
+import type { BackgroundJobs } from './jobs/background-jobs'
 import type { Uploads } from './modules/uploads/uploads'
 import { LocalStorage } from './storage/local-storage'
 import { objectStorageReady } from './storage/object-storage'
+import { openCoordination } from './coordination/coordination'
+import { countRateLimitsIn } from './http/rate-limit'
 
 export interface RunningStipple {
   url: string
@@ -29,7 +31,7 @@ export interface RunningStipple {
   mailCatcher: MailCatcher | null
   accounts: DemoAccount[]
   /** Null in an HTTP worker: the primary runs the jobs. */
-  jobs: JobRunner | null
+  jobs: BackgroundJobs | null
   stop(): Promise<void>
 }
 
@@ -100,14 +102,20 @@ async function startOn(
   const { port } = server.address() as AddressInfo
   // With port 0 the operating system picks the port, so the public URL is only known now.
   const publicUrl = config.port === 0 ? `http://${config.host}:${port}` : config.publicUrl
-  const cfg: AppConfig = { ...config, port, publicUrl }
   const { primary } = options
-  await objectStorageReady(cfg, logger)
+  await objectStorageReady(config, logger)
 
-  const orm = await openDatabase(cfg.database)
+  const orm = await openDatabase(config.database)
+  // App nodes on PostgreSQL share locks, counts, events, schedules and secrets through it.
+  const coordination = await openCoordination(config, logger)
+  countRateLimitsIn(coordination ? (name) => coordination.rateLimitStore(name) : null)
+  const agreed = await coordination?.agreedSecrets({ ...config, port, publicUrl })
+  const cfg: AppConfig = agreed?.config ?? { ...config, port, publicUrl }
   const storage = new LocalStorage(cfg.dataDir)
   const accounts = cfg.demo || cfg.oidc.local ? loadAccounts(`${DEMO_DIR}/accounts.json`) : []
-  const background = primary ? null : await openBackground({ config: cfg, orm, logger, storage })
+  const background = primary
+    ? null
+    : await openBackground({ config: cfg, orm, logger, storage, coordination })
   const smtpUrl = background?.mailCatcher?.url ?? cfg.smtpUrl
   const mailer = mailerOrLog(smtpUrl, cfg.mailFrom, logger)
 
@@ -122,7 +130,8 @@ async function startOn(
           clientSecret: cfg.oidc.clientSecret,
           accounts,
           dataDir: cfg.dataDir,
-          cookieKeys: [loadLocalSecrets(cfg.dataDir).idpCookieKey],
+          cookieKeys: [agreed?.idpCookieKey ?? loadLocalSecrets(cfg.dataDir).idpCookieKey],
+          signingKey: agreed?.idpSigningKey ?? undefined,
           orm,
         }),
       }
@@ -144,7 +153,8 @@ async function startOn(
     clientDir: options.clientDir,
     storage,
     jobs: primary?.jobs ?? background!.jobs,
-    uploadLocker: primary?.uploadLocker,
+    uploadLocker: coordination?.uploadLocker ?? primary?.uploadLocker,
+    eventRelay: coordination?.events,
   })
   const uploads = app.locals.uploads as Uploads
   await background?.begin(uploads)
@@ -169,6 +179,7 @@ async function startOn(
       await background?.stop()
       await uploads.close()
       ;(app.locals.close as () => void)()
+      await coordination?.close()
       await orm.close()
     },
   }

@@ -3,6 +3,7 @@ import { ClusterMemoryStorePrimary } from '@express-rate-limit/cluster-memory-st
 import { openBackground } from '../background'
 import type { AppConfig } from '../config'
 import { openDatabase } from '../db'
+import { openCoordination } from '../coordination/coordination'
 import { createLogger, type Logger } from '../logger'
 import { loadAccounts, type DemoAccount } from '../modules/idp/accounts'
 import { signingKey } from '../modules/idp/signing-key'
@@ -41,7 +42,10 @@ export async function startPrimary(config: AppConfig): Promise<RunningPrimary> {
   const storage = new LocalStorage(config.dataDir)
   const accounts = config.demo || config.oidc.local ? loadAccounts(`${DEMO_DIR}/accounts.json`) : []
   if (config.oidc.local) await signingKey(config.dataDir)
-  const background = await openBackground({ config, orm, logger, storage })
+  // On PostgreSQL the workers coordinate through the database themselves; the primary's
+  // schedules still tick once across every host's primary.
+  const coordination = await openCoordination(config, logger)
+  const background = await openBackground({ config, orm, logger, storage, coordination })
   const uploads = createUploads({
     orm,
     config,
@@ -128,6 +132,7 @@ export async function startPrimary(config: AppConfig): Promise<RunningPrimary> {
     )
     await background.stop()
     await uploads.close()
+    await coordination?.close()
     await orm.close()
   }
 

@@ -59,3 +59,10 @@ export class PayloadTooLargeError extends HttpError {
     super(413, 'Too large', detail, '/problems/too-large')
   }
 }
+
+/** The server could not do it now, through no fault of the request; asking again may work. */
+export class ServiceUnavailableError extends HttpError {
+  constructor(detail: string) {
+    super(503, 'Try again', detail, '/problems/unavailable')
+  }
+}

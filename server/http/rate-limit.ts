@@ -1,14 +1,36 @@
 import cluster from 'node:cluster'
 import { ClusterMemoryStoreWorker } from '@express-rate-limit/cluster-memory-store'
 import type { RequestHandler } from 'express'
-import { rateLimit, type Options, type RateLimitRequestHandler } from 'express-rate-limit'
+import {
+  rateLimit,
+  type Options,
+  type RateLimitRequestHandler,
+  type Store,
+} from 'express-rate-limit'
 import { HttpError } from '../errors/http-error'
 import type { AcceptedTokens } from './authenticate'
 
 /**
+ * Where the counts of app nodes on several machines live (PostgreSQL, server/coordination), set
+ * once at start before the app is built. Process-wide like node:cluster's role, which picks the
+ * IPC store below: both say how this process shares its counts, not how one limiter behaves.
+ */
+let sharedStore: ((name: string) => Store) | null = null
+
+export function countRateLimitsIn(store: ((name: string) => Store) | null): void {
+  sharedStore = store
+}
+
+function storeFor(name: string): Store | undefined {
+  if (sharedStore) return sharedStore(name)
+  return cluster.isWorker ? new ClusterMemoryStoreWorker({ prefix: name }) : undefined
+}
+
+/**
  * A per-address limit of `limit` requests a minute, with the standard RateLimit headers. In an
  * HTTP worker of a multi-process Stipple the counts live in the primary (the rate-limit package's
- * cluster store), so the limit holds for the whole server, not per process. `name` keeps the
+ * cluster store), and on app nodes sharing PostgreSQL in the database, so the limit holds for the
+ * whole server, not per process. `name` keeps the
  * limiters' counts apart there.
  */
 export function perMinuteLimit(
@@ -33,7 +55,7 @@ export function perMinuteLimit(
           '/problems/too-many-requests',
         ),
       ),
-    ...(cluster.isWorker ? { store: new ClusterMemoryStoreWorker({ prefix: name }) } : {}),
+    store: storeFor(name),
   })
 }
 

@@ -1,5 +1,6 @@
 import type { EntityManager } from '@mikro-orm/better-sqlite'
 import type { z } from 'zod'
+import { databaseDriver } from '../db'
 import { dedupeKeyOf, type JobKind } from './job-kind'
 import { recordingJob } from './job-context'
 import { Job, type IJob } from './job.entity'
@@ -42,14 +43,30 @@ export async function enqueue<S extends z.ZodType>(
 }
 
 /**
- * The oldest queued job that waits for nothing: no queued or running job of a kind it must follow
- * on the same subject.
+ * A queued job that waits for nothing: no queued or running job of a kind it must follow on the
+ * same subject. `j` is the queued job; each database finds a kind in the `,kind,` list its way.
  */
-const NEXT_READY_JOB = `select j.id from job j where j.state = 'queued' and not exists (
+export function readyJobCondition(em: EntityManager): string {
+  const listed =
+    databaseDriver(em) === 'postgresql'
+      ? `strpos(j.after_kinds, ',' || w.kind || ',') > 0`
+      : `instr(j.after_kinds, ',' || w.kind || ',') > 0`
+  return `j.state = 'queued' and not exists (
   select 1 from job w where w.subject_type = j.subject_type and w.subject_id = j.subject_id
-    and w.state in ('queued', 'running') and w.id <> j.id
-    and instr(j.after_kinds, ',' || w.kind || ',') > 0
-) order by j.priority desc, j.id limit 1`
+    and w.state in ('queued', 'running') and w.id <> j.id and ${listed}
+)`
+}
+
+/** The oldest queued job that waits for nothing (see readyJobCondition). */
+const nextReadyJob = (em: EntityManager) =>
+  `select j.id from job j where ${readyJobCondition(em)} order by j.priority desc, j.id limit 1`
+
+/**
+ * A time as raw SQL compares it with a datetime column: MikroORM stores SQLite's as epoch
+ * milliseconds, PostgreSQL's as timestamptz (bound as a Date).
+ */
+const sqlTime = (em: EntityManager, time: Date): number | Date =>
+  databaseDriver(em) === 'postgresql' ? time : time.getTime()
 
 /**
  * Takes the oldest queued job in one statement, so two processes never take the same one.
@@ -59,8 +76,8 @@ export async function claimNextJob(em: EntityManager, now = new Date()): Promise
   const rows = await em
     .getConnection()
     .execute<{ id: number }[]>(
-      `update \`job\` set \`state\` = 'running', \`started_at\` = ?, \`heartbeat_at\` = ?, \`attempts\` = \`attempts\` + 1 where \`id\` = (${NEXT_READY_JOB}) returning \`id\``,
-      [now.getTime(), now.getTime()],
+      `update "job" set "state" = 'running', "started_at" = ?, "heartbeat_at" = ?, "attempts" = "attempts" + 1 where "id" = (${nextReadyJob(em)}) returning "id"`,
+      [sqlTime(em, now), sqlTime(em, now)],
       'all',
     )
   return rows[0]?.id ?? null
@@ -79,11 +96,11 @@ export async function hasClaimableJobs(
   const row = await em
     .getConnection()
     .execute<{ found?: number }>(
-      `select 1 as found where exists (${NEXT_READY_JOB}) or exists (select 1 from job where state = 'running' and (heartbeat_at is null or heartbeat_at < ?))`,
-      [now.getTime() - staleAfterMs],
+      `select 1 as found where exists (${nextReadyJob(em)}) or exists (select 1 from job where state = 'running' and (heartbeat_at is null or heartbeat_at < ?))`,
+      [sqlTime(em, new Date(now.getTime() - staleAfterMs))],
       'get',
     )
-  return row?.found === 1
+  return Number(row?.found) === 1
 }
 
 /** Jobs whose process stopped beating (killed, crashed) go back to the queue. */

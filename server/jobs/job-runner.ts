@@ -7,6 +7,7 @@ import { Job, type IJob } from './job.entity'
 import type { JobMessage } from './job-protocol'
 import { recordingJob } from './job-context'
 import { claimNextJob, hasClaimableJobs, requeueAbandonedJobs } from './job-queue'
+import type { BackgroundJobs } from './background-jobs'
 
 /** What the main thread does with a job's outcome (database updates), per kind. */
 export interface JobCompletion {
@@ -35,16 +36,16 @@ const WORKER_URL = new URL('./worker.ts', import.meta.url)
  * Runs queued jobs in worker threads, a few at a time, off the request thread. Progress and
  * outcomes are written to the job rows, so the client can watch and a restart can resume.
  */
-export class JobRunner {
-  private readonly running = new Map<number, Worker>()
+export class JobRunner implements BackgroundJobs {
+  protected readonly running = new Map<number, Worker>()
   /** The kind each running job has, for what happens to its thread afterwards. */
   private readonly kinds = new Map<number, string>()
   private idle: Worker[] = []
   private timer: NodeJS.Timeout | null = null
   private ticking = false
-  private stopped = false
+  protected stopped = false
 
-  constructor(private readonly o: JobRunnerOptions) {}
+  constructor(protected readonly o: JobRunnerOptions) {}
 
   start(): void {
     this.stopped = false
@@ -83,7 +84,6 @@ export class JobRunner {
     this.ticking = true
     try {
       const em = this.o.orm.em.fork()
-      const heartbeat = this.o.heartbeatMs ?? 2000
       if (this.running.size) {
         await em.nativeUpdate(
           Job,
@@ -92,21 +92,40 @@ export class JobRunner {
         )
         await this.stopCancelled(em)
       }
-      if (this.running.size >= this.o.workers || !(await hasClaimableJobs(em, heartbeat * 5)))
-        return
-      await requeueAbandonedJobs(em, heartbeat * 5)
-      while (this.running.size < this.o.workers && !this.stopped) {
-        const id = await claimNextJob(em)
-        if (id === null) break
-        const job = await em.findOneOrFail(Job, { id })
-        this.launch(job)
-      }
+      await this.claimJobs(em)
     } catch (err) {
       this.o.logger.error({ err }, 'job runner tick failed')
     } finally {
       this.ticking = false
     }
   }
+
+  /** How long a running job's heartbeat may stay still before its process counts as dead. */
+  protected get staleAfterMs(): number {
+    return (this.o.heartbeatMs ?? 2000) * 5
+  }
+
+  protected get freeThreads(): number {
+    return this.stopped ? 0 : this.o.workers - this.running.size
+  }
+
+  /**
+   * Takes ready jobs from the job table while threads are free, first returning those whose
+   * process stopped beating to the queue.
+   */
+  protected async claimJobs(em: EntityManager): Promise<void> {
+    if (this.freeThreads <= 0 || !(await hasClaimableJobs(em, this.staleAfterMs))) return
+    await requeueAbandonedJobs(em, this.staleAfterMs)
+    while (this.freeThreads > 0) {
+      const id = await claimNextJob(em)
+      if (id === null) break
+      const job = await em.findOneOrFail(Job, { id })
+      this.launch(job)
+    }
+  }
+
+  /** A job left this runner cancelled (newer work replaced it); nothing more to do here. */
+  protected async released(_id: number): Promise<void> {}
 
   /**
    * Running jobs that newer work replaced: their thread is ended (the only sure way to stop
@@ -127,6 +146,7 @@ export class JobRunner {
         { id },
         { state: 'cancelled', message: 'replaced by newer work', finishedAt: new Date() },
       )
+      await this.released(id)
     }
   }
 
@@ -173,7 +193,7 @@ export class JobRunner {
     }
   }
 
-  private launch(job: IJob): void {
+  protected launch(job: IJob): void {
     if (job.attempts > (this.o.maxAttempts ?? 3)) {
       void this.finish(job.id, {
         type: 'failed',
@@ -187,7 +207,8 @@ export class JobRunner {
     worker.postMessage({ id: job.id, kind: job.kind, payload: job.payload })
   }
 
-  private async finish(
+  /** Records a job's outcome in its row (and what its kind does with it). */
+  protected async finish(
     id: number,
     outcome: Extract<JobMessage, { type: 'done' | 'failed' }>,
   ): Promise<void> {

@@ -8,6 +8,7 @@ import { benchIngest, benchIngestLarge } from './ingest.bench'
 import { benchQuality } from './quality.bench'
 import { benchRawStack } from './raw-stack.bench'
 import { benchRegions } from './regions.bench'
+import { benchThreadStart } from './thread-start.bench'
 import { benchTiles } from './tiles.bench'
 import { benchUpload } from './upload.bench'
 
@@ -20,6 +21,7 @@ const benches: Record<string, () => Promise<Record<string, unknown>>> = {
   quality: benchQuality,
   'raw-stack': benchRawStack,
   regions: benchRegions,
+  'thread-start': benchThreadStart,
   tiles: benchTiles,
   upload: benchUpload,
 }

@@ -46,6 +46,31 @@ async function demoTableReady(): Promise<{ accession: string; fileId: number }> 
   }
 }
 
+/** Every tile request of the page: asked, answered (with status) or failed, and when. */
+function tileTraffic(page: Page) {
+  const started = Date.now()
+  const log = new Map<string, string>()
+  const at = () => `${((Date.now() - started) / 1000).toFixed(1)} s`
+  const tile = (url: string) => (url.includes('/tiles/') ? url.split('/tiles/')[1]! : null)
+  page.on('request', (r) => {
+    const t = tile(r.url())
+    if (t) log.set(t, `asked ${at()}`)
+  })
+  page.on('response', (r) => {
+    const t = tile(r.url())
+    if (t) log.set(t, `${log.get(t)}, ${r.status()} ${at()}`)
+  })
+  page.on('requestfinished', (r) => {
+    const t = tile(r.url())
+    if (t) log.set(t, `${log.get(t)}, finished ${at()}`)
+  })
+  page.on('requestfailed', (r) => {
+    const t = tile(r.url())
+    if (t) log.set(t, `${log.get(t)}, failed (${r.failure()?.errorText}) ${at()}`)
+  })
+  return { summary: () => [...log].map(([t, what]) => `${t}: ${what}`).join('\n') }
+}
+
 describe('the quality page of a public dataset', () => {
   it('shows the report and server-rendered tiles, and redraws with another colormap', async () => {
     const { accession, fileId } = await demoTableReady()
@@ -53,6 +78,7 @@ describe('the quality page of a public dataset', () => {
     page.on('response', (res) => {
       if (res.url().includes('/tiles/') && res.status() === 200) tiles.push(res.url())
     })
+    const traffic = tileTraffic(page)
     await page.goto(`${stipple.url}/datasets/${accession}`)
     await page.getByRole('tab', { name: 'Files' }).click()
     await page
@@ -73,8 +99,19 @@ describe('the quality page of a public dataset', () => {
       .click()
     await page.getByRole('option', { name: 'Grayscale', exact: true }).click()
     await expect
-      .poll(() => tiles.some((url) => url.includes('colormap=grayscale')), { timeout: 90_000 })
+      .poll(() => tiles.some((url) => url.includes('colormap=grayscale')), {
+        timeout: 90_000,
+        message: 'no grayscale tile arrived',
+      })
       .toBe(true)
+      .catch(async (error: Error) => {
+        // What the browser asked for and what became of it, to tell a request never made from
+        // one the server never answered.
+        const shown = await page
+          .locator('.v-select', { has: page.getByLabel('Colormap') })
+          .innerText()
+        throw new Error(`${error.message}\nColormap field: ${shown}\n${traffic.summary()}`)
+      })
     expect(consoleErrors).toEqual([])
   }, 420_000) // the demo table may still be read and reported on (up to 4 min) when it starts
 })

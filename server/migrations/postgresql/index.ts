@@ -2,6 +2,7 @@ import { Migration20261205020046 } from './Migration20261205020046'
 import { Migration20261205020100 } from './Migration20261205020100'
 import { Migration20261205022000 } from './Migration20261205022000'
 import { Migration20261205030000 } from './Migration20261205030000'
+import { Migration20261205050000 } from './Migration20261205050000'
 
 /**
  * The PostgreSQL profile's migrations in the order they run: the same schema as the SQLite ones
@@ -13,4 +14,5 @@ export const postgresqlMigrationsList = [
   { name: 'Migration20261205020100', class: Migration20261205020100 },
   { name: 'Migration20261205022000', class: Migration20261205022000 },
   { name: 'Migration20261205030000', class: Migration20261205030000 },
+  { name: 'Migration20261205050000', class: Migration20261205050000 },
 ]

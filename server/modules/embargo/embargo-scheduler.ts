@@ -25,11 +25,27 @@ export interface EmbargoScheduler {
  * tick while the previous one still runs; each tick is idempotent anyway.
  */
 export function createEmbargoScheduler(
-  deps: EmbargoScheduleDeps & { orm: Orm; logger: Logger; clock: Clock },
+  deps: EmbargoScheduleDeps & {
+    orm: Orm
+    logger: Logger
+    clock: Clock
+    /**
+     * App nodes on several machines: runs a tick on one node only, null on the others
+     * (server/coordination). Without it every tick runs here.
+     */
+    oncePerTick?: (
+      at: Date,
+      work: () => Promise<EmbargoTickResult>,
+    ) => Promise<EmbargoTickResult | null>
+  },
 ): EmbargoScheduler {
   let job: Cron | null = null
   const tick = async () => {
-    const result = await runEmbargoSchedule(deps.orm.em.fork(), deps, deps.clock())
+    const now = deps.clock()
+    const run = () => runEmbargoSchedule(deps.orm.em.fork(), deps, now)
+    const result = deps.oncePerTick
+      ? ((await deps.oncePerTick(now, run)) ?? { released: [], reminded: [] })
+      : await run()
     if (result.released.length || result.reminded.length)
       deps.logger.info({ ...result }, 'embargo schedule: releases and reminders')
     return result

@@ -16,21 +16,46 @@ export interface DatasetEvent<T = unknown> {
 type Listener = (event: DatasetEvent) => void
 
 /**
- * Publish/subscribe of dataset events inside one process, and across the HTTP workers of a
- * multi-process Stipple: a worker hands each event to the primary over the cluster's IPC
- * channel, and the primary sends it to every worker (the sender included), which delivers it
- * to its own streams. A single process delivers at once.
+ * How events reach the other processes that serve HTTP: `send` hands an event to every process's
+ * hub (this one's included, which then hears it through `onEvent` like the others).
+ */
+export interface DatasetEventRelay {
+  send(event: DatasetEvent): void
+  onEvent(listener: Listener): void
+}
+
+/**
+ * The HTTP workers of a multi-process Stipple on one host: a worker hands each event to the
+ * primary over the cluster's IPC channel, and the primary sends it to every worker.
+ */
+export function clusterEventRelay(): DatasetEventRelay {
+  return {
+    send(event) {
+      if (!process.connected) return
+      const message: ToPrimary = { stipple: 'dataset-event', event }
+      process.send?.(message)
+    },
+    onEvent(listener) {
+      process.on('message', (message) => {
+        if (isStippleMessage<ToWorker>(message) && message.stipple === 'dataset-event')
+          listener(message.event as DatasetEvent)
+      })
+    },
+  }
+}
+
+/**
+ * Publish/subscribe of dataset events for the open event streams of this process. With a relay
+ * (several HTTP workers on one host, or app nodes on several machines sharing PostgreSQL) every
+ * event goes through it, so streams on every process hear it; a single process delivers at once.
  */
 export class DatasetEventHub {
   private readonly listeners = new Map<number, Set<Listener>>()
-  private readonly inWorker = cluster.isWorker
+  private readonly relay: DatasetEventRelay | null
 
-  constructor() {
-    if (this.inWorker)
-      process.on('message', (message) => {
-        if (isStippleMessage<ToWorker>(message) && message.stipple === 'dataset-event')
-          this.deliver(message.event as DatasetEvent)
-      })
+  constructor(relay: DatasetEventRelay | null = cluster.isWorker ? clusterEventRelay() : null) {
+    this.relay = relay
+    relay?.onEvent((event) => this.deliver(event))
   }
 
   /** Listens to one dataset's events; the returned function stops listening. */
@@ -45,10 +70,8 @@ export class DatasetEventHub {
   }
 
   publish(event: DatasetEvent): void {
-    if (this.inWorker && process.connected) {
-      const message: ToPrimary = { stipple: 'dataset-event', event }
-      process.send?.(message)
-    } else this.deliver(event)
+    if (this.relay) this.relay.send(event)
+    else this.deliver(event)
   }
 
   /** Open streams across all datasets (for tests and health pages). */

@@ -3,6 +3,7 @@ import { escapeHtml, renderPage } from '../../http/html-page'
 import type { Orm } from '../../db'
 import type { DemoAccount } from './accounts'
 import { sqliteAdapter } from './oidc-adapter'
+import type { JWK } from 'jose'
 import { signingKey } from './signing-key'
 
 export interface LocalProviderOptions {
@@ -13,6 +14,8 @@ export interface LocalProviderOptions {
   accounts: DemoAccount[]
   dataDir: string
   cookieKeys: string[]
+  /** The key to sign with; by default the one kept in dataDir (app nodes share theirs). */
+  signingKey?: JWK
   /** Where the provider keeps its sessions, interactions, grants and codes. */
   orm: Orm
 }
@@ -44,7 +47,7 @@ export async function createLocalProvider(options: LocalProviderOptions): Promis
     pkce: { required: () => true },
     cookies: { keys: options.cookieKeys },
     claims: { openid: ['sub'], email: ['email', 'email_verified'], profile: ['name'] },
-    jwks: { keys: [await signingKey(options.dataDir)] },
+    jwks: { keys: [options.signingKey ?? (await signingKey(options.dataDir))] },
     features: {
       devInteractions: { enabled: false },
       rpInitiatedLogout: {

@@ -13,7 +13,7 @@ import { RegionsService } from './regions.service'
  * region drawn or a comment posted reaches every open page of the dataset.
  */
 export function collaborationRouter(deps: AppDeps): Router {
-  const hub = new DatasetEventHub()
+  const hub = deps.eventRelay ? new DatasetEventHub(deps.eventRelay) : new DatasetEventHub()
   const clock = deps.clock ?? (() => new Date())
   const router = Router()
   const regions = new RegionsService(hub, clock)

@@ -1,0 +1,2 @@
+/** The URL of the compiled bundle of a TypeScript thread entry (see thread-bundle.mjs). */
+export function bundledEntry(entryHref: string): Promise<string>
