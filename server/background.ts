@@ -44,15 +44,16 @@ export async function openBackground(deps: {
   storage: LocalStorage
   /** The scheduler's time (tests pass their own). */
   clock?: Clock
-  /** App nodes sharing PostgreSQL: schedules tick on one node only. */
+  /** App nodes sharing PostgreSQL: schedules tick on one node only, one node seeds at a time. */
   coordination?: Coordination | null
 }): Promise<Background> {
   const { config, orm, logger, storage } = deps
-  if (config.demo) {
+  const seed = async () => {
     const { created } = await seedDemo(orm.em.fork(), DEMO_DIR)
     if (created) logger.info({ created }, 'demo data seeded')
     await seedDemoReview(orm.em.fork(), config)
   }
+  if (config.demo) await (deps.coordination ? deps.coordination.oneAtATime(seed) : seed())
   const mailCatcher = config.demo ? await startMailCatcher() : null
   const jobs = createJobRunner({
     orm,

@@ -28,7 +28,12 @@ export async function openDatabase(target: DatabaseTarget | string): Promise<Orm
     orm = await MikroORM.init(createSqliteConfig(chosen.path))
   }
   drivers.set(orm.config, chosen.driver)
-  await orm.getMigrator().up()
+  const migrate = () => orm.getMigrator().up()
+  // Nodes of the cluster profile that start together migrate one at a time.
+  if (chosen.driver === 'postgresql') {
+    const { whileHoldingStartupLock } = await import('./coordination/pg-startup-lock')
+    await whileHoldingStartupLock(chosen.url, migrate)
+  } else await migrate()
   await refreshPlannerStatistics(orm)
   return orm
 }

@@ -45,7 +45,9 @@ export async function startPrimary(config: AppConfig): Promise<RunningPrimary> {
   // On PostgreSQL the workers coordinate through the database themselves; the primary's
   // schedules still tick once across every host's primary.
   const coordination = await openCoordination(config, logger)
-  const background = await openBackground({ config, orm, logger, storage, coordination })
+  // The demo's reviewer links are signed with the secret the workers agree on.
+  const shared = (await coordination?.agreedSecrets(config))?.config ?? config
+  const background = await openBackground({ config: shared, orm, logger, storage, coordination })
   const uploads = createUploads({
     orm,
     config,

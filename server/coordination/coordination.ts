@@ -10,6 +10,7 @@ import { PgSession } from './pg-session'
 import { runOncePerTick } from './pg-tick-claim'
 import { PgUploadLocker } from './pg-upload-locker'
 import { agreedSecret } from './shared-secrets'
+import { whileHoldingStartupLock } from './pg-startup-lock'
 
 /** What a node shares with the others when several run on one PostgreSQL database. */
 export interface Coordination {
@@ -20,6 +21,8 @@ export interface Coordination {
   oncePerTick<T>(schedule: string, at: Date, work: () => Promise<T>): Promise<T | null>
   /** The secrets all nodes must agree on, where the environment named none. */
   agreedSecrets(config: AppConfig): Promise<AgreedSecrets>
+  /** Start-up work (demo seeding) that nodes starting together must do one after the other. */
+  oneAtATime<T>(work: () => Promise<T>): Promise<T>
   /** Hourly: drops rate-limit windows that ended. */
   prune(): Promise<number>
   close(): Promise<void>
@@ -86,6 +89,7 @@ export async function openCoordination(
           : null,
       }
     },
+    oneAtATime: (work) => whileHoldingStartupLock(url, work),
     prune: () => pruneRateLimits(pool),
     async close() {
       await session.close()

@@ -1,5 +1,5 @@
-import { ingestTableJob, inspectTableJob, scanRawStackJob } from '../modules/files/file-jobs'
-import { computeQualityJob } from '../modules/quality/quality-jobs'
+import { ingestTableJob, inspectTableJob, scanRawStackJob } from '../modules/files/file-job-kinds'
+import { computeQualityJob } from '../modules/quality/quality-job-kind'
 import type { JobKind } from './job-kind'
 import { queueProbeJob } from './queue-probe.job'
 

@@ -8,8 +8,10 @@
 import { request as httpRequest, type IncomingMessage } from 'node:http'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { BrowserSession, parseForm } from '../fixtures/browser-fetch'
+import { UPLOAD_LOCK_NAMESPACE } from '@server/coordination/pg-upload-locker'
 import {
   apiOf,
+  createUpload,
   DEPOSITOR,
   startNodeCluster,
   waitFor,
@@ -147,4 +149,43 @@ describe('two app nodes on one database and one bucket', () => {
     )
     expect(audits.rowCount).toBe(1)
   }, 100_000)
+
+  // Last: node A does not come back.
+  it('frees the upload lock node A held when A is killed in the middle of a PATCH', async () => {
+    const { a, b, db, accession, depositorToken } = cluster
+    const size = 4 * 1024 * 1024
+    const path = await createUpload(a.url, depositorToken, accession, { name: 'held.bin', size })
+    const uploadLocks = async () =>
+      Number(
+        (
+          await db.query<{ n: string }>(
+            `select count(*) as n from pg_locks
+              where locktype = 'advisory' and classid = $1 and granted`,
+            [UPLOAD_LOCK_NAMESPACE],
+          )
+        ).rows[0]!.n,
+      )
+    const stalled = httpRequest(`${a.url}${path}`, {
+      method: 'PATCH',
+      agent: false,
+      headers: {
+        'tus-resumable': '1.0.0',
+        authorization: `Bearer ${depositorToken}`,
+        'upload-offset': '0',
+        'content-type': 'application/offset+octet-stream',
+        'content-length': String(size),
+      },
+    })
+    stalled.on('error', () => undefined)
+    stalled.write(Buffer.alloc(1024 * 1024, 1))
+    await waitFor('node A to hold the lock', async () =>
+      (await uploadLocks()) === 1 ? true : undefined,
+    )
+    await a.kill()
+    // No shutdown code ran: the database ended A's connection, and its locks with it.
+    await waitFor('the lock to go with A', async () =>
+      (await uploadLocks()) === 0 ? true : undefined,
+    )
+    expect((await fetch(`${b.url}/api/health`)).status).toBe(200)
+  })
 })

@@ -9,7 +9,7 @@ import type { ObjectStore } from '../../storage/object-store'
 import { audit } from '../audit/audit.service'
 import { datasetFor, datasetParams } from '../datasets/dataset-access'
 import { DatasetFile } from './dataset-file.entity'
-import { derivedPaths } from './file-jobs'
+import { derivedPaths } from './file-job-kinds'
 import { attachment, sendStoredFile } from './send-stored-file'
 import { sendStoredObject } from './send-stored-object'
 

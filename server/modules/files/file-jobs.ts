@@ -1,60 +1,12 @@
-import { z } from 'zod'
-import {
-  columnMappingSchema,
-  tableFormatChoiceSchema,
-  type ColumnMappingInput,
-} from '@shared/schemas/localization-mapping.schema'
+import type { ColumnMappingInput } from '@shared/schemas/localization-mapping.schema'
 import type { EntityManager } from '@mikro-orm/better-sqlite'
-import { defineJobKind } from '../../jobs/job-kind'
 import { enqueue } from '../../jobs/job-queue'
 import type { AppConfig } from '../../config'
 import { Dataset } from '../datasets/dataset.entity'
 import { projectBytesUsed } from './project-usage'
-import type { LocalStorage } from '../../storage/local-storage'
 import { Job } from '../../jobs/job.entity'
 import { DatasetFile, type IDatasetFile } from './dataset-file.entity'
-
-const onFile = (p: { fileId: number }) => ({ type: 'file' as const, id: p.fileId })
-const fileId = z.int().positive()
-/** A deposited file's storage key (`<dataset>/<upload id>`), resolved by the worker's storage. */
-const storageKey = z.string().min(1).max(200)
-
-/** Reads a localization table's format and header and proposes a column mapping. */
-export const inspectTableJob = defineJobKind({
-  name: 'inspect-table',
-  payload: z.object({ fileId, sourceKey: storageKey, format: tableFormatChoiceSchema.nullish() }),
-  subject: onFile,
-})
-
-/** What one table may cost, fixed when the ingest is queued (see IngestLimits). */
-const ingestLimits = z.object({
-  maxExpansion: z.number().positive(),
-  maxRows: z.number().positive(),
-  maxOutputBytes: z.number().min(0),
-})
-
-/** Parses, validates and converts a whole table into the tile-ordered localization store. */
-export const ingestTableJob = defineJobKind({
-  name: 'ingest-table',
-  payload: z.object({
-    fileId,
-    sourceKey: storageKey,
-    mapping: columnMappingSchema,
-    format: tableFormatChoiceSchema.nullish(),
-    limits: ingestLimits.optional(),
-  }),
-  subject: onFile,
-  after: ['inspect-table'],
-  // A large table's buffers go back to the system with its thread.
-  freshThread: true,
-})
-
-/** Header, frame-mean trace and projection thumbnail of a raw stack (all parts of a file set). */
-export const scanRawStackJob = defineJobKind({
-  name: 'scan-raw-stack',
-  payload: z.object({ fileId, sourceKey: storageKey, partKeys: z.array(storageKey).optional() }),
-  subject: onFile,
-})
+import { ingestTableJob, inspectTableJob, scanRawStackJob } from './file-job-kinds'
 
 /** The limits of an ingest queued now: the site's settings, and what the project has left. */
 export async function ingestLimitsFor(
@@ -68,21 +20,6 @@ export async function ingestLimitsFor(
   return {
     ...config.ingest,
     maxOutputBytes: Math.max(0, config.uploads.projectQuotaBytes - used),
-  }
-}
-
-/** Where a file's derived outputs go; the same on both threads, from the file id alone. */
-const COLUMNAR_STORE = 'localizations.arrow'
-
-/** Where a table's localization store is, for readers (the folder is not created). */
-export const columnarStoreOf = (storage: LocalStorage, fileId: number) =>
-  storage.derivedLocation(fileId, COLUMNAR_STORE)
-
-export function derivedPaths(storage: LocalStorage, fileId: number) {
-  return {
-    columnar: storage.derivedPath(fileId, COLUMNAR_STORE),
-    thumbnail: storage.derivedPath(fileId, 'projection.png'),
-    trace: storage.derivedPath(fileId, 'frame-means.json'),
   }
 }
 

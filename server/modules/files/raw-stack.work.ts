@@ -1,6 +1,6 @@
 import { writeFile } from 'node:fs/promises'
 import type { JobWork } from '../../jobs/job-protocol'
-import { derivedPaths, scanRawStackJob } from './file-jobs'
+import { derivedPaths, scanRawStackJob } from './file-job-kinds'
 import { readStackHeader, resolveOmeFileSet, scanStack } from '../../compute/raw-stacks'
 
 export interface RawStackReport {

@@ -13,7 +13,8 @@ import { queueQuality } from '../quality/quality-jobs'
 import { DatasetFile, type IDatasetFile } from './dataset-file.entity'
 import { rejectOnFailure } from './file-job-failure'
 import type { AppConfig } from '../../config'
-import { ingestLimitsFor, ingestTableJob, inspectTableJob } from './file-jobs'
+import { ingestLimitsFor } from './file-jobs'
+import { ingestTableJob, inspectTableJob } from './file-job-kinds'
 import type { IngestReport, TableSniff } from '../../compute/ingest'
 
 /** The pixel size from the dataset's description, for tables in camera pixels. */

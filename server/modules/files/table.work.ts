@@ -1,6 +1,6 @@
 import { suggestMapping } from '@shared/domain/localization-columns'
 import type { JobWork } from '../../jobs/job-protocol'
-import { derivedPaths, ingestTableJob, inspectTableJob } from './file-jobs'
+import { derivedPaths, ingestTableJob, inspectTableJob } from './file-job-kinds'
 import { ingestLocalizationTable, sniffTable, TableFormatError } from '../../compute/ingest'
 
 /** Reads the table's format and header and proposes a column mapping. Runs in a worker thread. */

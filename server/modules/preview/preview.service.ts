@@ -12,7 +12,7 @@ import {
 } from '../../compute/render'
 import { ConflictError, NotFoundError } from '../../errors/http-error'
 import type { LocalStorage } from '../../storage/local-storage'
-import { columnarStoreOf } from '../files/file-jobs'
+import { columnarStoreOf } from '../files/file-job-kinds'
 import { readTileIndex } from '../../compute/store'
 import type { PreviewTable, PreviewTables } from './preview-tables'
 import type { TilePool } from './tile-pool'

@@ -7,7 +7,7 @@ import type {
 } from '@shared/schemas/quality.schema'
 import { Job, type IJob } from '../../jobs/job.entity'
 import { DatasetFile, type IDatasetFile } from '../files/dataset-file.entity'
-import { computeQualityJob } from './quality-jobs'
+import { computeQualityJob } from './quality-job-kind'
 import { QualityReport } from './quality-report.entity'
 import { reportAsRead } from './quality.service'
 

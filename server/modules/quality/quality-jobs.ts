@@ -1,32 +1,10 @@
 import type { EntityManager } from '@mikro-orm/better-sqlite'
-import { z } from 'zod'
 import { pixelAtSample } from '@shared/domain/optics'
-import { PRECISION_DETECTORS, type PrecisionDetector } from '../../compute/statistics'
+import type { PrecisionDetector } from '../../compute/statistics'
 import { enqueue } from '../../jobs/job-queue'
-import { defineJobKind } from '../../jobs/job-kind'
+import { computeQualityJob, type QualityJobInputs } from './quality-job-kind'
 import { DatasetMetadata } from '../metadata/dataset-metadata.entity'
 import type { IDatasetFile } from '../files/dataset-file.entity'
-
-/** Description values the report uses, copied into the payload when the job is queued. */
-const qualityInputs = z.object({
-  pixelNm: z.number().positive().optional(),
-  detector: z.enum(PRECISION_DETECTORS).optional(),
-  emissionNm: z.number().positive().optional(),
-  numericalAperture: z.number().positive().optional(),
-  psfSigmaNm: z.number().positive().optional(),
-  readNoisePhotons: z.number().nonnegative().optional(),
-})
-export type QualityJobInputs = z.output<typeof qualityInputs>
-
-/** Every quality metric of an ingested table, computed from its localization store. */
-export const computeQualityJob = defineJobKind({
-  name: 'compute-quality',
-  payload: z.object({ fileId: z.int().positive(), inputs: qualityInputs }),
-  subject: (p) => ({ type: 'file', id: p.fileId }),
-  // The store must be written (and the table's mapping settled) first.
-  after: ['inspect-table', 'ingest-table'],
-  freshThread: true,
-})
 
 /**
  * The OME detector type as the precision formulas know it: electron multiplication (EMCCD,

@@ -1,6 +1,6 @@
 import type { QualityFindings } from '@shared/schemas/quality.schema'
 import type { JobCompletion } from '../../jobs/job-runner'
-import { computeQualityJob } from './quality-jobs'
+import { computeQualityJob } from './quality-job-kind'
 import { QualityReport } from './quality-report.entity'
 
 /** A finished report replaces the file's previous one. */

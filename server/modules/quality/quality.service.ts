@@ -3,7 +3,7 @@ import type { QualityFindings, QualityReportDto } from '@shared/schemas/quality.
 import { ConflictError } from '../../errors/http-error'
 import { Job, type IJob } from '../../jobs/job.entity'
 import type { IDatasetFile } from '../files/dataset-file.entity'
-import { computeQualityJob } from './quality-jobs'
+import { computeQualityJob } from './quality-job-kind'
 import { QualityReport, type IQualityReport } from './quality-report.entity'
 
 const NOTHING_YET: QualityFindings = {

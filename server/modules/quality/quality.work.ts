@@ -2,8 +2,8 @@ import { availableParallelism } from 'node:os'
 import { computeQuality, computeQualityOnTwoThreads } from '../../compute/quality'
 import { readLocalizations } from '../../compute/store'
 import type { JobWork } from '../../jobs/job-protocol'
-import { derivedPaths } from '../files/file-jobs'
-import { computeQualityJob } from './quality-jobs'
+import { derivedPaths } from '../files/file-job-kinds'
+import { computeQualityJob } from './quality-job-kind'
 
 const TWO_THREADS_FROM_ROWS = 200_000
 

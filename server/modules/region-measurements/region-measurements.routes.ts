@@ -13,7 +13,7 @@ import { requestEm as em } from '../../http/request-context'
 import { parseBody, parseQuery } from '../../http/validate'
 import type { AppDeps } from '../../services'
 import { DatasetFile, type IDatasetFile } from '../files/dataset-file.entity'
-import { columnarStoreOf } from '../files/file-jobs'
+import { columnarStoreOf } from '../files/file-job-kinds'
 import { previewTableOf } from '../preview/preview-tables'
 import {
   regionsFromGeoJson,
