@@ -206,7 +206,7 @@ describe('npm run admin -- migrate-to', () => {
     expect(stdout).toMatch(/already there +[1-9]/)
   }, 120_000)
 
-  it('gives a Stipple on the cluster profile the same catalogue, files and sign-ins', async () => {
+  it('gives a Stipple on the cluster profile the same catalogue, files (served from the bucket) and sign-ins', async () => {
     target = new ServerProcess(await freePort(), {
       DATA_DIR: join(dir, 'cluster-node'),
       DATABASE_URL: databaseUrl,
@@ -221,6 +221,25 @@ describe('npm run admin -- migrate-to', () => {
     })
     const file = await fileNamed(target, 'moved-locs.csv')
     expect(file).toMatchObject({ id: before.file.id, status: 'ready', sha256: sha256(table) })
+    // Its bytes come from the bucket, whole and by range.
+    const content = `${target.url}/api/datasets/${DATASET}/files/${file!.id}/content`
+    const whole = await fetch(content, { headers: { authorization: `Bearer ${token}` } })
+    expect(whole.status).toBe(200)
+    expect(sha256(Buffer.from(await whole.arrayBuffer()))).toBe(sha256(table))
+    expect(whole.headers.get('content-digest')).toBe(
+      `sha-256=:${Buffer.from(sha256(table), 'hex').toString('base64')}:`,
+    )
+    const part = await fetch(content, {
+      headers: { authorization: `Bearer ${token}`, range: 'bytes=100-199' },
+    })
+    expect(part.status).toBe(206)
+    expect(part.headers.get('content-range')).toBe(`bytes 100-199/${table.length}`)
+    expect(Buffer.from(await part.arrayBuffer())).toEqual(table.subarray(100, 200))
+    const beyond = await fetch(content, {
+      headers: { authorization: `Bearer ${token}`, range: `bytes=${table.length + 5}-` },
+    })
+    expect(beyond.status).toBe(416)
+    expect(beyond.headers.get('content-range')).toBe(`bytes */${table.length}`)
     // New records get ids after the copied ones: the id sequences were moved past them.
     const db = new Client({ connectionString: databaseUrl })
     await db.connect()

@@ -5,11 +5,13 @@ import { NotFoundError } from '../../errors/http-error'
 import { requestEm as em } from '../../http/request-context'
 import { parseParams } from '../../http/validate'
 import type { LocalStorage } from '../../storage/local-storage'
+import type { ObjectStore } from '../../storage/object-store'
 import { audit } from '../audit/audit.service'
 import { datasetFor, datasetParams } from '../datasets/dataset-access'
 import { DatasetFile } from './dataset-file.entity'
 import { derivedPaths } from './file-job-kinds'
 import { attachment, sendStoredFile } from './send-stored-file'
+import { sendStoredObject } from './send-stored-object'
 
 const fileParams = datasetParams.extend({ fileId: idSchema })
 
@@ -18,7 +20,11 @@ const fileParams = datasetParams.extend({ fileId: idSchema })
  * every response, Content-Digest when the body is the whole file), and the whole dataset as a
  * streamed zip with its checksum manifest. One audit event per download, not per range.
  */
-export function fileDownloadsRouter(storage: LocalStorage): Router {
+export function fileDownloadsRouter(
+  storage: LocalStorage,
+  /** On the S3 profile, where originals are read from (the store's `files/<storage key>`). */
+  objects: ObjectStore | null = null,
+): Router {
   const router = Router({ mergeParams: true })
 
   router.get('/files/:fileId/content', async (req, res, next) => {
@@ -26,26 +32,29 @@ export function fileDownloadsRouter(storage: LocalStorage): Router {
     const dataset = await datasetFor(req, em(), id, 'download')
     const file = await em().findOne(DatasetFile, { id: fileId, dataset: dataset.id })
     if (!file || !file.sha256) throw new NotFoundError('file', fileId)
-    await sendStoredFile(
-      req,
-      res,
-      next,
-      {
-        path: storage.originalPath(file.storageKey),
-        name: file.name,
-        sha256: file.sha256,
-        mediaType: file.mediaType,
-      },
-      async () => {
-        audit(em(), req, {
-          action: 'file.download',
-          targetType: 'Dataset',
-          targetId: dataset.accession,
-          details: { file: file.name, range: req.get('range') ?? null },
-        })
-        await em().flush()
-      },
-    )
+    const audited = async () => {
+      audit(em(), req, {
+        action: 'file.download',
+        targetType: 'Dataset',
+        targetId: dataset.accession,
+        details: { file: file.name, range: req.get('range') ?? null },
+      })
+      await em().flush()
+    }
+    const about = { name: file.name, sha256: file.sha256, mediaType: file.mediaType }
+    const key = `files/${file.storageKey}`
+    // Until uploads are written to the bucket too, an original uploaded on the S3 profile is still
+    // on this node's disk; one moved by `admin migrate-to` is in the bucket.
+    if (objects && (await objects.head(key)))
+      await sendStoredObject(req, res, next, { ...about, store: objects, key }, audited)
+    else
+      await sendStoredFile(
+        req,
+        res,
+        next,
+        { ...about, path: storage.originalPath(file.storageKey) },
+        audited,
+      )
   })
 
   /** What the raw-stack scan drew: the projection thumbnail and the per-frame mean trace (preview right). */

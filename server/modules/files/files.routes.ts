@@ -17,6 +17,7 @@ import { datasetFor, datasetParams } from '../datasets/dataset-access'
 import { UploadReservation } from '../uploads/upload-reservation.entity'
 import { DatasetFile, type IDatasetFile } from './dataset-file.entity'
 import { fileDownloadsRouter } from './file-downloads.routes'
+import { createObjectStore } from '../../storage/object-storage'
 import { toFileValidation } from './file-report.mapper'
 import { queueIngest, queueInspect } from './table-jobs.completions'
 
@@ -186,6 +187,10 @@ export function filesRouter(deps: Pick<AppDeps, 'storage' | 'jobs' | 'config'>):
       .send(files.map((f) => `${f.sha256}  ${f.name}\n`).join(''))
   })
 
-  router.use(fileDownloadsRouter(storage))
+  // On the S3 profile originals are downloaded from the bucket (moved there by `admin migrate-to`).
+  const { config } = deps
+  const objects =
+    config.storage.kind === 's3' ? createObjectStore(config.storage, config.dataDir) : null
+  router.use(fileDownloadsRouter(storage, objects))
   return router
 }

@@ -24,17 +24,7 @@ export async function sendStoredFile(
   file: StoredDownload,
   audit: () => Promise<void>,
 ): Promise<void> {
-  const digest = `sha-256=:${Buffer.from(file.sha256, 'hex').toString('base64')}:`
-  const range = req.get('range')
-  res.set({
-    ETag: `"${file.sha256}"`,
-    'Repr-Digest': digest,
-    'Content-Disposition': attachment(file.name),
-    'Cache-Control': 'private, no-cache',
-  })
-  if (!range) res.set('Content-Digest', digest)
-  const startsDownload = !range || /^bytes=0-/.test(range.trim())
-  if (startsDownload && req.get('if-none-match') !== `"${file.sha256}"`) await audit()
+  await prepareDownload(req, res, file, audit)
   res.type(file.mediaType ?? 'application/octet-stream')
   res.sendFile(
     file.path,
@@ -57,4 +47,27 @@ export async function sendStoredFile(
       next(err)
     },
   )
+}
+
+/**
+ * The headers every download of a stored file carries, and its audit (once for a download that
+ * starts at byte 0 and is not answered from the client's cache).
+ */
+export async function prepareDownload(
+  req: Request,
+  res: Response,
+  file: Omit<StoredDownload, 'path'>,
+  audit: () => Promise<void>,
+): Promise<void> {
+  const digest = `sha-256=:${Buffer.from(file.sha256, 'hex').toString('base64')}:`
+  const range = req.get('range')
+  res.set({
+    ETag: `"${file.sha256}"`,
+    'Repr-Digest': digest,
+    'Content-Disposition': attachment(file.name),
+    'Cache-Control': 'private, no-cache',
+  })
+  if (!range) res.set('Content-Digest', digest)
+  const startsDownload = !range || /^bytes=0-/.test(range.trim())
+  if (startsDownload && req.get('if-none-match') !== `"${file.sha256}"`) await audit()
 }

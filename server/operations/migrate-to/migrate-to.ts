@@ -16,6 +16,7 @@ import {
   occupiedTables,
   openSource,
   planTables,
+  splitBySource,
   type TableResult,
 } from './record-copy'
 
@@ -83,7 +84,9 @@ export async function migrateTo(options: MigrateToOptions): Promise<MigrateToRep
     const orm = await openDatabase({ driver: 'postgresql', url: options.databaseUrl })
     await orm.close()
 
-    const plan = await planTables(pg)
+    const { shared: plan, clusterOnly } = splitBySource(source, await planTables(pg))
+    if (clusterOnly.length)
+      out(`Tables of the cluster profile only, nothing to copy: ${clusterOnly.join(', ')}`)
     const occupied = await occupiedTables(pg, plan)
     const objectsThere = await storeHoldsObjects(to)
     if (!options.resume && (occupied.length || objectsThere)) {

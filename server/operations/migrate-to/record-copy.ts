@@ -126,6 +126,27 @@ export function checkSourceSchema(source: Database.Database, expected: string[])
     )
 }
 
+/**
+ * Splits the plan into the tables the source has and those only the cluster profile has (its
+ * coordination and queue tables): those start empty and are not copied.
+ */
+export function splitBySource(
+  source: Database.Database,
+  plan: TablePlan[],
+): { shared: TablePlan[]; clusterOnly: string[] } {
+  const present = new Set(
+    (
+      source.prepare("select name from sqlite_master where type = 'table'").all() as {
+        name: string
+      }[]
+    ).map((r) => r.name),
+  )
+  return {
+    shared: plan.filter((t) => present.has(t.name)),
+    clusterOnly: plan.filter((t) => !present.has(t.name)).map((t) => t.name),
+  }
+}
+
 export function sourceCount(source: Database.Database, table: string): number {
   return (source.prepare(`select count(*) as n from ${q(table)}`).get() as { n: number }).n
 }
