@@ -5,6 +5,7 @@ import { defineConfig as defineSqliteConfig } from '@mikro-orm/better-sqlite'
 import { entities } from './entities'
 import { migrationsList } from './migrations'
 import { postgresqlMigrationsList } from './migrations/postgresql'
+import { beginSqliteTransactionsImmediately } from './sqlite-transactions'
 
 /**
  * Each database keeps its own migrations (their SQL differs); the CLI writes a new one into the
@@ -24,6 +25,7 @@ const migrationsIn = (folder: string, list: MigrationsOptions['migrationsList'])
  * Used by the server and by the CLI (`npm run db -- migration:create`).
  */
 export function createSqliteConfig(dbName: string) {
+  beginSqliteTransactionsImmediately()
   return defineSqliteConfig({
     dbName,
     entities,
