@@ -16,7 +16,7 @@ import { queueProbeJob } from '@server/jobs/queue-probe.job'
 import { createLogger } from '@server/logger'
 import { ingestTableJob } from '@server/modules/files/file-job-kinds'
 import { computeQualityJob } from '@server/modules/quality/quality-job-kind'
-import { buildDataset, buildMember, buildProject, tokenFor } from '../fixtures/builders'
+import { buildSharedDraft } from '../fixtures/builders'
 import { settledFile, startJobRunner } from '../fixtures/job-runner'
 import { listen } from '../fixtures/live-server'
 import { jobRow, queueStates } from '../fixtures/pg-boss-jobs'
@@ -38,8 +38,6 @@ async function until(check: () => Promise<boolean>, ms = 30_000) {
   }
 }
 
-const rowOf = jobRow
-
 describe('a real kind on the PostgreSQL profile', () => {
   let t: TestApp
   let live: Awaited<ReturnType<typeof listen>>
@@ -51,11 +49,9 @@ describe('a real kind on the PostgreSQL profile', () => {
     t = await createTestApp({}, { database: 'postgresql' })
     live = await listen(t.app)
     runner = startJobRunner(t)
-    const em = t.em()
-    const member = await buildMember(em)
-    const project = await buildProject(em, [{ user: member, role: 'member' }])
-    token = await tokenFor(em, member)
-    accession = (await buildDataset(em, project.id)).accession
+    const { dataset, tokens } = await buildSharedDraft(t.em(), {})
+    token = tokens.member!
+    accession = dataset.accession
   }, 60_000)
   afterAll(async () => {
     await runner?.stop()
@@ -75,9 +71,9 @@ describe('a real kind on the PostgreSQL profile', () => {
     expect((await settledFile(t, fileId)).status).toBe('ready')
     const jobs = await t.em().find(Job, { file: fileId }, { orderBy: { id: 'asc' } })
     expect(jobs.map((j) => j.kind)).toEqual(['inspect-table', 'ingest-table', 'compute-quality'])
-    await until(async () => (await rowOf(t.orm, jobs[2]!.id)).state === 'done')
+    await until(async () => (await jobRow(t.orm, jobs[2]!.id)).state === 'done')
     for (const job of jobs) {
-      expect(await rowOf(t.orm, job.id)).toMatchObject({ state: 'done', attempts: 1 })
+      expect(await jobRow(t.orm, job.id)).toMatchObject({ state: 'done', attempts: 1 })
       expect(await queueStates(t.orm, job.id)).toEqual(['completed'])
     }
   }, 60_000)
@@ -103,17 +99,17 @@ describe('a real kind on the PostgreSQL profile', () => {
         )
     let sentEarly = false
     await until(async () => {
-      const ingestRow = await rowOf(t.orm, ingest.id)
+      const ingestRow = await jobRow(t.orm, ingest.id)
       if (ingestRow.state !== 'done')
         for (const report of await reports())
           if ((await queueStates(t.orm, report.id)).length)
             // Sent while the ingest still runs? Asked again: it may have finished in between and
             // queued (and sent) the report that follows it, which is no early send.
-            if ((await rowOf(t.orm, ingest.id)).state !== 'done') sentEarly = true
+            if ((await jobRow(t.orm, ingest.id)).state !== 'done') sentEarly = true
       return ingestRow.state === 'done' && (await reports()).at(-1)?.state === 'done'
     }, 80_000)
     expect(sentEarly).toBe(false)
-    const finished = (await rowOf(t.orm, ingest.id)).finishedAt!.getTime()
+    const finished = (await jobRow(t.orm, ingest.id)).finishedAt!.getTime()
     const ran = (await reports()).filter((r) => r.startedAt)
     expect(ran.length).toBeGreaterThan(0)
     for (const report of ran) expect(report.startedAt!.getTime()).toBeGreaterThanOrEqual(finished)
@@ -168,13 +164,13 @@ describe('queue behaviour with probe jobs, one database, one or two nodes', () =
     a.notify()
     let retryWaited = false
     await until(async () => {
-      const row = await rowOf(orm, job.id)
+      const row = await jobRow(orm, job.id)
       if (row.state === 'queued' && row.attempts === 1) retryWaited = true
       return row.state === 'failed'
     })
     await a.stop()
     expect(retryWaited).toBe(true)
-    expect(await rowOf(orm, job.id)).toMatchObject({
+    expect(await jobRow(orm, job.id)).toMatchObject({
       state: 'failed',
       attempts: 2,
       error: 'the table has no x column',
@@ -186,7 +182,7 @@ describe('queue behaviour with probe jobs, one database, one or two nodes', () =
   it('newer work of the same key replaces queued work (its pg-boss job too) and stops running work', async () => {
     const a = node('A')
     const blocker = await probe({ ms: 2500, key: 'blocker' })
-    await until(async () => (await rowOf(orm, blocker.id)).state === 'running')
+    await until(async () => (await jobRow(orm, blocker.id)).state === 'running')
     // The only thread is busy: this one is sent to pg-boss and waits there.
     const replaced = await probe({ ms: 100, key: 'table-7', n: 1 })
     a.notify()
@@ -195,11 +191,11 @@ describe('queue behaviour with probe jobs, one database, one or two nodes', () =
     // Newer work on the blocker's key while it runs: the running one is stopped.
     const blockerAgain = await probe({ ms: 100, key: 'blocker', n: 3 })
     a.notify()
-    await until(async () => (await rowOf(orm, latest.id)).state === 'done')
-    await until(async () => (await rowOf(orm, blockerAgain.id)).state === 'done')
+    await until(async () => (await jobRow(orm, latest.id)).state === 'done')
+    await until(async () => (await jobRow(orm, blockerAgain.id)).state === 'done')
     await a.stop()
-    expect((await rowOf(orm, replaced.id)).state).toBe('cancelled')
-    expect((await rowOf(orm, blocker.id)).state).toBe('cancelled')
+    expect((await jobRow(orm, replaced.id)).state).toBe('cancelled')
+    expect((await jobRow(orm, blocker.id)).state).toBe('cancelled')
     expect(await queueStates(orm, replaced.id)).toEqual(['cancelled'])
     expect(outcomesOf(replaced.id)).toEqual([])
     expect(outcomesOf(blocker.id)).toEqual([])
@@ -209,18 +205,18 @@ describe('queue behaviour with probe jobs, one database, one or two nodes', () =
   it('a job queued through node A runs on node B once A has stopped', async () => {
     const a = node('A')
     const blocker = await probe({ ms: 1500 })
-    await until(async () => (await rowOf(orm, blocker.id)).state === 'running')
+    await until(async () => (await jobRow(orm, blocker.id)).state === 'running')
     const job = await probe({ ms: 100 })
     a.notify()
     await until(async () => (await queueStates(orm, job.id)).includes('created'))
     await a.stop()
     node('B')
-    await until(async () => (await rowOf(orm, job.id)).state === 'done')
-    await until(async () => (await rowOf(orm, blocker.id)).state === 'done')
+    await until(async () => (await jobRow(orm, job.id)).state === 'done')
+    await until(async () => (await jobRow(orm, blocker.id)).state === 'done')
     expect(outcomesOf(job.id)).toEqual([`B done ${job.id}`])
     // The blocker was cut off on A: B took it up again, and it ran to the end once.
     expect(outcomesOf(blocker.id)).toEqual([`B done ${blocker.id}`])
-    expect((await rowOf(orm, blocker.id)).attempts).toBe(2)
+    expect((await jobRow(orm, blocker.id)).attempts).toBe(2)
   }, 60_000)
 
   it('a node stopped dead mid-job: the other node runs the job again, once', async () => {
@@ -232,11 +228,11 @@ describe('queue behaviour with probe jobs, one database, one or two nodes', () =
     // Whichever node took it is cut off (threads terminated, no hand-over), as a killed one is.
     const [taker, other] = a.busy ? [a, 'B'] : [b, 'A']
     await taker.stop()
-    await until(async () => (await rowOf(orm, job.id)).state === 'done')
+    await until(async () => (await jobRow(orm, job.id)).state === 'done')
     // A while longer: nothing runs it a third time.
     await new Promise((r) => setTimeout(r, 2000))
     expect(outcomesOf(job.id)).toEqual([`${other} done ${job.id}`])
-    expect(await rowOf(orm, job.id)).toMatchObject({ state: 'done', attempts: 2 })
+    expect(await jobRow(orm, job.id)).toMatchObject({ state: 'done', attempts: 2 })
     expect(await queueStates(orm, job.id)).toEqual(['completed'])
   }, 60_000)
 })
