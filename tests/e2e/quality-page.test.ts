@@ -46,39 +46,35 @@ async function demoTableReady(): Promise<{ accession: string; fileId: number }> 
   }
 }
 
-/** Every tile request of the page: asked, answered (with status) or failed, and when. */
+/**
+ * Every tile request of the page: asked, answered (with status) or failed, and when; `drawn`
+ * holds the addresses of the tiles answered 200.
+ */
 function tileTraffic(page: Page) {
   const started = Date.now()
   const log = new Map<string, string>()
-  const at = () => `${((Date.now() - started) / 1000).toFixed(1)} s`
-  const tile = (url: string) => (url.includes('/tiles/') ? url.split('/tiles/')[1]! : null)
-  page.on('request', (r) => {
-    const t = tile(r.url())
-    if (t) log.set(t, `asked ${at()}`)
-  })
+  const drawn: string[] = []
+  const note = (url: string, what: string) => {
+    const tile = url.split('/tiles/')[1]
+    if (!tile) return
+    const seconds = ((Date.now() - started) / 1000).toFixed(1)
+    log.set(tile, [log.get(tile), `${what} ${seconds} s`].filter(Boolean).join(', '))
+  }
+  page.on('request', (r) => note(r.url(), 'asked'))
   page.on('response', (r) => {
-    const t = tile(r.url())
-    if (t) log.set(t, `${log.get(t)}, ${r.status()} ${at()}`)
+    note(r.url(), String(r.status()))
+    if (r.url().includes('/tiles/') && r.status() === 200) drawn.push(r.url())
   })
-  page.on('requestfinished', (r) => {
-    const t = tile(r.url())
-    if (t) log.set(t, `${log.get(t)}, finished ${at()}`)
-  })
-  page.on('requestfailed', (r) => {
-    const t = tile(r.url())
-    if (t) log.set(t, `${log.get(t)}, failed (${r.failure()?.errorText}) ${at()}`)
-  })
-  return { summary: () => [...log].map(([t, what]) => `${t}: ${what}`).join('\n') }
+  page.on('requestfinished', (r) => note(r.url(), 'finished'))
+  page.on('requestfailed', (r) => note(r.url(), `failed (${r.failure()?.errorText})`))
+  return { drawn, summary: () => [...log].map(([t, what]) => `${t}: ${what}`).join('\n') }
 }
 
 describe('the quality page of a public dataset', () => {
   it('shows the report and server-rendered tiles, and redraws with another colormap', async () => {
     const { accession, fileId } = await demoTableReady()
-    const tiles: string[] = []
-    page.on('response', (res) => {
-      if (res.url().includes('/tiles/') && res.status() === 200) tiles.push(res.url())
-    })
     const traffic = tileTraffic(page)
+    const tiles = traffic.drawn
     await page.goto(`${stipple.url}/datasets/${accession}`)
     await page.getByRole('tab', { name: 'Files' }).click()
     await page
