@@ -35,7 +35,8 @@ import { metadataRouter } from './modules/metadata/metadata.routes'
 import { buildOpenApiDocument } from './openapi/document'
 import type { AppConfig } from './config'
 import { clockOf, type AppDeps } from './services'
-import { LocalStorage } from './storage/local-storage'
+import type { LocalStorage } from './storage/local-storage'
+import { openNodeStorage } from './storage/object-storage'
 import { PreviewService } from './modules/preview/preview.service'
 import { PreviewTables } from './modules/preview/preview-tables'
 import { ReadConnection } from './modules/common/read-connection'
@@ -73,7 +74,7 @@ export const sessionCookieOptions = (config: AppConfig) =>
 
 /** Builds the whole HTTP application; it never listens (server/main.ts does). */
 export function createApp(appOptions: CreateAppOptions): Express {
-  const storage = appOptions.storage ?? new LocalStorage(appOptions.config.dataDir)
+  const storage = appOptions.storage ?? openNodeStorage(appOptions.config)
   const tilePool = new TilePool()
   const readConnection = new ReadConnection(appOptions.orm)
   const options: AppDeps & CreateAppOptions = {

@@ -59,6 +59,7 @@ export async function openBackground(deps: {
     orm,
     logger,
     dataDir: config.dataDir,
+    storage: config.storage,
     workers: config.jobWorkers,
     completions: { ...fileJobCompletions(config), ...qualityCompletions() },
     freshThreadKinds: FRESH_THREAD_KINDS,

@@ -16,8 +16,7 @@ import { mailerOrLog } from './modules/mail/mailer'
 import { DEMO_DIR } from './paths'
 import type { BackgroundJobs } from './jobs/background-jobs'
 import type { Uploads } from './modules/uploads/uploads'
-import { LocalStorage } from './storage/local-storage'
-import { objectStorageReady } from './storage/object-storage'
+import { objectStorageReady, openNodeStorage } from './storage/object-storage'
 import { openCoordination } from './coordination/coordination'
 import { countRateLimitsIn } from './http/rate-limit'
 
@@ -111,7 +110,7 @@ async function startOn(
   countRateLimitsIn(coordination ? (name) => coordination.rateLimitStore(name) : null)
   const agreed = await coordination?.agreedSecrets({ ...config, port, publicUrl })
   const cfg: AppConfig = agreed?.config ?? { ...config, port, publicUrl }
-  const storage = new LocalStorage(cfg.dataDir)
+  const storage = openNodeStorage(cfg)
   const accounts = cfg.demo || cfg.oidc.local ? loadAccounts(`${DEMO_DIR}/accounts.json`) : []
   const background = primary
     ? null

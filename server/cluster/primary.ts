@@ -9,7 +9,7 @@ import { loadAccounts, type DemoAccount } from '../modules/idp/accounts'
 import { signingKey } from '../modules/idp/signing-key'
 import { createUploads } from '../modules/uploads/uploads'
 import { DEMO_DIR } from '../paths'
-import { LocalStorage } from '../storage/local-storage'
+import { openNodeStorage } from '../storage/object-storage'
 import { LockBroker } from './lock-broker'
 import { isStippleMessage, type ToPrimary, type ToWorker } from './messages'
 
@@ -39,7 +39,7 @@ function sendTo(worker: Worker | undefined, message: ToWorker) {
 export async function startPrimary(config: AppConfig): Promise<RunningPrimary> {
   const logger = createLogger(config.logLevel)
   const orm = await openDatabase(config.database)
-  const storage = new LocalStorage(config.dataDir)
+  const storage = openNodeStorage(config)
   const accounts = config.demo || config.oidc.local ? loadAccounts(`${DEMO_DIR}/accounts.json`) : []
   if (config.oidc.local) await signingKey(config.dataDir)
   // On PostgreSQL the workers coordinate through the database themselves; the primary's

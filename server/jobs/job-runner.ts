@@ -8,6 +8,7 @@ import type { JobMessage } from './job-protocol'
 import { recordingJob } from './job-context'
 import { claimNextJob, hasClaimableJobs, requeueAbandonedJobs } from './job-queue'
 import type { BackgroundJobs } from './background-jobs'
+import type { StorageConfig } from '../storage/storage-config'
 
 /** What the main thread does with a job's outcome (database updates), per kind. */
 export interface JobCompletion {
@@ -20,6 +21,8 @@ export interface JobRunnerOptions {
   logger: Logger
   /** The data directory; worker threads resolve storage keys under it. */
   dataDir: string
+  /** Where the record of bytes is (the data directory, or a bucket it mirrors). */
+  storage?: StorageConfig
   workers: number
   completions: Record<string, JobCompletion>
   pollMs?: number
@@ -155,7 +158,11 @@ export class JobRunner implements BackgroundJobs {
     const idle = this.idle.pop()
     if (idle) return idle
     const worker = startThread(WORKER_URL, {
-      workerData: { role: 'job-worker', dataDir: this.o.dataDir },
+      workerData: {
+        role: 'job-worker',
+        dataDir: this.o.dataDir,
+        storage: this.o.storage ?? { kind: 'local' },
+      },
     })
     worker.on('message', (m: JobMessage & { id?: number }) => {
       if (m.id === undefined) return

@@ -1,10 +1,22 @@
 import { parentPort, workerData } from 'node:worker_threads'
 import { LocalStorage } from '../storage/local-storage'
+import type { StorageConfig } from '../storage/storage-config'
 import type { JobMessage, JobRequest } from './job-protocol'
 import { JOB_WORK } from './work'
 
-/** Where bytes live, from the runner: every path a job touches is resolved here from keys. */
-const storage = new LocalStorage(String((workerData as { dataDir?: string }).dataDir ?? 'data'))
+const given = workerData as { dataDir?: string; storage?: StorageConfig }
+
+/**
+ * Where bytes live, from the runner: every path a job touches is resolved here from keys. The
+ * bucket's client is loaded only on the S3 profile: the embedded default's threads start without it.
+ */
+async function openStorage(): Promise<LocalStorage> {
+  const dataDir = String(given.dataDir ?? 'data')
+  if (given.storage?.kind !== 's3') return new LocalStorage(dataDir)
+  const { S3ObjectStore } = await import('../storage/s3-object-store')
+  return new LocalStorage(dataDir, new S3ObjectStore(given.storage))
+}
+const storage = openStorage()
 
 /**
  * A long-lived job worker thread: it loads the heavy modules once and then runs one job at a time
@@ -17,7 +29,7 @@ async function run({ id, kind, payload }: JobRequest & { id: number }) {
   let last = 0
   try {
     const result = await work(payload, {
-      storage,
+      storage: await storage,
       progress: (fraction, message) => {
         const now = Date.now()
         // Progress is persisted by the runner; a few updates a second are plenty.

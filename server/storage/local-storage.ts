@@ -1,20 +1,30 @@
 import { mkdirSync } from 'node:fs'
 import { readdir, rm, stat } from 'node:fs/promises'
 import { join } from 'node:path'
+import { BucketMirror } from './bucket-mirror'
+import type { ObjectStore } from './object-store'
 
 /**
- * Where bytes live on the embedded default: all under DATA_DIR. Everything else asks this module
- * for paths, so an object-storage backend (the tus S3 store and a matching layout of keys) can
- * replace it without touching the rest.
+ * Where bytes live on this node: all under DATA_DIR. Everything else asks this module for paths.
+ * On the S3 profile `bucket` is the record and DATA_DIR this node's copy of it: readers ask
+ * `mirror.localCopy(key)` before opening a stored file, writers `mirror.publish(key)` after
+ * writing one (both only answer the path on the embedded default, where `bucket` is null).
  */
 export class LocalStorage {
+  /** This node's copy of the bucket (a pass-through on the embedded default). */
+  readonly mirror: BucketMirror
   readonly uploadsDir: string
   readonly filesDir: string
   readonly derivedDir: string
   /** Bytes of approved versions, one per SHA-256, shared by every version holding them. */
   readonly versionBlobsDir: string
 
-  constructor(dataDir: string) {
+  constructor(
+    dataDir: string,
+    /** The bucket every node shares (S3 profile), or null when DATA_DIR is the record. */
+    readonly bucket: ObjectStore | null = null,
+  ) {
+    this.mirror = new BucketMirror(dataDir, bucket)
     this.uploadsDir = join(dataDir, 'uploads')
     this.filesDir = join(dataDir, 'files')
     this.derivedDir = join(dataDir, 'derived')

@@ -1,5 +1,6 @@
 import type { Logger } from '../logger'
 import { LocalObjectStore } from './local-object-store'
+import { LocalStorage } from './local-storage'
 import type { ObjectStore } from './object-store'
 import { S3ObjectStore } from './s3-object-store'
 import type { StorageConfig } from './storage-config'
@@ -7,6 +8,15 @@ import type { StorageConfig } from './storage-config'
 /** The object store the configuration names: the data directory, or the S3 bucket. */
 export function createObjectStore(config: StorageConfig, dataDir: string): ObjectStore {
   return config.kind === 's3' ? new S3ObjectStore(config) : new LocalObjectStore(dataDir)
+}
+
+/**
+ * This node's storage for the configuration: the data directory alone, or the data directory as
+ * this node's copy of the configured bucket.
+ */
+export function openNodeStorage(config: { storage: StorageConfig; dataDir: string }): LocalStorage {
+  const bucket = config.storage.kind === 's3' ? new S3ObjectStore(config.storage) : null
+  return new LocalStorage(config.dataDir, bucket)
 }
 
 /** Where the store is, for messages (no credentials). */
