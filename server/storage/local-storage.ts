@@ -68,27 +68,13 @@ export class LocalStorage {
     return rm(this.originalPath(storageKey), { force: true })
   }
 
-  /** The key of a deposited file's original (`files/<dataset>/<upload id>`). */
-  originalKey(storageKey: string): string {
-    return `files/${storageKey}`
-  }
-
-  /** The key of a file computed from a deposited one (`derived/<file id>/<name>`). */
-  derivedKey(fileId: number, name: string): string {
-    return `derived/${fileId}/${name}`
-  }
-
-  /**
-   * Removes one part of a file's derived folder (e.g. its cached preview tiles), with its objects
-   * in the bucket on the S3 profile.
-   */
+  /** Removes one part of a file's derived folder (e.g. its cached preview tiles). */
   removeDerivedPart(fileId: number, part: string): Promise<void> {
-    return this.mirror.removeFolder(this.derivedKey(fileId, part))
+    return rm(join(this.derivedDir, String(fileId), part), { recursive: true, force: true })
   }
 
-  /** Removes everything derived from a file, with its objects in the bucket on the S3 profile. */
   removeDerived(fileId: number): Promise<void> {
-    return this.mirror.removeFolder(`derived/${fileId}`)
+    return rm(join(this.derivedDir, String(fileId)), { recursive: true, force: true })
   }
 
   /** Removes every byte a dataset's files own: its originals' folder and their derived folders. */
@@ -117,12 +103,8 @@ export class LocalStorage {
     }
   }
 
-  /**
-   * Bytes of everything derived from one file (columnar store, index, thumbnails, tiles). On the
-   * S3 profile what the bucket holds for it: tiles are drawn per node and not counted there.
-   */
+  /** Bytes of everything derived from one file (columnar store, index, thumbnails, tiles). */
   async derivedBytes(fileId: number): Promise<number> {
-    if (this.bucket) return this.mirror.storedBytes(`derived/${fileId}`)
     const dir = join(this.derivedDir, String(fileId))
     let total = 0
     for (const entry of await readdir(dir, { recursive: true }).catch(() => [])) {

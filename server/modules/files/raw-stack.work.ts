@@ -1,6 +1,7 @@
 import { createHash } from 'node:crypto'
 import { writeFile } from 'node:fs/promises'
 import type { JobWork } from '../../jobs/job-protocol'
+import { derivedBytesOf } from '../../storage/stored-objects'
 import { derivedPaths, localOriginalOf, rawStackKeysOf, scanRawStackJob } from './file-job-kinds'
 import { readStackHeader, resolveOmeFileSet, scanStack } from '../../compute/raw-stacks'
 
@@ -45,7 +46,7 @@ export const scanRawStackWork: JobWork = async (input, { storage, progress }) =>
   await writeFile(out.trace, trace)
   // For every node (S3 profile), with their SHA-256: both are in memory, hashing is cheap.
   if (storage.mirror.mirrored) {
-    const keys = rawStackKeysOf(storage, payload.fileId)
+    const keys = rawStackKeysOf(payload.fileId)
     await storage.mirror.publish(keys.thumbnail, { sha256: sha256Of(scan.thumbnail.png) })
     await storage.mirror.publish(keys.trace, { sha256: sha256Of(trace) })
   }
@@ -71,7 +72,7 @@ export const scanRawStackWork: JobWork = async (input, { storage, progress }) =>
     trace: { min, max, mean: scan.frames ? sum / scan.frames : 0 },
     thumbnail: { width: scan.thumbnail.width, height: scan.thumbnail.height },
   }
-  return { ...report, derivedBytes: await storage.derivedBytes(payload.fileId) }
+  return { ...report, derivedBytes: await derivedBytesOf(storage, payload.fileId) }
 }
 
 const sha256Of = (bytes: Uint8Array | string) => createHash('sha256').update(bytes).digest('hex')
