@@ -3,10 +3,11 @@
  * folders, one PostgreSQL database, one bucket). A table deposited into the bucket is read and
  * reported on by whichever node takes its jobs; the other node, whose folder holds nothing of it,
  * draws the same tiles and measures the same region; a node whose derived folder is emptied
- * carries on from the bucket.
+ * carries on from the bucket. A raw stack uploaded to one node is scanned on either, and its
+ * thumbnail and frame means are the same from both.
  */
 import { execFile } from 'node:child_process'
-import { existsSync, mkdtempSync, readdirSync, rmSync } from 'node:fs'
+import { existsSync, mkdtempSync, readdirSync, readFileSync, rmSync } from 'node:fs'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
 import { promisify } from 'node:util'
@@ -17,7 +18,9 @@ import { openDatabase, type Orm } from '@server/db'
 import { seedDemoTables } from '@server/seeders/demo-tables'
 import { openNodeStorage } from '@server/storage/object-storage'
 import type { AppNode } from '../fixtures/app-node'
-import { startNodeCluster, waitFor, type NodeCluster } from '../fixtures/node-cluster'
+import { apiOf, startNodeCluster, waitFor, type NodeCluster } from '../fixtures/node-cluster'
+import { writeTiffStack } from '../fixtures/tiff-writer'
+import { tusUpload } from '../fixtures/tus-upload'
 
 const run = promisify(execFile)
 /** The demo's 3D table, which comes with two regions drawn by its owner and a collaborator. */
@@ -179,4 +182,53 @@ describe('derived files on two app nodes and one bucket', () => {
     expect(second).toEqual(first)
     expect(existsSync(join(derived, String(table.fileId), 'localizations.arrow'))).toBe(true)
   })
+
+  it('scans a raw stack uploaded to one node, its thumbnail and frame means the same from both', async () => {
+    const { a, b, accession, depositorToken } = cluster
+    const path = join(seedDir, 'stack.tif')
+    // Frame f has every pixel at 100 + f: its mean is 100 + f.
+    writeTiffStack(path, {
+      width: 32,
+      height: 24,
+      frames: 12,
+      pixels: (f) => new Array(32 * 24).fill(100 + f),
+    })
+    const sent = await tusUpload(`${a.url}/api/uploads`, depositorToken, readFileSync(path), {
+      dataset: accession,
+      filename: 'stack.tif',
+    })
+    expect(sent.fileId, `upload: ${sent.status} ${sent.body}`).not.toBeNull()
+    const api = apiOf(depositorToken)
+    const filePath = `/api/datasets/${accession}/files/${sent.fileId}`
+    const file = await waitFor(
+      'the stack to be scanned',
+      async () => {
+        const list = (await (await api(a, `/api/datasets/${accession}/files`)).json()) as {
+          items: { id: number; status: string; kind: string }[]
+        }
+        const f = list.items.find((item) => item.id === Number(sent.fileId))
+        return f && (f.status === 'ready' || f.status === 'rejected') ? f : undefined
+      },
+      120_000,
+    )
+    expect(file).toMatchObject({ kind: 'raw_stack', status: 'ready' })
+    // Neither node keeps the scan's outputs: both answer from the bucket.
+    for (const node of [a, b])
+      rmSync(join(node.dataDir, 'derived', String(sent.fileId)), { recursive: true, force: true })
+    const [fromA, fromB] = await Promise.all(
+      [a, b].map(async (node) => {
+        const thumbnail = await api(node, `${filePath}/thumbnail.png`)
+        const trace = await api(node, `${filePath}/frame-means.json`)
+        expect([thumbnail.status, trace.status]).toEqual([200, 200])
+        return {
+          thumbnail: Buffer.from(await thumbnail.arrayBuffer()),
+          trace: (await trace.json()) as number[],
+        }
+      }),
+    )
+    expect(fromA!.trace).toEqual(Array.from({ length: 12 }, (_, f) => 100 + f))
+    expect(fromB!.trace).toEqual(fromA!.trace)
+    expect(fromA!.thumbnail.subarray(1, 4).toString()).toBe('PNG')
+    expect(fromB!.thumbnail.equals(fromA!.thumbnail)).toBe(true)
+  }, 150_000)
 })
