@@ -10,7 +10,6 @@ import { queueFirstJob } from '../modules/files/file-jobs'
 import { DatasetVersion } from '../modules/versions/dataset-version.entity'
 import { freezeFiles } from '../modules/versions/versions.service'
 import type { LocalStorage } from '../storage/local-storage'
-import { originalKey } from '../storage/stored-objects'
 import { seedDemoRegions } from './demo-regions'
 
 /** dSTORM-like blinking: a few short bursts per dye over the run. */
@@ -184,7 +183,7 @@ export async function seedDemoTables(
     await mkdir(dirname(path), { recursive: true })
     await writeFile(path, text)
     // Into the bucket on the S3 profile, where every node's jobs read it.
-    await storage.mirror.publish(originalKey(storageKey), { sha256 })
+    await storage.mirror.publish(storage.originalKey(storageKey), { sha256 })
     await em.transactional(async (tem) => {
       const file = tem.create(DatasetFile, {
         dataset: dataset.id,

@@ -98,6 +98,32 @@ export class BucketMirror {
     await rm(this.recordPath(key), { force: true })
   }
 
+  /**
+   * Removes a folder's worth of keys (`derived/7`): every object below it in the bucket (listed,
+   * then deleted one by one: a file's derived folder holds a handful), this node's files and the
+   * records of its copies. Other nodes' copies are found stale when they next ask for them.
+   */
+  async removeFolder(folderKey: string): Promise<void> {
+    if (this.bucket) {
+      const keys: string[] = []
+      for await (const object of this.bucket.list(`${folderKey}/`)) keys.push(object.key)
+      for (const key of keys) await this.bucket.delete(key)
+      await rm(join(this.dataDir, '.mirror', ...folderKey.split('/')), {
+        recursive: true,
+        force: true,
+      })
+    }
+    await rm(this.pathOf(folderKey), { recursive: true, force: true })
+  }
+
+  /** Bytes of the bucket's objects below a folder (the S3 profile's record of what it holds). */
+  async storedBytes(folderKey: string): Promise<number> {
+    if (!this.bucket) throw new Error('storedBytes reads the bucket; there is none here')
+    let total = 0
+    for await (const object of this.bucket.list(`${folderKey}/`)) total += object.size
+    return total
+  }
+
   private async refresh(key: string, path: string, bucket: ObjectStore): Promise<string> {
     const info = await bucket.head(key)
     if (!info) throw new ObjectNotFoundError(key)

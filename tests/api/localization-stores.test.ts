@@ -1,8 +1,8 @@
 /**
  * Derived files on the S3 profile: a node opens a table's store from the bucket when it has none,
  * asks the bucket again only every few seconds (or at once when its copy went missing or the
- * table was read again), and keeps serving its copy while the bucket is away. The embedded
- * profile never asks a bucket.
+ * table was read again), keeps serving its copy while the bucket is away, and removing a file's
+ * derived part removes its objects. The embedded profile never asks a bucket.
  */
 import { createHash, randomBytes } from 'node:crypto'
 import { existsSync, readFileSync } from 'node:fs'
@@ -20,7 +20,6 @@ import {
   localOriginalOf,
   publishColumnarStore,
 } from '@server/modules/files/file-job-kinds'
-import { originalKey } from '@server/storage/stored-objects'
 import { startS3, type S3Fixture } from '../fixtures/s3'
 
 let s3: S3Fixture
@@ -40,7 +39,7 @@ async function node(withBucket = true): Promise<LocalStorage> {
 
 /** What an ingest leaves on the node that ran it: a store and its index, sent to the bucket. */
 async function ingestOn(storage: LocalStorage, fileId: number, store: Buffer) {
-  const keys = columnarKeysOf(fileId)
+  const keys = columnarKeysOf(storage, fileId)
   for (const [key, bytes] of [
     [keys.store, store],
     [
@@ -88,7 +87,7 @@ describe('localization stores through the bucket', () => {
     const fileId = nextFile++
     const store = randomBytes(256 << 10)
     await ingestOn(a, fileId, store)
-    const { store: storeKey, index: indexKey } = columnarKeysOf(fileId)
+    const { store: storeKey, index: indexKey } = columnarKeysOf(a, fileId)
     expect((await bucket.head(storeKey))?.sha256).toBe(sha256(store))
     expect((await bucket.head(indexKey))?.sha256).not.toBeNull()
 
@@ -164,10 +163,36 @@ describe('localization stores through the bucket', () => {
     expect(await stores.open({ id: other, status: 'ready' })).not.toBeNull()
   })
 
+  it('removes a derived part and a whole derived folder from the bucket too, and counts what the bucket holds', async () => {
+    const [a, b] = [await node(), await node()]
+    const fileId = nextFile++
+    const store = randomBytes(10_000)
+    await ingestOn(a, fileId, store)
+    const part = a.derivedKey(fileId, 'tiles/k/0-0-0.png')
+    await mkdir(dirname(a.mirror.pathOf(part)), { recursive: true })
+    await writeFile(a.mirror.pathOf(part), 'tile')
+    await a.mirror.publish(part)
+    const indexBytes = (await bucket.head(columnarKeysOf(a, fileId).index))!.size
+    expect(await b.derivedBytes(fileId)).toBe(10_000 + indexBytes + 4)
+
+    await b.removeDerivedPart(fileId, 'tiles')
+    expect(await bucket.head(part)).toBeNull()
+    expect(await b.derivedBytes(fileId)).toBe(10_000 + indexBytes)
+
+    await new LocalizationStores(b).open({ id: fileId, status: 'ready' })
+    await b.removeDerived(fileId)
+    const left = []
+    for await (const object of bucket.list(`derived/${fileId}/`)) left.push(object.key)
+    expect(left).toEqual([])
+    expect(existsSync(join(b.derivedDir, String(fileId)))).toBe(false)
+    expect(existsSync(join(b.mirror.dataDir, '.mirror', 'derived', String(fileId)))).toBe(false)
+    expect(await b.derivedBytes(fileId)).toBe(0)
+  })
+
   it('reads an original from the bucket for a job, or from this node when only it has it', async () => {
     const [a, b] = [await node(), await node()]
     const text = Buffer.from('frame,x,y\n1,2,3\n')
-    const published = originalKey('4/upload-1')
+    const published = a.originalKey('4/upload-1')
     await mkdir(dirname(a.mirror.pathOf(published)), { recursive: true })
     await writeFile(a.mirror.pathOf(published), text)
     await a.mirror.publish(published)
@@ -192,6 +217,6 @@ describe('localization stores through the bucket', () => {
     await embedded.removeDerived(fileId)
     expect(await stores.open({ id: fileId, status: 'ready' })).toBeNull()
     expect(calls).toEqual({ head: 0, get: 0 })
-    expect(await bucket.head(columnarKeysOf(fileId).store)).toBeNull()
+    expect(await bucket.head(columnarKeysOf(embedded, fileId).store)).toBeNull()
   })
 })

@@ -7,7 +7,6 @@ import {
 import { defineJobKind } from '../../jobs/job-kind'
 import type { LocalStorage } from '../../storage/local-storage'
 import { ObjectNotFoundError } from '../../storage/object-store'
-import { derivedKey, originalKey } from '../../storage/stored-objects'
 
 /*
  * The kinds of work on deposited files and where their outputs go: what the job threads import,
@@ -68,9 +67,9 @@ export const columnarStoreOf = (storage: LocalStorage, fileId: number) =>
   storage.derivedLocation(fileId, COLUMNAR_STORE)
 
 /** The keys of a table's store and of its index. */
-export const columnarKeysOf = (fileId: number) => ({
-  store: derivedKey(fileId, COLUMNAR_STORE),
-  index: derivedKey(fileId, COLUMNAR_INDEX),
+export const columnarKeysOf = (storage: LocalStorage, fileId: number) => ({
+  store: storage.derivedKey(fileId, COLUMNAR_STORE),
+  index: storage.derivedKey(fileId, COLUMNAR_INDEX),
 })
 
 export function derivedPaths(storage: LocalStorage, fileId: number) {
@@ -82,9 +81,9 @@ export function derivedPaths(storage: LocalStorage, fileId: number) {
 }
 
 /** The keys of a raw stack's projection thumbnail and frame-mean trace. */
-export const rawStackKeysOf = (fileId: number) => ({
-  thumbnail: derivedKey(fileId, THUMBNAIL),
-  trace: derivedKey(fileId, TRACE),
+export const rawStackKeysOf = (storage: LocalStorage, fileId: number) => ({
+  thumbnail: storage.derivedKey(fileId, THUMBNAIL),
+  trace: storage.derivedKey(fileId, TRACE),
 })
 
 /**
@@ -93,14 +92,14 @@ export const rawStackKeysOf = (fileId: number) => ({
  * the store, so a store must never be newer here than its index.
  */
 export async function localColumnarStoreOf(storage: LocalStorage, fileId: number) {
-  const keys = columnarKeysOf(fileId)
+  const keys = columnarKeysOf(storage, fileId)
   await storage.mirror.localCopy(keys.index)
   return storage.mirror.localCopy(keys.store)
 }
 
 /** Sends a store written on this node, and its index, to the bucket for every node. */
 export async function publishColumnarStore(storage: LocalStorage, fileId: number) {
-  const keys = columnarKeysOf(fileId)
+  const keys = columnarKeysOf(storage, fileId)
   await storage.mirror.publishWithDigest(keys.store)
   await storage.mirror.publishWithDigest(keys.index)
 }
@@ -111,7 +110,7 @@ export async function publishColumnarStore(storage: LocalStorage, fileId: number
  * read where it is.
  */
 export async function localOriginalOf(storage: LocalStorage, storageKey: string) {
-  const key = originalKey(storageKey)
+  const key = storage.originalKey(storageKey)
   try {
     return await storage.mirror.localCopy(key)
   } catch (error) {

@@ -1,7 +1,6 @@
 import { createHash } from 'node:crypto'
 import { writeFile } from 'node:fs/promises'
 import type { JobWork } from '../../jobs/job-protocol'
-import { derivedBytesOf } from '../../storage/stored-objects'
 import { derivedPaths, localOriginalOf, rawStackKeysOf, scanRawStackJob } from './file-job-kinds'
 import { readStackHeader, resolveOmeFileSet, scanStack } from '../../compute/raw-stacks'
 
@@ -46,7 +45,7 @@ export const scanRawStackWork: JobWork = async (input, { storage, progress }) =>
   await writeFile(out.trace, trace)
   // For every node (S3 profile), with their SHA-256: both are in memory, hashing is cheap.
   if (storage.mirror.mirrored) {
-    const keys = rawStackKeysOf(payload.fileId)
+    const keys = rawStackKeysOf(storage, payload.fileId)
     await storage.mirror.publish(keys.thumbnail, { sha256: sha256Of(scan.thumbnail.png) })
     await storage.mirror.publish(keys.trace, { sha256: sha256Of(trace) })
   }
@@ -72,7 +71,7 @@ export const scanRawStackWork: JobWork = async (input, { storage, progress }) =>
     trace: { min, max, mean: scan.frames ? sum / scan.frames : 0 },
     thumbnail: { width: scan.thumbnail.width, height: scan.thumbnail.height },
   }
-  return { ...report, derivedBytes: await derivedBytesOf(storage, payload.fileId) }
+  return { ...report, derivedBytes: await storage.derivedBytes(payload.fileId) }
 }
 
 const sha256Of = (bytes: Uint8Array | string) => createHash('sha256').update(bytes).digest('hex')

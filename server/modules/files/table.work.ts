@@ -1,6 +1,5 @@
 import { suggestMapping } from '@shared/domain/localization-columns'
 import type { JobWork } from '../../jobs/job-protocol'
-import { derivedBytesOf } from '../../storage/stored-objects'
 import {
   derivedPaths,
   ingestTableJob,
@@ -37,8 +36,7 @@ export const inspectTableWork: JobWork = async (input, { storage, progress }) =>
 export const ingestTableWork: JobWork = async (input, { storage, progress }) => {
   const payload = ingestTableJob.payload.parse(input)
   const sourcePath = await localOriginalOf(storage, payload.sourceKey)
-  // Tiles drawn from the previous store (another mapping) no longer show this table. They are
-  // drawn per node and never sent to the bucket: this node's folder is all there is to clear.
+  // Tiles drawn from the previous store (another mapping) no longer show this table.
   await storage.removeDerivedPart(payload.fileId, 'tiles')
   const report = await ingestLocalizationTable({
     sourcePath,
@@ -50,5 +48,5 @@ export const ingestTableWork: JobWork = async (input, { storage, progress }) => 
   })
   await publishColumnarStore(storage, payload.fileId)
   const { arrowPath: _arrow, indexPath: _index, ...output } = report.output
-  return { ...report, output, derivedBytes: await derivedBytesOf(storage, payload.fileId) }
+  return { ...report, output, derivedBytes: await storage.derivedBytes(payload.fileId) }
 }
