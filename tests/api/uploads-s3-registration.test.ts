@@ -24,6 +24,7 @@ import type { Uploads } from '@server/modules/uploads/uploads'
 import { UploadReservation } from '@server/modules/uploads/upload-reservation.entity'
 import { bearer, buildDataset, buildMember, buildProject, tokenFor } from '../fixtures/builders'
 import { listen } from '../fixtures/live-server'
+import { patchUpload } from '../fixtures/node-cluster'
 import { startS3, type S3Fixture } from '../fixtures/s3'
 import { createTestApp, type TestApp } from '../fixtures/test-app'
 
@@ -136,14 +137,11 @@ function upload(data: Buffer, dataset: string, filename: string, chunkSize = 4 *
 
 const tus = { 'Tus-Resumable': '1.0.0' }
 const meta = (v: string) => Buffer.from(v).toString('base64')
-const patch = (path: string, offset: number, body: Buffer) =>
-  request(live.url)
-    .patch(path)
-    .set(bearer(token))
-    .set(tus)
-    .set('Upload-Offset', String(offset))
-    .set('Content-Type', 'application/offset+octet-stream')
-    .send(body)
+/** One tus PATCH through the live server (fetch), with the body read as text. */
+async function patch(path: string, offset: number, body: Buffer) {
+  const res = await patchUpload(`${live.url}${path}`, token, offset, body)
+  return { status: res.status, headers: res.headers, text: await res.text() }
+}
 async function create(accession: string, size: number, name = 'part.bin') {
   return request(live.url)
     .post('/api/uploads')
@@ -314,7 +312,7 @@ describe('uploads into the bucket (S3 profile)', () => {
     expect(rest.status).toBe(204)
     const file = await t
       .em()
-      .findOneOrFail(DatasetFile, { id: Number(rest.headers['stipple-file-id']) })
+      .findOneOrFail(DatasetFile, { id: Number(rest.headers.get('stipple-file-id')) })
     expect(file).toMatchObject({ size: data.length, sha256: sha256(data) })
   })
 })
