@@ -1,5 +1,6 @@
 import type { EntityManager } from '@mikro-orm/better-sqlite'
 import type { LocalStorage } from '../../storage/local-storage'
+import { derivedBytesOf } from '../../storage/stored-objects'
 import { DatasetFile } from './dataset-file.entity'
 
 /**
@@ -19,11 +20,12 @@ export async function projectBytesUsed(em: EntityManager, projectId: number): Pr
 
 /**
  * Start-up: files whose derived bytes were never counted (stored by an older release, or whose
- * count was lost) get them counted from the storage.
+ * count was lost) get them counted from the storage: the data folder, or on the S3 profile a
+ * listing of the bucket under each file's derived prefix.
  */
 export async function recountDerivedBytes(em: EntityManager, storage: LocalStorage) {
   const files = await em.find(DatasetFile, { derivedBytes: 0, status: 'ready' })
-  for (const file of files) file.derivedBytes = await storage.derivedBytes(file.id)
+  for (const file of files) file.derivedBytes = await derivedBytesOf(storage, file.id)
   await em.flush()
   return files.filter((f) => f.derivedBytes > 0).length
 }
