@@ -37,6 +37,30 @@ export function colourize(
   return rgb
 }
 
+/**
+ * The same colouring as palette indices (one byte a pixel) and the colormap as the palette:
+ * pixel p is colour `palette[3·i…3·i+2]` with i = `indices[p]`, exactly what `colourize` writes.
+ * Into `into` when it holds at least the image's pixels.
+ */
+export function colourIndices(
+  image: Float32Array,
+  options: ColourOptions = {},
+  into?: Uint8Array,
+): { indices: Uint8Array; palette: Uint8Array } {
+  const palette = colormapTable(options.colormap ?? COLOUR_DEFAULTS.colormap)
+  const levels = new LevelMap(resolveContrast(image, options.contrast), options.gamma)
+  const indices =
+    into && into.length >= image.length
+      ? into.subarray(0, image.length)
+      : new Uint8Array(image.length)
+  const empty = levels.level(0)
+  for (let p = 0; p < image.length; p++) {
+    const v = image[p]!
+    indices[p] = v === 0 ? empty : levels.level(v)
+  }
+  return { indices, palette }
+}
+
 export interface ValueColourOptions extends ColourOptions {
   /** Values mapped to the colormap's ends (e.g. z in nm, or frames); outside them clamped. */
   valueRange: { min: number; max: number }

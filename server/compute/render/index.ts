@@ -29,6 +29,7 @@ export {
 export {
   CHANNEL_COLOURS,
   COLOUR_DEFAULTS,
+  colourIndices,
   colourize,
   colourizeByValue,
   overlayChannels,
@@ -44,7 +45,7 @@ export {
   type BoundsNm,
   type TilePyramid,
 } from './pyramid'
-export { encodePng } from './png'
+export { encodeIndexedPng, encodePng } from './png'
 export {
   columnsDrawn,
   renderOptionsKey,
@@ -55,9 +56,12 @@ export {
   type ResolvedRenderOptions,
 } from './render-options'
 export {
+  coloursDensity,
   finiteRange,
-  renderCountsImage,
   renderImage,
+  renderIndexedCounts,
+  renderIndexedImage,
   type ImageScratch,
+  type IndexedImage,
   type RenderedImage,
 } from './render-image'

@@ -1,6 +1,6 @@
 /** One call from localizations to an RGB image, as the tile endpoint needs it. */
 import type { Localizations, NumericColumn } from '../localizations.types'
-import { colourize, colourizeByValue, overlayChannels } from './colourize'
+import { colourIndices, colourize, colourizeByValue, overlayChannels } from './colourize'
 import { renderGaussian, renderGaussianValue } from './gaussian'
 import { renderHistogram, renderValueHistogram, type ValueImage } from './histogram'
 import {
@@ -47,18 +47,54 @@ export function renderImage(
   return image
 }
 
-/** An image from counts already binned for the view (an overview's blocks), coloured as density. */
-export function renderCountsImage(
+/** A density image as palette indices and the colormap as palette (see colourIndices). */
+export interface IndexedImage {
+  indices: Uint8Array
+  palette: Uint8Array
+  width: number
+  height: number
+}
+
+/** Whether the options colour plain density through a colormap, which a palette image can carry. */
+export function coloursDensity(options: RenderOptions): boolean {
+  return (options.colourBy ?? 'density') === 'density'
+}
+
+/**
+ * renderImage for options that colour density (see coloursDensity), as a palette image: the same
+ * pixels once the palette is applied. The indices are written into the scratch's rgb when lent.
+ */
+export function renderIndexedImage(
+  locs: Localizations,
+  view: RenderView,
+  options: RenderOptions = {},
+  scratch?: ImageScratch,
+): IndexedImage {
+  const resolved = resolveRenderOptions(options)
+  const counts = density(locs, view, resolved, resolved.filter, scratch?.density)
+  return indexedCounts(counts, view, resolved, scratch)
+}
+
+/** Counts already binned for the view (an overview's blocks), coloured as density, as a palette image. */
+export function renderIndexedCounts(
   counts: Float32Array,
   view: RenderView,
   options: RenderOptions = {},
   scratch?: ImageScratch,
-): RenderedImage {
-  const resolved = resolveRenderOptions(options)
+): IndexedImage {
+  return indexedCounts(counts, view, resolveRenderOptions(options), scratch)
+}
+
+function indexedCounts(
+  counts: Float32Array,
+  view: RenderView,
+  resolved: ResolvedRenderOptions,
+  scratch?: ImageScratch,
+): IndexedImage {
   const { contrast, gamma } = resolved
   const colour = { colormap: resolved.colormap ?? undefined, contrast, gamma }
-  const rgb = colourize(counts, colour, scratch?.rgb)
-  return { rgb, width: view.width, height: view.height, options: resolved }
+  const { indices, palette } = colourIndices(counts, colour, scratch?.rgb)
+  return { indices, palette, width: view.width, height: view.height }
 }
 
 function colouredImage(

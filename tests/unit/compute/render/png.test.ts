@@ -1,7 +1,7 @@
 // @vitest-environment node
 import { describe, expect, it } from 'vitest'
 import sharp from 'sharp'
-import { encodePng } from '../../../../server/compute/render'
+import { colormapTable, encodeIndexedPng, encodePng } from '../../../../server/compute/render'
 import { createRandom } from '../../../fixtures/spot-simulation'
 
 describe('PNG encoding', () => {
@@ -36,5 +36,28 @@ describe('PNG encoding', () => {
 
   it('refuses a buffer of the wrong size', () => {
     expect(() => encodePng(new Uint8Array(10), 2, 2)).toThrow(RangeError)
+    expect(() => encodeIndexedPng(new Uint8Array(3), new Uint8Array(768), 2, 2)).toThrow(RangeError)
+  })
+
+  it('writes palette images that the same decoder expands to the palette’s colours', async () => {
+    const width = 41
+    const height = 19
+    const random = createRandom(7)
+    const indices = Uint8Array.from({ length: width * height }, () => Math.floor(random() * 256))
+    const palette = colormapTable('magma')
+    for (const level of [1, 6]) {
+      const png = encodeIndexedPng(indices, palette, width, height, level)
+      const { data, info } = await sharp(png).raw().toBuffer({ resolveWithObject: true })
+      expect([info.width, info.height, info.channels]).toEqual([width, height, 3])
+      const expected = Buffer.alloc(width * height * 3)
+      indices.forEach((i, p) => expected.set(palette.subarray(3 * i, 3 * i + 3), 3 * p))
+      expect(Buffer.compare(data, expected)).toBe(0)
+    }
+  })
+
+  it('refuses a palette that is empty, ragged or longer than 256 colours', () => {
+    const indices = new Uint8Array(4)
+    for (const bytes of [0, 4, 257 * 3])
+      expect(() => encodeIndexedPng(indices, new Uint8Array(bytes), 2, 2)).toThrow(RangeError)
   })
 })
