@@ -80,7 +80,11 @@ export function createUploads(deps: {
    * left the editable states can never be registered: its bytes go at once.
    */
   async function authorisedUpload(req: Request, id: string): Promise<Upload> {
-    const upload = await store.getUpload(id).catch(() => null)
+    // Only "no such upload" is one; the store being away is not (503, passed on).
+    const upload = await store.getUpload(id).catch((err: { status_code?: number }) => {
+      if (err.status_code === 404) return null
+      throw err
+    })
     if (!upload || Number(upload.metadata?.userId) !== req.user?.id)
       throw refuse(404, 'Not found', 'No such upload of yours.')
     const refusal = await targetRefusal(em(), req.ability, Number(upload.metadata?.datasetId))
@@ -102,8 +106,8 @@ export function createUploads(deps: {
     // answered in words; their message may hold SQL or paths and never reaches the client. The
     // database or the bucket being away is a 503 (the store's own included): clients retry it.
     onResponseError: (_req, err) => {
-      if ((err as { status_code?: number }).status_code) return undefined
-      if (isDependencyUnavailable(err)) {
+      const status = (err as { status_code?: number }).status_code
+      if (status === 503 || (!status && isDependencyUnavailable(err))) {
         deps.logger.info({ err }, 'upload paused: storage or database unreachable')
         return refuse(
           503,
@@ -111,6 +115,7 @@ export function createUploads(deps: {
           'The storage or the database is not reachable at the moment; the upload can resume when it is back.',
         )
       }
+      if (status) return undefined
       deps.logger.error({ err }, 'upload request failed')
       return refuse(500, 'Upload failed', 'The server could not store this upload; try again.')
     },
