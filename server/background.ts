@@ -6,7 +6,7 @@ import { FRESH_THREAD_KINDS } from './jobs/kinds'
 import type { Logger } from './logger'
 import { queueMissingFileJobs } from './modules/files/file-jobs'
 import { fileJobCompletions } from './modules/files/file-jobs.completions'
-import { sweepOrphanedBytes } from './modules/files/orphan-sweep.service'
+import { sweepStoredBytes } from './modules/files/orphan-sweep.service'
 import { recountDerivedBytes } from './modules/files/project-usage'
 import { pruneOidcPayloads } from './modules/idp/oidc-adapter'
 import { startDoiRegistration } from './modules/doi/doi-background'
@@ -48,6 +48,7 @@ export async function openBackground(deps: {
   coordination?: Coordination | null
 }): Promise<Background> {
   const { config, orm, logger, storage } = deps
+  const clock = deps.clock ?? (() => new Date())
   const seed = async () => {
     const { created } = await seedDemo(orm.em.fork(), DEMO_DIR)
     if (created) logger.info({ created }, 'demo data seeded')
@@ -75,7 +76,7 @@ export async function openBackground(deps: {
     logger,
     config,
     mailer: mailerOrLog(mailCatcher?.url ?? config.smtpUrl, config.mailFrom, logger),
-    clock: deps.clock ?? (() => new Date()),
+    clock,
     oncePerTick: deps.coordination
       ? (at, work) => deps.coordination!.oncePerTick('embargo', at, work)
       : undefined,
@@ -91,7 +92,12 @@ export async function openBackground(deps: {
       const requeued = await queueMissingFileJobs(orm.em.fork(), config)
       if (requeued) logger.info({ requeued }, 'files without their processing job requeued')
       const sweep = () =>
-        sweepOrphanedBytes(orm.em.fork(), storage).then((removed) => {
+        sweepStoredBytes(orm.em.fork(), storage, {
+          now: clock(),
+          oncePerTick: deps.coordination
+            ? (at, work) => deps.coordination!.oncePerTick('orphan-sweep', at, work)
+            : undefined,
+        }).then((removed) => {
           if (removed.originals + removed.derived + removed.uploads)
             logger.info({ removed }, 'bytes without a record removed')
         })

@@ -178,15 +178,18 @@ export async function seedDemoTables(
       continue
     const text = localizationsToCsv(simulateLocalizations(spec.simulation).localizations)
     const storageKey = `${dataset.id}/demo-${spec.simulation.seed}`
+    const sha256 = createHash('sha256').update(text).digest('hex')
     const path = storage.originalPath(storageKey)
     await mkdir(dirname(path), { recursive: true })
     await writeFile(path, text)
+    // Into the bucket on the S3 profile, where every node's jobs read it.
+    await storage.mirror.publish(storage.originalKey(storageKey), { sha256 })
     await em.transactional(async (tem) => {
       const file = tem.create(DatasetFile, {
         dataset: dataset.id,
         name: spec.file,
         size: Buffer.byteLength(text),
-        sha256: createHash('sha256').update(text).digest('hex'),
+        sha256,
         kind: 'localization_table',
         mediaType: 'text/csv',
         status: 'processing',

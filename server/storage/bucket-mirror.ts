@@ -1,3 +1,4 @@
+import { createHash } from 'node:crypto'
 import { createReadStream, createWriteStream } from 'node:fs'
 import { mkdir, readFile, rename, rm, stat, writeFile } from 'node:fs/promises'
 import { dirname, join, relative, sep } from 'node:path'
@@ -78,11 +79,49 @@ export class BucketMirror {
     if (info) await this.remember(key, info)
   }
 
+  /**
+   * `publish` with the file's SHA-256 kept beside the object, so other nodes tell a replacement
+   * apart even within the second S3 dates it to. The file is read once more for the hash (just
+   * written, so from the page cache); nothing is read on the embedded profile.
+   */
+  async publishWithDigest(key: string): Promise<void> {
+    if (!this.bucket) return
+    const hash = createHash('sha256')
+    await pipeline(createReadStream(this.pathOf(key)), hash)
+    await this.publish(key, { sha256: hash.digest('hex') })
+  }
+
   /** Removes the object and this node's copy. */
   async remove(key: string): Promise<void> {
     await this.bucket?.delete(key)
     await rm(this.pathOf(key), { force: true })
     await rm(this.recordPath(key), { force: true })
+  }
+
+  /**
+   * Removes a folder's worth of keys (`derived/7`): every object below it in the bucket (listed,
+   * then deleted one by one: a file's derived folder holds a handful), this node's files and the
+   * records of its copies. Other nodes' copies are found stale when they next ask for them.
+   */
+  async removeFolder(folderKey: string): Promise<void> {
+    if (this.bucket) {
+      const keys: string[] = []
+      for await (const object of this.bucket.list(`${folderKey}/`)) keys.push(object.key)
+      for (const key of keys) await this.bucket.delete(key)
+      await rm(join(this.dataDir, '.mirror', ...folderKey.split('/')), {
+        recursive: true,
+        force: true,
+      })
+    }
+    await rm(this.pathOf(folderKey), { recursive: true, force: true })
+  }
+
+  /** Bytes of the bucket's objects below a folder (the S3 profile's record of what it holds). */
+  async storedBytes(folderKey: string): Promise<number> {
+    if (!this.bucket) throw new Error('storedBytes reads the bucket; there is none here')
+    let total = 0
+    for await (const object of this.bucket.list(`${folderKey}/`)) total += object.size
+    return total
   }
 
   private async refresh(key: string, path: string, bucket: ObjectStore): Promise<string> {

@@ -68,13 +68,27 @@ export class LocalStorage {
     return rm(this.originalPath(storageKey), { force: true })
   }
 
-  /** Removes one part of a file's derived folder (e.g. its cached preview tiles). */
-  removeDerivedPart(fileId: number, part: string): Promise<void> {
-    return rm(join(this.derivedDir, String(fileId), part), { recursive: true, force: true })
+  /** The key of a deposited file's original (`files/<dataset>/<upload id>`). */
+  originalKey(storageKey: string): string {
+    return `files/${storageKey}`
   }
 
+  /** The key of a file computed from a deposited one (`derived/<file id>/<name>`). */
+  derivedKey(fileId: number, name: string): string {
+    return `derived/${fileId}/${name}`
+  }
+
+  /**
+   * Removes one part of a file's derived folder (e.g. its cached preview tiles), with its objects
+   * in the bucket on the S3 profile.
+   */
+  removeDerivedPart(fileId: number, part: string): Promise<void> {
+    return this.mirror.removeFolder(this.derivedKey(fileId, part))
+  }
+
+  /** Removes everything derived from a file, with its objects in the bucket on the S3 profile. */
   removeDerived(fileId: number): Promise<void> {
-    return rm(join(this.derivedDir, String(fileId)), { recursive: true, force: true })
+    return this.mirror.removeFolder(`derived/${fileId}`)
   }
 
   /** Removes every byte a dataset's files own: its originals' folder and their derived folders. */
@@ -103,8 +117,12 @@ export class LocalStorage {
     }
   }
 
-  /** Bytes of everything derived from one file (columnar store, index, thumbnails, tiles). */
+  /**
+   * Bytes of everything derived from one file (columnar store, index, thumbnails, tiles). On the
+   * S3 profile what the bucket holds for it: tiles are drawn per node and not counted there.
+   */
   async derivedBytes(fileId: number): Promise<number> {
+    if (this.bucket) return this.mirror.storedBytes(`derived/${fileId}`)
     const dir = join(this.derivedDir, String(fileId))
     let total = 0
     for (const entry of await readdir(dir, { recursive: true }).catch(() => [])) {

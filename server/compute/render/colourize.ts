@@ -50,7 +50,9 @@ export function colourIndices(
   const palette = colormapTable(options.colormap ?? COLOUR_DEFAULTS.colormap)
   const levels = new LevelMap(resolveContrast(image, options.contrast), options.gamma)
   const indices =
-    into && into.length >= image.length ? into.subarray(0, image.length) : new Uint8Array(image.length)
+    into && into.length >= image.length
+      ? into.subarray(0, image.length)
+      : new Uint8Array(image.length)
   const empty = levels.level(0)
   for (let p = 0; p < image.length; p++) {
     const v = image[p]!

@@ -12,6 +12,7 @@ import type { Actor } from '../../services'
 import { audit } from '../audit/audit.service'
 import { nextSequenceValue } from '../common/sequence.service'
 import type { LocalStorage } from '../../storage/local-storage'
+import { removeStoredDataset } from '../../storage/stored-objects'
 import { DatasetFile } from '../files/dataset-file.entity'
 import { Project } from '../projects/project.entity'
 import { Dataset, type IDataset } from './dataset.entity'
@@ -100,7 +101,8 @@ export async function deleteDataset(
   audit(em, actor, { action: 'dataset.delete', targetType: 'Dataset', targetId: dataset.accession })
   em.remove(dataset)
   await em.flush()
-  await storage.removeDataset(
+  await removeStoredDataset(
+    storage,
     dataset.id,
     files.map((f) => f.id),
   )

@@ -1,17 +1,20 @@
-import { Router } from 'express'
+import { once } from 'node:events'
+import type { Readable } from 'node:stream'
+import { pipeline } from 'node:stream/promises'
+import { Router, type Response } from 'express'
 import { ZipArchive } from 'archiver'
 import { idSchema } from '@shared/schemas/common.schema'
 import { NotFoundError } from '../../errors/http-error'
 import { requestEm as em } from '../../http/request-context'
 import { parseParams } from '../../http/validate'
 import type { LocalStorage } from '../../storage/local-storage'
-import type { ObjectStore } from '../../storage/object-store'
+import { openStored } from '../../storage/stored-objects'
 import { audit } from '../audit/audit.service'
 import { datasetFor, datasetParams } from '../datasets/dataset-access'
-import { DatasetFile } from './dataset-file.entity'
-import { derivedPaths } from './file-job-kinds'
-import { attachment, sendStoredFile } from './send-stored-file'
-import { sendStoredObject } from './send-stored-object'
+import { DatasetFile, type IDatasetFile } from './dataset-file.entity'
+import { derivedPaths, rawStackKeysOf } from './file-job-kinds'
+import { attachment } from './send-stored-file'
+import { sendStored } from './send-stored-object'
 
 const fileParams = datasetParams.extend({ fileId: idSchema })
 
@@ -20,11 +23,7 @@ const fileParams = datasetParams.extend({ fileId: idSchema })
  * every response, Content-Digest when the body is the whole file), and the whole dataset as a
  * streamed zip with its checksum manifest. One audit event per download, not per range.
  */
-export function fileDownloadsRouter(
-  storage: LocalStorage,
-  /** On the S3 profile, where originals are read from (the store's `files/<storage key>`). */
-  objects: ObjectStore | null = null,
-): Router {
+export function fileDownloadsRouter(storage: LocalStorage): Router {
   const router = Router({ mergeParams: true })
 
   router.get('/files/:fileId/content', async (req, res, next) => {
@@ -42,25 +41,19 @@ export function fileDownloadsRouter(
       await em().flush()
     }
     const about = { name: file.name, sha256: file.sha256, mediaType: file.mediaType }
-    const key = `files/${file.storageKey}`
-    // Until uploads are written to the bucket too, an original uploaded on the S3 profile is still
-    // on this node's disk; one moved by `admin migrate-to` is in the bucket.
-    if (objects && (await objects.head(key)))
-      await sendStoredObject(req, res, next, { ...about, store: objects, key }, audited)
-    else
-      await sendStoredFile(
-        req,
-        res,
-        next,
-        { ...about, path: storage.originalPath(file.storageKey) },
-        audited,
-      )
+    await sendStored(
+      req,
+      res,
+      next,
+      { ...about, storage, key: storage.originalKey(file.storageKey) },
+      audited,
+    )
   })
 
   /** What the raw-stack scan drew: the projection thumbnail and the per-frame mean trace (preview right). */
-  for (const [route, pick] of [
-    ['thumbnail.png', 'thumbnail'],
-    ['frame-means.json', 'trace'],
+  for (const [route, pick, type] of [
+    ['thumbnail.png', 'thumbnail', 'image/png'],
+    ['frame-means.json', 'trace', 'application/json'],
   ] as const) {
     router.get(`/files/:fileId/${route}`, async (req, res) => {
       const { id, fileId } = parseParams(fileParams, req)
@@ -72,9 +65,12 @@ export function fileDownloadsRouter(
         status: 'ready',
       })
       if (!file) throw new NotFoundError('scanned raw stack', fileId)
-      res
-        .set('Cache-Control', 'private, max-age=300')
-        .sendFile(derivedPaths(storage, file.id)[pick])
+      res.set('Cache-Control', 'private, max-age=300')
+      if (!storage.bucket) return void res.sendFile(derivedPaths(storage, file.id)[pick])
+      // On the S3 profile streamed from the bucket: the node need not hold a copy.
+      const stream = await openStored(storage, rawStackKeysOf(storage, file.id)[pick])
+      res.type(type)
+      await pipeline(stream, res).catch((err: Error) => res.destroy(err))
     })
   }
 
@@ -101,13 +97,55 @@ export function fileDownloadsRouter(
     zip.on('error', (err: Error) => res.destroy(err))
     zip.pipe(res)
     const prefix = `${dataset.accession}/`
-    zip.append(files.map((f) => `${f.sha256}  ${f.name}\n`).join(''), {
-      name: `${prefix}manifest-sha256.txt`,
-    })
-    for (const f of files)
-      zip.file(storage.originalPath(f.storageKey), { name: `${prefix}${f.name}` })
+    const manifest = files.map((f) => `${f.sha256}  ${f.name}\n`).join('')
+    if (storage.bucket) {
+      if (!(await zipFromBucket(zip, res, storage, prefix, manifest, files))) return
+    } else {
+      zip.append(manifest, { name: `${prefix}manifest-sha256.txt` })
+      for (const f of files)
+        zip.file(storage.originalPath(f.storageKey), { name: `${prefix}${f.name}` })
+    }
     await zip.finalize()
   })
 
   return router
+}
+
+/**
+ * The zip's manifest and members, the members read from the bucket, one at a time: archiver
+ * queues what it is given, so each member's stream is opened only when the one before has gone
+ * into the archive (else every file of a large dataset would hold an S3 connection open while
+ * it waits). False when the client went away or a member could not be read (the response is
+ * ended then).
+ */
+async function zipFromBucket(
+  zip: ZipArchive,
+  res: Response,
+  storage: LocalStorage,
+  prefix: string,
+  manifest: string,
+  files: IDatasetFile[],
+): Promise<boolean> {
+  const gone = new AbortController()
+  res.once('close', () => res.writableFinished || gone.abort())
+  const add = async (source: Readable | string, name: string, date?: Date) => {
+    // Listening before appending: the entry may be written before append returns.
+    const added = once(zip, 'entry', { signal: gone.signal })
+    zip.append(source, { name: `${prefix}${name}`, date })
+    await added
+  }
+  let source: Readable | null = null
+  try {
+    await add(manifest, 'manifest-sha256.txt')
+    for (const f of files) {
+      source = await openStored(storage, storage.originalKey(f.storageKey))
+      await add(source, f.name, f.createdAt)
+    }
+    return true
+  } catch (err) {
+    source?.destroy()
+    zip.abort()
+    res.destroy(gone.signal.aborted ? undefined : (err as Error))
+    return false
+  }
 }

@@ -1,15 +1,12 @@
-import { rename, rm } from 'node:fs/promises'
-import { dirname } from 'node:path'
-import { mkdirSync } from 'node:fs'
 import type { EntityManager } from '@mikro-orm/better-sqlite'
 import type { Upload } from '@tus/server'
 import type { LocalStorage } from '../../storage/local-storage'
 import { audit } from '../audit/audit.service'
 import { Dataset } from '../datasets/dataset.entity'
+import { uploadBytesOf } from '../uploads/upload-bytes'
 import { UploadReservation } from '../uploads/upload-reservation.entity'
 import { DUPLICATE_FILE_PROBLEM, refuse } from '../uploads/upload-errors'
 import { DatasetFile, type IDatasetFile } from './dataset-file.entity'
-import { detectFileKind } from './file-kind'
 import { queueFirstJob } from './file-jobs'
 
 export interface FinishedUpload {
@@ -37,10 +34,10 @@ export const storageKeyFor = (datasetId: number, uploadId: string) => `${dataset
 
 /**
  * Turns a finished upload into a dataset file. Order matters for crash safety: the bytes are moved
- * to their permanent key first (a rename, deterministic from the upload id), then the row, the
- * first processing job and the audit event commit together; reconcileUploads() completes any
- * step a crash interrupted. An empty file or an exact duplicate in the same dataset is refused
- * and its bytes are removed.
+ * to their permanent key first (deterministic from the upload id: a rename on the local disk, an
+ * object copy and delete in the bucket), then the row, the first processing job and the audit
+ * event commit together; reconcileUploads() completes any step a crash interrupted. An empty file
+ * or an exact duplicate in the same dataset is refused and its bytes are removed.
  */
 export async function registerUpload(
   em: EntityManager,
@@ -48,13 +45,13 @@ export async function registerUpload(
   f: FinishedUpload,
 ): Promise<IDatasetFile> {
   const datasetId = Number(f.upload.metadata?.datasetId)
-  const tusPath = `${storage.uploadsDir}/${f.upload.id}`
+  const bytes = uploadBytesOf(storage)
   const key = storageKeyFor(datasetId, f.upload.id)
   const existing = await em.findOne(DatasetFile, { storageKey: key })
   if (existing) return existing
 
   const fail = async (status: number, title: string, detail: string, extra = {}) => {
-    await rm(tusPath, { force: true })
+    await bytes.dropUpload(f.upload.id)
     await em.nativeDelete(UploadReservation, { uploadId: f.upload.id })
     return refuse(status, title, detail, extra)
   }
@@ -74,15 +71,8 @@ export async function registerUpload(
     )
   }
 
-  const original = storage.originalPath(key)
-  if (!f.alreadyMoved) {
-    mkdirSync(dirname(original), { recursive: true })
-    await rename(tusPath, original)
-  }
-  const { kind, mediaType } = await detectFileKind(
-    original,
-    String(f.upload.metadata?.filename ?? ''),
-  )
+  if (!f.alreadyMoved) await bytes.move(f.upload.id, key)
+  const { kind, mediaType } = await bytes.kindOf(key, String(f.upload.metadata?.filename ?? ''))
   const name = String(f.upload.metadata?.filename ?? 'file')
   try {
     // The row, its first job, the audit event and the end of the reservation commit together:
@@ -121,7 +111,7 @@ export async function registerUpload(
   } catch (err) {
     // Refused after the move (the dataset went away): the bytes have no owner; remove them.
     if ((err as { status_code?: number }).status_code) {
-      await rm(original, { force: true })
+      await bytes.dropOriginal(key)
       await em.nativeDelete(UploadReservation, { uploadId: f.upload.id })
     }
     throw err

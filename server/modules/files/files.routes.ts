@@ -17,7 +17,7 @@ import { datasetFor, datasetParams } from '../datasets/dataset-access'
 import { UploadReservation } from '../uploads/upload-reservation.entity'
 import { DatasetFile, type IDatasetFile } from './dataset-file.entity'
 import { fileDownloadsRouter } from './file-downloads.routes'
-import { createObjectStore } from '../../storage/object-storage'
+import { removeStoredFile } from '../../storage/stored-objects'
 import { toFileValidation } from './file-report.mapper'
 import { queueIngest, queueInspect } from './table-jobs.completions'
 
@@ -169,7 +169,7 @@ export function filesRouter(deps: Pick<AppDeps, 'storage' | 'jobs' | 'config'>):
     })
     em().remove(file)
     await em().flush()
-    await storage.removeFile(file.storageKey, file.id)
+    await removeStoredFile(storage, file.storageKey, file.id)
     res.status(204).end()
   })
 
@@ -187,10 +187,6 @@ export function filesRouter(deps: Pick<AppDeps, 'storage' | 'jobs' | 'config'>):
       .send(files.map((f) => `${f.sha256}  ${f.name}\n`).join(''))
   })
 
-  // On the S3 profile originals are downloaded from the bucket (moved there by `admin migrate-to`).
-  const { config } = deps
-  const objects =
-    config.storage.kind === 's3' ? createObjectStore(config.storage, config.dataDir) : null
-  router.use(fileDownloadsRouter(storage, objects))
+  router.use(fileDownloadsRouter(storage))
   return router
 }

@@ -19,7 +19,8 @@ export async function projectBytesUsed(em: EntityManager, projectId: number): Pr
 
 /**
  * Start-up: files whose derived bytes were never counted (stored by an older release, or whose
- * count was lost) get them counted from the storage.
+ * count was lost) get them counted from the storage: the data folder, or on the S3 profile a
+ * listing of the bucket under each file's derived prefix.
  */
 export async function recountDerivedBytes(em: EntityManager, storage: LocalStorage) {
   const files = await em.find(DatasetFile, { derivedBytes: 0, status: 'ready' })

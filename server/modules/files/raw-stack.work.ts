@@ -1,6 +1,7 @@
+import { createHash } from 'node:crypto'
 import { writeFile } from 'node:fs/promises'
 import type { JobWork } from '../../jobs/job-protocol'
-import { derivedPaths, scanRawStackJob } from './file-job-kinds'
+import { derivedPaths, localOriginalOf, rawStackKeysOf, scanRawStackJob } from './file-job-kinds'
 import { readStackHeader, resolveOmeFileSet, scanStack } from '../../compute/raw-stacks'
 
 export interface RawStackReport {
@@ -25,12 +26,13 @@ export interface RawStackReport {
  */
 export const scanRawStackWork: JobWork = async (input, { storage, progress }) => {
   const payload = scanRawStackJob.payload.parse(input)
-  const source = storage.originalPath(payload.sourceKey)
+  // Local copies (S3 profile): the header walk seeks all over the file.
+  const source = await localOriginalOf(storage, payload.sourceKey)
   const out = derivedPaths(storage, payload.fileId)
   // A multi-file OME-TIFF is scanned over all its parts, in plane order, once they have all arrived.
-  const paths = payload.partKeys?.length
-    ? payload.partKeys.map((key) => storage.originalPath(key))
-    : [source]
+  const paths = []
+  for (const key of payload.partKeys ?? []) paths.push(await localOriginalOf(storage, key))
+  if (!paths.length) paths.push(source)
   const header = await readStackHeader(source)
   progress(0.02, 'header read')
   const fileSet = header.omeXml ? fileNamesOf(header.omeXml) : []
@@ -38,11 +40,15 @@ export const scanRawStackWork: JobWork = async (input, { storage, progress }) =>
     paths,
     onProgress: (f) => progress(0.02 + 0.96 * f, 'reading frames'),
   })
+  const trace = JSON.stringify(Array.from(scan.meanTrace, (v) => Math.round(v * 1000) / 1000))
   await writeFile(out.thumbnail, scan.thumbnail.png)
-  await writeFile(
-    out.trace,
-    JSON.stringify(Array.from(scan.meanTrace, (v) => Math.round(v * 1000) / 1000)),
-  )
+  await writeFile(out.trace, trace)
+  // For every node (S3 profile), with their SHA-256: both are in memory, hashing is cheap.
+  if (storage.mirror.mirrored) {
+    const keys = rawStackKeysOf(storage, payload.fileId)
+    await storage.mirror.publish(keys.thumbnail, { sha256: sha256Of(scan.thumbnail.png) })
+    await storage.mirror.publish(keys.trace, { sha256: sha256Of(trace) })
+  }
   let min = Infinity
   let max = -Infinity
   let sum = 0
@@ -67,6 +73,8 @@ export const scanRawStackWork: JobWork = async (input, { storage, progress }) =>
   }
   return { ...report, derivedBytes: await storage.derivedBytes(payload.fileId) }
 }
+
+const sha256Of = (bytes: Uint8Array | string) => createHash('sha256').update(bytes).digest('hex')
 
 /** The files a multi-file OME-TIFF's OME-XML names, in the order of their first planes. */
 function fileNamesOf(omeXml: string): string[] {

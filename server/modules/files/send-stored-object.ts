@@ -5,7 +5,8 @@ import {
   type ByteRange,
   type ObjectStore,
 } from '../../storage/object-store'
-import { prepareDownload, type StoredDownload } from './send-stored-file'
+import type { LocalStorage } from '../../storage/local-storage'
+import { prepareDownload, sendStoredFile, type StoredDownload } from './send-stored-file'
 
 /** One byte range of a Range header (`bytes=a-b`, `bytes=a-`, `bytes=-n`); else the whole file. */
 function singleRange(header: string | undefined): ByteRange | undefined {
@@ -43,4 +44,22 @@ export async function sendStoredObject(
   res.set('Content-Length', String(read.end - read.start + 1))
   if (req.method === 'HEAD') return void (read.stream.destroy(), res.end())
   await pipeline(read.stream, res).catch((err: Error) => res.destroy(err))
+}
+
+/**
+ * A stored object as a download on either profile: from the bucket when it holds the key,
+ * otherwise from the data folder (the embedded default; on the S3 profile an original uploaded
+ * before uploads were written to the bucket is still only on the node that took it).
+ */
+export async function sendStored(
+  req: Request,
+  res: Response,
+  next: NextFunction,
+  file: Omit<StoredDownload, 'path'> & { storage: LocalStorage; key: string },
+  audit: () => Promise<void>,
+): Promise<void> {
+  const { storage, key, ...about } = file
+  if (storage.bucket && (await storage.bucket.head(key)))
+    return sendStoredObject(req, res, next, { ...about, store: storage.bucket, key }, audit)
+  return sendStoredFile(req, res, next, { ...about, path: storage.mirror.pathOf(key) }, audit)
 }

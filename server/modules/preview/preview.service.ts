@@ -1,5 +1,4 @@
 import { createHash } from 'node:crypto'
-import { statSync } from 'node:fs'
 import { join } from 'node:path'
 import type { PreviewInfo, TileQuery } from '@shared/schemas/preview.schema'
 import {
@@ -12,8 +11,8 @@ import {
 } from '../../compute/render'
 import { ConflictError, NotFoundError } from '../../errors/http-error'
 import type { LocalStorage } from '../../storage/local-storage'
-import { columnarStoreOf } from '../files/file-job-kinds'
 import { readTileIndex } from '../../compute/store'
+import { LocalizationStores, type OpenedStore } from './localization-stores'
 import type { PreviewTable, PreviewTables } from './preview-tables'
 import type { TilePool } from './tile-pool'
 
@@ -33,7 +32,9 @@ const GAUSSIAN_MARGIN_PX = 3 * 32
 
 /**
  * The zoomable preview of ingested tables: what the pyramid looks like, and tiles rendered on
- * demand in the tile pool, cached on disk under the file's derived folder by their options.
+ * demand in the tile pool, cached on disk under the file's derived folder by their options and
+ * the store's write time. (On the S3 profile the cached tiles stay on the node that drew them:
+ * drawn from the store, they are cheaper to draw again than to fetch.)
  * Brightness is the same on every tile of a view: each level's scale derives from one reference
  * render of the whole field (per file and filter), scaled by pixel area.
  */
@@ -47,6 +48,8 @@ export class PreviewService {
     private readonly pool: TilePool,
     /** Finds a dataset's table for the preview routes without the ORM (see PreviewTables). */
     readonly tables: PreviewTables,
+    /** Opens tables' stores (fetched from the bucket on the S3 profile); shared with measurements. */
+    readonly stores = new LocalizationStores(storage),
   ) {}
 
   async info(file: PreviewTable): Promise<PreviewInfo> {
@@ -55,7 +58,7 @@ export class PreviewService {
 
   /** The description by the store's write time, which tells a re-ingested table apart. */
   private async described(file: PreviewTable) {
-    const { arrowPath, mtimeMs } = this.storeOf(file)
+    const { arrowPath, mtimeMs } = await this.storeOf(file)
     this.pool.warm()
     const known = this.infos.get(file.id)
     if (known?.mtimeMs === mtimeMs) return { arrowPath, mtimeMs, info: known.info }
@@ -75,7 +78,7 @@ export class PreviewService {
     if (!view) throw new NotFoundError('tile', `${z}/${x}/${y}`)
     const options = this.renderOptions(info, query)
     const key = createHash('sha256')
-      .update(`${renderOptionsKey(options)}|${query.brightness}`)
+      .update(`${mtimeMs}|${renderOptionsKey(options)}|${query.brightness}`)
       .digest('hex')
       .slice(0, 24)
     const cachePath = this.storage.derivedLocation(
@@ -98,16 +101,13 @@ export class PreviewService {
   }
 
   /** The table's localization store and its write time; 409 while there is none to show. */
-  private storeOf(file: PreviewTable): { arrowPath: string; mtimeMs: number } {
+  private async storeOf(file: PreviewTable): Promise<OpenedStore> {
     if (file.kind !== 'localization_table')
       throw new ConflictError(`"${file.name}" is not a localization table; it has no preview.`)
-    const arrowPath = columnarStoreOf(this.storage, file.id)
-    // Synchronous: one inode lookup costs less than the thread-pool round trip of fs/promises.
-    const mtimeMs =
-      file.status === 'ready' ? statSync(arrowPath, { throwIfNoEntry: false })?.mtimeMs : undefined
-    if (mtimeMs === undefined)
+    const store = await this.stores.open(file)
+    if (!store)
       throw new ConflictError(`"${file.name}" has not been read yet; its preview follows.`)
-    return { arrowPath, mtimeMs }
+    return store
   }
 
   private renderOptions(info: PreviewInfo, q: TileQuery): RenderOptions {

@@ -2,7 +2,7 @@ import { availableParallelism } from 'node:os'
 import { computeQuality, computeQualityOnTwoThreads } from '../../compute/quality'
 import { readLocalizations } from '../../compute/store'
 import type { JobWork } from '../../jobs/job-protocol'
-import { derivedPaths } from '../files/file-job-kinds'
+import { localColumnarStoreOf } from '../files/file-job-kinds'
 import { computeQualityJob } from './quality-job-kind'
 
 const TWO_THREADS_FROM_ROWS = 200_000
@@ -22,7 +22,8 @@ export const computeQualityWork: JobWork = async (input, { storage, progress }) 
   const payload = computeQualityJob.payload.parse(input)
   progress(0, 'reading the localizations')
   const twoThreads = availableParallelism() > 1
-  const locs = await readLocalizations(derivedPaths(storage, payload.fileId).columnar)
+  // A local copy: the store may have been written on another node.
+  const locs = await readLocalizations(await localColumnarStoreOf(storage, payload.fileId))
   const onProgress = (fraction: number, step: string) =>
     progress(0.05 + 0.95 * fraction, STEP_WORDS[step] ?? step)
   // A second thread costs about a second to start (it loads the engines): worth it past small tables.

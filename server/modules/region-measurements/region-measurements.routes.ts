@@ -1,4 +1,3 @@
-import { statSync } from 'node:fs'
 import { Router } from 'express'
 import { z } from 'zod'
 import {
@@ -13,7 +12,7 @@ import { requestEm as em } from '../../http/request-context'
 import { parseBody, parseQuery } from '../../http/validate'
 import type { AppDeps } from '../../services'
 import { DatasetFile, type IDatasetFile } from '../files/dataset-file.entity'
-import { columnarStoreOf } from '../files/file-job-kinds'
+import { LocalizationStores } from '../preview/localization-stores'
 import { previewTableOf } from '../preview/preview-tables'
 import {
   regionsFromGeoJson,
@@ -51,17 +50,17 @@ export function regionMeasurementsRouter(
   const router = Router()
   const measurer = new RegionMeasurer()
   const cache = new MeasurementCache()
+  // The preview's, so a node checks a store against the bucket once for both.
+  const stores = deps.previews?.stores ?? new LocalizationStores(deps.storage)
 
   /** The table's store and its write time; 409 while the table has not been read. */
-  const storeOf = (file: IDatasetFile) => {
-    const path = columnarStoreOf(deps.storage, file.id)
-    const mtimeMs =
-      file.status === 'ready' ? statSync(path, { throwIfNoEntry: false })?.mtimeMs : undefined
-    if (file.kind !== 'localization_table' || mtimeMs === undefined)
+  const storeOf = async (file: IDatasetFile) => {
+    const store = file.kind === 'localization_table' ? await stores.open(file) : null
+    if (!store)
       throw new ConflictError(
         `"${file.name}" has not been read yet; its regions can be measured once it is.`,
       )
-    return { path, mtimeMs }
+    return store
   }
 
   router.get('/regions/:id/measurements', async (req, res) => {
@@ -69,7 +68,7 @@ export function regionMeasurementsRouter(
     const { region } = await visibleRegion(req)
     const file = await em().findOne(DatasetFile, { id: region.file })
     if (!file) throw new NotFoundError('region', region.id)
-    const store = storeOf(file)
+    const store = await storeOf(file)
     const key = MeasurementCache.key(region.id, region.geometry, query, store.mtimeMs)
     const kept = cache.get(key)
     if (kept) {
@@ -78,7 +77,7 @@ export function regionMeasurementsRouter(
     }
     const started = performance.now()
     try {
-      const measured = await measurer.measure(store.path, region.geometry, query)
+      const measured = await measurer.measure(store.arrowPath, region.geometry, query)
       cache.set(key, measured)
       res.json({
         ...measured,

@@ -1,4 +1,4 @@
-import { open, stat } from 'node:fs/promises'
+import { open, readdir, stat } from 'node:fs/promises'
 import type http from 'node:http'
 import type { Readable } from 'node:stream'
 import { pipeline } from 'node:stream/promises'
@@ -83,6 +83,19 @@ export class HashingFileStore extends FileStore {
   forget(id: string): void {
     this.hashedTo.delete(id)
     void this.hashes.drop(id)
+  }
+
+  dropRecord(id: string): Promise<void> {
+    return this.configstore.delete(id)
+  }
+
+  record(id: string): Promise<Upload | undefined> {
+    return this.configstore.get(id).catch(() => undefined)
+  }
+
+  async *recordIds(): AsyncIterable<string> {
+    for (const name of await readdir(this.directory))
+      if (name.endsWith('.json')) yield name.slice(0, -'.json'.length)
   }
 
   close(): Promise<void> {

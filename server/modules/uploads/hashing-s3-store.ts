@@ -92,6 +92,8 @@ export class HashingS3Store extends S3Store {
     const running = this.states.get(id)?.get(size)
     this.states.delete(id)
     if (running) return { sha256: running.digest('hex'), size }
+    // An empty upload never completes its multipart upload: there is no object to read back.
+    if (size === 0) return { sha256: createHash('sha256').digest('hex'), size }
     this.rereads++
     const hash = createHash('sha256')
     let read = 0
@@ -131,6 +133,52 @@ export class HashingS3Store extends S3Store {
     this.states.delete(id)
   }
 
+  /**
+   * The tus store's removal, for finished uploads too: it aborts the multipart upload first and
+   * gives up when there is none (a finished one), leaving the object and its record behind. The
+   * stored short tail (`<id>.part`) goes as well.
+   */
+  override async remove(id: string): Promise<void> {
+    try {
+      await super.remove(id)
+    } catch (err) {
+      if (err !== ERRORS.FILE_NOT_FOUND) throw err
+      // No record either: a cancel of an unknown upload stays a 404.
+      await this.getMetadata(id)
+      await this.deleteObjects([id, this.infoKey(id)])
+    }
+    await this.deleteObjects([this.partKey(id, true)])
+  }
+
+  /** After registration (or a refusal): the record and whatever else of the upload is left. */
+  async dropRecord(id: string): Promise<void> {
+    this.states.delete(id)
+    await this.remove(id).catch((err: unknown) => {
+      if (err !== ERRORS.FILE_NOT_FOUND && !isNotFound(err)) throw err
+    })
+  }
+
+  async record(id: string): Promise<Upload | undefined> {
+    return (await this.getMetadata(id).catch(() => undefined))?.file
+  }
+
+  async *recordIds(): AsyncIterable<string> {
+    let ContinuationToken: string | undefined
+    do {
+      const page = await this.client.listObjectsV2({ Bucket: this.bucket, ContinuationToken })
+      for (const { Key } of page.Contents ?? [])
+        if (Key?.endsWith('.info')) yield Key.slice(0, -'.info'.length)
+      ContinuationToken = page.IsTruncated ? page.NextContinuationToken : undefined
+    } while (ContinuationToken)
+  }
+
+  private async deleteObjects(keys: string[]): Promise<void> {
+    await this.client.deleteObjects({
+      Bucket: this.bucket,
+      Delete: { Objects: keys.map((Key) => ({ Key })) },
+    })
+  }
+
   close(): Promise<void> {
     this.client.destroy()
     return Promise.resolve()
@@ -154,6 +202,8 @@ const NO_CACHE: KvStore<MetadataValue> = {
   list: () => Promise.resolve([]),
 }
 
+const LISTINGS = ['ListMultipartUploadsCommand', 'ListObjectsV2Command']
+
 /**
  * The tus S3 store writes at the bucket's root (its keys are the upload ids); ours live under the
  * configured prefix. Every call's keys get the prefix on the way out, and listed uploads lose it
@@ -174,12 +224,16 @@ function prefixKeys(client: S3Store['client'], prefix: string) {
           ...input.Delete,
           Objects: input.Delete.Objects.map((o) => ({ ...o, Key: prefix + o.Key })),
         }
-      const listing = context.commandName === 'ListMultipartUploadsCommand'
+      const listing = LISTINGS.includes(context.commandName as string)
       if (listing) input.Prefix = prefix + (input.Prefix ?? '')
       const result = await next({ ...args, input })
       if (listing) {
-        const output = result.output as { Uploads?: { Key?: string }[] }
-        for (const u of output.Uploads ?? []) u.Key = u.Key?.slice(prefix.length)
+        const output = result.output as {
+          Uploads?: { Key?: string }[]
+          Contents?: { Key?: string }[]
+        }
+        for (const u of [...(output.Uploads ?? []), ...(output.Contents ?? [])])
+          u.Key = u.Key?.slice(prefix.length)
       }
       return result
     },

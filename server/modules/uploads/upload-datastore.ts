@@ -1,4 +1,4 @@
-import type { DataStore } from '@tus/server'
+import type { DataStore, Upload } from '@tus/server'
 import type { StorageConfig } from '../../storage/storage-config'
 import type { FinishedUploads } from './finished-uploads'
 import { HashingFileStore } from './hashing-file-store'
@@ -19,6 +19,15 @@ export interface HashingUploadStore extends DataStore {
   readonly finished: FinishedUploads
   /** Drops the running hash of an upload that is cancelled or discarded. */
   forget(id: string): void
+  /**
+   * Drops a finished upload's tus record once it was registered or refused (the bytes are moved
+   * or removed by then). On S3 whatever else of the upload is left in the bucket goes with it.
+   */
+  dropRecord(id: string): Promise<void>
+  /** Ids of uploads with a record (finished or not), for the start-up repair. */
+  recordIds(): AsyncIterable<string>
+  /** An upload's record alone (its bytes may have been moved already), or undefined. */
+  record(id: string): Promise<Upload | undefined>
   close(): Promise<void>
 }
 

@@ -1,6 +1,3 @@
-import { createHash } from 'node:crypto'
-import { createReadStream, existsSync } from 'node:fs'
-import { readdir, rm } from 'node:fs/promises'
 import type { IncomingMessage } from 'node:http'
 import type { EntityManager } from '@mikro-orm/better-sqlite'
 import { Server, Upload, type Locker } from '@tus/server'
@@ -12,8 +9,9 @@ import type { LocalStorage } from '../../storage/local-storage'
 import { audit } from '../audit/audit.service'
 import { DatasetFile } from '../files/dataset-file.entity'
 import { registerUpload, storageKeyFor } from '../files/file-registry.service'
-import { HashingFileStore } from './hashing-file-store'
 import { handleWithNodeBody } from './node-body'
+import { uploadBytesOf } from './upload-bytes'
+import { createUploadDatastore, type HashingUploadStore } from './upload-datastore'
 import { refuse } from './upload-errors'
 import {
   checkQuota,
@@ -23,6 +21,7 @@ import {
   uploadTarget,
 } from './upload-policy'
 import { UploadReservation } from './upload-reservation.entity'
+import { isDependencyUnavailable } from './upload-unavailable'
 
 export const UPLOADS_PATH = '/api/uploads'
 
@@ -36,7 +35,7 @@ function expressRequest(req: globalThis.Request): Request {
 
 export interface Uploads {
   handler: RequestHandler
-  store: HashingFileStore
+  store: HashingUploadStore
   /** Deletes unfinished uploads older than the expiry, freeing their space and quota. */
   expire(): Promise<number>
   /** Completes registrations a crash interrupted (finished uploads not yet registered). */
@@ -59,10 +58,13 @@ export function createUploads(deps: {
   locker?: Locker
 }): Uploads {
   const { orm, config, storage } = deps
-  const store = new HashingFileStore({
-    directory: storage.uploadsDir,
-    expirationPeriodInMilliseconds: config.uploads.expiryMs,
+  // Files under DATA_DIR/uploads, or (S3 profile) the bucket, where any node can go on with them.
+  const store = createUploadDatastore({
+    storage: config.storage,
+    uploadsDir: storage.uploadsDir,
+    expiryMs: config.uploads.expiryMs,
   })
+  const bytes = uploadBytesOf(storage)
   const em = () => orm.em.fork() as EntityManager
 
   /** Drops an upload's bytes, its tus record and its quota reservation. */
@@ -78,7 +80,11 @@ export function createUploads(deps: {
    * left the editable states can never be registered: its bytes go at once.
    */
   async function authorisedUpload(req: Request, id: string): Promise<Upload> {
-    const upload = await store.getUpload(id).catch(() => null)
+    // Only "no such upload" is one; the store being away is not (503, passed on).
+    const upload = await store.getUpload(id).catch((err: { status_code?: number }) => {
+      if (err.status_code === 404) return null
+      throw err
+    })
     if (!upload || Number(upload.metadata?.userId) !== req.user?.id)
       throw refuse(404, 'Not found', 'No such upload of yours.')
     const refusal = await targetRefusal(em(), req.ability, Number(upload.metadata?.datasetId))
@@ -97,9 +103,19 @@ export function createUploads(deps: {
     respectForwardedHeaders: config.trustProxy > 0,
     maxSize: config.uploads.maxBytes,
     // Errors that are not refusals of ours or tus's own (a database or disk fault) are logged and
-    // answered in words; their message may hold SQL or paths and never reaches the client.
+    // answered in words; their message may hold SQL or paths and never reaches the client. The
+    // database or the bucket being away is a 503 (the store's own included): clients retry it.
     onResponseError: (_req, err) => {
-      if ((err as { status_code?: number }).status_code) return undefined
+      const status = (err as { status_code?: number }).status_code
+      if (status === 503 || (!status && isDependencyUnavailable(err))) {
+        deps.logger.info({ err }, 'upload paused: storage or database unreachable')
+        return refuse(
+          503,
+          'Try again',
+          'The storage or the database is not reachable at the moment; the upload can resume when it is back.',
+        )
+      }
+      if (status) return undefined
       deps.logger.error({ err }, 'upload request failed')
       return refuse(500, 'Upload failed', 'The server could not store this upload; try again.')
     },
@@ -155,10 +171,10 @@ export function createUploads(deps: {
       }).catch(async (err: unknown) => {
         // Refused, the upload is over. A fault (database, disk) keeps the tus record, so the
         // start-up repair registers the bytes later: nothing received is lost.
-        if ((err as { status_code?: number }).status_code) await store.configstore.delete(upload.id)
+        if ((err as { status_code?: number }).status_code) await store.dropRecord(upload.id)
         throw err
       })
-      await store.configstore.delete(upload.id)
+      await store.dropRecord(upload.id)
       deps.onRegistered?.()
       // A creation-with-upload POST reads the upload once more after this hook, to decide on
       // Upload-Expires; the record is gone by then, so the store answers from memory until the
@@ -212,32 +228,31 @@ export function createUploads(deps: {
     close: () => store.close(),
     async reconcile() {
       let done = 0
-      for (const name of await readdir(storage.uploadsDir)) {
-        if (!name.endsWith('.json')) continue
-        const id = name.slice(0, -5)
-        // The record, not getUpload(): once the bytes were moved the tus file is gone.
-        const record = await store.configstore.get(id).catch(() => undefined)
+      for await (const id of store.recordIds()) {
+        // The record, not getUpload() alone: once the bytes were moved the tus file is gone.
+        const record = await store.record(id)
         const upload = record ? await store.getUpload(id).catch(() => record) : null
         const datasetId = Number(upload?.metadata?.datasetId)
         const userId = Number(upload?.metadata?.userId)
         if (!upload || !datasetId || !userId) continue
-        const original = storage.originalPath(storageKeyFor(datasetId, id))
-        const moved = existsSync(original)
-        if (!moved && upload.offset !== upload.size) continue
+        const key = storageKeyFor(datasetId, id)
+        // Not known whether the bytes were moved (the bucket did not answer): left for next time.
+        const moved = await bytes.isMoved(key).catch(() => null)
+        if (moved === null || (!moved && upload.offset !== upload.size)) continue
         try {
           // Registered already (the crash came after the commit): only the tus record is left.
-          if (await em().count(DatasetFile, { storageKey: storageKeyFor(datasetId, id) })) {
-            await store.configstore.delete(id)
+          if (await em().count(DatasetFile, { storageKey: key })) {
+            await store.dropRecord(id)
             continue
           }
           // The same rule as a live request: the dataset must still take files from its uploader.
           const refusal = await targetRefusal(em(), await uploaderAbility(em(), userId), datasetId)
           if (refusal) {
             await discard(id)
-            await rm(original, { force: true })
+            await bytes.dropOriginal(key)
             continue
           }
-          const { sha256, size } = moved ? await hashFile(original) : await store.finish(id)
+          const { sha256, size } = moved ? await bytes.hashOriginal(key) : await store.finish(id)
           await registerUpload(em(), storage, {
             upload: { ...upload, size } as Upload,
             sha256,
@@ -250,22 +265,12 @@ export function createUploads(deps: {
         } catch (err) {
           deps.logger.error({ err, upload: id }, 'could not complete an interrupted upload')
         }
-        await store.configstore.delete(id)
+        await store.dropRecord(id).catch((err: unknown) => {
+          deps.logger.error({ err, upload: id }, "could not drop an interrupted upload's record")
+        })
       }
       if (done) deps.onRegistered?.()
       return done
     },
   }
-}
-
-async function hashFile(path: string): Promise<{ sha256: string; size: number }> {
-  const hash = createHash('sha256')
-  let size = 0
-  for await (const chunk of createReadStream(path, {
-    highWaterMark: 4 * 1024 * 1024,
-  }) as AsyncIterable<Buffer>) {
-    hash.update(chunk)
-    size += chunk.length
-  }
-  return { sha256: hash.digest('hex'), size }
 }

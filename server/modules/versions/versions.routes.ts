@@ -8,12 +8,13 @@ import { requireUser } from '../../http/authenticate'
 import { requestEm as em } from '../../http/request-context'
 import { parseParams } from '../../http/validate'
 import { clockOf, type AppDeps } from '../../services'
+import { versionBlobKey } from '../../storage/stored-objects'
 import { audit } from '../audit/audit.service'
 import { recordCurationStep } from '../curation/curation.service'
 import { findDataset, datasetParams } from '../datasets/dataset-access'
 import { toDatasetDto } from '../datasets/dataset.mapper'
 import { retryDoiRegistration } from '../doi/doi-registrar'
-import { sendStoredFile } from '../files/send-stored-file'
+import { sendStored } from '../files/send-stored-object'
 import { auditReviewedDownload } from '../reviewer-links/reviewer-access'
 import { DatasetVersion, VersionFile } from './dataset-version.entity'
 import { assertCanCurate, assertCanRevise, versionAccess } from './version-access'
@@ -59,11 +60,12 @@ export function versionsRouter(deps: AppDeps): Router {
     if (!access.download)
       throw new ForbiddenError(`Downloads of ${version.label} are not open to you.`)
     auditReviewedDownload(deps, req, res, dataset.id, `${version.label}/${file.name}`)
-    await sendStoredFile(
+    const key = versionBlobKey(file.sha256)
+    await sendStored(
       req,
       res,
       next,
-      { path: deps.storage.versionBlobPath(file.sha256), name: file.name, sha256: file.sha256 },
+      { storage: deps.storage, key, name: file.name, sha256: file.sha256 },
       async () => {
         audit(em(), req, {
           action: 'file.download',

@@ -1,0 +1,140 @@
+import { createHash } from 'node:crypto'
+import { createReadStream, existsSync, mkdirSync } from 'node:fs'
+import { mkdtemp, rename, rm, writeFile } from 'node:fs/promises'
+import { tmpdir } from 'node:os'
+import { dirname, join } from 'node:path'
+import type { Readable } from 'node:stream'
+import type { FileKind } from '@shared/domain/files'
+import type { LocalStorage } from '../../storage/local-storage'
+import type { ObjectStore } from '../../storage/object-store'
+import { detectFileKind } from '../files/file-kind'
+
+/**
+ * Where a finished upload's bytes are, and how they become a dataset file's original: a rename
+ * on the node's disk (the embedded default), or an object copy in the bucket (the S3 profile,
+ * where every node can finish and register any upload). Storage keys are `<dataset>/<upload>`.
+ */
+export interface UploadBytes {
+  /** Whether the original is in place already (a crash came between the move and the row). */
+  isMoved(storageKey: string): Promise<boolean>
+  /** Moves the finished upload to its permanent place; the upload's own bytes are gone after. */
+  move(uploadId: string, storageKey: string): Promise<void>
+  /** Removes a finished upload's bytes (refused before the move); missing bytes are no error. */
+  dropUpload(uploadId: string): Promise<void>
+  /** Removes an original (refused after the move). */
+  dropOriginal(storageKey: string): Promise<void>
+  /** What the original is, from its first bytes. */
+  kindOf(storageKey: string, name: string): Promise<{ kind: FileKind; mediaType: string }>
+  /** SHA-256 and size of a moved original (for the start-up repair). */
+  hashOriginal(storageKey: string): Promise<{ sha256: string; size: number }>
+}
+
+export function uploadBytesOf(storage: LocalStorage): UploadBytes {
+  return storage.bucket ? new BucketUploadBytes(storage.bucket) : new DiskUploadBytes(storage)
+}
+
+class DiskUploadBytes implements UploadBytes {
+  constructor(private readonly storage: LocalStorage) {}
+
+  private uploadPath(uploadId: string) {
+    return `${this.storage.uploadsDir}/${uploadId}`
+  }
+
+  isMoved(storageKey: string) {
+    return Promise.resolve(existsSync(this.storage.originalPath(storageKey)))
+  }
+
+  async move(uploadId: string, storageKey: string) {
+    const original = this.storage.originalPath(storageKey)
+    mkdirSync(dirname(original), { recursive: true })
+    await rename(this.uploadPath(uploadId), original)
+  }
+
+  dropUpload(uploadId: string) {
+    return rm(this.uploadPath(uploadId), { force: true })
+  }
+
+  dropOriginal(storageKey: string) {
+    return rm(this.storage.originalPath(storageKey), { force: true })
+  }
+
+  kindOf(storageKey: string, name: string) {
+    return detectFileKind(this.storage.originalPath(storageKey), name)
+  }
+
+  hashOriginal(storageKey: string) {
+    return hashStream(createReadStream(this.storage.originalPath(storageKey), READ_OPTIONS))
+  }
+}
+
+/** The first bytes content sniffing looks at (file-kind.ts reads no more). */
+const SNIFF_BYTES = 64 * 1024
+const READ_OPTIONS = { highWaterMark: 4 * 1024 * 1024 }
+const uploadKey = (uploadId: string) => `uploads/${uploadId}`
+const originalKey = (storageKey: string) => `files/${storageKey}`
+
+/**
+ * On S3 there is no rename: the finished upload object is copied inside the bucket (no byte
+ * passes through the node) and then deleted. Each step can be repeated after a crash.
+ */
+class BucketUploadBytes implements UploadBytes {
+  constructor(private readonly bucket: ObjectStore) {}
+
+  async isMoved(storageKey: string) {
+    return (await this.bucket.head(originalKey(storageKey))) !== null
+  }
+
+  async move(uploadId: string, storageKey: string) {
+    await this.bucket.copy(uploadKey(uploadId), originalKey(storageKey))
+    await this.bucket.delete(uploadKey(uploadId))
+  }
+
+  dropUpload(uploadId: string) {
+    return this.bucket.delete(uploadKey(uploadId))
+  }
+
+  dropOriginal(storageKey: string) {
+    return this.bucket.delete(originalKey(storageKey))
+  }
+
+  /** The sniffer reads a path: it gets the object's first bytes in a scratch file. */
+  async kindOf(storageKey: string, name: string) {
+    const key = originalKey(storageKey)
+    const info = await this.bucket.head(key)
+    const head =
+      info && info.size > 0
+        ? await readAll((await this.bucket.get(key, { start: 0, end: SNIFF_BYTES - 1 })).stream)
+        : Buffer.alloc(0)
+    const dir = await mkdtemp(join(tmpdir(), 'stipple-sniff-'))
+    try {
+      await writeFile(join(dir, 'head'), head)
+      return await detectFileKind(join(dir, 'head'), name)
+    } finally {
+      await rm(dir, { recursive: true, force: true })
+    }
+  }
+
+  /** The SHA-256 stored with the object when there is one, else the object read back once. */
+  async hashOriginal(storageKey: string) {
+    const key = originalKey(storageKey)
+    const info = await this.bucket.head(key)
+    if (info?.sha256) return { sha256: info.sha256, size: info.size }
+    return hashStream((await this.bucket.get(key)).stream)
+  }
+}
+
+async function readAll(stream: Readable): Promise<Buffer> {
+  const chunks: Buffer[] = []
+  for await (const chunk of stream as AsyncIterable<Buffer>) chunks.push(chunk)
+  return Buffer.concat(chunks)
+}
+
+async function hashStream(stream: Readable): Promise<{ sha256: string; size: number }> {
+  const hash = createHash('sha256')
+  let size = 0
+  for await (const chunk of stream as AsyncIterable<Buffer>) {
+    hash.update(chunk)
+    size += chunk.length
+  }
+  return { sha256: hash.digest('hex'), size }
+}
