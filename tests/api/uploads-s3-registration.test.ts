@@ -24,6 +24,7 @@ import type { Uploads } from '@server/modules/uploads/uploads'
 import { UploadReservation } from '@server/modules/uploads/upload-reservation.entity'
 import { bearer, buildDataset, buildMember, buildProject, tokenFor } from '../fixtures/builders'
 import { listen } from '../fixtures/live-server'
+import { refuseUploadAudit } from '../fixtures/audit-fault'
 import { patchUpload } from '../fixtures/node-cluster'
 import { startS3, type S3Fixture } from '../fixtures/s3'
 import { createTestApp, type TestApp } from '../fixtures/test-app'
@@ -255,14 +256,11 @@ describe('uploads into the bucket (S3 profile)', () => {
 
   it('keeps an upload a fault interrupted in the bucket, and the start-up repair registers it from there', async () => {
     const dataset = await buildDataset(t.em(), projectId)
-    const connection = t.orm.em.getConnection()
     // A fault at the last write of the registration (the audit event), after the object copy.
-    await connection.execute(
-      `create trigger refuse_s3_upload_audit before insert on audit_event when new.action = 'file.upload' begin select raise(abort, 'disk I/O error in audit_event'); end`,
-    )
+    const restore = await refuseUploadAudit(t.orm)
     const data = randomBytes(6 * MiB + 3)
     const res = await upload(data, dataset.accession, 'interrupted.bin')
-    await connection.execute('drop trigger refuse_s3_upload_audit')
+    await restore()
     expect(res.status).toBe(500)
     expect(res.body).not.toMatch(/audit_event|sqlite|uploads\//i)
     expect(await t.em().count(DatasetFile, { dataset: dataset.id })).toBe(0)
