@@ -43,7 +43,8 @@ beforeAll(async () => {
       complete: false,
     })
   }
-})
+  // One dataset at a time through the builders: a few seconds on SQLite, longer on PostgreSQL.
+}, 90_000)
 afterAll(() => t.close())
 
 const get = (query: string, token = owner) =>

@@ -7,13 +7,9 @@
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { DATASET_STATES } from '@shared/domain/dataset-state'
-import { defineAbilityFor } from '@shared/permissions/abilities'
 import type { Viewer } from '@shared/permissions/viewer'
 import { DATASET_SORT_FIELDS } from '@shared/schemas/dataset.schema'
 import { openDatabase, type Orm } from '@server/db'
-import { accessibleWhere } from '@server/http/access'
-import { visibilitySql } from '@server/modules/datasets/dataset-catalogue'
-import type { IDataset } from '@server/modules/datasets/dataset.entity'
 import { PAGE_ROWS_SQL } from '@server/modules/datasets/dataset-list-rows'
 import {
   FTS_ROWIDS,
@@ -25,6 +21,7 @@ import {
   type Sql,
 } from '@server/modules/datasets/dataset-list-sql'
 import { searchExpression } from '@server/modules/datasets/dataset-search'
+import { LIST_VIEWERS, listVisibility } from '../fixtures/list-viewers'
 
 const DATASETS = 3000
 const PROJECTS = 12
@@ -62,33 +59,8 @@ beforeAll(async () => {
 })
 afterAll(() => orm.close())
 
-const viewer = (v: Partial<Viewer>): Viewer => ({
-  id: 1,
-  siteRole: null,
-  organizationId: 1,
-  memberships: [],
-  shares: [],
-  ...v,
-})
-const VIEWERS: Record<string, Viewer | null> = {
-  'signed out': null,
-  'member of one project': viewer({ memberships: [{ projectId: 3, role: 'member' }] }),
-  'owner of three projects': viewer({
-    memberships: [1, 2, 5].map((projectId) => ({ projectId, role: 'owner' as const })),
-  }),
-  'collaborator with shares': viewer({
-    organizationId: null,
-    shares: [4, 40, 400].map((datasetId) => ({ datasetId, capabilities: [] })),
-  }),
-  editor: viewer({ siteRole: 'editor' }),
-  steward: viewer({ siteRole: 'steward' }),
-}
-
-function visibilityOf(v: Viewer | null): string {
-  const allowed = accessibleWhere<IDataset>(defineAbilityFor(v), 'read', 'Dataset')
-  if (allowed === null) throw new Error('every viewer here may read something')
-  return visibilitySql(orm.em.fork(), allowed)
-}
+const VIEWERS = LIST_VIEWERS
+const visibilityOf = (v: Viewer | null) => listVisibility(orm.em.fork(), v)
 
 async function planOf({ sql, params }: Sql): Promise<string[]> {
   const rows = await orm.em

@@ -7,6 +7,7 @@ import { existsSync, mkdirSync, readdirSync, utimesSync, writeFileSync } from 'n
 import { join } from 'node:path'
 import request from 'supertest'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { databaseDriver } from '@server/db'
 import { Job } from '@server/jobs/job.entity'
 import { Dataset } from '@server/modules/datasets/dataset.entity'
 import { DatasetFile } from '@server/modules/files/dataset-file.entity'
@@ -164,16 +165,30 @@ describe('registering a finished upload', () => {
   it('commits the row, its first job and the audit event together; a fault keeps the bytes for the repair', async () => {
     const dataset = await buildDataset(t.em(), projectId)
     const connection = t.orm.em.getConnection()
-    // A fault at the last write of the registration (the audit event), as a full disk would give.
-    await connection.execute(
-      `create trigger refuse_upload_audit before insert on audit_event when new.action = 'file.upload' begin select raise(abort, 'disk I/O error in audit_event'); end`,
-    )
+    // A fault at the last write of the registration (the audit event), as a full disk would give,
+    // in each database's trigger language.
+    const postgresql = databaseDriver(t.orm) === 'postgresql'
+    if (postgresql) {
+      await connection.execute(
+        `create function refuse_upload_audit() returns trigger language plpgsql as $$ begin raise exception 'disk I/O error in audit_event'; end $$`,
+      )
+      await connection.execute(
+        `create trigger refuse_upload_audit before insert on audit_event for each row when (new.action = 'file.upload') execute function refuse_upload_audit()`,
+      )
+    } else
+      await connection.execute(
+        `create trigger refuse_upload_audit before insert on audit_event when new.action = 'file.upload' begin select raise(abort, 'disk I/O error in audit_event'); end`,
+      )
     const table = 'frame,x [nm],y [nm]\n1,10,20\n'
     const res = await tusUpload(`${live.url}/api/uploads`, token, Buffer.from(table), {
       dataset: dataset.accession,
       filename: 'table.csv',
     })
-    await connection.execute('drop trigger refuse_upload_audit')
+    await connection.execute(
+      postgresql
+        ? 'drop trigger refuse_upload_audit on audit_event; drop function refuse_upload_audit()'
+        : 'drop trigger refuse_upload_audit',
+    )
     expect(res.status).toBe(500)
     expect(res.body).not.toMatch(/audit_event|insert|disk I\/O|sqlite/i)
     expect(await t.em().count(DatasetFile, { dataset: dataset.id })).toBe(0)

@@ -23,8 +23,8 @@ import { cpuSeconds, startServer, withDatasets } from './bench-server'
 import type { BenchPeople } from './seed-datasets'
 import { runWrk } from './wrk'
 
-const CONNECTIONS = 50
-const DURATION_S = Number(process.env.BENCH_DURATION_S ?? 15)
+export const CONNECTIONS = 50
+export const DURATION_S = Number(process.env.BENCH_DURATION_S ?? 15)
 const SORTS = ['-updatedAt', '-createdAt', 'title', '-title', 'accession', 'state']
 /** Search words: many matches (a tenth to all), few (one in 500, one, one in 30), none. */
 const TERMS = [
@@ -50,7 +50,7 @@ interface LoadMix {
   searchMaxOffset: number
 }
 
-function mixedLoad(people: BenchPeople): LoadMix {
+export function mixedLoad(people: BenchPeople): LoadMix {
   return {
     tokens: [people.member, people.depositor, people.collaborator, people.steward, '-'],
     sorts: SORTS,
@@ -63,7 +63,7 @@ function mixedLoad(people: BenchPeople): LoadMix {
 }
 
 /** The old benchmark: one person, one sort, the first page, again and again. */
-const repeatedLoad = (people: BenchPeople): LoadMix => ({
+export const repeatedLoad = (people: BenchPeople): LoadMix => ({
   tokens: [people.depositor],
   sorts: ['-updatedAt'],
   terms: [],
@@ -132,17 +132,35 @@ async function probe(url: string, people: BenchPeople) {
   return visible
 }
 
-async function loadServer(dataDir: string, people: BenchPeople, httpWorkers: number, mix: LoadMix) {
-  const server = await startServer(dataDir, httpWorkers)
+/**
+ * A database server of its own (the PostgreSQL line): its environment for Stipple, and the CPU
+ * seconds its processes have used so far, counted beside Stipple's.
+ */
+export interface DatabaseServer {
+  env: Record<string, string>
+  cpuSeconds(): number | null
+}
+
+export async function loadServer(
+  dataDir: string,
+  people: BenchPeople,
+  httpWorkers: number,
+  mix: LoadMix,
+  database?: DatabaseServer,
+) {
+  const server = await startServer(dataDir, httpWorkers, database?.env)
   try {
     const visible = await probe(server.url, people)
     await wrkLoad(server.url, mix, 3) // warm-up
     const cpuBefore = cpuSeconds(server.pid)
+    const dbCpuBefore = database?.cpuSeconds() ?? null
     const w = await wrkLoad(server.url, mix, DURATION_S)
     const cpuAfter = cpuSeconds(server.pid)
-    const cpuUs =
-      cpuBefore === null || cpuAfter === null ? null : ((cpuAfter - cpuBefore) * 1e6) / w.requests
-    return { visible, httpWorkers, ...w, cpuUs }
+    const dbCpuAfter = database?.cpuSeconds() ?? null
+    const perRequest = (before: number | null, after: number | null) =>
+      before === null || after === null ? null : ((after - before) * 1e6) / w.requests
+    const cpuUs = perRequest(cpuBefore, cpuAfter)
+    return { visible, httpWorkers, ...w, cpuUs, dbCpuUs: perRequest(dbCpuBefore, dbCpuAfter) }
   } finally {
     await server.stop()
   }
@@ -153,7 +171,7 @@ type LoadResult = Awaited<ReturnType<typeof loadServer>>
 const ms = (us: number) => (us >= 10_000 ? (us / 1000).toFixed(0) : (us / 1000).toFixed(1))
 
 /** One printed line: latency, throughput, server CPU and the cache's share. */
-function line(r: LoadResult) {
+export function line(r: LoadResult) {
   const answered = r.cached + r.fresh
   const parts = [
     `p50 ${ms(r.p50)} ms`,
@@ -161,6 +179,7 @@ function line(r: LoadResult) {
     `p99 ${ms(r.p99)} ms`,
     `${Math.round(r.requests / (r.durationUs / 1e6))} req/s`,
     `CPU ${r.cpuUs === null ? '?' : (r.cpuUs / 1000).toFixed(2)} ms/req`,
+    ...(r.dbCpuUs === null ? [] : [`database server CPU ${(r.dbCpuUs / 1000).toFixed(2)} ms/req`]),
     `${answered ? Math.round((100 * r.cached) / answered) : 0} % from cache`,
     `db ${r.fresh ? (r.dbUs / r.fresh / 1000).toFixed(2) : '0'} ms/uncached`,
     `${r.httpWorkers} process${r.httpWorkers > 1 ? 'es' : ''}`,

@@ -4,6 +4,7 @@
  */
 import { benchCommentEvents } from './comment-events.bench'
 import { benchDatasetList } from './datasets-list.bench'
+import { benchDatasetListPostgresql } from './datasets-list-pg.bench'
 import { benchIngest, benchIngestLarge } from './ingest.bench'
 import { benchJobQueue } from './job-queue.bench'
 import { benchQuality } from './quality.bench'
@@ -15,6 +16,10 @@ import { benchUpload } from './upload.bench'
 import { benchUploadS3 } from './upload-s3.bench'
 
 const only = process.argv[2]
+/** Run only when named (`npm run bench -- <name>`): they start servers of their own. */
+const optIn: Record<string, () => Promise<Record<string, unknown>>> = {
+  'datasets-list-pg': benchDatasetListPostgresql,
+}
 const benches: Record<string, () => Promise<Record<string, unknown>>> = {
   'comment-events': benchCommentEvents,
   'datasets-list': benchDatasetList,
@@ -31,7 +36,8 @@ const benches: Record<string, () => Promise<Record<string, unknown>>> = {
 }
 
 const results: Record<string, unknown> = {}
-for (const [name, run] of Object.entries(benches)) {
+const chosen = only && only in optIn ? { [only]: optIn[only]! } : benches
+for (const [name, run] of Object.entries(chosen)) {
   if (only && only !== name) continue
   process.stdout.write(`\n== ${name} ==\n`)
   const figures = await run()

@@ -110,12 +110,14 @@ export async function seedDatasets(em: EntityManager, count: number): Promise<Be
           ...textOf(i),
           project_id: projects[spread(i, 2) % projects.length]!.id,
           state,
-          embargo_until: state === 'approved' && i % 4 === 0 ? base + 5 * 365 * 86_400_000 : null,
+          embargo_until:
+            state === 'approved' && i % 4 === 0 ? new Date(base + 5 * 365 * 86_400_000) : null,
           licence: 'CC-BY-4.0',
           version: 1,
-          created_at: created,
+          // Dates, not numbers: each driver writes its database's form (epoch ms on SQLite).
+          created_at: new Date(created),
           // Updates interleave differently from creation, so the two sorts read different pages.
-          updated_at: created + ((i * 7919) % 1000) * 3_600_000,
+          updated_at: new Date(created + ((i * 7919) % 1000) * 3_600_000),
         })
       }
       await trx('dataset').insert(rows)

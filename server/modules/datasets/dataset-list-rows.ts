@@ -15,8 +15,12 @@ const PAGE_JOINS =
  */
 export const PAGE_ROWS_SQL = `${PAGE_COLUMNS}from json_each(?) j cross join "dataset" d on d."id" = j.value ${PAGE_JOINS}`
 
-/** The same on PostgreSQL, from the same JSON array of ids. */
-const PAGE_ROWS_POSTGRESQL = `${PAGE_COLUMNS}from jsonb_array_elements_text(?::jsonb) j(value) join "dataset" d on d."id" = j.value::int ${PAGE_JOINS}`
+/**
+ * The same on PostgreSQL, from the same JSON array of ids made an array literal: a constant the
+ * planner counts, so it probes the primary key (from a set-returning function it guessed 100 rows
+ * and could hash the whole table for them).
+ */
+const PAGE_ROWS_POSTGRESQL = `${PAGE_COLUMNS}from "dataset" d ${PAGE_JOINS} where d."id" = any(translate(?, '[]', '{}')::int[])`
 
 export const pageRowsSql = (dialect: ListDialect) =>
   dialect === 'sqlite' ? PAGE_ROWS_SQL : PAGE_ROWS_POSTGRESQL

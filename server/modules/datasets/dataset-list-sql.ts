@@ -86,7 +86,11 @@ function conditions(
 ): string[] {
   const out: string[] = []
   if (plan === 'gather' && filter.match !== undefined) {
-    out.push(dialect === 'sqlite' ? 'f."dataset_fts" match ?' : `f.${TS_MATCH}`)
+    out.push(
+      dialect === 'sqlite'
+        ? 'f."dataset_fts" match ?'
+        : `d."id" = any(array(${ftsRowidsSql(dialect)}))`,
+    )
     params.push(filter.match)
   }
   // Unary + is SQLite's way of keeping a column from driving the plan; PostgreSQL needs none.
@@ -111,13 +115,17 @@ function conditions(
   return out
 }
 
-/** The search drives a gather from the full-text index; the table follows by primary key. */
+/**
+ * The search drives a gather from the full-text index; the table follows by primary key. On
+ * PostgreSQL the matches are an array the primary key is probed with: as a join, the planner
+ * (which estimates any prefix search at a fixed share of the table) would hash it against the
+ * whole table even for a handful of matches. (A search matching more than GATHER_MAX_ROWS
+ * datasets is read from the list and its match set, see the catalogue.)
+ */
 const gatherFrom = (filter: ListFilter, dialect: ListDialect) =>
-  filter.match === undefined
-    ? 'from "dataset" d'
-    : dialect === 'sqlite'
-      ? 'from "dataset_fts" f cross join "dataset" d on d."id" = f.rowid'
-      : 'from "dataset_search" f join "dataset" d on d."id" = f."dataset_id"'
+  filter.match !== undefined && dialect === 'sqlite'
+    ? 'from "dataset_fts" f cross join "dataset" d on d."id" = f.rowid'
+    : 'from "dataset" d'
 
 const whereOf = (parts: string[]) => (parts.length ? ` where ${parts.join(' and ')}` : '')
 

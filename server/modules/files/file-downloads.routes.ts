@@ -1,5 +1,4 @@
 import { once } from 'node:events'
-import { basename } from 'node:path'
 import type { Readable } from 'node:stream'
 import { pipeline } from 'node:stream/promises'
 import { Router, type Response } from 'express'
@@ -9,11 +8,11 @@ import { NotFoundError } from '../../errors/http-error'
 import { requestEm as em } from '../../http/request-context'
 import { parseParams } from '../../http/validate'
 import type { LocalStorage } from '../../storage/local-storage'
-import { derivedKey, openStored, originalKey } from '../../storage/stored-objects'
+import { openStored } from '../../storage/stored-objects'
 import { audit } from '../audit/audit.service'
 import { datasetFor, datasetParams } from '../datasets/dataset-access'
 import { DatasetFile, type IDatasetFile } from './dataset-file.entity'
-import { derivedPaths } from './file-job-kinds'
+import { derivedPaths, rawStackKeysOf } from './file-job-kinds'
 import { attachment } from './send-stored-file'
 import { sendStored } from './send-stored-object'
 
@@ -46,7 +45,7 @@ export function fileDownloadsRouter(storage: LocalStorage): Router {
       req,
       res,
       next,
-      { ...about, storage, key: originalKey(file.storageKey) },
+      { ...about, storage, key: storage.originalKey(file.storageKey) },
       audited,
     )
   })
@@ -67,10 +66,9 @@ export function fileDownloadsRouter(storage: LocalStorage): Router {
       })
       if (!file) throw new NotFoundError('scanned raw stack', fileId)
       res.set('Cache-Control', 'private, max-age=300')
-      const path = derivedPaths(storage, file.id)[pick]
-      if (!storage.bucket) return void res.sendFile(path)
+      if (!storage.bucket) return void res.sendFile(derivedPaths(storage, file.id)[pick])
       // On the S3 profile streamed from the bucket: the node need not hold a copy.
-      const stream = await openStored(storage, derivedKey(file.id, basename(path)))
+      const stream = await openStored(storage, rawStackKeysOf(storage, file.id)[pick])
       res.type(type)
       await pipeline(stream, res).catch((err: Error) => res.destroy(err))
     })
@@ -140,7 +138,7 @@ async function zipFromBucket(
   try {
     await add(manifest, 'manifest-sha256.txt')
     for (const f of files) {
-      source = await openStored(storage, originalKey(f.storageKey))
+      source = await openStored(storage, storage.originalKey(f.storageKey))
       await add(source, f.name, f.createdAt)
     }
     return true

@@ -1,6 +1,5 @@
 import type { EntityManager } from '@mikro-orm/better-sqlite'
 import type { LocalStorage } from '../../storage/local-storage'
-import { derivedPrefix, originalKey, removeUnder } from '../../storage/stored-objects'
 import { UploadReservation } from '../uploads/upload-reservation.entity'
 import { DatasetFile } from './dataset-file.entity'
 
@@ -109,7 +108,7 @@ export async function sweepOrphanedObjects(
     )
     const known = new Set(owned.map((f) => f.storageKey))
     for (const key of candidates.filter((k) => !known.has(k))) {
-      await storage.mirror.remove(originalKey(key))
+      await storage.mirror.remove(storage.originalKey(key))
       result.originals++
     }
     candidates = []
@@ -136,7 +135,7 @@ export async function sweepOrphanedObjects(
     const owned = await em.find(DatasetFile, { id: { $in: ids } }, { fields: ['id'] })
     const known = new Set(owned.map((f) => f.id))
     for (const id of ids.filter((fileId) => !known.has(fileId))) {
-      await removeUnder(storage, derivedPrefix(id))
+      await storage.removeDerived(id)
       result.derived++
     }
   }

@@ -1,6 +1,5 @@
 import type { EntityManager } from '@mikro-orm/better-sqlite'
 import type { LocalStorage } from '../../storage/local-storage'
-import { derivedBytesOf } from '../../storage/stored-objects'
 import { DatasetFile } from './dataset-file.entity'
 
 /**
@@ -25,7 +24,7 @@ export async function projectBytesUsed(em: EntityManager, projectId: number): Pr
  */
 export async function recountDerivedBytes(em: EntityManager, storage: LocalStorage) {
   const files = await em.find(DatasetFile, { derivedBytes: 0, status: 'ready' })
-  for (const file of files) file.derivedBytes = await derivedBytesOf(storage, file.id)
+  for (const file of files) file.derivedBytes = await storage.derivedBytes(file.id)
   await em.flush()
   return files.filter((f) => f.derivedBytes > 0).length
 }

@@ -21,7 +21,7 @@ export const ROWS_SQL = `select d.id, d.accession, d.title, d.description, d.app
   where d.state = 'approved'`
 
 /** The same rows on PostgreSQL (its JSON operators; arrays as JSON text, as SQLite gives them). */
-const ROWS_SQL_POSTGRESQL = `select d.id, d.accession, d.title, d.description, d.approved_at, d.embargo_until,
+export const ROWS_SQL_POSTGRESQL = `select d.id, d.accession, d.title, d.description, d.approved_at, d.embargo_until,
   m.document #>> '{acquisition,technique}' as technique,
   m.document #>> '{biosample,structure}' as structure,
   m.document #>> '{biosample,organism,name}' as organism,
@@ -36,7 +36,7 @@ const RANKS =
   'select rowid as id, bm25(dataset_fts) as rank from dataset_fts where dataset_fts match ?'
 
 /** Ranks as bm25 gives them, lower first: the negated cover density of the words. */
-const MATCHED_POSTGRESQL = ` and d.id in (select dataset_id from dataset_search where ${TS_MATCH})`
+export const MATCHED_POSTGRESQL = ` and d.id in (select dataset_id from dataset_search where ${TS_MATCH})`
 const RANKS_POSTGRESQL = `select dataset_id as id, -ts_rank_cd(document, to_tsquery('simple', unaccent(?))) as rank from dataset_search where ${TS_MATCH}`
 
 interface RawRow {

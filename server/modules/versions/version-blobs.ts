@@ -3,7 +3,7 @@ import { copyFile, link } from 'node:fs/promises'
 import type { EntityManager } from '@mikro-orm/better-sqlite'
 import type { LocalStorage } from '../../storage/local-storage'
 import { ObjectNotFoundError, type ObjectStore } from '../../storage/object-store'
-import { originalKey, versionBlobKey } from '../../storage/stored-objects'
+import { versionBlobKey } from '../../storage/stored-objects'
 import { VersionBlob, type IVersionBlob } from './dataset-version.entity'
 
 interface FrozenFile {
@@ -57,7 +57,7 @@ async function copyIntoBucket(
   const target = versionBlobKey(file.sha256)
   if (await bucket.head(target)) return
   try {
-    await bucket.copy(originalKey(file.storageKey), target)
+    await bucket.copy(storage.originalKey(file.storageKey), target)
   } catch (err) {
     if (!(err instanceof ObjectNotFoundError)) throw err
     // An original uploaded before uploads were written to the bucket is only on the node that
