@@ -154,6 +154,7 @@ export function createApp(appOptions: CreateAppOptions): Express {
   })
   app.locals.uploads = uploads
   app.all(`${UPLOADS_PATH}{/*rest}`, requireUser, uploads.handler)
+  app.use(UPLOADS_PATH, uploads.unavailable)
 
   const api = express.Router()
   const json = express.json({ limit: '1mb' })

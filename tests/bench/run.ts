@@ -13,6 +13,7 @@ import { benchRegions } from './regions.bench'
 import { benchThreadStart } from './thread-start.bench'
 import { benchTiles } from './tiles.bench'
 import { benchUpload } from './upload.bench'
+import { benchUploadS3 } from './upload-s3.bench'
 
 const only = process.argv[2]
 /** Run only when named (`npm run bench -- <name>`): they start servers of their own. */
@@ -31,6 +32,7 @@ const benches: Record<string, () => Promise<Record<string, unknown>>> = {
   'thread-start': benchThreadStart,
   tiles: benchTiles,
   upload: benchUpload,
+  'upload-s3': benchUploadS3,
 }
 
 const results: Record<string, unknown> = {}

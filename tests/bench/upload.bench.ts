@@ -18,7 +18,7 @@ const BYTES = SIZE_MB * 1024 * 1024
 const ROUNDS = 3
 const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)]!
 
-async function makeSource(path: string) {
+export async function makeSource(path: string) {
   const block = Buffer.alloc(16 << 20)
   for (let i = 0; i < block.length; i += 4) block.writeUInt32LE((i * 2654435761) >>> 0, i)
   const out = createWriteStream(path)
@@ -29,7 +29,7 @@ async function makeSource(path: string) {
   await new Promise<void>((r) => out.end(() => r()))
 }
 
-async function sha256(path: string) {
+export async function sha256(path: string) {
   const hash = createHash('sha256')
   for await (const chunk of createReadStream(path, {
     highWaterMark: 8 << 20,
@@ -59,7 +59,7 @@ const FILE_SLICES = new URL('../../server/cli/file-slices.ts', import.meta.url).
  * tus-js-client in a child process, set up as the workstation uploader sets it up (its file
  * reader, 256 MiB requests), timing from the first request to the server's last answer.
  */
-async function uploadSeconds(
+export async function uploadSeconds(
   url: string,
   token: string,
   source: string,
@@ -96,7 +96,7 @@ async function uploadSeconds(
  * by jobs right after start, and each upload queues its inspection), so a round measures the
  * upload alone.
  */
-async function serverIdle(pid: number | undefined): Promise<void> {
+export async function serverIdle(pid: number | undefined): Promise<void> {
   for (let tries = 0; tries < 120; tries++) {
     const before = cpuSeconds(pid)
     await new Promise((r) => setTimeout(r, 1000))
@@ -105,7 +105,7 @@ async function serverIdle(pid: number | undefined): Promise<void> {
 }
 
 /** CPU seconds (user + system) a process has used so far, from /proc on Linux; NaN elsewhere. */
-function cpuSeconds(pid: number | undefined): number {
+export function cpuSeconds(pid: number | undefined): number {
   try {
     const fields = readFileSync(`/proc/${pid}/stat`, 'utf8').split(') ')[1]!.split(' ')
     return (Number(fields[11]) + Number(fields[12])) / 100 // utime, stime in clock ticks (USER_HZ)

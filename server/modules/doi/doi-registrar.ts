@@ -45,9 +45,14 @@ export class DoiRegistrar {
   }
 
   start(everyMs = 5_000): void {
-    this.timer = setInterval(() => void this.runDue(), everyMs)
+    // A round that fails (the database away) is logged and tried again at the next tick.
+    const tick = () =>
+      void this.runDue().catch((err: unknown) =>
+        this.o.logger.error({ err }, 'DOI registration round failed'),
+      )
+    this.timer = setInterval(tick, everyMs)
     this.timer.unref()
-    void this.runDue()
+    tick()
   }
 
   async stop(): Promise<void> {

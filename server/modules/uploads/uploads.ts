@@ -1,7 +1,7 @@
 import type { IncomingMessage } from 'node:http'
 import type { EntityManager } from '@mikro-orm/better-sqlite'
 import { Server, Upload, type Locker } from '@tus/server'
-import type { Request, RequestHandler } from 'express'
+import type { ErrorRequestHandler, Request, RequestHandler } from 'express'
 import type { Orm } from '../../db'
 import type { AppConfig } from '../../config'
 import type { Logger } from '../../logger'
@@ -13,6 +13,7 @@ import { handleWithNodeBody } from './node-body'
 import { uploadBytesOf } from './upload-bytes'
 import { createUploadDatastore, type HashingUploadStore } from './upload-datastore'
 import { refuse } from './upload-errors'
+import { PROBLEM_CONTENT_TYPE } from '@shared/api/problem'
 import {
   checkQuota,
   targetRefusal,
@@ -25,6 +26,20 @@ import { isDependencyUnavailable } from './upload-unavailable'
 
 export const UPLOADS_PATH = '/api/uploads'
 
+/**
+ * The answer while the database or the bucket cannot be reached: 503, which tus clients retry.
+ * A HEAD gets 423 instead: tus-js-client (the reference client, and ours) takes any other failed
+ * HEAD as "this upload is gone" and starts the file again from its first byte as a new upload;
+ * 423 is the one failure it retries, resuming from the offset the next HEAD gives.
+ */
+function unavailable(method: string) {
+  return refuse(
+    method === 'HEAD' ? 423 : 503,
+    'Try again',
+    'The storage or the database is not reachable at the moment; the upload can resume when it is back.',
+  )
+}
+
 /** tus hooks get a web Request; ours (with user and abilities) rides along as the Node request. */
 function expressRequest(req: globalThis.Request): Request {
   const node = (req as unknown as { runtime?: { node?: { req?: IncomingMessage } } }).runtime?.node
@@ -35,6 +50,8 @@ function expressRequest(req: globalThis.Request): Request {
 
 export interface Uploads {
   handler: RequestHandler
+  /** Mounted after the handler: a request the database could not authenticate may retry too. */
+  unavailable: ErrorRequestHandler
   store: HashingUploadStore
   /** Deletes unfinished uploads older than the expiry, freeing their space and quota. */
   expire(): Promise<number>
@@ -66,6 +83,19 @@ export function createUploads(deps: {
   })
   const bytes = uploadBytesOf(storage)
   const em = () => orm.em.fork() as EntityManager
+  // The reservation is made before the store creates the upload (the quota must refuse first);
+  // a creation the store could not make (the bucket away) must not hold quota until expiry.
+  const create = store.create.bind(store)
+  store.create = async (upload) => {
+    try {
+      return await create(upload)
+    } catch (err) {
+      await em()
+        .nativeDelete(UploadReservation, { uploadId: upload.id })
+        .catch(() => undefined)
+      throw err
+    }
+  }
 
   /** Drops an upload's bytes, its tus record and its quota reservation. */
   async function discard(id: string) {
@@ -105,15 +135,11 @@ export function createUploads(deps: {
     // Errors that are not refusals of ours or tus's own (a database or disk fault) are logged and
     // answered in words; their message may hold SQL or paths and never reaches the client. The
     // database or the bucket being away is a 503 (the store's own included): clients retry it.
-    onResponseError: (_req, err) => {
+    onResponseError: (req, err) => {
       const status = (err as { status_code?: number }).status_code
       if (status === 503 || (!status && isDependencyUnavailable(err))) {
         deps.logger.info({ err }, 'upload paused: storage or database unreachable')
-        return refuse(
-          503,
-          'Try again',
-          'The storage or the database is not reachable at the moment; the upload can resume when it is back.',
-        )
+        return unavailable(req.method)
       }
       if (status) return undefined
       deps.logger.error({ err }, 'upload request failed')
@@ -197,6 +223,12 @@ export function createUploads(deps: {
 
   return {
     store,
+    unavailable: (err, req, res, next) => {
+      if (!isDependencyUnavailable(err) || res.headersSent) return next(err)
+      deps.logger.info({ err }, 'upload paused: storage or database unreachable')
+      const { status_code, body } = unavailable(req.method)
+      res.status(status_code).type(PROBLEM_CONTENT_TYPE).set('tus-resumable', '1.0.0').send(body)
+    },
     handler: (req, res) => {
       // The tus server ends responses with res.end(callback); express-session's wrapper of res.end
       // takes (chunk, encoding) and would write the callback as data. Hand it a bare end() instead.
