@@ -6,6 +6,7 @@ import { ERRORS, type Upload } from '@tus/server'
 import { isNotFound, s3ClientConfig } from '../../storage/s3-object-store'
 import type { StorageConfig } from '../../storage/storage-config'
 import { FinishedUploads } from './finished-uploads'
+import { hashStream } from './upload-bytes'
 import type { FinishedUpload } from './upload-datastore'
 
 type S3Config = Extract<StorageConfig, { kind: 's3' }>
@@ -95,14 +96,9 @@ export class HashingS3Store extends S3Store {
     // An empty upload never completes its multipart upload: there is no object to read back.
     if (size === 0) return { sha256: createHash('sha256').digest('hex'), size }
     this.rereads++
-    const hash = createHash('sha256')
-    let read = 0
-    for await (const chunk of (await this.read(id)) as AsyncIterable<Buffer>) {
-      hash.update(chunk)
-      read += chunk.length
-    }
-    if (read !== size) throw ERRORS.FILE_WRITE_ERROR
-    return { sha256: hash.digest('hex'), size }
+    const read = await hashStream((await this.read(id)) as Readable)
+    if (read.size !== size) throw ERRORS.FILE_WRITE_ERROR
+    return read
   }
 
   override getUpload(id: string): Promise<Upload> {

@@ -30,7 +30,9 @@ export interface UploadBytes {
 }
 
 export function uploadBytesOf(storage: LocalStorage): UploadBytes {
-  return storage.bucket ? new BucketUploadBytes(storage.bucket) : new DiskUploadBytes(storage)
+  return storage.bucket
+    ? new BucketUploadBytes(storage, storage.bucket)
+    : new DiskUploadBytes(storage)
 }
 
 class DiskUploadBytes implements UploadBytes {
@@ -71,21 +73,27 @@ class DiskUploadBytes implements UploadBytes {
 const SNIFF_BYTES = 64 * 1024
 const READ_OPTIONS = { highWaterMark: 4 * 1024 * 1024 }
 const uploadKey = (uploadId: string) => `uploads/${uploadId}`
-const originalKey = (storageKey: string) => `files/${storageKey}`
 
 /**
  * On S3 there is no rename: the finished upload object is copied inside the bucket (no byte
  * passes through the node) and then deleted. Each step can be repeated after a crash.
  */
 class BucketUploadBytes implements UploadBytes {
-  constructor(private readonly bucket: ObjectStore) {}
+  constructor(
+    private readonly storage: LocalStorage,
+    private readonly bucket: ObjectStore,
+  ) {}
+
+  private originalKey(storageKey: string) {
+    return this.storage.originalKey(storageKey)
+  }
 
   async isMoved(storageKey: string) {
-    return (await this.bucket.head(originalKey(storageKey))) !== null
+    return (await this.bucket.head(this.originalKey(storageKey))) !== null
   }
 
   async move(uploadId: string, storageKey: string) {
-    await this.bucket.copy(uploadKey(uploadId), originalKey(storageKey))
+    await this.bucket.copy(uploadKey(uploadId), this.originalKey(storageKey))
     await this.bucket.delete(uploadKey(uploadId))
   }
 
@@ -94,12 +102,12 @@ class BucketUploadBytes implements UploadBytes {
   }
 
   dropOriginal(storageKey: string) {
-    return this.bucket.delete(originalKey(storageKey))
+    return this.bucket.delete(this.originalKey(storageKey))
   }
 
   /** The sniffer reads a path: it gets the object's first bytes in a scratch file. */
   async kindOf(storageKey: string, name: string) {
-    const key = originalKey(storageKey)
+    const key = this.originalKey(storageKey)
     const info = await this.bucket.head(key)
     const head =
       info && info.size > 0
@@ -116,7 +124,7 @@ class BucketUploadBytes implements UploadBytes {
 
   /** The SHA-256 stored with the object when there is one, else the object read back once. */
   async hashOriginal(storageKey: string) {
-    const key = originalKey(storageKey)
+    const key = this.originalKey(storageKey)
     const info = await this.bucket.head(key)
     if (info?.sha256) return { sha256: info.sha256, size: info.size }
     return hashStream((await this.bucket.get(key)).stream)
@@ -129,7 +137,8 @@ async function readAll(stream: Readable): Promise<Buffer> {
   return Buffer.concat(chunks)
 }
 
-async function hashStream(stream: Readable): Promise<{ sha256: string; size: number }> {
+/** SHA-256 and length of everything a stream gives. */
+export async function hashStream(stream: Readable): Promise<{ sha256: string; size: number }> {
   const hash = createHash('sha256')
   let size = 0
   for await (const chunk of stream as AsyncIterable<Buffer>) {
