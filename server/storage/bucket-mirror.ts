@@ -93,9 +93,11 @@ export class BucketMirror {
 
   /** Removes the object and this node's copy. */
   async remove(key: string): Promise<void> {
-    await this.bucket?.delete(key)
+    if (this.bucket) {
+      await this.bucket.delete(key)
+      await rm(this.recordPath(key), { force: true })
+    }
     await rm(this.pathOf(key), { force: true })
-    await rm(this.recordPath(key), { force: true })
   }
 
   /**

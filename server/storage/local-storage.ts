@@ -64,8 +64,9 @@ export class LocalStorage {
     await this.removeDerived(fileId)
   }
 
+  /** Removes an original: this node's file, and on the S3 profile its object. */
   removeOriginal(storageKey: string): Promise<void> {
-    return rm(this.originalPath(storageKey), { force: true })
+    return this.mirror.remove(this.originalKey(storageKey))
   }
 
   /** The key of a deposited file's original (`files/<dataset>/<upload id>`). */
@@ -91,9 +92,13 @@ export class LocalStorage {
     return this.mirror.removeFolder(`derived/${fileId}`)
   }
 
-  /** Removes every byte a dataset's files own: its originals' folder and their derived folders. */
+  /**
+   * Removes every byte a dataset's files own: its originals' folder and their derived folders. In
+   * the bucket the originals are listed under `files/<dataset>/`, not taken from the rows, so an
+   * upload that never got its row goes too.
+   */
   async removeDataset(datasetId: number, fileIds: number[]): Promise<void> {
-    await rm(join(this.filesDir, String(datasetId)), { recursive: true, force: true })
+    await this.mirror.removeFolder(`files/${datasetId}`)
     for (const id of fileIds) await this.removeDerived(id)
   }
 

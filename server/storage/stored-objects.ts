@@ -3,11 +3,7 @@ import type { Readable } from 'node:stream'
 import type { LocalStorage } from './local-storage'
 import { ObjectNotFoundError } from './object-store'
 
-/*
- * Reading and removing stored bytes by key, the same code on both profiles: on the embedded
- * default the data folder is the record and LocalStorage's own methods do the work unchanged; on
- * the S3 profile the bucket is the record, walked by listing.
- */
+/* Reading stored bytes by key, the same code on both profiles (removal is LocalStorage's). */
 
 /** The frozen bytes of approved versions, one object per SHA-256. */
 export const versionBlobKey = (sha256: string) => `version-blobs/${sha256}`
@@ -32,31 +28,4 @@ export async function openStored(storage: LocalStorage, key: string): Promise<Re
     stream.once('error', reject)
   })
   return stream
-}
-
-/**
- * Removes a deposited file's original and everything derived from it: this node's files, and on
- * the S3 profile the objects (LocalStorage removes the derived ones, listed, with its folder).
- */
-export async function removeStoredFile(
-  storage: LocalStorage,
-  storageKey: string,
-  fileId: number,
-): Promise<void> {
-  await storage.removeFile(storageKey, fileId)
-  if (storage.bucket) await storage.mirror.remove(storage.originalKey(storageKey))
-}
-
-/**
- * Removes every byte a dataset's files own: its originals and their derived files. In the bucket
- * the originals are listed under `files/<dataset>/`, not taken from the rows, so an upload that
- * never got its row goes too.
- */
-export async function removeStoredDataset(
-  storage: LocalStorage,
-  datasetId: number,
-  fileIds: number[],
-): Promise<void> {
-  await storage.removeDataset(datasetId, fileIds)
-  if (storage.bucket) await storage.mirror.removeFolder(`files/${datasetId}`)
 }

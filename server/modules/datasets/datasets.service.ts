@@ -12,7 +12,6 @@ import type { Actor } from '../../services'
 import { audit } from '../audit/audit.service'
 import { nextSequenceValue } from '../common/sequence.service'
 import type { LocalStorage } from '../../storage/local-storage'
-import { removeStoredDataset } from '../../storage/stored-objects'
 import { DatasetFile } from '../files/dataset-file.entity'
 import { Project } from '../projects/project.entity'
 import { Dataset, type IDataset } from './dataset.entity'
@@ -101,8 +100,7 @@ export async function deleteDataset(
   audit(em, actor, { action: 'dataset.delete', targetType: 'Dataset', targetId: dataset.accession })
   em.remove(dataset)
   await em.flush()
-  await removeStoredDataset(
-    storage,
+  await storage.removeDataset(
     dataset.id,
     files.map((f) => f.id),
   )

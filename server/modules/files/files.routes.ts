@@ -17,7 +17,6 @@ import { datasetFor, datasetParams } from '../datasets/dataset-access'
 import { UploadReservation } from '../uploads/upload-reservation.entity'
 import { DatasetFile, type IDatasetFile } from './dataset-file.entity'
 import { fileDownloadsRouter } from './file-downloads.routes'
-import { removeStoredFile } from '../../storage/stored-objects'
 import { toFileValidation } from './file-report.mapper'
 import { queueIngest, queueInspect } from './table-jobs.completions'
 
@@ -169,7 +168,7 @@ export function filesRouter(deps: Pick<AppDeps, 'storage' | 'jobs' | 'config'>):
     })
     em().remove(file)
     await em().flush()
-    await removeStoredFile(storage, file.storageKey, file.id)
+    await storage.removeFile(file.storageKey, file.id)
     res.status(204).end()
   })
 
