@@ -16,30 +16,29 @@ export interface ColourOptions {
 
 export const COLOUR_DEFAULTS = { colormap: 'inferno', gamma: 1 } as const
 
-/** Through the colormap; into `into` when it has the image's size (3 bytes a pixel). */
+/**
+ * Through the colormap; into `into` when it has the image's size (3 bytes a pixel). The palette
+ * image of `colourIndices`, expanded (tiles send that one as it is).
+ */
 export function colourize(
   image: Float32Array,
   options: ColourOptions = {},
   into?: Uint8Array,
 ): Uint8Array {
-  const table = colormapTable(options.colormap ?? COLOUR_DEFAULTS.colormap)
-  const levels = new LevelMap(resolveContrast(image, options.contrast), options.gamma)
+  const { indices, palette } = colourIndices(image, options)
   const rgb = into?.length === image.length * 3 ? into : new Uint8Array(image.length * 3)
-  // Empty pixels (most of a deep tile) reuse the colour of 0, looked up once.
-  const empty = 3 * levels.level(0)
-  for (let p = 0; p < image.length; p++) {
-    const v = image[p]!
-    const k = v === 0 ? empty : 3 * levels.level(v)
-    rgb[3 * p] = table[k]!
-    rgb[3 * p + 1] = table[k + 1]!
-    rgb[3 * p + 2] = table[k + 2]!
+  for (let p = 0; p < indices.length; p++) {
+    const k = 3 * indices[p]!
+    rgb[3 * p] = palette[k]!
+    rgb[3 * p + 1] = palette[k + 1]!
+    rgb[3 * p + 2] = palette[k + 2]!
   }
   return rgb
 }
 
 /**
  * The same colouring as palette indices (one byte a pixel) and the colormap as the palette:
- * pixel p is colour `palette[3·i…3·i+2]` with i = `indices[p]`, exactly what `colourize` writes.
+ * pixel p is colour `palette[3·i…3·i+2]` with i = `indices[p]`.
  * Into `into` when it holds at least the image's pixels.
  */
 export function colourIndices(
@@ -53,6 +52,7 @@ export function colourIndices(
     into && into.length >= image.length
       ? into.subarray(0, image.length)
       : new Uint8Array(image.length)
+  // Empty pixels (most of a deep tile) reuse the level of 0, looked up once.
   const empty = levels.level(0)
   for (let p = 0; p < image.length; p++) {
     const v = image[p]!
