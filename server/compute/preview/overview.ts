@@ -5,9 +5,11 @@
  * tile thread serves nobody. The pyramid's levels share one origin and halve their pixel each
  * step, so a pixel of level z is exactly a 2^(L−z) × 2^(L−z) block of level L's pixels: summing
  * blocks of one histogram at level L gives the histogram of any coarser level, count for count.
- * The overview is that level-L histogram of the whole field (at most 4096² pixels), computed once
- * per store and thread. It serves plain density histograms only; filters, Gaussian rendering and
- * colour by z or time still read the rows.
+ * The overview is that level-L histogram of the whole field (at most 4096² pixels). The server has
+ * one tile thread compute it once per table (`sharedOverview`, in memory every thread reads) and
+ * hands it to each coarse tile; a tile given none computes its own, kept per store and thread. It
+ * serves plain density histograms only; filters, Gaussian rendering and colour by z or time still
+ * read the rows.
  */
 import { stat } from 'node:fs/promises'
 import type { Localizations } from '../localizations.types'
@@ -18,6 +20,8 @@ import { readStoreColumns } from '../store/column-reader'
 const OVERVIEW_LEVEL = 4
 /** Stores whose overview a thread keeps (each up to 64 MB). */
 const KEPT = 2
+/** From how many rows (in the store tiles a view meets) a coarse tile is summed from the overview. */
+export const OVERVIEW_FROM_ROWS = 250_000
 
 export interface Overview {
   counts: Float32Array
@@ -58,6 +62,18 @@ export async function overviewOf(arrowPath: string, pyramid: TilePyramid): Promi
   overview.catch(() => overviews.delete(arrowPath))
   if (overviews.size > KEPT) overviews.delete(overviews.keys().next().value!)
   return overview
+}
+
+/**
+ * The overview with its counts in a SharedArrayBuffer: posted to a thread, it is shared, not
+ * copied, so one computation serves every tile thread (and a thread's first coarse tile does not
+ * spend most of a second computing its own).
+ */
+export async function sharedOverview(arrowPath: string, pyramid: TilePyramid): Promise<Overview> {
+  const { counts, view } = await computeOverview(arrowPath, pyramid)
+  const shared = new Float32Array(new SharedArrayBuffer(counts.byteLength))
+  shared.set(counts)
+  return { counts: shared, view }
 }
 
 async function computeOverview(arrowPath: string, pyramid: TilePyramid): Promise<Overview> {

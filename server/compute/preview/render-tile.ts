@@ -14,7 +14,14 @@ import {
   type RenderView,
   type TilePyramid,
 } from '../render'
-import { blockSide, countsFromOverview, drawsPlainCounts, overviewOf } from './overview'
+import {
+  blockSide,
+  countsFromOverview,
+  drawsPlainCounts,
+  OVERVIEW_FROM_ROWS,
+  overviewOf,
+  type Overview,
+} from './overview'
 import { localizationsInBox, rowsMeetingBox } from './store-rows'
 
 const TILE_PNG_COMPRESSION = 1
@@ -29,9 +36,9 @@ export interface TileTask {
   pyramid?: TilePyramid
   /** From how many rows (in the store tiles the view meets) the overview is used. */
   overviewFromRows?: number
+  /** The table's overview, computed once for every thread (see sharedOverview); else this thread's own. */
+  overview?: Overview
 }
-
-const OVERVIEW_FROM_ROWS = 250_000
 
 /**
  * This thread's buffers for the images of its tiles (all of one size), lent to each render: fresh
@@ -79,7 +86,7 @@ async function fromOverview(task: TileTask, box: BoundsNm) {
   if (k === null) return null
   const rows = await rowsMeetingBox(task.arrowPath, box)
   if (rows < (task.overviewFromRows ?? OVERVIEW_FROM_ROWS)) return null
-  const overview = await overviewOf(task.arrowPath, pyramid)
+  const overview = task.overview ?? (await overviewOf(task.arrowPath, pyramid))
   const counts = countsFromOverview(overview, view, k)
   return renderIndexedCounts(counts, view, options, scratchFor(view))
 }

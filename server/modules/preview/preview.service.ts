@@ -12,6 +12,12 @@ import {
 import { ConflictError, NotFoundError } from '../../errors/http-error'
 import type { LocalStorage } from '../../storage/local-storage'
 import { readTileIndex } from '../../compute/store'
+import {
+  blockSide,
+  drawsPlainCounts,
+  OVERVIEW_FROM_ROWS,
+  type Overview,
+} from '../../compute/preview'
 import { LocalizationStores, type OpenedStore } from './localization-stores'
 import type { PreviewTable, PreviewTables } from './preview-tables'
 import type { TilePool } from './tile-pool'
@@ -29,6 +35,8 @@ const REFERENCE_MAX_SIDE = 2048
 const CONTRAST_PERCENTILE = 99.5
 /** Gaussian kernels reach this many of the largest σ drawn (32 px cap of the engine). */
 const GAUSSIAN_MARGIN_PX = 3 * 32
+/** Tables whose overview the process keeps (each up to 64 MB), the last ones looked at. */
+const OVERVIEWS_KEPT = 2
 
 /**
  * The zoomable preview of ingested tables: what the pyramid looks like, and tiles rendered on
@@ -40,6 +48,8 @@ const GAUSSIAN_MARGIN_PX = 3 * 32
  */
 export class PreviewService {
   private readonly scales = new Map<string, Promise<number>>()
+  /** Large tables' overviews, by file and store write time (see sharedOverview). */
+  private readonly overviews = new Map<string, Promise<Overview | undefined>>()
   /** Each table's description, by store write time: tiles ask for it on every request. */
   private readonly infos = new Map<number, { mtimeMs: number; info: PreviewInfo }>()
 
@@ -52,8 +62,11 @@ export class PreviewService {
     readonly stores = new LocalizationStores(storage),
   ) {}
 
+  /** Asking for the description starts the overview of a large table: its first tiles follow. */
   async info(file: PreviewTable): Promise<PreviewInfo> {
-    return (await this.described(file)).info
+    const { arrowPath, mtimeMs, info } = await this.described(file)
+    void this.overviewOf(file.id, arrowPath, mtimeMs, info)
+    return info
   }
 
   /** The description by the store's write time, which tells a re-ingested table apart. */
@@ -86,6 +99,8 @@ export class PreviewService {
       join('tiles', key, `${z}-${x}-${y}.png`),
     )
     const high = await this.levelScale(file.id, arrowPath, mtimeMs, pyramid, view, options)
+    const coarse = drawsPlainCounts(options) && blockSide(pyramid, view) !== null
+    const overview = coarse ? await this.overviewOf(file.id, arrowPath, mtimeMs, info) : undefined
     const png = await this.pool.tile({
       cachePath,
       arrowPath,
@@ -96,8 +111,38 @@ export class PreviewService {
       },
       marginNm: options.method === 'gaussian' ? GAUSSIAN_MARGIN_PX * view.pixelNm : 0,
       pyramid,
+      overview,
     })
     return Buffer.from(png.buffer, png.byteOffset, png.byteLength)
+  }
+
+  /**
+   * The overview coarse tiles of a large table are summed from, computed by one tile thread once
+   * for all of them; undefined for small tables (their tiles read the rows) or when it failed (the
+   * thread then computes its own).
+   */
+  private overviewOf(
+    fileId: number,
+    arrowPath: string,
+    mtimeMs: number,
+    info: PreviewInfo,
+  ): Promise<Overview | undefined> {
+    if (info.localizations < OVERVIEW_FROM_ROWS) return Promise.resolve(undefined)
+    const key = `${fileId}|${mtimeMs}`
+    let overview = this.overviews.get(key)
+    if (overview) {
+      this.overviews.delete(key) // re-inserted below: the map's order is least recently used first
+    } else {
+      const pyramid = pyramidFor(info.boundsNm)
+      overview = this.pool.overview({ arrowPath, pyramid }).catch(() => {
+        this.overviews.delete(key)
+        return undefined
+      })
+      if (this.overviews.size >= OVERVIEWS_KEPT)
+        this.overviews.delete(this.overviews.keys().next().value!)
+    }
+    this.overviews.set(key, overview)
+    return overview
   }
 
   /** The table's localization store and its write time; 409 while there is none to show. */

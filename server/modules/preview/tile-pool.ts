@@ -2,7 +2,8 @@ import { availableParallelism } from 'node:os'
 import { Piscina } from 'piscina'
 import { ServiceUnavailableError } from '../../errors/http-error'
 import { poolEntry } from '../../threads'
-import type { CachedTileTask, TileWorkerTask } from './tile.worker'
+import type { Overview } from '../../compute/preview'
+import type { CachedTileTask, OverviewTask, TileWorkerTask } from './tile.worker'
 
 export interface TilePoolOptions {
   /** The thread entry (tests give their own). */
@@ -43,6 +44,11 @@ export class TilePool {
 
   scale(task: Omit<Extract<TileWorkerTask, { kind: 'scale' }>, 'kind'>): Promise<number | null> {
     return this.run({ kind: 'scale', ...task }) as Promise<number | null>
+  }
+
+  /** A table's overview, in memory every thread of the pool reads (a SharedArrayBuffer). */
+  overview(task: OverviewTask): Promise<Overview> {
+    return this.run({ kind: 'overview', ...task }) as Promise<Overview>
   }
 
   /** Aborting a running task ends its thread. */

@@ -1,19 +1,46 @@
 import { mkdirSync, readFileSync, renameSync, statSync, writeFileSync } from 'node:fs'
 import { dirname } from 'node:path'
-import { referenceScale, renderTilePng, type ScaleTask, type TileTask } from '../../compute/preview'
+import {
+  referenceScale,
+  renderTilePng,
+  sharedOverview,
+  type Overview,
+  type ScaleTask,
+  type TileTask,
+} from '../../compute/preview'
+import type { TilePyramid } from '../../compute/render'
 
 /** A tile and where its PNG is kept once drawn (one file per tile, options and brightness). */
 export interface CachedTileTask extends TileTask {
   cachePath: string
 }
 
+/** A table's overview for every thread (see sharedOverview). */
+export interface OverviewTask {
+  arrowPath: string
+  pyramid: TilePyramid
+}
+
 export type TileWorkerTask =
-  ({ kind: 'tile' } & CachedTileTask) | ({ kind: 'scale' } & ScaleTask) | { kind: 'warm' }
+  | ({ kind: 'tile' } & CachedTileTask)
+  | ({ kind: 'scale' } & ScaleTask)
+  | ({ kind: 'overview' } & OverviewTask)
+  | { kind: 'warm' }
 
 /** A tile-pool thread's one entry (Piscina calls the default export with each task). */
-export default async function run(task: TileWorkerTask): Promise<Uint8Array | number | null> {
-  if (task.kind === 'warm') return null
-  return task.kind === 'tile' ? cachedTile(task) : referenceScale(task)
+export default async function run(
+  task: TileWorkerTask,
+): Promise<Uint8Array | number | Overview | null> {
+  switch (task.kind) {
+    case 'warm':
+      return null
+    case 'tile':
+      return cachedTile(task)
+    case 'scale':
+      return referenceScale(task)
+    case 'overview':
+      return sharedOverview(task.arrowPath, task.pyramid)
+  }
 }
 
 /**
