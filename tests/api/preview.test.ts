@@ -22,10 +22,12 @@ let fileId: number
 
 beforeAll(async () => {
   app = await startSharedDraftApp({ reader: [] })
+  // About 36 000 localizations: level 0 draws enough of them to be kept on disk, a deepest tile
+  // (a few hundred) does not.
   const { localizations } = simulateLocalizations({
     seed: 3,
     fieldNm: 4000,
-    emitters: 3000,
+    emitters: 6000,
     frames: 1000,
     structure: { kind: 'rings' },
   })
@@ -45,6 +47,13 @@ const get = (path: string, who = 'member') =>
       res.on('data', (c: Buffer) => chunks.push(c))
       res.on('end', () => done(null, Buffer.concat(chunks)))
     })
+
+/** The names of the tiles kept on disk for the table, in every view. */
+const keptTiles = () => {
+  const tiles = join(new LocalStorage(app.t.config.dataDir).derivedDir, String(fileId), 'tiles')
+  if (!existsSync(tiles)) return []
+  return readdirSync(tiles).flatMap((view) => readdirSync(join(tiles, view)))
+}
 
 describe('the preview of a table', () => {
   let info: PreviewInfo
@@ -70,11 +79,28 @@ describe('the preview of a table', () => {
       .toBuffer({ resolveWithObject: true })
     expect([png.width, png.height]).toEqual([256, 256])
     expect(data.some((v) => v > 0)).toBe(true)
-    const tiles = join(new LocalStorage(app.t.config.dataDir).derivedDir, String(fileId), 'tiles')
-    // The copy is written after the answer has gone.
-    await vi.waitFor(() => expect(existsSync(tiles)).toBe(true))
+    await vi.waitFor(() => expect(keptTiles()).toContain('0-0-0.png'))
     const again = await get('/tiles/0/0/0.png')
     expect(Buffer.compare(again.body as Buffer, res.body as Buffer)).toBe(0)
+  })
+
+  it('draws a deep tile of few localizations each time instead of keeping it', async () => {
+    const deep = info.levels - 1
+    // The tile at the field's centre, where the rings are.
+    const tileNm = info.tileSize * info.resolutionsNm[deep]!
+    const { xMin, xMax, yMin, yMax } = info.boundsNm
+    const x = Math.floor(((xMin + xMax) / 2 - info.originNm.x) / tileNm)
+    const y = Math.floor(((yMin + yMax) / 2 - info.originNm.y) / tileNm)
+    const res = await get(`/tiles/${deep}/${x}/${y}.png`)
+    expect(res.status).toBe(200)
+    const { data } = await sharp(res.body as Buffer)
+      .raw()
+      .toBuffer({ resolveWithObject: true })
+    expect(data.some((v) => v > 0)).toBe(true)
+    const again = await get(`/tiles/${deep}/${x}/${y}.png`)
+    expect(Buffer.compare(again.body as Buffer, res.body as Buffer)).toBe(0)
+    expect(keptTiles()).toContain('0-0-0.png')
+    expect(keptTiles()).not.toContain(`${deep}-${x}-${y}.png`)
   })
 
   it('draws differently with other options (colormap, Gaussian rendering)', async () => {

@@ -1,5 +1,12 @@
 /** Tiles of the zoomable preview, rendered from a localization store. */
-export { renderTilePng, referenceScale, type ScaleTask, type TileTask } from './render-tile'
+export {
+  renderTile,
+  renderTilePng,
+  referenceScale,
+  type DrawnTile,
+  type ScaleTask,
+  type TileTask,
+} from './render-tile'
 export { localizationsInBox } from './store-rows'
 export {
   blockSide,

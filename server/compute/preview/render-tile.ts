@@ -52,11 +52,17 @@ function scratchFor(view: RenderView): ImageScratch {
   return scratch
 }
 
+/** A drawn tile and how many localizations it was drawn from (what it would cost to draw again). */
+export interface DrawnTile {
+  png: Uint8Array
+  localizations: number
+}
+
 /**
  * One tile as a PNG, from the store rows in and around its view. Density colouring (the usual
  * view) goes out as a palette PNG: one byte a pixel to colour, deflate and send instead of three.
  */
-export async function renderTilePng(task: TileTask): Promise<Uint8Array> {
+export async function renderTile(task: TileTask): Promise<DrawnTile> {
   const { view, marginNm, options } = task
   const box: BoundsNm = {
     xMin: view.xMinNm - marginNm,
@@ -68,14 +74,31 @@ export async function renderTilePng(task: TileTask): Promise<Uint8Array> {
   // Fast deflate: a tile twice the bytes for a third of the encoding time, which on a busy
   // server decides how many tiles a second it can draw.
   if (coloursDensity(options)) {
-    const image =
-      (await fromOverview(task, box)) ??
-      renderIndexedImage(await rows(), view, options, scratchFor(view))
-    const { indices, palette, width, height } = image
-    return encodeIndexedPng(indices, palette, width, height, TILE_PNG_COMPRESSION)
+    const summed = await fromOverview(task, box)
+    if (summed) {
+      const { indices, palette, width, height } = summed.image
+      const png = encodeIndexedPng(indices, palette, width, height, TILE_PNG_COMPRESSION)
+      return { png, localizations: summed.rows }
+    }
+    const locs = await rows()
+    const { indices, palette, width, height } = renderIndexedImage(
+      locs,
+      view,
+      options,
+      scratchFor(view),
+    )
+    const png = encodeIndexedPng(indices, palette, width, height, TILE_PNG_COMPRESSION)
+    return { png, localizations: locs.count }
   }
-  const image = renderImage(await rows(), view, options, scratchFor(view))
-  return encodePng(image.rgb, image.width, image.height, TILE_PNG_COMPRESSION)
+  const locs = await rows()
+  const image = renderImage(locs, view, options, scratchFor(view))
+  const png = encodePng(image.rgb, image.width, image.height, TILE_PNG_COMPRESSION)
+  return { png, localizations: locs.count }
+}
+
+/** One tile as a PNG (see renderTile). */
+export async function renderTilePng(task: TileTask): Promise<Uint8Array> {
+  return (await renderTile(task)).png
 }
 
 /** The tile from the overview, when it is a coarse plain-density view over many rows. */
@@ -88,7 +111,7 @@ async function fromOverview(task: TileTask, box: BoundsNm) {
   if (rows < (task.overviewFromRows ?? OVERVIEW_FROM_ROWS)) return null
   const overview = task.overview ?? (await overviewOf(task.arrowPath, pyramid))
   const counts = countsFromOverview(overview, view, k)
-  return renderIndexedCounts(counts, view, options, scratchFor(view))
+  return { image: renderIndexedCounts(counts, view, options, scratchFor(view)), rows }
 }
 
 export interface ScaleTask {
