@@ -362,11 +362,11 @@ describe('regions of interest', () => {
       const em = app.t.em()
       const d = await em.findOneOrFail(Dataset, { id: app.dataset.id })
       d.state = 'approved'
-      d.embargoUntil = new Date(Date.now() + 30 * 86_400_000)
+      d.embargoUntil = new Date(now.getTime() + 30 * 86_400_000)
       await em.flush()
       expect((await request(app.t.app).get(regionsPath())).status).toBe(403)
       expect((await request(app.t.app).get(regionsPath()).set(as('previewer'))).status).toBe(200)
-      d.embargoUntil = new Date(Date.now() - 86_400_000)
+      d.embargoUntil = new Date(now.getTime() - 86_400_000)
       await em.flush()
       expect((await request(app.t.app).get(regionsPath())).status).toBe(200)
       expect((await draw('outsider', { label: 'x', geometry: rectangle(0, 0, 9, 9) })).status).toBe(

@@ -41,8 +41,9 @@ const OVERVIEWS_KEPT = 2
 /**
  * The zoomable preview of ingested tables: what the pyramid looks like, and tiles rendered on
  * demand in the tile pool; those drawn from many localizations are kept on disk under the file's
- * derived folder by their options and the store's write time (see KEEP_FROM_LOCALIZATIONS). (On the S3 profile the cached tiles stay on the node that drew them:
- * drawn from the store, they are cheaper to draw again than to fetch.)
+ * derived folder by their options and the store's write time (see KEEP_FROM_LOCALIZATIONS). (On
+ * the S3 profile the kept tiles stay on the node that drew them: drawn from the store, they are
+ * cheaper to draw again than to fetch.)
  * Brightness is the same on every tile of a view: each level's scale derives from one reference
  * render of the whole field (per file and filter), scaled by pixel area.
  */
