@@ -1,8 +1,8 @@
-import { createHash } from 'node:crypto'
 import { createReadStream, createWriteStream } from 'node:fs'
 import { mkdir, readFile, rename, rm, stat, writeFile } from 'node:fs/promises'
 import { dirname, join, relative, sep } from 'node:path'
 import { pipeline } from 'node:stream/promises'
+import { hashStream } from './hash-stream'
 import {
   ObjectNotFoundError,
   type ObjectInfo,
@@ -15,6 +15,9 @@ import {
  * within the same second by one of the same size is told apart by its SHA-256, when it was
  * stored with one (publish it with `sha256` where that matters).
  */
+/** Large reads for hashing a file just written (from the page cache). */
+const READ_OPTIONS = { highWaterMark: 4 * 1024 * 1024 }
+
 interface CopyRecord {
   size: number
   lastModified: string
@@ -86,9 +89,8 @@ export class BucketMirror {
    */
   async publishWithDigest(key: string): Promise<void> {
     if (!this.bucket) return
-    const hash = createHash('sha256')
-    await pipeline(createReadStream(this.pathOf(key)), hash)
-    await this.publish(key, { sha256: hash.digest('hex') })
+    const { sha256 } = await hashStream(createReadStream(this.pathOf(key), READ_OPTIONS))
+    await this.publish(key, { sha256 })
   }
 
   /** Removes the object and this node's copy. */

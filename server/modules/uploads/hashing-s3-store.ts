@@ -4,9 +4,9 @@ import { S3Store, type MetadataValue } from '@tus/s3-store'
 import type { KvStore } from '@tus/utils'
 import { ERRORS, type Upload } from '@tus/server'
 import { isNotFound, s3ClientConfig } from '../../storage/s3-object-store'
+import { hashStream } from '../../storage/hash-stream'
 import type { StorageConfig } from '../../storage/storage-config'
 import { FinishedUploads } from './finished-uploads'
-import { hashStream } from './upload-bytes'
 import type { FinishedUpload } from './upload-datastore'
 
 type S3Config = Extract<StorageConfig, { kind: 's3' }>

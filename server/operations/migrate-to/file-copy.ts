@@ -1,6 +1,4 @@
-import { createHash } from 'node:crypto'
-import { Transform, Writable } from 'node:stream'
-import { pipeline } from 'node:stream/promises'
+import { hashObject } from '../../storage/hash-stream'
 import type { ObjectStore } from '../../storage/object-store'
 
 /**
@@ -33,31 +31,6 @@ export interface FileCopyResult {
   skippedTiles: number
   /** Keys whose bytes did not check out, with why: the command fails when there are any. */
   failures: { key: string; problem: string }[]
-}
-
-/** Hashes a stream's bytes as they pass. */
-function hashing() {
-  const hash = createHash('sha256')
-  let bytes = 0
-  const stream = new Transform({
-    transform(chunk: Buffer, _enc, done) {
-      hash.update(chunk)
-      bytes += chunk.length
-      done(null, chunk)
-    },
-  })
-  return { stream, digest: () => hash.digest('hex'), bytes: () => bytes }
-}
-
-/** The SHA-256 and size of an object, read whole. */
-export async function hashObject(
-  store: ObjectStore,
-  key: string,
-): Promise<{ sha256: string; size: number }> {
-  const { stream } = await store.get(key)
-  const h = hashing()
-  await pipeline(stream, h.stream, new Writable({ write: (_c, _e, done) => done() }))
-  return { sha256: h.digest(), size: h.bytes() }
 }
 
 /** Every object key to copy, with its size, in a stable order. */
