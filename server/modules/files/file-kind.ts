@@ -2,26 +2,29 @@ import { open } from 'node:fs/promises'
 import { gunzipSync } from 'node:zlib'
 import type { FileKind } from '@shared/domain/files'
 
-const SNIFF_BYTES = 64 * 1024
+/** The first bytes content sniffing looks at. */
+export const SNIFF_BYTES = 64 * 1024
 
-/** The first bytes of a file (decompressed when gzip), for content sniffing. */
-async function head(path: string): Promise<{ bytes: Buffer; gzip: boolean }> {
+/** The first bytes of a file, as many as content sniffing looks at. */
+async function firstBytes(path: string): Promise<Buffer> {
   const handle = await open(path, 'r')
   try {
     const buffer = Buffer.alloc(SNIFF_BYTES)
     const { bytesRead } = await handle.read(buffer, 0, SNIFF_BYTES, 0)
-    const bytes = buffer.subarray(0, bytesRead)
-    if (bytes[0] === 0x1f && bytes[1] === 0x8b) {
-      // A truncated gzip stream still inflates its first blocks; that is all sniffing needs.
-      try {
-        return { bytes: gunzipSync(bytes, { finishFlush: 2 }).subarray(0, SNIFF_BYTES), gzip: true }
-      } catch {
-        return { bytes, gzip: true }
-      }
-    }
-    return { bytes, gzip: false }
+    return buffer.subarray(0, bytesRead)
   } finally {
     await handle.close()
+  }
+}
+
+/** A file's first bytes, decompressed when they start a gzip stream. */
+function inflated(bytes: Buffer): { bytes: Buffer; gzip: boolean } {
+  if (bytes[0] !== 0x1f || bytes[1] !== 0x8b) return { bytes, gzip: false }
+  // A truncated gzip stream still inflates its first blocks; that is all sniffing needs.
+  try {
+    return { bytes: gunzipSync(bytes, { finishFlush: 2 }).subarray(0, SNIFF_BYTES), gzip: true }
+  } catch {
+    return { bytes, gzip: true }
   }
 }
 
@@ -51,7 +54,15 @@ export async function detectFileKind(
   path: string,
   name = '',
 ): Promise<{ kind: FileKind; mediaType: string }> {
-  const { bytes, gzip } = await head(path)
+  return fileKindOfHead(await firstBytes(path), name)
+}
+
+/**
+ * detectFileKind from the file's first bytes already at hand (at least the first SNIFF_BYTES, or
+ * the whole file when shorter): an object in the bucket is sniffed from one ranged read.
+ */
+export function fileKindOfHead(head: Buffer, name = ''): { kind: FileKind; mediaType: string } {
+  const { bytes, gzip } = inflated(head.subarray(0, SNIFF_BYTES))
   if (!gzip && isTiff(bytes)) return { kind: 'raw_stack', mediaType: 'image/tiff' }
   if (bytes.includes(0))
     return { kind: 'other', mediaType: gzip ? 'application/gzip' : 'application/octet-stream' }

@@ -1,13 +1,12 @@
-import { createHash } from 'node:crypto'
 import { createReadStream, existsSync, mkdirSync } from 'node:fs'
-import { mkdtemp, rename, rm, writeFile } from 'node:fs/promises'
-import { tmpdir } from 'node:os'
-import { dirname, join } from 'node:path'
+import { rename, rm } from 'node:fs/promises'
+import { dirname } from 'node:path'
 import type { Readable } from 'node:stream'
 import type { FileKind } from '@shared/domain/files'
 import type { LocalStorage } from '../../storage/local-storage'
+import { hashObject, hashStream } from '../../storage/hash-stream'
 import type { ObjectStore } from '../../storage/object-store'
-import { detectFileKind } from '../files/file-kind'
+import { detectFileKind, fileKindOfHead, SNIFF_BYTES } from '../files/file-kind'
 
 /**
  * Where a finished upload's bytes are, and how they become a dataset file's original: a rename
@@ -69,8 +68,6 @@ class DiskUploadBytes implements UploadBytes {
   }
 }
 
-/** The first bytes content sniffing looks at (file-kind.ts reads no more). */
-const SNIFF_BYTES = 64 * 1024
 const READ_OPTIONS = { highWaterMark: 4 * 1024 * 1024 }
 const uploadKey = (uploadId: string) => `uploads/${uploadId}`
 
@@ -105,21 +102,11 @@ class BucketUploadBytes implements UploadBytes {
     return this.bucket.delete(this.originalKey(storageKey))
   }
 
-  /** The sniffer reads a path: it gets the object's first bytes in a scratch file. */
+  /** Sniffed from the object's first bytes, in one ranged read (empty files never get here). */
   async kindOf(storageKey: string, name: string) {
-    const key = this.originalKey(storageKey)
-    const info = await this.bucket.head(key)
-    const head =
-      info && info.size > 0
-        ? await readAll((await this.bucket.get(key, { start: 0, end: SNIFF_BYTES - 1 })).stream)
-        : Buffer.alloc(0)
-    const dir = await mkdtemp(join(tmpdir(), 'stipple-sniff-'))
-    try {
-      await writeFile(join(dir, 'head'), head)
-      return await detectFileKind(join(dir, 'head'), name)
-    } finally {
-      await rm(dir, { recursive: true, force: true })
-    }
+    const range = { start: 0, end: SNIFF_BYTES - 1 }
+    const { stream } = await this.bucket.get(this.originalKey(storageKey), range)
+    return fileKindOfHead(await readAll(stream), name)
   }
 
   /** The SHA-256 stored with the object when there is one, else the object read back once. */
@@ -127,7 +114,7 @@ class BucketUploadBytes implements UploadBytes {
     const key = this.originalKey(storageKey)
     const info = await this.bucket.head(key)
     if (info?.sha256) return { sha256: info.sha256, size: info.size }
-    return hashStream((await this.bucket.get(key)).stream)
+    return hashObject(this.bucket, key)
   }
 }
 
@@ -135,15 +122,4 @@ async function readAll(stream: Readable): Promise<Buffer> {
   const chunks: Buffer[] = []
   for await (const chunk of stream as AsyncIterable<Buffer>) chunks.push(chunk)
   return Buffer.concat(chunks)
-}
-
-/** SHA-256 and length of everything a stream gives. */
-export async function hashStream(stream: Readable): Promise<{ sha256: string; size: number }> {
-  const hash = createHash('sha256')
-  let size = 0
-  for await (const chunk of stream as AsyncIterable<Buffer>) {
-    hash.update(chunk)
-    size += chunk.length
-  }
-  return { sha256: hash.digest('hex'), size }
 }
