@@ -17,6 +17,8 @@ import {
  */
 /** Large reads for hashing a file just written (from the page cache). */
 const READ_OPTIONS = { highWaterMark: 4 * 1024 * 1024 }
+/** Deletes in flight at once while removing a folder's objects (S3 deletes one key a request here). */
+const DELETES_IN_FLIGHT = 16
 
 interface CopyRecord {
   size: number
@@ -103,15 +105,17 @@ export class BucketMirror {
   }
 
   /**
-   * Removes a folder's worth of keys (`derived/7`): every object below it in the bucket (listed,
-   * then deleted one by one: a file's derived folder holds a handful), this node's files and the
-   * records of its copies. Other nodes' copies are found stale when they next ask for them.
+   * Removes a folder's worth of keys (`derived/7`, `files/12`): every object below it in the bucket
+   * (listed, then deleted a few at a time: a dataset's originals may be hundreds), this node's
+   * files and the records of its copies. Other nodes' copies are found stale when they next ask.
    */
   async removeFolder(folderKey: string): Promise<void> {
     if (this.bucket) {
+      const bucket = this.bucket
       const keys: string[] = []
-      for await (const object of this.bucket.list(`${folderKey}/`)) keys.push(object.key)
-      for (const key of keys) await this.bucket.delete(key)
+      for await (const object of bucket.list(`${folderKey}/`)) keys.push(object.key)
+      for (let i = 0; i < keys.length; i += DELETES_IN_FLIGHT)
+        await Promise.all(keys.slice(i, i + DELETES_IN_FLIGHT).map((key) => bucket.delete(key)))
       await rm(join(this.dataDir, '.mirror', ...folderKey.split('/')), {
         recursive: true,
         force: true,
