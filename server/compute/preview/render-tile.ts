@@ -22,6 +22,7 @@ import {
   overviewOf,
   type Overview,
 } from './overview'
+import type { Localizations } from '../localizations.types'
 import { localizationsInBox, rowsMeetingBox } from './store-rows'
 
 const TILE_PNG_COMPRESSION = 1
@@ -74,26 +75,20 @@ export async function renderTile(task: TileTask): Promise<DrawnTile> {
   // Fast deflate: a tile twice the bytes for a third of the encoding time, which on a busy
   // server decides how many tiles a second it can draw.
   if (coloursDensity(options)) {
-    const summed = await fromOverview(task, box)
-    if (summed) {
-      const { indices, palette, width, height } = summed.image
-      const png = encodeIndexedPng(indices, palette, width, height, TILE_PNG_COMPRESSION)
-      return { png, localizations: summed.rows }
-    }
-    const locs = await rows()
-    const { indices, palette, width, height } = renderIndexedImage(
-      locs,
-      view,
-      options,
-      scratchFor(view),
-    )
+    const drawn = (await fromOverview(task, box)) ?? fromRows(await rows(), task)
+    const { indices, palette, width, height } = drawn.image
     const png = encodeIndexedPng(indices, palette, width, height, TILE_PNG_COMPRESSION)
-    return { png, localizations: locs.count }
+    return { png, localizations: drawn.rows }
   }
   const locs = await rows()
   const image = renderImage(locs, view, options, scratchFor(view))
   const png = encodePng(image.rgb, image.width, image.height, TILE_PNG_COMPRESSION)
   return { png, localizations: locs.count }
+}
+
+/** The density tile binned from its rows. */
+function fromRows(locs: Localizations, { view, options }: TileTask) {
+  return { image: renderIndexedImage(locs, view, options, scratchFor(view)), rows: locs.count }
 }
 
 /** One tile as a PNG (see renderTile). */
