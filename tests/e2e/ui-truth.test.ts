@@ -64,7 +64,11 @@ beforeAll(async () => {
 afterAll(() => session?.close())
 
 async function become(role: string | null) {
+  // Leave the app first: sessions are rolling, so an answer still on its way to the last page
+  // (the audit log's, say) would set the previous person's cookie again after the clearing.
+  await page.goto('about:blank')
   await session.browser.clearCookies()
+  expect(await session.browser.cookies(), 'cookies left after clearing').toEqual([])
   if (role) await signInAs(session, account(role))
   else await page.goto(stipple.url)
 }
