@@ -333,9 +333,7 @@ describe('depositor', () => {
     await expect.poll(() => form.field('NCBI Taxonomy id').inputValue()).toBe('10090')
 
     await form.openSection('Labelling')
-    if (!(await page.getByLabel('Label (fluorophore)').count())) {
-      await page.getByRole('button', { name: /Add label/i }).click()
-    }
+    if (!(await page.getByLabel('Label (fluorophore)').count())) await form.addEntry('labelling')
     const label = page.getByLabel('Label (fluorophore)').first()
     await label.fill('mEos')
     await page.getByRole('option', { name: 'mEos3.2' }).waitFor()
