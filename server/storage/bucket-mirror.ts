@@ -10,16 +10,16 @@ import {
   type PutOptions,
 } from './object-store'
 
-/**
- * What a node's copy was made from. S3 keeps write times to the second: an object replaced
- * within the same second by one of the same size is told apart by its SHA-256, when it was
- * stored with one (publish it with `sha256` where that matters).
- */
 /** Large reads for hashing a file just written (from the page cache). */
 const READ_OPTIONS = { highWaterMark: 4 * 1024 * 1024 }
 /** Deletes in flight at once while removing a folder's objects (S3 deletes one key a request here). */
 const DELETES_IN_FLIGHT = 16
 
+/**
+ * What a node's copy was made from. S3 keeps write times to the second: an object replaced
+ * within the same second by one of the same size is told apart by its SHA-256, when it was
+ * stored with one (publish it with `sha256` where that matters).
+ */
 interface CopyRecord {
   size: number
   lastModified: string
