@@ -22,7 +22,7 @@ export function previewRouter(previews: PreviewService): Router {
   }
 
   router.get('/files/:fileId/preview', async (req, res) => {
-    res.json(await previews.info(await tableOf(req)))
+    res.json(await previews.viewerInfo(await tableOf(req)))
   })
 
   router.get('/files/:fileId/tiles/:z/:x/:y.png', async (req, res) => {

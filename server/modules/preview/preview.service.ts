@@ -63,8 +63,17 @@ export class PreviewService {
     readonly stores = new LocalizationStores(storage),
   ) {}
 
-  /** Asking for the description starts the overview of a large table: its first tiles follow. */
+  /** The table's description (its bounds, levels and tile size). */
   async info(file: PreviewTable): Promise<PreviewInfo> {
+    return (await this.described(file)).info
+  }
+
+  /**
+   * The description as the viewer asks for it, just before its first tiles: for a large table it
+   * also starts the overview those coarse tiles are summed from. (Regions, measurements and the
+   * report ask `info` for the bounds only and start nothing.)
+   */
+  async viewerInfo(file: PreviewTable): Promise<PreviewInfo> {
     const { arrowPath, mtimeMs, info } = await this.described(file)
     void this.overviewOf(file.id, arrowPath, mtimeMs, info)
     return info
