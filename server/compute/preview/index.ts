@@ -1,12 +1,5 @@
 /** Tiles of the zoomable preview, rendered from a localization store. */
-export {
-  renderTile,
-  renderTilePng,
-  referenceScale,
-  type DrawnTile,
-  type ScaleTask,
-  type TileTask,
-} from './render-tile'
+export { renderTile, referenceScale, type ScaleTask, type TileTask } from './render-tile'
 export { localizationsInBox } from './store-rows'
 export {
   blockSide,

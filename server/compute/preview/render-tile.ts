@@ -91,11 +91,6 @@ function fromRows(locs: Localizations, { view, options }: TileTask) {
   return { image: renderIndexedImage(locs, view, options, scratchFor(view)), rows: locs.count }
 }
 
-/** One tile as a PNG (see renderTile). */
-export async function renderTilePng(task: TileTask): Promise<Uint8Array> {
-  return (await renderTile(task)).png
-}
-
 /** The tile from the overview, when it is a coarse plain-density view over many rows. */
 async function fromOverview(task: TileTask, box: BoundsNm) {
   const { pyramid, view, options } = task

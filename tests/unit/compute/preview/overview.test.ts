@@ -2,12 +2,15 @@
 import { join } from 'node:path'
 import sharp from 'sharp'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { renderTilePng, sharedOverview, type TileTask } from '@server/compute/preview'
+import { renderTile, sharedOverview, type TileTask } from '@server/compute/preview'
 import { pyramidFor, tileView, type TilePyramid } from '@server/compute/render'
 import { readTileIndex } from '@server/compute/store'
 import { TilePool } from '@server/modules/preview/tile-pool'
 import { simulatedStore } from '../../../fixtures/simulated-store'
 import { tempDir } from '../../ingest/ingest-fixtures'
+
+/** A tile's PNG bytes. */
+const tilePng = async (task: TileTask) => (await renderTile(task)).png
 
 const tmp = tempDir()
 let store = ''
@@ -21,7 +24,7 @@ beforeAll(async () => {
 afterAll(() => tmp.remove())
 
 async function pixels(task: TileTask) {
-  return sharp(await renderTilePng(task))
+  return sharp(await tilePng(task))
     .raw()
     .toBuffer()
 }
@@ -61,12 +64,10 @@ describe('coarse tiles from the overview', () => {
       overviewFromRows: Infinity,
     })
     const deep = pyramid.levels - 1
-    const first = await renderTilePng(task(deep, 3, 4))
-    await renderTilePng(task(2, 1, 1)) // a busy tile in between
-    await renderTilePng(task(deep, 0, 0))
-    expect(
-      Buffer.compare(Buffer.from(await renderTilePng(task(deep, 3, 4))), Buffer.from(first)),
-    ).toBe(0)
+    const first = await tilePng(task(deep, 3, 4))
+    await tilePng(task(2, 1, 1)) // a busy tile in between
+    await tilePng(task(deep, 0, 0))
+    expect(Buffer.compare(Buffer.from(await tilePng(task(deep, 3, 4))), Buffer.from(first))).toBe(0)
   })
 
   it('is not used where it cannot stand in: filters, Gaussian rendering, the overview level itself', async () => {

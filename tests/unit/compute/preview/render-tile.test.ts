@@ -8,7 +8,7 @@
 import sharp from 'sharp'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Localizations } from '@server/compute/localizations.types'
-import { renderTilePng } from '@server/compute/preview'
+import { renderTile, type TileTask } from '@server/compute/preview'
 import {
   columnsDrawn,
   pyramidFor,
@@ -20,6 +20,9 @@ import {
 import { readLocalizations, readTileIndex } from '@server/compute/store'
 import { simulatedStore } from '../../../fixtures/simulated-store'
 import { tempDir } from '../../ingest/ingest-fixtures'
+
+/** A tile's PNG bytes. */
+const tilePng = async (task: TileTask) => (await renderTile(task)).png
 
 const tmp = tempDir()
 let store = ''
@@ -73,7 +76,7 @@ describe('a tile drawn from the spatial index', () => {
       const view = tileView(pyramid, z, Math.floor(columns / 2), Math.floor(rows / 2))!
       // Gaussian kernels reach 3 σ of at most 32 px: rows that far outside still draw into the view.
       const marginNm = options.method === 'gaussian' ? 96 * view.pixelNm : 0
-      const png = await renderTilePng({ arrowPath: store, view, options, marginNm, pyramid })
+      const png = await tilePng({ arrowPath: store, view, options, marginNm, pyramid })
       const tile = await sharp(png).raw().toBuffer()
       const whole = renderImage(table, view, options)
       expect(whole.rgb.some((v, i) => v !== whole.rgb[i % 3])).toBe(true) // something is drawn
