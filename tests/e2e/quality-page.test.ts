@@ -7,6 +7,7 @@ import type { Page } from 'playwright-core'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { RunningStipple } from '@server/start'
 import { startE2eSession, type E2eSession } from './e2e-session'
+import { pickOption } from './pages/select-option'
 
 let session: E2eSession
 let stipple: RunningStipple
@@ -89,11 +90,8 @@ describe('the quality page of a public dataset', () => {
     expect(tiles.every((url) => !url.includes('colormap=grayscale'))).toBe(true)
 
     // As a person does: open the select by its field, then pick the option.
-    await page
-      .locator('.v-select', { has: page.getByLabel('Colormap') })
-      .locator('.v-field')
-      .click()
-    await page.getByRole('option', { name: 'Grayscale', exact: true }).click()
+    const colormap = page.locator('.v-select', { has: page.getByLabel('Colormap') })
+    await pickOption(page, colormap, 'Grayscale')
     await expect
       .poll(() => tiles.some((url) => url.includes('colormap=grayscale')), {
         timeout: 90_000,
@@ -103,9 +101,7 @@ describe('the quality page of a public dataset', () => {
       .catch(async (error: Error) => {
         // What the browser asked for and what became of it, to tell a request never made from
         // one the server never answered.
-        const shown = await page
-          .locator('.v-select', { has: page.getByLabel('Colormap') })
-          .innerText()
+        const shown = await colormap.innerText()
         throw new Error(`${error.message}\nColormap field: ${shown}\n${traffic.summary()}`)
       })
     expect(consoleErrors).toEqual([])

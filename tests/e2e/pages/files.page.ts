@@ -1,4 +1,5 @@
 import type { Page } from 'playwright-core'
+import { pickOption } from './select-option'
 
 /** The Files tab of a dataset page: uploads, the file list, and the report and mapping dialogs. */
 export class FilesPage {
@@ -51,16 +52,13 @@ export class FilesPage {
   /**
    * Picks a column's role in the mapping dialog. The menu draws only the options in view and
    * opens at the current role, so Home moves it to the first option, then it scrolls down until
-   * the wanted one shows. On a busy machine the menu may still be moving when the click comes, so
-   * the pick is checked on the field and tried again.
+   * the wanted one shows; pickOption checks the pick took.
    */
   async mapColumn(column: string, role: string) {
     const select = this.page.locator('.v-select', {
       has: this.page.getByLabel(`Role of ${column}`, { exact: true }),
     })
-    const option = this.page.getByRole('option', { name: role, exact: true })
-    for (let attempt = 0; attempt < 3; attempt++) {
-      await select.locator('.v-field').click()
+    await pickOption(this.page, select, role, async (option) => {
       await this.page.keyboard.press('Home')
       for (let i = 0; i < 10; i++) {
         if (
@@ -69,16 +67,11 @@ export class FilesPage {
             () => false,
           )
         )
-          break
+          return
         await this.page.locator('.v-list--navigable').hover()
         await this.page.mouse.wheel(0, 150)
       }
-      await option.click({ timeout: 5000 }).catch(() => undefined)
-      const shown = await select.locator('.v-select__selection-text').first().textContent()
-      if (shown?.trim() === role) return
-      await this.page.keyboard.press('Escape')
-    }
-    throw new Error(`Column ${column} could not be mapped to ${role}`)
+    })
   }
 
   async saveMapping() {

@@ -1,4 +1,5 @@
 import type { Page } from 'playwright-core'
+import { pickOption } from './select-option'
 
 /** The describe page of a dataset: the generated metadata form and its side panel. */
 export class MetadataFormPage {
@@ -45,11 +46,8 @@ export class MetadataFormPage {
   }
 
   async choose(label: string, option: string) {
-    await this.page
-      .locator('.v-select', { has: this.page.getByLabel(label) })
-      .locator('.v-field')
-      .click()
-    await this.page.getByRole('option', { name: option, exact: true }).click()
+    const select = this.page.locator('.v-select', { has: this.page.getByLabel(label) })
+    await pickOption(this.page, select, option)
   }
 
   /** The completeness in percent, as the meter shows it. */
