@@ -33,6 +33,22 @@ export interface ChartInk {
 }
 
 const fmt = new Intl.NumberFormat(undefined, { maximumFractionDigits: 3 })
+/** A median read off a plot: four figures say as much as its bins can (1 502, 130, 3.83). */
+const figures = new Intl.NumberFormat(undefined, { maximumSignificantDigits: 4 })
+
+/**
+ * An axis that ends where the data end: the end values (often ragged, 7.7498, 499.5) are not
+ * labelled, since the renderer prints them beside the round ticks and the two collide.
+ */
+const dataBounds = (min: number | 'dataMin', max: number | 'dataMax') => ({
+  min,
+  max,
+  axisLabel: {
+    formatter: (value: number) => fmt.format(value),
+    showMinLabel: false,
+    showMaxLabel: false,
+  },
+})
 
 const valueAxis = (name: string, extra: Record<string, unknown> = {}) => ({
   type: 'value' as const,
@@ -72,16 +88,12 @@ export function histogramOption(
   axisTitle: string,
   unit = '',
 ): ChartOption {
-  const median = `median ${fmt.format(d.median)}${unit ? ` ${unit}` : ''}`
+  const median = `median ${figures.format(d.median)}${unit ? ` ${unit}` : ''}`
   return {
     grid,
     tooltip: { trigger: 'axis' },
-    // The axis ends at the last bin edge, whatever its digits: labels are rounded like the rest.
-    xAxis: valueAxis(axisTitle, {
-      min: d.edges[0],
-      max: d.edges[d.edges.length - 1],
-      axisLabel: { formatter: (value: number) => fmt.format(value) },
-    }),
+    // The axis runs from the first bin edge to the last, whatever their digits.
+    xAxis: valueAxis(axisTitle, dataBounds(d.edges[0] ?? 0, d.edges[d.edges.length - 1] ?? 0)),
     yAxis: yAxis('localizations'),
     series: [
       line('localizations', stepPoints(d.edges, d.counts), {
@@ -152,7 +164,7 @@ export function perFrameOption(p: PerFrameValue): ChartOption {
   return {
     grid,
     tooltip: { trigger: 'axis' },
-    xAxis: valueAxis('frame', { min: 'dataMin', max: 'dataMax' }),
+    xAxis: valueAxis('frame', dataBounds('dataMin', 'dataMax')),
     yAxis: yAxis('localizations per frame'),
     series: [line('localizations per frame', zip(p.startFrame, p.meanPerFrame))],
   }
@@ -163,7 +175,7 @@ export function driftOption(t: DriftTrace): ChartOption {
     grid: { ...grid, top: 48 },
     legend: { top: 4 },
     tooltip: { trigger: 'axis' },
-    xAxis: valueAxis('frame', { min: 'dataMin', max: 'dataMax' }),
+    xAxis: valueAxis('frame', dataBounds('dataMin', 'dataMax')),
     yAxis: yAxis('drift (nm)'),
     series: [
       line('x', zip(t.frame, t.x), { symbol: 'circle', symbolSize: 4 }),

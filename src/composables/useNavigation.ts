@@ -3,12 +3,14 @@ import type { RouteLocationRaw } from 'vue-router'
 import {
   mdiAccountMultipleOutline,
   mdiAccountCircleOutline,
+  mdiBookOpenPageVariantOutline,
   mdiDatabaseOutline,
   mdiEmailOutline,
   mdiFolderMultipleOutline,
   mdiHistory,
   mdiHomeOutline,
   mdiMagnify,
+  mdiTextSearch,
 } from '@mdi/js'
 import { useSessionStore } from '@/stores/session.store'
 
@@ -33,6 +35,13 @@ export function useNavigation() {
       items.push(
         { title: 'Projects', to: { name: 'projects' }, icon: mdiFolderMultipleOutline },
         { title: 'Profile', to: { name: 'profile' }, icon: mdiAccountCircleOutline },
+      )
+    }
+    // An editor's own pages, reachable from anywhere, not only from the home page's cards.
+    if (session.user?.siteRole === 'editor') {
+      items.push(
+        { title: 'Manuscripts', to: { name: 'manuscripts' }, icon: mdiBookOpenPageVariantOutline },
+        { title: 'Check a statement', to: { name: 'link-check' }, icon: mdiTextSearch },
       )
     }
     if (session.demo && can('read', 'Mail')) {

@@ -1,5 +1,11 @@
 import { describe, expect, it } from 'vitest'
-import { frcOption, frequencyLabel, stepPoints, type ChartInk } from '@shared/domain/quality-charts'
+import {
+  frcOption,
+  frequencyLabel,
+  histogramOption,
+  stepPoints,
+  type ChartInk,
+} from '@shared/domain/quality-charts'
 import { qualityPlots } from '@shared/domain/quality-plots'
 import { frcValue } from '@shared/domain/quality-values'
 import { colourByChoices, channelChoices } from '@/utils/previewOptions'
@@ -18,6 +24,29 @@ describe('the quality plots', () => {
       [15, 1],
     ])
     expect(stepPoints([0], [])).toEqual([])
+  })
+
+  // The demo's photon histogram ran from 414.841 to 5 219.6 and its edge labels were drawn over the
+  // round ticks beside them ("145147.902" on the PSF plot); the median read "1,501.962".
+  it('labels a histogram with round ticks only, and its median to four figures', () => {
+    const option = histogramOption(
+      ink,
+      {
+        edges: [414.841, 1000, 2000, 5219.6],
+        counts: [3, 9, 2],
+        median: 1501.962,
+        lowerQuartile: 1068.7,
+        upperQuartile: 2102.1,
+        mean: 1640.2,
+      },
+      'photons',
+    )
+    const xAxis = option.xAxis as { min: number; max: number; axisLabel: Record<string, unknown> }
+    expect([xAxis.min, xAxis.max]).toEqual([414.841, 5219.6])
+    expect(xAxis.axisLabel).toMatchObject({ showMinLabel: false, showMaxLabel: false })
+    const series = Array.isArray(option.series) ? option.series : []
+    const mark = series[0]?.markLine?.data?.[0] as { label: { formatter: string } }
+    expect(mark.label.formatter).toBe('median 1,502')
   })
 
   // DOMAIN.md §1.4 [S]: L = 1024, 5 nm pixels, ring 160 → q = 160/5120 = 0.03125 /nm, i.e. 32 nm.
