@@ -34,6 +34,8 @@ export const auditEventSchema = z
     targetId: z.string(),
     /** What was acted on, as people name it: an accession, a person, a token's name. */
     targetLabel: z.string(),
+    /** The accession of the dataset the target is or belongs to (a version), else null. */
+    targetDataset: z.string().nullable(),
     time: z.string(),
     address: z.string().nullable(),
     details: z.record(z.string(), z.unknown()).nullable(),

@@ -11,6 +11,7 @@ import { audit, EDIT_SESSION_WINDOW_MS } from '@server/modules/audit/audit.servi
 import { saveMetadata } from '@server/modules/metadata/metadata.service'
 import type { IUser } from '@server/modules/users/user.entity'
 import { AUDIT_ACTIONS, AUDIT_ACTION_LABELS } from '@shared/domain/audit-actions'
+import type { AuditEventDto } from '@shared/schemas/audit.schema'
 import { metadataSchema } from '@shared/metadata/metadata.schema'
 import {
   bearer,
@@ -21,6 +22,7 @@ import {
   tokenFor,
 } from '../fixtures/builders'
 import { completeMetadata } from '../fixtures/metadata'
+import { buildJournal, buildManuscript } from '../fixtures/review-builders'
 import { createTestApp, type TestApp } from '../fixtures/test-app'
 
 let t: TestApp
@@ -232,6 +234,52 @@ describe('stewards read and filter the log', () => {
     // A name that a spreadsheet would run as a formula is written as text.
     expect(rows[2]!.actor).toBe("'=2+3")
     expect(rows.every((r) => Object.values(r).every((v) => !/^[=+\-@]/.test(v)))).toBe(true)
+  })
+})
+
+describe('what an event was about, in words', () => {
+  // A steward read "DatasetVersion STPL-000013.v1" and "Project 3" in the demo's log: type names
+  // of the code and bare numbers. Each target now reads as people name it.
+  it('names versions, projects, manuscripts and profiles, and links a version to its dataset', async () => {
+    const em = t.em()
+    const project = await buildProject(em, [], 'Pore census')
+    const manuscript = await buildManuscript(em, (await buildJournal(em)).id, [])
+    const at = new Date('2025-02-02T00:00:00Z')
+    const events = [
+      { action: 'doi.register', targetType: 'DatasetVersion', targetId: `${accession}.v2` },
+      { action: 'project.create', targetType: 'Project', targetId: String(project.id) },
+      { action: 'project.member', targetType: 'Project', targetId: '987654' },
+      { action: 'instrument.create', targetType: 'InstrumentProfile', targetId: 'TIRF rig B' },
+      { action: 'manuscript.create', targetType: 'Manuscript', targetId: String(manuscript.id) },
+    ] as const
+    for (const e of events) audit(em, { user: steward }, { ...e, at })
+    await em.flush()
+
+    const res = await log({ from: '2025-02-02', to: '2025-02-02' })
+    expect(res.status).toBe(200)
+    const items = res.body.items as AuditEventDto[]
+    const seen = items.map((e) => ({
+      targetId: e.targetId,
+      label: e.targetLabel,
+      dataset: e.targetDataset,
+    }))
+    expect(seen).toEqual(
+      expect.arrayContaining([
+        { targetId: `${accession}.v2`, label: `${accession}, version 2`, dataset: accession },
+        { targetId: String(project.id), label: 'project “Pore census”', dataset: null },
+        { targetId: '987654', label: 'a removed project', dataset: null },
+        { targetId: 'TIRF rig B', label: 'instrument profile “TIRF rig B”', dataset: null },
+        {
+          targetId: String(manuscript.id),
+          label: `manuscript ${manuscript.reference}`,
+          dataset: null,
+        },
+      ]),
+    )
+    expect(seen).toHaveLength(events.length)
+    // No label is a type name of the code.
+    for (const { label } of seen)
+      expect(label).not.toMatch(/DatasetVersion|Project \d|InstrumentProfile/)
   })
 })
 

@@ -1,6 +1,8 @@
 import type { EntityManager, FilterQuery } from '@mikro-orm/better-sqlite'
 import { auditActionLabel, describeAuditDetails } from '@shared/domain/audit-actions'
 import type { AuditEventDto, AuditFilter } from '@shared/schemas/audit.schema'
+import { Manuscript } from '../manuscripts/manuscript.entity'
+import { Project } from '../projects/project.entity'
 import { ApiToken } from '../tokens/api-token.entity'
 import { User } from '../users/user.entity'
 import { userIdsContaining } from '../users/user-text-search'
@@ -38,32 +40,70 @@ async function whereOf(
   return and.length ? { $and: and } : {}
 }
 
+/** A frozen version's label (`STPL-000013.v1`) as its accession and number. */
+const VERSION_LABEL = /^(.+)\.v(\d+)$/
+
+/** The accession of the dataset an event's target belongs to (a dataset or one of its versions). */
+function datasetOf(r: IAuditEvent): string | null {
+  if (r.targetType === 'Dataset') return r.targetId
+  if (r.targetType === 'DatasetVersion') return VERSION_LABEL.exec(r.targetId)?.[1] ?? null
+  return null
+}
+
+/** Ids of one target type that name rows (numbers), to be looked up together. */
+const idsOf = (rows: IAuditEvent[], type: string) =>
+  rows
+    .filter((r) => r.targetType === type && /^\d+$/.test(r.targetId))
+    .map((r) => Number(r.targetId))
+
 /**
- * Rows into what people read: who acted by name, what was acted on by accession, person or token
- * name, the action and its details in words. Names are looked up once per page.
+ * Rows into what people read: who acted by name, what was acted on by accession, person, token,
+ * project or manuscript name, the action and its details in words, never a type name of the code.
+ * Names are looked up once per page.
  */
 async function toDtos(em: EntityManager, rows: IAuditEvent[]): Promise<AuditEventDto[]> {
-  const userIds = new Set<number>()
-  const tokenIds = new Set<number>()
+  const userIds = new Set<number>(idsOf(rows, 'User'))
   for (const r of rows) {
     if (r.actor != null) userIds.add(r.actor)
-    if (r.targetType === 'User' && /^\d+$/.test(r.targetId)) userIds.add(Number(r.targetId))
-    if (r.targetType === 'ApiToken' && /^\d+$/.test(r.targetId)) tokenIds.add(Number(r.targetId))
     const detailUser = r.details?.user
     if (typeof detailUser === 'number') userIds.add(detailUser)
   }
-  const [users, tokens] = await Promise.all([
-    userIds.size ? em.find(User, { id: { $in: [...userIds] } }) : [],
-    tokenIds.size ? em.find(ApiToken, { id: { $in: [...tokenIds] } }) : [],
+  const some = <T>(ids: number[] | Set<number>, find: (ids: number[]) => Promise<T[]>) =>
+    [...ids].length ? find([...ids]) : Promise.resolve([] as T[])
+  const [users, tokens, projects, manuscripts] = await Promise.all([
+    some(userIds, (ids) => em.find(User, { id: { $in: ids } })),
+    some(idsOf(rows, 'ApiToken'), (ids) => em.find(ApiToken, { id: { $in: ids } })),
+    some(idsOf(rows, 'Project'), (ids) => em.find(Project, { id: { $in: ids } })),
+    some(idsOf(rows, 'Manuscript'), (ids) => em.find(Manuscript, { id: { $in: ids } })),
   ])
   const person = new Map(users.map((u) => [u.id, u.name || u.email]))
   const token = new Map(tokens.map((t) => [t.id, t.name]))
+  const project = new Map(projects.map((p) => [p.id, p.name]))
+  const manuscript = new Map(manuscripts.map((m) => [m.id, m.reference]))
   const targetLabel = (r: IAuditEvent) => {
     const id = Number(r.targetId)
-    if (r.targetType === 'User') return person.get(id) ?? `a removed person`
-    if (r.targetType === 'ApiToken') return `token “${token.get(id) ?? r.targetId}”`
-    if (r.targetType === 'Dataset') return r.targetId
-    return `${r.targetType} ${r.targetId}`
+    switch (r.targetType) {
+      case 'User':
+        return person.get(id) ?? 'a removed person'
+      case 'ApiToken':
+        return `token “${token.get(id) ?? r.targetId}”`
+      case 'Dataset':
+        return r.targetId
+      case 'DatasetVersion': {
+        const version = VERSION_LABEL.exec(r.targetId)
+        return version ? `${version[1]}, version ${version[2]}` : r.targetId
+      }
+      case 'Project':
+        return project.has(id) ? `project “${project.get(id)}”` : 'a removed project'
+      case 'Manuscript':
+        return manuscript.has(id) ? `manuscript ${manuscript.get(id)}` : 'a removed manuscript'
+      case 'InstrumentProfile':
+        return `instrument profile “${r.targetId}”`
+      case 'LinkCheck':
+        return 'a data availability statement'
+      default:
+        return r.targetId
+    }
   }
   return rows.map((r) => ({
     id: r.id,
@@ -74,6 +114,7 @@ async function toDtos(em: EntityManager, rows: IAuditEvent[]): Promise<AuditEven
     targetType: r.targetType,
     targetId: r.targetId,
     targetLabel: targetLabel(r),
+    targetDataset: datasetOf(r),
     time: r.time.toISOString(),
     address: r.address ?? null,
     details: r.details ?? null,
