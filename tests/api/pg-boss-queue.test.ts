@@ -19,7 +19,7 @@ import { computeQualityJob } from '@server/modules/quality/quality-job-kind'
 import { buildSharedDraft } from '../fixtures/builders'
 import { settledFile, startJobRunner } from '../fixtures/job-runner'
 import { listen } from '../fixtures/live-server'
-import { jobRow, queueStates } from '../fixtures/pg-boss-jobs'
+import { endedQueueStates, jobRow, queueStates } from '../fixtures/pg-boss-jobs'
 import { startPostgres, type PostgresServer } from '../fixtures/postgres'
 import { createTestApp, type TestApp } from '../fixtures/test-app'
 import { tusUpload } from '../fixtures/tus-upload'
@@ -74,7 +74,7 @@ describe('a real kind on the PostgreSQL profile', () => {
     await until(async () => (await jobRow(t.orm, jobs[2]!.id)).state === 'done')
     for (const job of jobs) {
       expect(await jobRow(t.orm, job.id)).toMatchObject({ state: 'done', attempts: 1 })
-      expect(await queueStates(t.orm, job.id)).toEqual(['completed'])
+      expect(await endedQueueStates(t.orm, job.id)).toEqual(['completed'])
     }
   }, 60_000)
 

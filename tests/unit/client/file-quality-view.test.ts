@@ -40,6 +40,12 @@ vi.mock('@/components/quality/PreviewMap.vue', async () => {
     }),
   }
 })
+// The regions panel talks to its own routes and an event stream (the regions browser test covers
+// it); here it would only try a server that is not there.
+vi.mock('@/components/regions/RegionsPanel.vue', async () => {
+  const { defineComponent, h } = await import('vue')
+  return { default: defineComponent(() => () => h('aside', { 'data-testid': 'regions-panel' })) }
+})
 vi.mock('@/components/quality/QualityChart.vue', async () => {
   const { defineComponent, h } = await import('vue')
   return {
