@@ -81,7 +81,10 @@ describe('every page draws from the API', () => {
     ],
     ['/admin/mail', ['Caught mail', 'Submitted for curation']],
     ['/admin/audit', ['Audit log', 'Nothing has been recorded yet.', 'Export CSV']],
-    ['/admin/users', ['Users', 'Former Colleague', 'Deactivated', 'Reactivate']],
+    [
+      '/admin/users',
+      ['Users', 'Former Colleague', 'former@lab.example', 'Deactivated', 'Reactivate'],
+    ],
     ['/no/such/page', ['Page not found']],
   ]
   it.each(pages)('%s shows its content without Vue warnings', async (path, texts) => {
