@@ -5,7 +5,7 @@ import { pageQuerySchema } from './common.schema'
 export const auditFilterSchema = z.object({
   targetType: z.string().max(40).optional(),
   targetId: z.string().max(60).optional(),
-  /** A dataset's accession: its events, whatever their kind. */
+  /** A dataset's accession: its events, whatever their kind, and those of its frozen versions. */
   accession: z.string().trim().max(40).optional(),
   /** Part of the acting person's name or e-mail, or "system" for the scheduler and the CLI. */
   actor: z.string().trim().max(120).optional(),

@@ -7,12 +7,14 @@ import { parse } from 'csv-parse/sync'
 import request from 'supertest'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { AuditEvent } from '@server/modules/audit/audit-event.entity'
+import { Dataset } from '@server/modules/datasets/dataset.entity'
+import { DatasetVersion } from '@server/modules/versions/dataset-version.entity'
 import { audit, EDIT_SESSION_WINDOW_MS } from '@server/modules/audit/audit.service'
 import { saveMetadata } from '@server/modules/metadata/metadata.service'
 import type { IUser } from '@server/modules/users/user.entity'
 import { AUDIT_ACTIONS, AUDIT_ACTION_LABELS } from '@shared/domain/audit-actions'
 import type { AuditEventDto } from '@shared/schemas/audit.schema'
-import { metadataSchema } from '@shared/metadata/metadata.schema'
+import { metadataSchema, type DatasetMetadata } from '@shared/metadata/metadata.schema'
 import {
   bearer,
   buildDataset,
@@ -244,6 +246,11 @@ describe('what an event was about, in words', () => {
     const em = t.em()
     const project = await buildProject(em, [], 'Pore census')
     const manuscript = await buildManuscript(em, (await buildJournal(em)).id, [])
+    const dataset = await em.findOneOrFail(Dataset, { accession })
+    em.create(DatasetVersion, {
+      ...{ dataset: dataset.id, number: 2, label: `${accession}.v2`, title: dataset.title },
+      ...{ licence: 'CC-BY-4.0', metadata: {} as DatasetMetadata, approvedAt: new Date() },
+    })
     const at = new Date('2025-02-02T00:00:00Z')
     const events = [
       { action: 'doi.register', targetType: 'DatasetVersion', targetId: `${accession}.v2` },
@@ -277,6 +284,11 @@ describe('what an event was about, in words', () => {
       ]),
     )
     expect(seen).toHaveLength(events.length)
+    // The dataset's filter finds its versions' events too (a DOI is registered per version).
+    const ofDataset = ((await log({ accession })).body.items as AuditEventDto[]).map(
+      (e) => e.action,
+    )
+    expect(ofDataset).toContain('doi.register')
     // No label is a type name of the code.
     for (const { label } of seen)
       expect(label).not.toMatch(/DatasetVersion|Project \d|InstrumentProfile/)

@@ -1,9 +1,11 @@
 import type { EntityManager, FilterQuery } from '@mikro-orm/better-sqlite'
 import { auditActionLabel, describeAuditDetails } from '@shared/domain/audit-actions'
 import type { AuditEventDto, AuditFilter } from '@shared/schemas/audit.schema'
+import { Dataset } from '../datasets/dataset.entity'
 import { Manuscript } from '../manuscripts/manuscript.entity'
 import { Project } from '../projects/project.entity'
 import { ApiToken } from '../tokens/api-token.entity'
+import { DatasetVersion } from '../versions/dataset-version.entity'
 import { User } from '../users/user.entity'
 import { userIdsContaining } from '../users/user-text-search'
 import { AuditEvent, type IAuditEvent } from './audit-event.entity'
@@ -17,6 +19,21 @@ function instant(value: string, endOfDay: boolean): Date {
   return new Date(value)
 }
 
+/** A dataset's events and those of its frozen versions (their DOIs are registered per version). */
+async function datasetEvents(
+  em: EntityManager,
+  accession: string,
+): Promise<FilterQuery<IAuditEvent>> {
+  const own = { targetType: 'Dataset', targetId: accession }
+  const dataset = await em.findOne(Dataset, { accession }, { fields: ['id'] })
+  const versions = dataset
+    ? await em.find(DatasetVersion, { dataset: dataset.id }, { fields: ['label'] })
+    : []
+  if (!versions.length) return own
+  const labels = versions.map((v) => v.label)
+  return { $or: [own, { targetType: 'DatasetVersion', targetId: { $in: labels } }] }
+}
+
 /** The steward's filters as one ORM condition; null when they can match nothing. */
 async function whereOf(
   em: EntityManager,
@@ -25,7 +42,7 @@ async function whereOf(
   const and: FilterQuery<IAuditEvent>[] = []
   if (f.targetType) and.push({ targetType: f.targetType })
   if (f.targetId) and.push({ targetId: f.targetId })
-  if (f.accession) and.push({ targetType: 'Dataset', targetId: f.accession.toUpperCase() })
+  if (f.accession) and.push(await datasetEvents(em, f.accession.toUpperCase()))
   if (f.action) and.push({ action: f.action })
   if (f.from) and.push({ time: { $gte: instant(f.from, false) } })
   if (f.to) and.push({ time: { $lt: instant(f.to, true) } })
@@ -68,8 +85,10 @@ async function toDtos(em: EntityManager, rows: IAuditEvent[]): Promise<AuditEven
     const detailUser = r.details?.user
     if (typeof detailUser === 'number') userIds.add(detailUser)
   }
-  const some = <T>(ids: number[] | Set<number>, find: (ids: number[]) => Promise<T[]>) =>
-    [...ids].length ? find([...ids]) : Promise.resolve([] as T[])
+  const some = <T>(ids: Iterable<number>, find: (ids: number[]) => Promise<T[]>) => {
+    const list = [...ids]
+    return list.length ? find(list) : Promise.resolve([] as T[])
+  }
   const [users, tokens, projects, manuscripts] = await Promise.all([
     some(userIds, (ids) => em.find(User, { id: { $in: ids } })),
     some(idsOf(rows, 'ApiToken'), (ids) => em.find(ApiToken, { id: { $in: ids } })),
