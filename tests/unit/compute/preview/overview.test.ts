@@ -2,15 +2,12 @@
 import { join } from 'node:path'
 import sharp from 'sharp'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { renderTile, sharedOverview, type TileTask } from '@server/compute/preview'
+import { sharedOverview, type TileTask } from '@server/compute/preview'
 import { pyramidFor, tileView, type TilePyramid } from '@server/compute/render'
 import { readTileIndex } from '@server/compute/store'
 import { TilePool } from '@server/modules/preview/tile-pool'
-import { simulatedStore } from '../../../fixtures/simulated-store'
+import { simulatedStore, tilePng } from '../../../fixtures/simulated-store'
 import { tempDir } from '../../ingest/ingest-fixtures'
-
-/** A tile's PNG bytes. */
-const tilePng = async (task: TileTask) => (await renderTile(task)).png
 
 const tmp = tempDir()
 let store = ''

@@ -8,7 +8,6 @@
 import sharp from 'sharp'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Localizations } from '@server/compute/localizations.types'
-import { renderTile, type TileTask } from '@server/compute/preview'
 import {
   columnsDrawn,
   pyramidFor,
@@ -18,11 +17,8 @@ import {
   type TilePyramid,
 } from '@server/compute/render'
 import { readLocalizations, readTileIndex } from '@server/compute/store'
-import { simulatedStore } from '../../../fixtures/simulated-store'
+import { simulatedStore, tilePng } from '../../../fixtures/simulated-store'
 import { tempDir } from '../../ingest/ingest-fixtures'
-
-/** A tile's PNG bytes. */
-const tilePng = async (task: TileTask) => (await renderTile(task)).png
 
 const tmp = tempDir()
 let store = ''
