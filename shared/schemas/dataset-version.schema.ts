@@ -63,3 +63,9 @@ export const versionFileParamsSchema = versionParamsSchema.extend({
 })
 
 export const versionLabel = (accession: string, n: number) => `${accession}.v${n}`
+
+/** A label read back (`STPL-000013.v1` → its accession and number); null for anything else. */
+export function parseVersionLabel(label: string): { accession: string; number: number } | null {
+  const parts = /^(.+)\.v(\d+)$/.exec(label)
+  return parts ? { accession: parts[1]!, number: Number(parts[2]) } : null
+}

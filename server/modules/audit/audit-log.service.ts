@@ -1,6 +1,7 @@
 import type { EntityManager, FilterQuery } from '@mikro-orm/better-sqlite'
 import { auditActionLabel, describeAuditDetails } from '@shared/domain/audit-actions'
 import type { AuditEventDto, AuditFilter } from '@shared/schemas/audit.schema'
+import { parseVersionLabel } from '@shared/schemas/dataset-version.schema'
 import { Dataset } from '../datasets/dataset.entity'
 import { Manuscript } from '../manuscripts/manuscript.entity'
 import { Project } from '../projects/project.entity'
@@ -25,6 +26,7 @@ async function datasetEvents(
   accession: string,
 ): Promise<FilterQuery<IAuditEvent>> {
   const own = { targetType: 'Dataset', targetId: accession }
+  // Two short lookups by unique keys: the version's dataset is a bare id to the ORM's types.
   const dataset = await em.findOne(Dataset, { accession }, { fields: ['id'] })
   const versions = dataset
     ? await em.find(DatasetVersion, { dataset: dataset.id }, { fields: ['label'] })
@@ -57,13 +59,10 @@ async function whereOf(
   return and.length ? { $and: and } : {}
 }
 
-/** A frozen version's label (`STPL-000013.v1`) as its accession and number. */
-const VERSION_LABEL = /^(.+)\.v(\d+)$/
-
 /** The accession of the dataset an event's target belongs to (a dataset or one of its versions). */
 function datasetOf(r: IAuditEvent): string | null {
   if (r.targetType === 'Dataset') return r.targetId
-  if (r.targetType === 'DatasetVersion') return VERSION_LABEL.exec(r.targetId)?.[1] ?? null
+  if (r.targetType === 'DatasetVersion') return parseVersionLabel(r.targetId)?.accession ?? null
   return null
 }
 
@@ -109,8 +108,8 @@ async function toDtos(em: EntityManager, rows: IAuditEvent[]): Promise<AuditEven
       case 'Dataset':
         return r.targetId
       case 'DatasetVersion': {
-        const version = VERSION_LABEL.exec(r.targetId)
-        return version ? `${version[1]}, version ${version[2]}` : r.targetId
+        const version = parseVersionLabel(r.targetId)
+        return version ? `${version.accession}, version ${version.number}` : r.targetId
       }
       case 'Project':
         return project.has(id) ? `project “${project.get(id)}”` : 'a removed project'
