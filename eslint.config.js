@@ -12,6 +12,8 @@ export default defineConfigWithVueTs(
       'data/**',
       'node_modules/**',
       'server/migrations/**',
+      // AssemblyScript, checked by its compiler (npm run build:wasm)
+      'server/**/assembly/**',
       'coverage/**',
       'tmp/**',
     ],

@@ -1,13 +1,17 @@
 /**
  * Parses a chunk of complete records (it ends with a line feed) into typed columns, counting
- * rejected rows by reason. The hot path reads plain numbers followed by the delimiter or a line
- * feed straight from the bytes; exponents and long mantissas go to the full decimal scanner, and
- * quotes, padding and words to the field reader and the classifier.
+ * rejected rows by reason. Delimited tables go through the WebAssembly fast path first
+ * (plain-rows.ts), which stores every row made of plain numbers and hands back each row it
+ * declines; those, and whitespace-separated tables, are read here. The hot path here reads plain
+ * numbers followed by the delimiter or a line feed straight from the bytes; exponents and long
+ * mantissas go to the full decimal scanner, and quotes, padding and words to the field reader
+ * and the classifier.
  */
 import * as decimal from './decimal.scanner'
 import { classifyFieldText, type FieldValue } from './field.classifier'
 import { FieldReader } from './field.reader'
 import type { ParsePlan } from './parse-plan'
+import { PlainRows } from './plain-rows'
 import { RejectionRecorder } from './rejection.recorder'
 import type { RejectionTallies } from './rejections'
 import { ACCEPTED, reasonCode, SlotColumns, type StoredArray } from './slot.columns'
@@ -55,6 +59,7 @@ export class ChunkParser {
   private readonly slotOfField: Int32Array
   private readonly required: Uint8Array
   private readonly columns: SlotColumns
+  private readonly plain: PlainRows | null
   private rejections: RejectionRecorder
   private row = 0
   private line = 0
@@ -63,7 +68,10 @@ export class ChunkParser {
   private value = 0
   private verdict = ACCEPTED
 
-  constructor(private readonly plan: ParsePlan) {
+  constructor(
+    private readonly plan: ParsePlan,
+    { fastPath = true }: { fastPath?: boolean } = {},
+  ) {
     this.fields = new FieldReader(plan.delimiter)
     this.delimiter = this.fields.delimiter
     this.fastEnd = this.fields.whitespace ? SPACE : this.delimiter
@@ -72,16 +80,24 @@ export class ChunkParser {
     this.slotOfField = new Int32Array(plan.fieldCount).fill(SKIP)
     plan.slots.forEach((slot, s) => (this.slotOfField[slot.field] = s))
     this.required = Uint8Array.from(plan.slots, (s) => (s.required ? 1 : 0))
-    this.columns = new SlotColumns(plan)
+    this.plain = fastPath ? PlainRows.for(plan) : null
+    this.columns = new SlotColumns(plan, this.plain)
     this.rejections = new RejectionRecorder(plan)
   }
 
   parse(u: Uint8Array): ParsedChunk {
     this.row = this.line = this.blank = 0
     this.rejections = new RejectionRecorder(this.plan)
-    this.columns.reset(Math.ceil(u.length / (this.plan.rowBytesHint * 0.8)) + 16)
-    let p = 0
-    while (p < u.length) p = this.record(u, p)
+    const capacity = Math.ceil(u.length / (this.plan.rowBytesHint * 0.8)) + 16
+    if (this.plain) {
+      this.plain.load(u)
+      this.columns.reset(capacity)
+      this.mixed(this.plain, u.length)
+    } else {
+      this.columns.reset(capacity)
+      let p = 0
+      while (p < u.length) p = this.record(u, p)
+    }
     const rows = this.row
     const tallies = this.rejections.tallies
     return {
@@ -90,6 +106,19 @@ export class ChunkParser {
       blankLines: this.blank,
       rejections: tallies,
       columns: this.columns.take(rows),
+    }
+  }
+
+  /** Runs of plain rows in WebAssembly; each row it declines, and more room, here. */
+  private mixed(plain: PlainRows, length: number) {
+    let p = 0
+    while (p < length) {
+      p = plain.parse(p, this.row, this.columns.capacity)
+      this.row += plain.rows
+      this.line += plain.rows
+      if (p >= length) break
+      if (this.row === this.columns.capacity) this.columns.grow()
+      else p = this.record(plain.input, p)
     }
   }
 

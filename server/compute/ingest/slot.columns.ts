@@ -1,9 +1,11 @@
 /**
  * Growable typed columns for the rows of one chunk, one per slot of the plan, and the checks a
  * value must pass to be stored. Each storage kind has its own array list so every store site sees
- * one typed-array class (V8 keeps such element accesses fast).
+ * one typed-array class (V8 keeps such element accesses fast). With the WebAssembly fast path
+ * (plain-rows.ts) the arrays are views of its memory, and it is told where each one is.
  */
 import type { ParsePlan, StorageKind } from './parse-plan'
+import { FIELD_KIND, type PlainRows } from './plain-rows'
 import { REJECT_REASONS, type RejectReason } from './rejections'
 
 export type StoredArray =
@@ -27,6 +29,7 @@ const KIND_CODES: Record<StorageKind, number> = {
   uint32: U32,
   uint16: U16,
 }
+const WIDTHS = [4, 8, 4, 2]
 const NEGATIVE_FRAME = reasonCode('negative_frame')
 const NON_INTEGER = reasonCode('non_integer')
 const OUT_OF_RANGE = reasonCode('out_of_range')
@@ -42,9 +45,14 @@ export class SlotColumns {
   private f64: Float64Array<ArrayBuffer>[] = []
   private u32: Uint32Array<ArrayBuffer>[] = []
   private u16: Uint16Array<ArrayBuffer>[] = []
+  /** Byte addresses of the slots' arrays in the fast path's memory. */
+  private addresses: number[] = []
   capacity = 0
 
-  constructor(plan: ParsePlan) {
+  constructor(
+    private readonly plan: ParsePlan,
+    private readonly shared: PlainRows | null = null,
+  ) {
     const slots = plan.slots
     this.count = slots.length
     this.kinds = Uint8Array.from(slots, (s) => KIND_CODES[s.storage])
@@ -56,9 +64,12 @@ export class SlotColumns {
     )
   }
 
-  /** Room for a new chunk's rows; the arrays are reused when they are large enough. */
+  /**
+   * Room for a new chunk's rows; the arrays are reused when they are large enough. (In the fast
+   * path's memory they are laid out anew: loading the chunk freed them.)
+   */
   reset(capacity: number) {
-    if (capacity <= this.capacity) return
+    if (capacity <= this.capacity && !this.shared) return
     this.capacity = 0
     this.resize(capacity)
   }
@@ -100,6 +111,7 @@ export class SlotColumns {
   }
 
   private resize(capacity: number) {
+    if (this.shared) return this.resizeShared(this.shared, capacity)
     const used = this.capacity
     const mine = (kind: number) => Array.from(this.kinds, (k) => (k === kind ? capacity : 0))
     this.f32 = mine(F32).map((n, s) => resized(Float32Array, this.f32[s], used, n))
@@ -107,6 +119,34 @@ export class SlotColumns {
     this.u32 = mine(U32).map((n, s) => resized(Uint32Array, this.u32[s], used, n))
     this.u16 = mine(U16).map((n, s) => resized(Uint16Array, this.u16[s], used, n))
     this.capacity = capacity
+  }
+
+  /** New arrays in the shared memory, the rows so far copied over, and the fast path told. */
+  private resizeShared(shared: PlainRows, capacity: number) {
+    const used = this.capacity
+    const widths = Array.from(this.kinds, (kind) => WIDTHS[kind]!)
+    const addresses = widths.map((width) => shared.alloc(capacity * width))
+    if (used > 0) widths.forEach((w, s) => shared.copy(addresses[s]!, this.addresses[s]!, used * w))
+    this.addresses = addresses
+    this.capacity = capacity
+    this.viewShared(shared)
+    this.plan.slots.forEach((slot, s) => {
+      const factor = this.kinds[s] === F32 || this.kinds[s] === F64 ? slot.scale : slot.offset
+      shared.bindField(slot.field, FIELD_KIND[slot.storage], addresses[s]!, factor, slot.maxValue)
+    })
+  }
+
+  /** The arrays as views of the shared memory's current buffer. */
+  private viewShared(shared: PlainRows) {
+    const view = <T>(kind: number, make: new (b: ArrayBuffer, at: number, n: number) => T) =>
+      Array.from(
+        this.kinds,
+        (k, s) => new make(shared.buffer, this.addresses[s]!, k === kind ? this.capacity : 0),
+      )
+    this.f32 = view(F32, Float32Array)
+    this.f64 = view(F64, Float64Array)
+    this.u32 = view(U32, Uint32Array)
+    this.u16 = view(U16, Uint16Array)
   }
 }
 
