@@ -8,12 +8,42 @@ const BOOTSTRAP = new URL('./thread-bootstrap.mjs', import.meta.url)
 
 type Data = Record<string, unknown>
 
+const LOADER_FLAGS = new Set(['--require', '-r', '--import', '--loader', '--experimental-loader'])
+const TSX = /(^|[\\/])tsx([\\/]|$)/
+
+/**
+ * The process's Node flags without tsx's loader. A thread runs its entry's compiled bundle
+ * (thread-bundle.mjs) and needs no hooks, yet one that inherits them registers them again and
+ * starts a loader thread of its own: a parse worker took 130–180 ms to be ready with them, 65–75
+ * without (measured on this machine), and several times that while the cores were busy.
+ */
+export function withoutTsxLoader(argv: readonly string[]): string[] {
+  const kept: string[] = []
+  for (let i = 0; i < argv.length; i++) {
+    const arg = argv[i]!
+    const equals = arg.indexOf('=')
+    const flag = equals < 0 ? arg : arg.slice(0, equals)
+    if (!LOADER_FLAGS.has(flag)) {
+      kept.push(arg)
+      continue
+    }
+    const separate = equals < 0
+    const value = separate ? (argv[i + 1] ?? '') : arg.slice(equals + 1)
+    if (!TSX.test(value)) kept.push(...(separate ? [arg, value] : [arg]))
+    if (separate) i++
+  }
+  return kept
+}
+
+const THREAD_EXEC_ARGV = withoutTsxLoader(process.execArgv)
+
 export function startThread(
   entry: URL,
   options: WorkerOptions & { workerData?: Data } = {},
 ): Worker {
   // workerData stays an object: geotiff's web-worker shim reads fields of it when loaded in a thread.
   return new Worker(BOOTSTRAP, {
+    execArgv: THREAD_EXEC_ARGV,
     ...options,
     workerData: { ...options.workerData, entry: entry.href },
   })
@@ -21,5 +51,9 @@ export function startThread(
 
 /** The options a Piscina pool needs to run `entry`'s default export through the same bootstrap. */
 export function poolEntry(entry: URL, workerData: Data = {}) {
-  return { filename: BOOTSTRAP.href, workerData: { ...workerData, entry: entry.href } }
+  return {
+    filename: BOOTSTRAP.href,
+    execArgv: THREAD_EXEC_ARGV,
+    workerData: { ...workerData, entry: entry.href },
+  }
 }

@@ -33,6 +33,8 @@ export async function* readRecordChunks(
   buffers: BufferPool,
   /** Gzip: the most text one compressed byte may expand to (a decompression bomb stops here). */
   maxExpansion = Infinity,
+  /** The first chunk's size, when it should be smaller than the rest. */
+  firstChunkBytes = chunkBytes,
 ): AsyncGenerator<TableChunk> {
   const source =
     format.compression === 'gzip'
@@ -41,8 +43,9 @@ export async function* readRecordChunks(
   try {
     let carry = new Uint8Array(0)
     let offset = format.dataOffset
+    let want = firstChunkBytes
     for (;;) {
-      const size = carry.length + Math.max(chunkBytes, carry.length)
+      const size = carry.length + Math.max(want, carry.length)
       const buffer = new Uint8Array(buffers.take(size), 0, size)
       buffer.set(carry)
       const filled = await fillFrom(source, buffer, carry.length)
@@ -58,6 +61,7 @@ export async function* readRecordChunks(
       }
       carry = buffer.slice(boundary.end)
       offset += boundary.end
+      want = chunkBytes
       yield {
         bytes: buffer.subarray(0, boundary.end),
         readFraction: source.readFraction(),

@@ -27,6 +27,11 @@ import { planGrid, type Bounds, type TileGrid } from '../store/tile.grid'
 
 const INLINE_BELOW_BYTES = 8 << 20
 /**
+ * The first chunk is processed on this thread and its rows fix the tile grid; the workers wait
+ * for the grid, so it is kept small (tens of thousands of rows still span the field).
+ */
+const FIRST_CHUNK_BYTES = 1 << 20
+/**
  * Parsed columns held in memory before the rest spill to disk: a 10-million-row table (~280 MB)
  * stays in memory; beyond, peak memory stays near this plus the workers' chunks.
  */
@@ -72,6 +77,7 @@ export async function ingestLocalizationTable(options: IngestOptions): Promise<I
       chunkBytes,
       buffers,
       limits.maxExpansion,
+      Math.min(chunkBytes, FIRST_CHUNK_BYTES),
     )
     const gridFor = (readFraction: number) => gridRule(readFraction, options.tuning?.rowsPerTile)
     const onProcessed = (fraction: number) => run.progress(fraction * PARSED_SHARE)

@@ -8,7 +8,7 @@ import { join } from 'node:path'
 import { fileURLToPath, pathToFileURL } from 'node:url'
 import { once } from 'node:events'
 import { afterAll, describe, expect, it } from 'vitest'
-import { startThread } from '@server/threads'
+import { startThread, withoutTsxLoader } from '@server/threads'
 
 const root = fileURLToPath(new URL('../../..', import.meta.url))
 // Inside the repository: the bundle leaves packages to node_modules, found from where it lives.
@@ -70,5 +70,29 @@ describe('thread entries', () => {
     expect((await runProbe()).value).toBe(1)
     writeModules(2, ' + 0') // another size as well as another time: a change the check sees
     expect((await runProbe()).value).toBe(2)
+  })
+})
+
+describe("a thread's Node flags", () => {
+  it('are the process flags without tsx’s loader, in each way it is given', () => {
+    const argv = [
+      '--require',
+      '/srv/stipple/node_modules/tsx/dist/preflight.cjs',
+      '--import',
+      'file:///srv/stipple/node_modules/tsx/dist/loader.mjs',
+      '--import=tsx',
+      '-r',
+      'tsx/cjs',
+      '--max-old-space-size=4096',
+      '--import',
+      './telemetry.mjs',
+      '--cpu-prof',
+    ]
+    expect(withoutTsxLoader(argv)).toEqual([
+      '--max-old-space-size=4096',
+      '--import',
+      './telemetry.mjs',
+      '--cpu-prof',
+    ])
   })
 })
