@@ -59,7 +59,8 @@ export class ChunkParser {
   private readonly slotOfField: Int32Array
   private readonly required: Uint8Array
   private readonly columns: SlotColumns
-  private readonly plain: PlainRows | null
+  /** The WebAssembly fast path and its memory, where the columns live; null without it. */
+  readonly shared: PlainRows | null
   private rejections: RejectionRecorder
   private row = 0
   private line = 0
@@ -80,8 +81,8 @@ export class ChunkParser {
     this.slotOfField = new Int32Array(plan.fieldCount).fill(SKIP)
     plan.slots.forEach((slot, s) => (this.slotOfField[slot.field] = s))
     this.required = Uint8Array.from(plan.slots, (s) => (s.required ? 1 : 0))
-    this.plain = fastPath ? PlainRows.for(plan) : null
-    this.columns = new SlotColumns(plan, this.plain)
+    this.shared = fastPath ? PlainRows.for(plan) : null
+    this.columns = new SlotColumns(plan, this.shared)
     this.rejections = new RejectionRecorder(plan)
   }
 
@@ -89,10 +90,10 @@ export class ChunkParser {
     this.row = this.line = this.blank = 0
     this.rejections = new RejectionRecorder(this.plan)
     const capacity = Math.ceil(u.length / (this.plan.rowBytesHint * 0.8)) + 16
-    if (this.plain) {
-      this.plain.load(u)
+    if (this.shared) {
+      this.shared.load(u)
       this.columns.reset(capacity)
-      this.mixed(this.plain, u.length)
+      this.mixed(this.shared, u.length)
     } else {
       this.columns.reset(capacity)
       let p = 0

@@ -64,8 +64,11 @@ export class ChunkProcessor {
   private readonly xSlot: number
   private readonly ySlot: number
 
-  constructor(private readonly plan: ParsePlan) {
-    this.parser = new ChunkParser(plan)
+  constructor(
+    private readonly plan: ParsePlan,
+    options: { fastPath?: boolean } = {},
+  ) {
+    this.parser = new ChunkParser(plan, options)
     this.xSlot = plan.slots.findIndex((s) => s.role === 'x')
     this.ySlot = plan.slots.findIndex((s) => s.role === 'y')
   }
@@ -104,6 +107,19 @@ export class ChunkProcessor {
     grid: TileGrid,
   ): ProcessedChunk {
     const { columns, ...counts } = parsed
+    const shared = this.parser.shared
+    if (shared?.holds(columns)) {
+      const {
+        columns: grouped,
+        stats,
+        outside,
+        ...layout
+      } = shared.group(columns, grid, this.xSlot, this.ySlot)
+      return {
+        summary: { seq, ...counts, stats, outside },
+        grouped: { seq, columns: grouped, ...layout },
+      }
+    }
     const x = columns[this.xSlot]
     const y = columns[this.ySlot]
     if (!(x instanceof Float32Array) || !(y instanceof Float32Array))

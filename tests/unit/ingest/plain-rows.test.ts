@@ -15,6 +15,8 @@ import { describe, expect, it } from 'vitest'
 import { columnMappingSchema } from '@shared/schemas/localization-mapping.schema'
 import type { ColumnMappingInput } from '@shared/schemas/localization-mapping.schema'
 import { ChunkParser } from '@server/compute/ingest/chunk.parser'
+import { ChunkProcessor } from '@server/compute/ingest/chunk.processor'
+import { planGrid } from '@server/compute/store/tile.grid'
 import { buildParsePlan } from '@server/compute/ingest/parse-plan'
 import { buildPlainRowsModule, PLAIN_ROWS_MODULE } from '@server/compute/ingest/plain-rows.build'
 import { PlainRows } from '@server/compute/ingest/plain-rows'
@@ -197,6 +199,23 @@ describe('the WebAssembly fast path of the chunk parser', () => {
     const { fast, slow } = parseBoth(plan, '1,"a,b",c,2,3\n2,"a,b",2,3\n3,a,b,4,5\n')
     expect(slow.rows).toBe(2)
     expect(slow.rejections.field_count?.count).toBe(1)
+    expect(fast).toEqual(slow)
+  })
+
+  it.each([
+    ['a grid over the rows', 0],
+    ['a grid that leaves rows outside', 0.3],
+  ])('groups a chunk by tile on %s exactly as the TypeScript loops do', (_, shrink) => {
+    const plan = planFor(',')
+    const text = bytes(table(5, 6_000, ',', '.', true))
+    // x is in µm (×1000 to nm) and y in nm: the rows span about ±1e7 nm in x and ±1e4 in y.
+    const extent = { xMin: -2e6, xMax: 8e6 * (1 - shrink), yMin: -2e3, yMax: 8e3 * (1 - shrink) }
+    const grid = planGrid(extent, 6_000, 200)
+    expect(grid.columns * grid.rows).toBeGreaterThan(20)
+    const fast = new ChunkProcessor(plan).process(0, text, grid)
+    const slow = new ChunkProcessor(plan, { fastPath: false }).process(0, text, grid)
+    expect(fast.summary.rows).toBeGreaterThan(3_000)
+    if (shrink > 0) expect(fast.summary.outside).toBeGreaterThan(100)
     expect(fast).toEqual(slow)
   })
 

@@ -215,3 +215,117 @@ function skipField(start: usize): usize {
   while (c != delimiter && c != LF && c != CR && c != 0) c = <u32>load<u8>(++p)
   return p
 }
+
+// Grouping a parsed chunk by tile (chunk.processor.ts): each row's tile key, then every column
+// moved into tile order by a counting sort, tallying its min, max and NaNs on the way.
+
+let tallyMin: f64 = 0
+let tallyMax: f64 = 0
+let tallyMissing: u32 = 0
+
+export function tallyOf(which: i32): f64 {
+  return which == 0 ? tallyMin : which == 1 ? tallyMax : <f64>tallyMissing
+}
+
+/**
+ * Tile keys (u16) of `rows` rows from x and y (f32): column ⌊(x − originX)·perNm⌋ and row
+ * ⌊(y − originY)·perNm⌋, clamped to the grid, key = row·columns + column. Counts each tile's
+ * rows into starts[key + 1] and turns them into first rows; keeps each tile's x and y range
+ * (min, max pairs, f64). Returns how many rows lay outside the grid.
+ */
+export function tileKeys(
+  xAt: usize,
+  yAt: usize,
+  rows: u32,
+  originX: f64,
+  originY: f64,
+  perNm: f64,
+  gridColumns: i32,
+  gridRows: i32,
+  keysAt: usize,
+  startsAt: usize,
+  xRangesAt: usize,
+  yRangesAt: usize,
+): u32 {
+  const tiles = gridColumns * gridRows
+  memory.fill(startsAt, 0, (<usize>tiles + 1) << 2)
+  for (let k = 0; k < tiles; k++) {
+    const at = (<usize>k) << 4
+    store<f64>(xRangesAt + at, Infinity)
+    store<f64>(xRangesAt + at + 8, -Infinity)
+    store<f64>(yRangesAt + at, Infinity)
+    store<f64>(yRangesAt + at + 8, -Infinity)
+  }
+  const lastColumn = <f64>gridColumns
+  const lastRow = <f64>gridRows
+  let outside: u32 = 0
+  for (let i: u32 = 0; i < rows; i++) {
+    const x = <f64>load<f32>(xAt + ((<usize>i) << 2))
+    const y = <f64>load<f32>(yAt + ((<usize>i) << 2))
+    const fc = (x - originX) * perNm
+    const fr = (y - originY) * perNm
+    if (fc < 0 || fr < 0 || fc >= lastColumn || fr >= lastRow) outside++
+    const c = fc >= lastColumn ? gridColumns - 1 : fc > 0 ? <i32>fc : 0
+    const r = fr >= lastRow ? gridRows - 1 : fr > 0 ? <i32>fr : 0
+    const k = r * gridColumns + c
+    store<u16>(keysAt + ((<usize>i) << 1), <u16>k)
+    const count = startsAt + ((<usize>k + 1) << 2)
+    store<u32>(count, load<u32>(count) + 1)
+    const range = (<usize>k) << 4
+    if (x < load<f64>(xRangesAt + range)) store<f64>(xRangesAt + range, x)
+    if (x > load<f64>(xRangesAt + range + 8)) store<f64>(xRangesAt + range + 8, x)
+    if (y < load<f64>(yRangesAt + range)) store<f64>(yRangesAt + range, y)
+    if (y > load<f64>(yRangesAt + range + 8)) store<f64>(yRangesAt + range + 8, y)
+  }
+  for (let k = 1; k <= tiles; k++) {
+    const at = startsAt + ((<usize>k) << 2)
+    store<u32>(at, load<u32>(at) + load<u32>(at - 4))
+  }
+  return outside
+}
+
+/**
+ * Moves row i of the column at `fromAt` to row cursor[key[i]]++ at `toAt` (stable: rows keep
+ * their order within a tile), tallying min, max and NaNs (tallyOf). `width` is the value's
+ * size in bytes and `kind` its type (the FLOAT32 … UINT16 codes above).
+ */
+export function scatter(
+  kind: u8,
+  fromAt: usize,
+  toAt: usize,
+  rows: u32,
+  keysAt: usize,
+  cursorAt: usize,
+): void {
+  if (kind == FLOAT32) scatterTyped<f32>(fromAt, toAt, rows, keysAt, cursorAt)
+  else if (kind == FLOAT64) scatterTyped<f64>(fromAt, toAt, rows, keysAt, cursorAt)
+  else if (kind == UINT32) scatterTyped<u32>(fromAt, toAt, rows, keysAt, cursorAt)
+  else scatterTyped<u16>(fromAt, toAt, rows, keysAt, cursorAt)
+}
+
+function scatterTyped<T>(
+  fromAt: usize,
+  toAt: usize,
+  rows: u32,
+  keysAt: usize,
+  cursorAt: usize,
+): void {
+  const shift = alignof<T>()
+  let min: f64 = Infinity
+  let max: f64 = -Infinity
+  let missing: u32 = 0
+  for (let i: u32 = 0; i < rows; i++) {
+    const v = load<T>(fromAt + ((<usize>i) << shift))
+    const cursor = cursorAt + ((<usize>load<u16>(keysAt + ((<usize>i) << 1))) << 2)
+    const to = load<u32>(cursor)
+    store<u32>(cursor, to + 1)
+    store<T>(toAt + ((<usize>to) << shift), v)
+    const f = <f64>v
+    if (f < min) min = f
+    if (f > max) max = f
+    if (f != f) missing++
+  }
+  tallyMin = min
+  tallyMax = max
+  tallyMissing = missing
+}
