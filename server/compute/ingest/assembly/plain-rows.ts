@@ -123,6 +123,7 @@ function plainRow(start: usize, row: u32): usize {
 }
 
 /** A number at `start` (after padding) into `value`; returns where its padding ends, or 0. */
+@inline
 function plainNumber(start: usize): usize {
   let p = skipPads(start)
   let c = <u32>load<u8>(p)
@@ -165,6 +166,7 @@ function plainNumber(start: usize): usize {
 let exponentRead: i32 = 0
 
 /** The integer after `e` into `exponentRead`; its end, or 0 when no digit follows. */
+@inline
 function scanExponent(start: usize): usize {
   let p = start
   let c = <u32>load<u8>(p)
@@ -180,6 +182,7 @@ function scanExponent(start: usize): usize {
   return p
 }
 
+@inline
 function skipPads(start: usize): usize {
   let p = start
   let c = <u32>load<u8>(p)
@@ -188,6 +191,7 @@ function skipPads(start: usize): usize {
 }
 
 /** Stores `value` for `field`; false when an integer field's value does not fit. */
+@inline
 function storeValue(field: i32, kind: u8, row: u32): bool {
   const column = <usize>load<u32>(columns + ((<usize>field) << 2))
   const factor = load<f64>(factors + ((<usize>field) << 3))
@@ -208,6 +212,7 @@ function storeValue(field: i32, kind: u8, row: u32): bool {
 }
 
 /** A field nothing is read from: its end, or 0 when it is quoted. */
+@inline
 function skipField(start: usize): usize {
   let p = skipPads(start)
   let c = <u32>load<u8>(p)
