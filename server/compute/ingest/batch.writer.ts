@@ -10,7 +10,7 @@ import type { ArrowSkeleton } from '../store/arrow-skeleton.writer'
 import type { GroupedChunk } from './chunk.processor'
 import { isSpilled, type ChunkSpill, type HeldChunk } from './chunk.spill'
 import type { OutputKind } from './output.columns'
-import type { StoredArray } from './slot.columns'
+import type { StoredArray } from './stored-array'
 
 /** A non-empty tile: one record batch. */
 export interface TileBatch {

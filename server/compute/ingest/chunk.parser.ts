@@ -14,7 +14,8 @@ import type { ParsePlan } from './parse-plan'
 import { PlainRows } from './plain-rows'
 import { RejectionRecorder } from './rejection.recorder'
 import type { RejectionTallies } from './rejections'
-import { ACCEPTED, reasonCode, SlotColumns, type StoredArray } from './slot.columns'
+import { ACCEPTED, reasonCode, SlotColumns } from './slot.columns'
+import type { StoredArray } from './stored-array'
 
 // Local bindings: under a CommonJS transform each use of an imported name is a getter call.
 const { scanDecimal, scannedValue, POW10 } = decimal

@@ -6,7 +6,7 @@
 import { ChunkParser } from './chunk.parser'
 import type { ParsePlan } from './parse-plan'
 import type { RejectionTallies } from './rejections'
-import type { StoredArray } from './slot.columns'
+import type { StoredArray } from './stored-array'
 import type { TileGrid } from '../store/tile.grid'
 import {
   emptyLike,

@@ -8,7 +8,7 @@
  */
 import { open, rm, type FileHandle } from 'node:fs/promises'
 import type { GroupedChunk, TileLayout } from './chunk.processor'
-import type { StoredArray } from './slot.columns'
+import type { StoredArray } from './stored-array'
 
 /** A chunk whose columns wait in the spill file. */
 export interface SpilledChunk extends TileLayout {

@@ -8,7 +8,7 @@
  */
 import type { ParsePlan } from './parse-plan'
 import { PLAIN_ROWS_WASM } from './plain-rows.wasm'
-import type { StoredArray } from './slot.columns'
+import type { StoredArray } from './stored-array'
 import type { ColumnStats } from './typed.loops'
 import type { TileGrid } from '../store/tile.grid'
 

@@ -7,12 +7,7 @@
 import type { ParsePlan, StorageKind } from './parse-plan'
 import { FIELD_KIND, type PlainRows } from './plain-rows'
 import { REJECT_REASONS, type RejectReason } from './rejections'
-
-export type StoredArray =
-  | Float32Array<ArrayBuffer>
-  | Float64Array<ArrayBuffer>
-  | Uint32Array<ArrayBuffer>
-  | Uint16Array<ArrayBuffer>
+import type { StoredArray } from './stored-array'
 
 /** 0 is "accepted"; a reason's code is its index in REJECT_REASONS plus one. */
 export const ACCEPTED = 0

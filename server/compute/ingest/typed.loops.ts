@@ -3,7 +3,7 @@
  * element accesses polymorphic, several times slower over millions of rows (measured with the
  * ingest benchmark), so each class gets its own copy and a small dispatcher picks one.
  */
-import type { StoredArray } from './slot.columns'
+import type { StoredArray } from './stored-array'
 
 export interface ColumnStats {
   /** Values that are numbers (not NaN). */

@@ -1,16 +1,17 @@
 /**
- * Compiles the parser's WebAssembly fast path (assembly/plain-rows.ts, AssemblyScript) and
- * writes it as a TypeScript module holding the binary (plain-rows.wasm.ts): a module loads
- * wherever the code does, also from the bundles threads run (server/threads), where a file
- * beside the source would not be found. `npm run build:wasm` runs it; a unit test checks that
- * the module kept in the repository is what its source compiles to.
+ * Compiles the ingest's WebAssembly fast path (server/compute/ingest/assembly/plain-rows.ts,
+ * AssemblyScript) into a TypeScript module holding the binary (plain-rows.wasm.ts): it is
+ * imported like any module wherever the code runs (tsx, the thread bundles, vitest), with no asset
+ * to locate or copy. `npm run build:wasm` runs it; a unit test checks that the module kept in the
+ * repository is what its source compiles to.
  */
 import asc from 'assemblyscript/asc'
 import { readFile } from 'node:fs/promises'
 import { fileURLToPath } from 'node:url'
 
-const SOURCE = new URL('./assembly/plain-rows.ts', import.meta.url)
-export const PLAIN_ROWS_MODULE = new URL('./plain-rows.wasm.ts', import.meta.url)
+const INGEST = new URL('../compute/ingest/', import.meta.url)
+const SOURCE = new URL('./assembly/plain-rows.ts', INGEST)
+export const PLAIN_ROWS_MODULE = new URL('./plain-rows.wasm.ts', INGEST)
 
 /** The source of plain-rows.wasm.ts as the AssemblyScript source compiles today. */
 export async function buildPlainRowsModule(): Promise<string> {
