@@ -12,30 +12,50 @@ const LOADER_FLAGS = new Set(['--require', '-r', '--import', '--loader', '--expe
 const TSX = /(^|[\\/])tsx([\\/]|$)/
 
 /**
- * The process's Node flags without tsx's loader. A thread runs its entry's compiled bundle
- * (thread-bundle.mjs) and needs no hooks, yet one that inherits them registers them again and
- * starts a loader thread of its own: a parse worker took 130–180 ms to be ready with them, 65–75
- * without (measured on this machine), and several times that while the cores were busy.
+ * The process's Node flags without tsx's loader, each with its value. A thread runs its entry's
+ * compiled bundle (thread-bundle.mjs) and needs no hooks, yet one that inherits them registers
+ * them again and starts a loader thread of its own: a parse worker took 130–180 ms to be ready
+ * with them, 65–75 without (measured on this machine), and several times that while the cores
+ * were busy.
  */
-export function withoutTsxLoader(argv: readonly string[]): string[] {
-  const kept: string[] = []
+export function withoutTsxLoader(argv: readonly string[]): string[][] {
+  const kept: string[][] = []
   for (let i = 0; i < argv.length; i++) {
     const arg = argv[i]!
     const equals = arg.indexOf('=')
     const flag = equals < 0 ? arg : arg.slice(0, equals)
     if (!LOADER_FLAGS.has(flag)) {
-      kept.push(arg)
+      kept.push([arg])
       continue
     }
     const separate = equals < 0
     const value = separate ? (argv[i + 1] ?? '') : arg.slice(equals + 1)
-    if (!TSX.test(value)) kept.push(...(separate ? [arg, value] : [arg]))
+    if (!TSX.test(value)) kept.push(separate ? [arg, value] : [arg])
     if (separate) i++
   }
   return kept
 }
 
-const THREAD_EXEC_ARGV = withoutTsxLoader(process.execArgv)
+/**
+ * Whether a thread may be given `flags`. V8 and process-wide options (the cluster's
+ * `--single-threaded-gc`, `--max-old-space-size`) make the Worker constructor throw; a thread
+ * shares them with the process anyway.
+ */
+function threadsAccept(flags: string[]): boolean {
+  try {
+    void new Worker('', { eval: true, execArgv: flags, stdout: true, stderr: true }).terminate()
+    return true
+  } catch {
+    return false
+  }
+}
+
+let threadFlags: string[] | null = null
+/** The flags threads start with (worked out once: a flag a thread may not take costs a probe). */
+function threadExecArgv(): string[] {
+  threadFlags ??= withoutTsxLoader(process.execArgv).filter(threadsAccept).flat()
+  return threadFlags
+}
 
 export function startThread(
   entry: URL,
@@ -43,7 +63,7 @@ export function startThread(
 ): Worker {
   // workerData stays an object: geotiff's web-worker shim reads fields of it when loaded in a thread.
   return new Worker(BOOTSTRAP, {
-    execArgv: THREAD_EXEC_ARGV,
+    execArgv: threadExecArgv(),
     ...options,
     workerData: { ...options.workerData, entry: entry.href },
   })
@@ -53,7 +73,7 @@ export function startThread(
 export function poolEntry(entry: URL, workerData: Data = {}) {
   return {
     filename: BOOTSTRAP.href,
-    execArgv: THREAD_EXEC_ARGV,
+    execArgv: threadExecArgv(),
     workerData: { ...workerData, entry: entry.href },
   }
 }

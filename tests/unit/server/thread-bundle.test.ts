@@ -89,10 +89,9 @@ describe("a thread's Node flags", () => {
       '--cpu-prof',
     ]
     expect(withoutTsxLoader(argv)).toEqual([
-      '--max-old-space-size=4096',
-      '--import',
-      './telemetry.mjs',
-      '--cpu-prof',
+      ['--max-old-space-size=4096'],
+      ['--import', './telemetry.mjs'],
+      ['--cpu-prof'],
     ])
   })
 })
