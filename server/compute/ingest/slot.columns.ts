@@ -7,6 +7,7 @@
 import type { ParsePlan, StorageKind } from './parse-plan'
 import { FIELD_KIND, type PlainRows } from './plain-rows'
 import { REJECT_REASONS, type RejectReason } from './rejections'
+import { BYTES_PER_VALUE } from '../store/store-columns'
 import type { StoredArray } from './stored-array'
 
 /** 0 is "accepted"; a reason's code is its index in REJECT_REASONS plus one. */
@@ -24,7 +25,6 @@ const KIND_CODES: Record<StorageKind, number> = {
   uint32: U32,
   uint16: U16,
 }
-const WIDTHS = [4, 8, 4, 2]
 const NEGATIVE_FRAME = reasonCode('negative_frame')
 const NON_INTEGER = reasonCode('non_integer')
 const OUT_OF_RANGE = reasonCode('out_of_range')
@@ -119,14 +119,14 @@ export class SlotColumns {
   /** New arrays in the shared memory, the rows so far copied over, and the fast path told. */
   private resizeShared(shared: PlainRows, capacity: number) {
     const used = this.capacity
-    const widths = Array.from(this.kinds, (kind) => WIDTHS[kind]!)
+    const widths = this.plan.slots.map((slot) => BYTES_PER_VALUE[slot.storage])
     const addresses = widths.map((width) => shared.alloc(capacity * width))
     if (used > 0) widths.forEach((w, s) => shared.copy(addresses[s]!, this.addresses[s]!, used * w))
     this.addresses = addresses
     this.capacity = capacity
     this.viewShared(shared)
     this.plan.slots.forEach((slot, s) => {
-      const factor = this.kinds[s] === F32 || this.kinds[s] === F64 ? slot.scale : slot.offset
+      const factor = slot.storage.startsWith('float') ? slot.scale : slot.offset
       shared.bindField(slot.field, FIELD_KIND[slot.storage], addresses[s]!, factor, slot.maxValue)
     })
   }
