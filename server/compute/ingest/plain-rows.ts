@@ -208,7 +208,11 @@ function kindOf(column: StoredArray): number {
   return column instanceof Uint32Array ? FIELD_KIND.uint32 : FIELD_KIND.uint16
 }
 
-/** `rows` values of `like`'s type at `at` in `buffer`, copied into an array of their own. */
+/**
+ * `rows` values of `like`'s type at `at` in `buffer`, copied into an array of their own. (Not
+ * typed.loops' emptyLike: `like` was made before the memory last grew, so it may be detached,
+ * its length 0.)
+ */
 function copyOut(like: StoredArray, buffer: ArrayBuffer, at: number, rows: number): StoredArray {
   const bytes = rows * like.BYTES_PER_ELEMENT
   const own = buffer.slice(at, at + bytes)
