@@ -12,7 +12,7 @@ import { parse } from 'csv-parse/sync'
 import { afterAll, describe, expect, it } from 'vitest'
 import type { ColumnMappingInput } from '@shared/schemas/localization-mapping.schema'
 import { ingestLocalizationTable } from '@server/compute/ingest'
-import { numbers, seeded, tempDir } from './ingest-fixtures'
+import { numbers, seeded, tempDir, pick, type Random } from './ingest-fixtures'
 
 const tmp = tempDir()
 afterAll(() => tmp.remove())
@@ -28,10 +28,6 @@ const MAPPING: ColumnMappingInput = {
     { index: 4, role: 'photons', unit: 'photons' },
   ],
 }
-
-type Random = () => number
-const pick = <T>(random: Random, items: readonly T[]): T =>
-  items[Math.floor(random() * items.length)]!
 
 /** A decimal number in one of the spellings tables use (signs, leading dot, exponents, zeros). */
 function decimalText(random: Random): string {

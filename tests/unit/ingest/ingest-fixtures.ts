@@ -31,6 +31,12 @@ export function seeded(seed: number) {
   }
 }
 
+export type Random = () => number
+
+/** One of `items`, chosen by `random`. */
+export const pick = <T>(random: Random, items: readonly T[]): T =>
+  items[Math.floor(random() * items.length)]!
+
 /** frame, x, y (nm) and photons, in that column order. */
 export const FXYP: ColumnMappingInput = {
   frameBase: 1,

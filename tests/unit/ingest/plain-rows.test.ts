@@ -22,7 +22,7 @@ import { buildPlainRowsModule, PLAIN_ROWS_MODULE } from '@server/cli/wasm-module
 import { PlainRows } from '@server/compute/ingest/plain-rows'
 import { SlotColumns } from '@server/compute/ingest/slot.columns'
 import type { Delimiter, TableFormat } from '@server/compute/ingest/table-format.types'
-import { seeded } from './ingest-fixtures'
+import { seeded, pick, type Random } from './ingest-fixtures'
 
 /** frame (1-based), x in µm, y in nm, a note (not read), photons (optional), channel, other. */
 const MAPPING: ColumnMappingInput = {
@@ -48,10 +48,6 @@ function planFor(delimiter: Delimiter, decimalMark: '.' | ',' = '.') {
   } as unknown as TableFormat
   return buildParsePlan(columnMappingSchema.parse(MAPPING), format, 40)
 }
-
-type Random = () => number
-const pick = <T>(random: Random, items: readonly T[]): T =>
-  items[Math.floor(random() * items.length)]!
 
 /** A number as fitting software writes one: fixed digits, signs, a leading dot, exponents. */
 function plainNumber(random: Random): string {
