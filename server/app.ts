@@ -143,9 +143,6 @@ export function createApp(appOptions: CreateAppOptions): Express {
   app.use(reviewerLinkAccess(options))
   app.use(sameOriginWrites(new URL(config.publicUrl).origin))
 
-  app.use('/auth', authRouter(options, options.relyingParty))
-  app.use('/r', reviewerEntryRouter(options))
-
   // tus reads the raw request stream, so uploads are mounted before any body parser.
   const uploads = createUploads({
     ...options,
@@ -162,6 +159,8 @@ export function createApp(appOptions: CreateAppOptions): Express {
   api.use((req, res, next) =>
     req.method === 'GET' || req.method === 'HEAD' ? next() : json(req, res, next),
   )
+  // The busiest routes (the list, tiles, downloads) are under /datasets: matched first.
+  api.use('/datasets', datasetsRouter(options))
   api.get('/health', (_req, res) => {
     res.json({ status: 'ok' })
   })
@@ -170,8 +169,6 @@ export function createApp(appOptions: CreateAppOptions): Express {
     res.json(openapi)
   })
   api.use('/docs', swaggerUi.serve, swaggerUi.setup(openapi, { customSiteTitle: 'Stipple API' }))
-  // The busiest routes (the list, tiles, downloads) are under /datasets: matched first.
-  api.use('/datasets', datasetsRouter(options))
   api.use(collaborationRouter(options))
   api.use('/me', meRouter(options))
   api.use('/projects', projectsRouter(options))
@@ -186,6 +183,9 @@ export function createApp(appOptions: CreateAppOptions): Express {
   if (config.demo && options.mailbox) api.use('/dev/mail', caughtMailRouter(options.mailbox))
   api.use(apiNotFound)
   app.use('/api', api)
+  // After /api: every layer before it is one more test on each API request.
+  app.use('/auth', authRouter(options, options.relyingParty))
+  app.use('/r', reviewerEntryRouter(options))
   app.use('/d', landingRouter(options))
 
   if (options.clientDir && existsSync(options.clientDir)) {

@@ -169,10 +169,19 @@ export const datasetSchema = z
   .meta({ id: 'Dataset' })
 export type DatasetDto = z.infer<typeof datasetSchema>
 
+/**
+ * A dataset as the list shows it: everything but its description (free text of any length, read
+ * on the dataset's own page), so a page of fifty stays small whatever the descriptions hold.
+ */
+export const datasetSummarySchema = datasetSchema
+  .omit({ description: true, stewardNote: true })
+  .meta({ id: 'DatasetSummary' })
+export type DatasetSummaryDto = z.infer<typeof datasetSummarySchema>
+
 /** One page of the dataset list. */
 export const datasetPageSchema = z
   .object({
-    items: z.array(datasetSchema),
+    items: z.array(datasetSummarySchema),
     /** Every dataset the filters select for this viewer, not only this page. */
     total: z.number().int(),
     /** Pass as `cursor` for the page after this one; null on the last page. */

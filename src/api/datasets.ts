@@ -3,6 +3,7 @@ import type {
   CreateDatasetInput,
   DatasetDto,
   DatasetShareDto,
+  DatasetSummaryDto,
   DatasetSortField,
   ReviewDatasetInput,
   SetEmbargoInput,
@@ -27,7 +28,7 @@ const one = (idOrAccession: number | string) =>
   `/api/datasets/${encodeURIComponent(String(idOrAccession))}`
 
 export const listDatasets = (query: DatasetQuery) =>
-  api.get<Page<DatasetDto>>('/api/datasets', { ...query })
+  api.get<Page<DatasetSummaryDto>>('/api/datasets', { ...query })
 export const getDataset = (idOrAccession: number | string) =>
   api.get<DatasetDto>(one(idOrAccession))
 export const createDataset = (body: CreateDatasetInput) =>

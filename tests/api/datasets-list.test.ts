@@ -5,6 +5,7 @@
 import request from 'supertest'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { PROBLEM_CONTENT_TYPE } from '@shared/api/problem'
+import { datasetSummarySchema } from '@shared/schemas/dataset.schema'
 import { bearer, buildDataset, buildMember, buildProject, tokenFor } from '../fixtures/builders'
 import { createTestApp, type TestApp } from '../fixtures/test-app'
 
@@ -115,6 +116,15 @@ describe('paging', () => {
     expect((await page('limit=1')).total).toBe(before + 1)
     await request(t.app).delete(`/api/datasets/${added.id}`).set(bearer(owner)).expect(204)
     expect((await page('limit=1')).total).toBe(before)
+  })
+
+  it('lists summaries: every field of the dataset but its description, which its own answer has', async () => {
+    const listed = await page('sort=title&limit=3')
+    const strict = datasetSummarySchema.strict()
+    for (const item of listed.items) expect(strict.safeParse(item).error).toBeUndefined()
+    expect(listed.items[0]).not.toHaveProperty('description')
+    const own = await request(t.app).get(`/api/datasets/${listed.items[0]!.id}`).set(bearer(owner))
+    expect(own.body).toMatchObject({ ...listed.items[0], description: 'Built for a test' })
   })
 
   it('says in Server-Timing whether a page came from the cache', async () => {

@@ -64,14 +64,25 @@ const emptyBody = (total: number) =>
 const NOTHING = emptyBody(0)
 
 const ITEMS_START = Buffer.from('{"items":[')
-const COMMA = Buffer.from(',')
+const COMMA = 0x2c
 
 /** The page's JSON from its rows' encoded bytes, copied once into one buffer. */
 function pageBody(rows: RenderedRow[], total: number, nextCursor: string | null): Buffer {
-  const parts: Buffer[] = [ITEMS_START]
-  rows.forEach((r, i) => parts.push(...(i ? [COMMA, r.json] : [r.json])))
-  parts.push(Buffer.from(`],"total":${total},"nextCursor":${JSON.stringify(nextCursor)}}`))
-  return Buffer.concat(parts)
+  const end = Buffer.from(`],"total":${total},"nextCursor":${JSON.stringify(nextCursor)}}`)
+  let size = ITEMS_START.length + Math.max(rows.length - 1, 0) + end.length
+  for (const r of rows) size += r.json.length
+  // Sized and filled here rather than by Buffer.concat: half the pieces (no comma buffers) and
+  // no per-piece checks, on the busiest route.
+  const body = Buffer.allocUnsafe(size)
+  body.set(ITEMS_START, 0)
+  let at = ITEMS_START.length
+  for (let i = 0; i < rows.length; i++) {
+    if (i) body[at++] = COMMA
+    body.set(rows[i]!.json, at)
+    at += rows[i]!.json.length
+  }
+  body.set(end, at)
+  return body
 }
 
 /**

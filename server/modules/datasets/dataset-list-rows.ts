@@ -1,8 +1,8 @@
-import type { DatasetDto, DatasetSortField } from '@shared/schemas/dataset.schema'
+import type { DatasetSortField, DatasetSummaryDto } from '@shared/schemas/dataset.schema'
 import { SORT_COLUMNS, type ListDialect } from './dataset-list-sql'
 
 const PAGE_COLUMNS =
-  'select d."id", d."accession", d."title", d."description", d."project_id", p."name" as project_name, ' +
+  'select d."id", d."accession", d."title", d."project_id", p."name" as project_name, ' +
   'd."state", d."embargo_until", d."proposed_embargo_until", d."licence", d."version", ' +
   'd."created_by_id", u."name" as creator_name, d."created_at", d."updated_at", d."submitted_at", d."approved_at" '
 const PAGE_JOINS =
@@ -31,10 +31,9 @@ export type PageRow = [
   id: number,
   accession: string,
   title: string,
-  description: string,
   projectId: number,
   projectName: string,
-  state: DatasetDto['state'],
+  state: DatasetSummaryDto['state'],
   embargoUntil: Moment,
   proposedEmbargoUntil: Moment,
   licence: string,
@@ -50,33 +49,32 @@ export type PageRow = [
 const iso = (t: Moment) => (t === null ? null : new Date(t).toISOString())
 const day = (t: Moment) => (t === null ? null : new Date(t).toISOString().slice(0, 10))
 
-export function pageRowDto(r: PageRow): DatasetDto {
+export function pageRowDto(r: PageRow): DatasetSummaryDto {
   return {
     id: r[0],
     accession: r[1],
     title: r[2],
-    description: r[3],
-    project: { id: r[4], name: r[5] },
-    state: r[6],
-    embargoUntil: day(r[7]),
-    proposedEmbargoUntil: day(r[8]),
-    licence: r[9],
-    version: r[10],
-    createdBy: r[11] === null ? null : { id: r[11], name: r[12] ?? '' },
-    createdAt: iso(r[13])!,
-    updatedAt: iso(r[14])!,
-    submittedAt: iso(r[15]),
-    approvedAt: iso(r[16]),
+    project: { id: r[3], name: r[4] },
+    state: r[5],
+    embargoUntil: day(r[6]),
+    proposedEmbargoUntil: day(r[7]),
+    licence: r[8],
+    version: r[9],
+    createdBy: r[10] === null ? null : { id: r[10], name: r[11] ?? '' },
+    createdAt: iso(r[12])!,
+    updatedAt: iso(r[13])!,
+    submittedAt: iso(r[14]),
+    approvedAt: iso(r[15]),
   }
 }
 
 /** Where a row's sort value sits in PageRow, for the cursor after it. */
 const SORT_VALUE_AT: Record<DatasetSortField, number> = {
-  createdAt: 13,
-  updatedAt: 14,
+  createdAt: 12,
+  updatedAt: 13,
   title: 2,
   accession: 1,
-  state: 6,
+  state: 5,
 }
 
 /** A dataset as the list sends it (JSON, UTF-8, encoded once) and its row (for a cursor). */
