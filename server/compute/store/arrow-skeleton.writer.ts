@@ -2,8 +2,8 @@
  * Lays out the Arrow IPC file before its column data exists. The library's file writer writes the
  * schema, one record batch per tile and the footer; the batches' column buffers are placeholders
  * (views of one zeroed array per column), and where such a view would be written we only note the
- * file offset, leaving a hole. The columns go into the holes afterwards, from the parsed chunks
- * (batch.writer.ts): either after the skeleton is written, or with it, the whole file in order.
+ * file offset, leaving a hole. The columns are written into the holes afterwards, straight from
+ * the parsed chunks (batch.writer.ts), so no second copy of the table is needed.
  */
 import type { FileHandle } from 'node:fs/promises'
 import { makeData, RecordBatch, RecordBatchFileWriter, Struct, type Schema } from 'apache-arrow'
