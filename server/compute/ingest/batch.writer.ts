@@ -1,15 +1,12 @@
 /**
- * Writes the column data of every record batch. A batch is one tile; its rows sit in every
- * chunk's slice for that tile (chunks in source order). With every chunk in memory and a file
- * system that takes direct I/O, the file is written front to back, the slices copied once into
- * large blocks (writeArrowInOrder). Otherwise the skeleton is written first and the columns go
- * into its holes: each column of a batch one gathered write of those slices, no copy made; or,
- * when chunks were spilled (chunk.spill.ts), runs of consecutive tiles staged: one read per chunk
- * and column brings a run's rows back, then each tile is written from the staging buffer.
+ * Writes the column data of every record batch into the holes of the Arrow skeleton. A batch is
+ * one tile; its rows sit in every chunk's slice for that tile (chunks in source order), so each
+ * column of a batch is one gathered write of those slices: no copy of the table is made. When
+ * chunks were spilled (chunk.spill.ts), runs of consecutive tiles are staged instead: one read per
+ * chunk and column brings a run's rows back, then each tile is written from the staging buffer.
  */
 import type { FileHandle } from 'node:fs/promises'
-import type { ArrowLayout, ArrowSkeleton } from '../store/arrow-skeleton.writer'
-import type { SequentialFile } from '../store/sequential-file.writer'
+import type { ArrowSkeleton } from '../store/arrow-skeleton.writer'
 import type { GroupedChunk } from './chunk.processor'
 import { isSpilled, type ChunkSpill, type HeldChunk } from './chunk.spill'
 import type { OutputKind } from './output.columns'
@@ -31,10 +28,6 @@ interface BatchJob {
   spill: ChunkSpill
 }
 
-/**
- * The columns into the holes of a skeleton already written: each column of a batch one gathered
- * write of the chunks' slices, or staged when chunks were spilled.
- */
 export async function writeBatches(
   file: FileHandle,
   skeleton: ArrowSkeleton,
@@ -44,45 +37,6 @@ export async function writeBatches(
   if (job.chunks.some(isSpilled)) return writeStaged(file, skeleton, job, onBatch)
   const inMemory = { ...job, chunks: job.chunks as GroupedChunk[] }
   return writeGathered(file, skeleton, inMemory, onBatch)
-}
-
-/**
- * The whole Arrow file in file order: the layout's runs (schema, batch headers, padding, footer)
- * and, in the holes between them, each batch's columns gathered from the chunks' slices of its
- * tile. Each byte is copied once into the writer's blocks, which go to disk as they fill.
- */
-export async function writeArrowInOrder(
-  out: SequentialFile,
-  layout: ArrowLayout,
-  job: { batches: TileBatch[]; chunks: GroupedChunk[]; kinds: OutputKind[] },
-  onBatch: (done: number, all: number) => void,
-) {
-  const runs = new Map(layout.runs.map((run) => [run.start, run.pieces]))
-  const appendRunAt = async (at: number) => {
-    for (const piece of runs.get(at) ?? []) await out.append(piece)
-  }
-  for (let b = 0; b < job.batches.length; b++) {
-    for (let c = 0; c < job.kinds.length; c++) {
-      await appendRunAt(out.size)
-      if (out.size !== layout.holes[c]![b])
-        throw new Error('The Arrow layout has a gap before a column; the file would be wrong')
-      const narrow = job.kinds[c] === 'uint8' ? 'uint8' : undefined
-      for (const part of tileParts(job.chunks, c, job.batches[b]!.key))
-        await out.append(part, narrow)
-    }
-    onBatch(b + 1, job.batches.length)
-  }
-  await appendRunAt(out.size)
-  if (out.size !== layout.bytes) throw new Error('The Arrow file came out shorter than its layout')
-}
-
-/** Column `c` of tile `key`, chunk by chunk, as stored (Uint16 where the output narrows). */
-function tileParts(chunks: GroupedChunk[], c: number, key: number): StoredArray[] {
-  return chunks.flatMap((chunk) => {
-    const from = chunk.tileStarts[key]!
-    const to = chunk.tileStarts[key + 1]!
-    return to > from ? [chunk.columns[c]!.subarray(from, to)] : []
-  })
 }
 
 async function writeGathered(
@@ -210,7 +164,11 @@ async function readSpilled(
 
 /** The bytes of column `c` in tile `key`, chunk by chunk; Uint8 output narrows the Uint16 values. */
 function slices(chunks: GroupedChunk[], c: number, key: number, kind: OutputKind): Uint8Array[] {
-  const parts = tileParts(chunks, c, key)
+  const parts = chunks.flatMap((chunk) => {
+    const from = chunk.tileStarts[key]!
+    const to = chunk.tileStarts[key + 1]!
+    return to > from ? [chunk.columns[c]!.subarray(from, to)] : []
+  })
   if (kind !== 'uint8')
     return parts.map((p) => new Uint8Array(p.buffer, p.byteOffset, p.byteLength))
   const narrowed = new Uint8Array(parts.reduce((n, p) => n + p.length, 0))

@@ -15,15 +15,13 @@ export interface IngestOptions {
   limits?: IngestLimits
   /**
    * For tests and benchmarks: worker count (0 = this thread), chunk size, rows per tile, and the
-   * parsed bytes held in memory before the rest spill to disk; `directWrites: false` writes the
-   * store through the page cache (skeleton, then gathered writes) even where direct I/O works.
+   * parsed bytes held in memory before the rest spill to disk.
    */
   tuning?: {
     workers?: number
     chunkBytes?: number
     rowsPerTile?: number
     memoryBudgetBytes?: number
-    directWrites?: boolean
   }
 }
 

@@ -4,11 +4,10 @@
  */
 import { open } from 'node:fs/promises'
 import type { Schema } from 'apache-arrow'
-import { layoutArrowFile, writeArrowSkeleton } from '../store/arrow-skeleton.writer'
-import { SequentialFile } from '../store/sequential-file.writer'
-import { writeArrowInOrder, writeBatches, type TileBatch } from './batch.writer'
-import type { GroupedChunk, TileLayout } from './chunk.processor'
-import { isSpilled, type ChunkSpill, type HeldChunk } from './chunk.spill'
+import { writeArrowSkeleton } from '../store/arrow-skeleton.writer'
+import { writeBatches, type TileBatch } from './batch.writer'
+import type { TileLayout } from './chunk.processor'
+import type { ChunkSpill, HeldChunk } from './chunk.spill'
 import type { IngestOptions } from './ingest-options'
 import { boundsOf, type Totals } from './ingest-report'
 import { outputKinds, type OutputKind } from './output.columns'
@@ -86,34 +85,19 @@ interface ArrowJob {
   spill: ChunkSpill
 }
 
-/**
- * In memory, on a file system that takes direct I/O: the whole file front to back
- * (sequential-file.writer.ts). Otherwise the skeleton (schema, batch headers, footer) first, then
- * the columns into its holes.
- */
+/** The skeleton first (schema, batch headers, footer), then the columns into its holes. */
 async function writeArrowFile(run: Run, job: ArrowJob): Promise<number> {
-  const onBatch = (done: number, all: number) =>
-    run.progress(PARSED_SHARE + (1 - PARSED_SHARE) * (done / all))
-  const rowCounts = job.batches.map((b) => b.rowCount)
-  const direct =
-    !job.chunks.some(isSpilled) && run.options.tuning?.directWrites !== false
-      ? await SequentialFile.createDirect(run.options.outputPath)
-      : null
-  if (direct) {
-    try {
-      const layout = await layoutArrowFile(job.schema, job.kinds, rowCounts)
-      const chunks = job.chunks as GroupedChunk[]
-      await writeArrowInOrder(direct, layout, { ...job, chunks }, onBatch)
-    } catch (error) {
-      await direct.abandon()
-      throw error
-    }
-    return direct.close()
-  }
   const file = await open(run.options.outputPath, 'w')
   try {
-    const skeleton = await writeArrowSkeleton(file, job.schema, job.kinds, rowCounts)
-    await writeBatches(file, skeleton, job, onBatch)
+    const skeleton = await writeArrowSkeleton(
+      file,
+      job.schema,
+      job.kinds,
+      job.batches.map((b) => b.rowCount),
+    )
+    await writeBatches(file, skeleton, job, (done, all) =>
+      run.progress(PARSED_SHARE + (1 - PARSED_SHARE) * (done / all)),
+    )
     return skeleton.bytes
   } finally {
     await file.close()

@@ -15,44 +15,26 @@ export interface ArrowSkeleton {
   bytes: number
 }
 
-/** The skeleton and the bytes between its holes: each run starts at `start` in the file. */
-export interface ArrowLayout extends ArrowSkeleton {
-  runs: { start: number; pieces: Uint8Array[] }[]
-}
-
-/** The file's layout, nothing written: for a writer that writes the file front to back. */
-export async function layoutArrowFile(
-  schema: Schema,
-  kinds: OutputKind[],
-  batchRows: number[],
-): Promise<ArrowLayout> {
-  const largest = Math.max(1, ...batchRows)
-  const placeholders = kinds.map((k) =>
-    viewOf(k, new ArrayBuffer(largest * BYTES_PER_VALUE[k]), largest),
-  )
-  const writer = new RecordBatchFileWriter().reset(undefined, schema)
-  const recorded = recordLayout(writer, placeholders)
-  for (const rows of batchRows) writer.write(placeholderBatch(schema, placeholders, rows))
-  writer.finish()
-  writer.close()
-  const layout = await recorded
-  const complete = layout.holes.every((h) => h.length === batchRows.length)
-  if (!complete)
-    throw new Error('The Arrow writer copied a column buffer; the file layout is unknown')
-  return layout
-}
-
-/** Writes the bytes between the holes; the columns go into the holes afterwards. */
 export async function writeArrowSkeleton(
   file: FileHandle,
   schema: Schema,
   kinds: OutputKind[],
   batchRows: number[],
 ): Promise<ArrowSkeleton> {
-  const { holes, bytes, runs } = await layoutArrowFile(schema, kinds, batchRows)
-  // The pieces between holes are small: written together, all at once.
-  await Promise.all(runs.map((run) => file.writev(run.pieces, run.start)))
-  return { holes, bytes }
+  const largest = Math.max(1, ...batchRows)
+  const placeholders = kinds.map((k) =>
+    viewOf(k, new ArrayBuffer(largest * BYTES_PER_VALUE[k]), largest),
+  )
+  const writer = new RecordBatchFileWriter().reset(undefined, schema)
+  const written = recordLayout(writer, file, placeholders)
+  for (const rows of batchRows) writer.write(placeholderBatch(schema, placeholders, rows))
+  writer.finish()
+  writer.close()
+  const skeleton = await written
+  const complete = skeleton.holes.every((h) => h.length === batchRows.length)
+  if (!complete)
+    throw new Error('The Arrow writer copied a column buffer; the file layout is unknown')
+  return skeleton
 }
 
 function placeholderBatch(schema: Schema, placeholders: OutputArray[], rows: number) {
@@ -70,13 +52,17 @@ function placeholderBatch(schema: Schema, placeholders: OutputArray[], rows: num
   )
 }
 
-/** Notes what the writer emits: placeholder views as holes (their offsets), the rest as runs. */
+/**
+ * Writes what the writer emits, except placeholder views, whose offsets it notes instead. The
+ * pieces between holes are small; they are written together at the end, all at once.
+ */
 async function recordLayout(
   writer: RecordBatchFileWriter,
+  file: FileHandle,
   placeholders: OutputArray[],
-): Promise<ArrowLayout> {
+) {
   const holes: number[][] = placeholders.map(() => [])
-  const runs: ArrowLayout['runs'] = []
+  const runs: { start: number; pieces: Uint8Array[] }[] = []
   let open = false
   let position = 0
   for await (const piece of writer) {
@@ -87,5 +73,6 @@ async function recordLayout(
     open = column < 0
     position += piece.byteLength
   }
-  return { holes, bytes: position, runs }
+  await Promise.all(runs.map((run) => file.writev(run.pieces, run.start)))
+  return { holes, bytes: position }
 }
