@@ -85,7 +85,11 @@ interface ArrowJob {
   spill: ChunkSpill
 }
 
-/** The skeleton first (schema, batch headers, footer), then the columns into its holes. */
+/**
+ * The skeleton first (schema, batch headers, footer), then the columns into its holes. Through
+ * the page cache on purpose: the quality report and the previews read the store right after
+ * (written with O_DIRECT it took 0.4 s less from a cold start, but the report took 2–4 s more).
+ */
 async function writeArrowFile(run: Run, job: ArrowJob): Promise<number> {
   const file = await open(run.options.outputPath, 'w')
   try {
