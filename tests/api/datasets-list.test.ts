@@ -76,7 +76,7 @@ async function byCursors(query: string, limit: number) {
 }
 
 describe('paging', () => {
-  it.each(['title', '-title', '-createdAt', 'state', 'accession'])(
+  it.each(['title', '-title', '-createdAt', '-updatedAt', 'updatedAt', 'state', 'accession'])(
     'cursors walk sort %s exactly as offsets do, ties broken by id',
     async (sort) => {
       const expected = await byOffsets(`sort=${sort}`)
