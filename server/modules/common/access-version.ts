@@ -43,6 +43,7 @@ export class AccessVersionReader {
     }
     const db = new Database(dbPath, { readonly: true, fileMustExist: true })
     this.statement = db.prepare(SQL)
+    // A first read attaches the connection to the `-shm` file before its header is opened below.
     this.version = this.statement.get()?.value ?? 0
     const walMode = db.pragma('journal_mode', { simple: true }) === 'wal'
     if (walMode && existsSync(`${dbPath}-shm`)) {
@@ -64,6 +65,7 @@ export class AccessVersionReader {
       if (read === WAL_INDEX_HEADERS) wal.now.copy(wal.seen)
       else wal.seen.fill(0xff)
     }
+    // A first read attaches the connection to the `-shm` file before its header is opened below.
     this.version = this.statement.get()?.value ?? 0
     return this.version
   }
