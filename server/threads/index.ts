@@ -51,9 +51,15 @@ function threadsAccept(flags: string[]): boolean {
 }
 
 let threadFlags: string[] | null = null
-/** The flags threads start with (worked out once: a flag a thread may not take costs a probe). */
+/**
+ * The flags threads start with, worked out once: none to test usually (tsx's are dropped), one
+ * probe when all are accepted, one per flag only when some are not.
+ */
 function threadExecArgv(): string[] {
-  threadFlags ??= withoutTsxLoader(process.execArgv).filter(threadsAccept).flat()
+  if (threadFlags) return threadFlags
+  const flags = withoutTsxLoader(process.execArgv)
+  const all = flags.flat()
+  threadFlags = all.length === 0 || threadsAccept(all) ? all : flags.filter(threadsAccept).flat()
   return threadFlags
 }
 
